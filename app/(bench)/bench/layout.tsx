@@ -1,0 +1,20 @@
+import type { ReactNode } from "react";
+import { AreaShell } from "@/components/area-shell";
+import { requirePermission } from "@/lib/session";
+
+export default async function BenchLayout({ children }: { children: ReactNode }) {
+  await requirePermission("bench.use", "/bench");
+  return (
+    <AreaShell
+      dense
+      title="Bench"
+      nav={[
+        { href: "/bench", label: "Queue" },
+        { href: "/bench/calculator", label: "Alignment calculator" },
+        { href: "/bench/claims", label: "Claims" },
+      ]}
+    >
+      {children}
+    </AreaShell>
+  );
+}

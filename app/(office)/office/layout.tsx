@@ -1,0 +1,21 @@
+import type { ReactNode } from "react";
+import { AreaShell } from "@/components/area-shell";
+import { requirePermission } from "@/lib/session";
+
+export const OFFICE_NAV = [
+  { href: "/office", label: "Overview" },
+  { href: "/office/settings", label: "Rates & policy" },
+  { href: "/office/staff", label: "Staff" },
+  { href: "/office/payments", label: "Payments" },
+  { href: "/office/audit", label: "Audit log" },
+  { href: "/office/reports", label: "Reports" },
+];
+
+export default async function OfficeLayout({ children }: { children: ReactNode }) {
+  await requirePermission("office.use", "/office");
+  return (
+    <AreaShell title="Office" nav={OFFICE_NAV}>
+      {children}
+    </AreaShell>
+  );
+}

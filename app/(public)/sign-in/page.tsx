@@ -1,0 +1,25 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { redirect } from "next/navigation";
+import { SignInForm } from "@/components/auth/sign-in-form";
+import { homeFor } from "@/lib/permissions";
+import { getViewer } from "@/lib/session";
+
+export const metadata: Metadata = { title: "Sign in" };
+
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ next?: string }> }) {
+  const { next } = await searchParams;
+  const viewer = await getViewer();
+  if (viewer) redirect(homeFor(viewer.role));
+  return (
+    <div className="mx-auto max-w-md space-y-6">
+      <h1 className="text-3xl font-bold">Sign in</h1>
+      <div className="card p-6">
+        <SignInForm next={next} />
+      </div>
+      <p className="text-sm">
+        New here? <Link href="/sign-up">Create an account to request a quote</Link>.
+      </p>
+    </div>
+  );
+}

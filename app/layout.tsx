@@ -1,0 +1,25 @@
+import type { Metadata, Viewport } from "next";
+import type { ReactNode } from "react";
+import { Providers } from "@/components/providers";
+import { plexMono, plexSans, sourceSerif } from "./fonts";
+import "./globals.css";
+
+export const metadata: Metadata = {
+  title: { default: "Kestrel Lane Wireless — vintage radio restoration", template: "%s · Kestrel Lane Wireless" },
+  description: "Mail-in restoration, alignment and safety work for vintage tube and transistor radios, with a signed warranty certificate.",
+};
+
+export const viewport: Viewport = { width: "device-width", initialScale: 1, themeColor: "#2a2320" };
+
+export default function RootLayout({ children }: { children: ReactNode }) {
+  return (
+    <html lang="en" className={`${plexSans.variable} ${sourceSerif.variable} ${plexMono.variable}`}>
+      <body className="min-h-screen">
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-white focus:p-2">
+          Skip to content
+        </a>
+        <Providers>{children}</Providers>
+      </body>
+    </html>
+  );
+}

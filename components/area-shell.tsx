@@ -1,0 +1,27 @@
+import Link from "next/link";
+import type { ReactNode } from "react";
+import { SiteFooter, SiteHeader } from "./site-header";
+
+export function AreaShell({ title, nav, children, dense }: { title: string; nav: { href: string; label: string }[]; children: ReactNode; dense?: boolean }) {
+  return (
+    <>
+      <SiteHeader />
+      <div className="border-b border-dial-rule bg-dial-deep">
+        <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-5 gap-y-1 px-4 py-2 text-sm">
+          <span className="font-serif font-bold">{title}</span>
+          <nav aria-label={`${title} sections`} className="flex flex-wrap gap-x-4 gap-y-1">
+            {nav.map((n) => (
+              <Link key={n.href} href={n.href} className="text-bakelite hover:text-ember-dark">
+                {n.label}
+              </Link>
+            ))}
+          </nav>
+        </div>
+      </div>
+      <main id="main" className={`mx-auto max-w-page px-4 ${dense ? "py-4" : "py-8"}`}>
+        {children}
+      </main>
+      <SiteFooter />
+    </>
+  );
+}

@@ -1,0 +1,84 @@
+import Link from "next/link";
+import { can, ROLE_LABEL } from "@/lib/permissions";
+import { getViewer } from "@/lib/session";
+import { SignOutButton } from "./sign-out-button";
+
+// The dial-scale rule under the brand is our mark: ticks like a tuning scale.
+function DialMark() {
+  return (
+    <svg aria-hidden="true" width="28" height="28" viewBox="0 0 28 28" className="shrink-0">
+      <circle cx="14" cy="14" r="13" fill="#2a2320" />
+      <path d="M6 17 A9 9 0 0 1 22 17" stroke="#efe4c6" strokeWidth="1.5" fill="none" />
+      {[0, 1, 2, 3, 4, 5, 6].map((i) => {
+        const a = Math.PI * (1 - i / 6);
+        const x1 = 14 + Math.cos(a) * 9;
+        const y1 = 17 - Math.sin(a) * 9;
+        const x2 = 14 + Math.cos(a) * 7;
+        const y2 = 17 - Math.sin(a) * 7;
+        return <line key={i} x1={x1} y1={y1} x2={x2} y2={y2} stroke="#efe4c6" strokeWidth="1" />;
+      })}
+      <line x1="14" y1="17" x2="19" y2="10" stroke="#e0703f" strokeWidth="1.8" strokeLinecap="round" />
+    </svg>
+  );
+}
+
+export async function SiteHeader() {
+  const viewer = await getViewer();
+  const links: { href: string; label: string }[] = [];
+  if (viewer) {
+    if (can(viewer.role, "portal.use")) links.push({ href: "/portal", label: "My sets" });
+    if (can(viewer.role, "bench.use")) links.push({ href: "/bench", label: "Bench" }, { href: "/bench/calculator", label: "Alignment calculator" });
+    if (can(viewer.role, "office.use")) links.push({ href: "/office", label: "Office" });
+  }
+  return (
+    <header className="border-b-4 border-walnut bg-bakelite text-dial">
+      <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
+        <Link href="/" className="flex items-center gap-2 text-dial no-underline">
+          <DialMark />
+          <span className="font-serif text-lg font-bold tracking-wide">Kestrel Lane Wireless</span>
+        </Link>
+        <nav aria-label="Main" className="flex flex-1 flex-wrap items-center gap-4 text-sm">
+          {links.map((l) => (
+            <Link key={l.href} href={l.href} className="text-dial hover:text-brass-light">
+              {l.label}
+            </Link>
+          ))}
+        </nav>
+        <div className="flex items-center gap-3 text-sm">
+          {viewer ? (
+            <>
+              <span className="text-dial-deep">
+                {viewer.name} <span className="text-brass-light">· {ROLE_LABEL[viewer.role]}</span>
+              </span>
+              <SignOutButton />
+            </>
+          ) : (
+            <>
+              <Link href="/sign-in" className="text-dial">
+                Sign in
+              </Link>
+              <Link href="/sign-up" className="rounded-card bg-ember px-3 py-1.5 font-semibold text-white no-underline hover:bg-ember-dark">
+                Request a quote
+              </Link>
+            </>
+          )}
+        </div>
+      </div>
+    </header>
+  );
+}
+
+export function SiteFooter() {
+  return (
+    <footer className="mt-16 border-t border-dial-rule bg-dial-deep">
+      <div className="mx-auto grid max-w-page gap-4 px-4 py-8 text-sm text-bakelite-soft sm:grid-cols-2">
+        <p>
+          Kestrel Lane Wireless · 14 Kestrel Lane, Port Alder · Workshop open Tuesday to Saturday.
+        </p>
+        <p className="sm:text-right">
+          Mains work on old sets can injure or kill. Our notes are general guidance; follow local codes and licensed practice.
+        </p>
+      </div>
+    </footer>
+  );
+}

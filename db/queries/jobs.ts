@@ -1,0 +1,38 @@
+import { and, desc, eq } from "drizzle-orm";
+import { db } from "@/db";
+import { jobs, radioSets } from "@/db/schema";
+
+export async function listJobsForCustomer({ customerId }: { customerId: string }) {
+  return db
+    .select({
+      id: jobs.id,
+      number: jobs.number,
+      state: jobs.state,
+      createdAt: jobs.createdAt,
+      updatedAt: jobs.updatedAt,
+      isWarranty: jobs.isWarranty,
+      maker: radioSets.maker,
+      model: radioSets.model,
+      year: radioSets.year,
+    })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .where(eq(jobs.customerId, customerId))
+    .orderBy(desc(jobs.updatedAt));
+}
+
+// Another customer's job is simply not found.
+export async function getJobForCustomer({ jobId, customerId }: { jobId: string; customerId: string }) {
+  const [row] = await db
+    .select({ job: jobs, set: radioSets })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .where(and(eq(jobs.id, jobId), eq(jobs.customerId, customerId)))
+    .limit(1);
+  return row ?? null;
+}
+
+export async function getJobForStaff({ jobId }: { jobId: string }) {
+  const [row] = await db.select({ job: jobs, set: radioSets }).from(jobs).innerJoin(radioSets, eq(radioSets.id, jobs.setId)).where(eq(jobs.id, jobId)).limit(1);
+  return row ?? null;
+}

@@ -1,0 +1,35 @@
+import { pgEnum } from "drizzle-orm/pg-core";
+
+export const ROLES = ["customer", "technician", "owner"] as const;
+export type Role = (typeof ROLES)[number];
+
+export const JOB_STATES = [
+  "requested",
+  "in_triage",
+  "awaiting_owner",
+  "estimate_sent",
+  "approved",
+  "deposit_paid",
+  "on_bench",
+  "final_checks",
+  "balance_due",
+  "paid_in_full",
+  "returned",
+  "declined_by_owner",
+  "declined_by_shop",
+  "cancelled",
+] as const;
+export type JobState = (typeof JOB_STATES)[number];
+
+export const jobState = pgEnum("job_state", JOB_STATES);
+export const setKind = pgEnum("set_kind", ["tube-acdc", "tube-transformer", "transistor-battery", "transistor-mains"]);
+export const deliveryMethod = pgEnum("delivery_method", ["drop-off", "mail-in"]);
+export const revisionStatus = pgEnum("revision_status", ["sent", "approved", "declined", "superseded"]);
+export const lineCategory = pgEnum("line_category", ["inspection", "safety", "recap", "alignment", "mechanical", "test", "parts"]);
+export const paymentPurpose = pgEnum("payment_purpose", ["deposit", "balance"]);
+export const paymentStatus = pgEnum("payment_status", ["open", "processing", "paid", "failed", "expired"]);
+export const refundStatus = pgEnum("refund_status", ["requested", "succeeded", "failed"]);
+export const verdict = pgEnum("verdict", ["pass", "fail", "missing"]);
+export const claimStatus = pgEnum("claim_status", ["open", "inspecting", "accepted", "rejected", "withdrawn"]);
+export const emailStatus = pgEnum("email_status", ["queued", "sent", "failed"]);
+export const returnMethod = pgEnum("return_method", ["pick-up", "shipped"]);

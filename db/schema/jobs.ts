@@ -1,0 +1,157 @@
+import { sql } from "drizzle-orm";
+import {
+  boolean,
+  index,
+  integer,
+  jsonb,
+  pgTable,
+  serial,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from "drizzle-orm/pg-core";
+import { user } from "./auth";
+import { deliveryMethod, jobState, returnMethod, setKind } from "./enums";
+
+export const radioSets = pgTable(
+  "radio_set",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    ownerId: text("owner_id")
+      .notNull()
+      .references(() => user.id),
+    maker: text("maker").notNull(),
+    model: text("model").notNull(),
+    year: integer("year"),
+    serial: text("serial"),
+    kind: setKind("kind").notNull(),
+    // The set profile that drives the checklist (bands with printed dial ranges, IFs, counts, flags).
+    profile: jsonb("profile").$type<Record<string, unknown>>().notNull(),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("radio_set_owner_idx").on(t.ownerId)],
+);
+
+export const jobs = pgTable(
+  "job",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    number: serial("number").notNull().unique(),
+    setId: uuid("set_id")
+      .notNull()
+      .references(() => radioSets.id),
+    customerId: text("customer_id")
+      .notNull()
+      .references(() => user.id),
+    technicianId: text("technician_id").references(() => user.id),
+    state: jobState("state").notNull().default("requested"),
+    symptoms: text("symptoms").notNull().default(""),
+    priorWork: text("prior_work").notNull().default(""),
+    poweredRecently: text("powered_recently").notNull().default("unknown"),
+    delivery: deliveryMethod("delivery").notNull().default("mail-in"),
+    contactPreference: text("contact_preference").notNull().default("email"),
+    cautionsAcknowledgedAt: timestamp("cautions_acknowledged_at", { withTimezone: true }),
+    // Warranty work: the certificate and claim this job answers.
+    certificateId: uuid("certificate_id"),
+    claimId: uuid("claim_id"),
+    isWarranty: boolean("is_warranty").notNull().default(false),
+    returnMethod: returnMethod("return_method"),
+    carrier: text("carrier"),
+    trackingNumber: text("tracking_number"),
+    receivedAt: timestamp("received_at", { withTimezone: true }),
+    completedAt: timestamp("completed_at", { withTimezone: true }),
+    returnedAt: timestamp("returned_at", { withTimezone: true }),
+    version: integer("version").notNull().default(1),
+    idempotencyKey: text("idempotency_key"),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp("updated_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index("job_customer_idx").on(t.customerId),
+    index("job_state_idx").on(t.state),
+    index("job_technician_idx").on(t.technicianId),
+    uniqueIndex("job_idempotency_key_idx").on(t.customerId, t.idempotencyKey).where(sql`${t.idempotencyKey} is not null`),
+  ],
+);
+
+export const jobStateHistory = pgTable(
+  "job_state_history",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    jobId: uuid("job_id")
+      .notNull()
+      .references(() => jobs.id, { onDelete: "cascade" }),
+    fromState: jobState("from_state"),
+    toState: jobState("to_state").notNull(),
+    actorId: text("actor_id").references(() => user.id),
+    note: text("note"),
+    at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("job_state_history_job_idx").on(t.jobId, t.at)],
+);
+
+export const photos = pgTable(
+  "photo",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    uploaderId: text("uploader_id")
+      .notNull()
+      .references(() => user.id),
+    jobId: uuid("job_id").references(() => jobs.id, { onDelete: "cascade" }),
+    claimId: uuid("claim_id"),
+    storageKey: text("storage_key").notNull().unique(),
+    thumbKey: text("thumb_key"),
+    url: text("url"),
+    thumbUrl: text("thumb_url"),
+    displayName: text("display_name").notNull(),
+    mime: text("mime").notNull(),
+    width: integer("width").notNull(),
+    height: integer("height").notNull(),
+    bytes: integer("bytes").notNull(),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("photo_job_idx").on(t.jobId), index("photo_uploader_idx").on(t.uploaderId)],
+);
+
+export const messages = pgTable(
+  "message",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    jobId: uuid("job_id")
+      .notNull()
+      .references(() => jobs.id, { onDelete: "cascade" }),
+    authorId: text("author_id")
+      .notNull()
+      .references(() => user.id),
+    body: text("body").notNull(),
+    // Staff-only notes never reach the customer.
+    internal: boolean("internal").notNull().default(false),
+    isQuestion: boolean("is_question").notNull().default(false),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [index("message_job_idx").on(t.jobId, t.createdAt)],
+);
+
+// Checklist lines ticked at the bench (who and when).
+export const jobTasks = pgTable(
+  "job_task",
+  {
+    id: uuid("id").primaryKey().defaultRandom(),
+    jobId: uuid("job_id")
+      .notNull()
+      .references(() => jobs.id, { onDelete: "cascade" }),
+    code: text("code").notNull(),
+    title: text("title").notNull(),
+    doneBy: text("done_by").references(() => user.id),
+    doneAt: timestamp("done_at", { withTimezone: true }),
+  },
+  (t) => [uniqueIndex("job_task_job_code_idx").on(t.jobId, t.code)],
+);
+
+export type RadioSet = typeof radioSets.$inferSelect;
+export type Job = typeof jobs.$inferSelect;
+export type JobStateHistoryRow = typeof jobStateHistory.$inferSelect;
+export type Photo = typeof photos.$inferSelect;
+export type Message = typeof messages.$inferSelect;

@@ -1,0 +1,35 @@
+import { drizzle } from "drizzle-orm/node-postgres";
+import type { PoolClient } from "pg";
+import { pool, schema, type Database } from "./index";
+
+export type RawSql = { executeSql(text: string, values: unknown[]): Promise<{ rows: unknown[] }> };
+export type TxContext = { tx: Database; raw: RawSql };
+
+const RETRYABLE = new Set(["40001", "40P01"]); // serialization failure, deadlock
+
+// One transaction on one connection, shared by Drizzle and by the queue (so a queued job commits with the change).
+export async function transaction<T>(fn: (ctx: TxContext) => Promise<T>, { retries = 3 } = {}): Promise<T> {
+  for (let attempt = 0; ; attempt++) {
+    const client: PoolClient = await pool().connect();
+    try {
+      await client.query("begin");
+      const tx = drizzle(client, { schema }) as unknown as Database;
+      const raw: RawSql = {
+        executeSql: async (text, values) => {
+          const r = await client.query(text, values as unknown[]);
+          return { rows: r.rows };
+        },
+      };
+      const result = await fn({ tx, raw });
+      await client.query("commit");
+      return result;
+    } catch (error) {
+      await client.query("rollback").catch(() => undefined);
+      const code = (error as { code?: string }).code ?? (error as { cause?: { code?: string } }).cause?.code;
+      if (code && RETRYABLE.has(code) && attempt < retries) continue;
+      throw error;
+    } finally {
+      client.release();
+    }
+  }
+}

@@ -1,0 +1,7 @@
+// Each app instance also works the PostgreSQL-backed queue (e-mail and other side effects).
+export async function register() {
+  if (process.env.NEXT_RUNTIME !== "nodejs") return;
+  if (process.env.WORKER_ENABLED === "0") return;
+  const { startWorkers } = await import("./lib/workers");
+  await startWorkers().catch((e: unknown) => console.error("[bandedge] workers did not start", e));
+}

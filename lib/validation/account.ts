@@ -1,0 +1,31 @@
+import { z } from "zod";
+
+export const emailSchema = z.string().trim().toLowerCase().email("Enter a valid e-mail address.").max(254);
+// Verified exactly as typed: no trimming or case folding of passwords.
+export const passwordSchema = z
+  .string()
+  .min(8, "Use at least 8 characters.")
+  .max(128, "Use at most 128 characters.");
+
+export const signInSchema = z.object({ email: emailSchema, password: z.string().min(1, "Enter your password.").max(128) });
+export type SignInInput = z.infer<typeof signInSchema>;
+
+export const signUpSchema = z.object({
+  name: z.string().trim().min(1, "Tell us your name.").max(120),
+  email: emailSchema,
+  password: passwordSchema,
+});
+export type SignUpInput = z.infer<typeof signUpSchema>;
+
+export const resetRequestSchema = z.object({ email: emailSchema });
+export const resetSchema = z
+  .object({ password: passwordSchema, confirm: z.string() })
+  .refine((v) => v.password === v.confirm, { path: ["confirm"], message: "The two passwords differ." });
+
+export const staffInviteSchema = z.object({
+  name: z.string().trim().min(1, "Enter the person's name.").max(120),
+  email: emailSchema,
+  role: z.enum(["technician", "owner"]),
+});
+export const staffRoleSchema = z.object({ userId: z.string().min(1), role: z.enum(["customer", "technician", "owner"]) });
+export const staffDeactivateSchema = z.object({ userId: z.string().min(1), active: z.boolean() });

@@ -1,0 +1,5 @@
+import { startEmailWorker } from "./mail";
+
+export async function startWorkers(): Promise<void> {
+  await startEmailWorker();
+}
