@@ -53,7 +53,7 @@ process.on("SIGINT", () => stopAll(0));
 process.on("SIGTERM", () => stopAll(0));
 
 async function main() {
-  ensureDependencies(stateDir);
+  ensureDependencies();
   const pgBin = ensurePostgres();
 
   const envFile = join(stateDir, "local.env");

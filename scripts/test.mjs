@@ -40,7 +40,7 @@ process.on("SIGINT", () => {
 });
 
 async function main() {
-  ensureDependencies(join(ROOT, ".bandedge"));
+  ensureDependencies();
   const pgBin = ensurePostgres();
   const chromium = ensureChromium();
 
@@ -59,7 +59,7 @@ async function main() {
   });
   ensureDatabase({ bin: pgBin, port: pgPort, password: secrets.PG_PASSWORD, name: "bandedge" });
 
-  const distDir = ".next-test";
+  const distDir = process.env.BANDEDGE_TEST_DIST ?? ".next-test";
   const env = serviceEnv({
     secrets,
     pgPort,

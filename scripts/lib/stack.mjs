@@ -23,7 +23,8 @@ function sha(file) {
 }
 
 // Installs dependencies when node_modules is missing or older than the lock file.
-export function ensureDependencies(stateDir) {
+export function ensureDependencies() {
+  const stateDir = join(ROOT, ".bandedge");
   const lock = join(ROOT, "package-lock.json");
   const marker = join(stateDir, "deps.sha256");
   const want = sha(lock);

@@ -1,0 +1,92 @@
+import { randomUUID } from "node:crypto";
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { DEMO } from "../support/accounts";
+import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
+import { firstLink, waitForMail } from "../support/mail";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+describe("an owner of a set signs up, verifies, signs in and resets a password", () => {
+  it("works end to end through the mail stand-in", async () => {
+    const email = `newcomer-${randomUUID().slice(0, 8)}@example.com`;
+    const context = await newContext(browser);
+    const page = await context.newPage();
+
+    await page.goto("/sign-up");
+    await page.getByLabel("Your name").fill("Ada Newcomer");
+    await page.getByLabel("E-mail").fill(email);
+    await page.getByLabel("Password").fill("crystal-set-1931");
+    await page.getByRole("button", { name: "Create account" }).click();
+    await expect.poll(() => page.getByText("Check your e-mail").count()).toBe(1);
+    await snap(page, "account-01-signed-up");
+
+    const verify = await waitForMail(email, "Confirm your e-mail");
+    await page.goto(firstLink(verify, "verify-email"));
+    await page.waitForURL(/\/portal/);
+    await expect.poll(() => page.getByRole("heading", { name: "My sets" }).count()).toBe(1);
+    await snap(page, "account-02-portal");
+
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.waitForURL((u) => u.pathname === "/");
+    await page.goto("/portal");
+    await page.waitForURL(/\/sign-in/);
+
+    await page.goto("/reset-password");
+    await page.getByLabel("E-mail of your account").fill(email);
+    await page.getByRole("button", { name: "Send me a link" }).click();
+    await expect.poll(() => page.getByText("Check your e-mail").count()).toBe(1);
+    const reset = await waitForMail(email, "Choose a new password");
+    await page.goto(firstLink(reset, "reset-password"));
+    await page.getByLabel("New password").fill("valve-glow-1948");
+    await page.getByLabel("Type it again").fill("valve-glow-1948");
+    await page.getByRole("button", { name: "Set new password" }).click();
+    await expect.poll(() => page.getByText("Password changed").count()).toBe(1);
+
+    await signInPage(page, email, "valve-glow-1948");
+    expect(new URL(page.url()).pathname).toBe("/portal");
+    await snap(page, "account-03-signed-in-after-reset");
+    await context.close();
+  });
+});
+
+describe("the owner manages staff", () => {
+  it("invites a technician, who sets a password and is cut off at once when deactivated", async () => {
+    const email = `apprentice-${randomUUID().slice(0, 8)}@kestrel-lane.example`;
+    const ownerCtx = await newContext(browser);
+    const owner = await ownerCtx.newPage();
+    await signInPage(owner, DEMO.owner.email, DEMO.owner.password);
+    await owner.goto("/office/staff");
+    await owner.getByLabel("Name").fill("Felix Apprentice");
+    await owner.getByLabel("E-mail").fill(email);
+    await owner.getByRole("button", { name: "Send invitation" }).click();
+    await expect.poll(() => owner.getByText(`Invitation sent to ${email}.`).count()).toBe(1);
+
+    const invite = await waitForMail(email, "invited");
+    const techCtx = await newContext(browser);
+    const tech = await techCtx.newPage();
+    await tech.goto(firstLink(invite, "reset-password"));
+    await tech.getByLabel("New password").fill("solder-sucker-77");
+    await tech.getByLabel("Type it again").fill("solder-sucker-77");
+    await tech.getByRole("button", { name: "Set new password" }).click();
+    await expect.poll(() => tech.getByText("Password changed").count()).toBe(1);
+    await signInPage(tech, email, "solder-sucker-77");
+    expect(new URL(tech.url()).pathname).toBe("/bench");
+
+    await owner.reload();
+    await owner.getByRole("button", { name: "Deactivate Felix Apprentice" }).click();
+    await expect.poll(() => owner.getByRole("button", { name: "Reactivate Felix Apprentice" }).count()).toBe(1);
+    await snap(owner, "staff-01-deactivated");
+
+    await tech.goto("/bench");
+    await tech.waitForURL(/\/sign-in/);
+    await ownerCtx.close();
+    await techCtx.close();
+  });
+});
