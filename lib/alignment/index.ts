@@ -1,0 +1,7 @@
+export * from "./inputs";
+export * from "./frequencies";
+export * from "./tracking";
+export * from "./tracking-points";
+export * from "./minimax";
+export * from "./plan";
+export * from "./solve-tracking";

@@ -1,0 +1,5 @@
+export * from "./band";
+export * from "./rasters";
+export * from "./presets";
+export * from "./if-presets";
+export * from "./metre-band";

@@ -1,0 +1,4 @@
+export * from "./rules";
+export * from "./profile";
+export * from "./safety-figures";
+export * from "./compute-checklist";

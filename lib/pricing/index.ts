@@ -1,0 +1,4 @@
+export * from "./money";
+export * from "./parts";
+export * from "./deposit";
+export * from "./price-estimate";

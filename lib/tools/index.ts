@@ -1,0 +1,3 @@
+export * from "./field-errors";
+export * from "./alignment-request";
+export * from "./estimate-request";

@@ -1,0 +1,4 @@
+export * from "./reading-keys";
+export * from "./tolerances";
+export * from "./judge-reading";
+export * from "./required-readings";

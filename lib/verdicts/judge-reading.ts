@@ -1,0 +1,111 @@
+export type ReadingUnit = "kHz" | "mA" | "V";
+
+export type Tolerance =
+  /** |reading − nominal| ≤ max(absKHz, percent % of nominal). */
+  | { kind: "window"; absKHz: number; percent: number; reference: "mark" | "target" }
+  | { kind: "max"; limit: number; unit: ReadingUnit }
+  | { kind: "percent"; percent: number }
+  | { kind: "recorded" };
+
+export type ReadingRequirement = {
+  key: string;
+  label: string;
+  lineCode: string;
+  unit: ReadingUnit;
+  /** The mark or target; null for limits and for readings that are only recorded. */
+  nominal: number | null;
+  tolerance: Tolerance;
+  toleranceText: string;
+};
+
+export type Verdict = "pass" | "fail" | "missing";
+
+export type ReadingJudgement = {
+  verdict: Verdict;
+  toleranceText: string;
+  /** Reading minus nominal, where there is a nominal. */
+  deviation?: number;
+  /** The largest deviation (or value, for limits) that still passes. */
+  allowed?: number;
+};
+
+/** Trims float noise so "1 %" never prints as "1.0000000002 %". */
+export function formatNumber(x: number, maxDigits = 3): string {
+  return String(Number(x.toFixed(maxDigits)));
+}
+
+export function describeTolerance(t: Tolerance, context: { ifKHz?: number } = {}): string {
+  switch (t.kind) {
+    case "window": {
+      const of =
+        t.reference === "mark"
+          ? "of the mark"
+          : context.ifKHz !== undefined
+            ? `of the target (mark + IF ${formatNumber(context.ifKHz)} kHz)`
+            : "of the target";
+      if (t.absKHz > 0 && t.percent > 0) {
+        return `within ±${formatNumber(t.absKHz)} kHz or ${formatNumber(t.percent)} % ${of}, whichever is larger`;
+      }
+      if (t.percent > 0) return `within ±${formatNumber(t.percent)} % ${of}`;
+      return `within ±${formatNumber(t.absKHz)} kHz ${of}`;
+    }
+    case "max":
+      return `at most ${formatNumber(t.limit)} ${t.unit}`;
+    case "percent":
+      return `within ±${formatNumber(t.percent)} % of the schematic value`;
+    case "recorded":
+      return "recorded, no limit";
+  }
+}
+
+// Readings are typed to a few decimals; a reading exactly on the limit passes.
+const EPS = 1e-9;
+
+export function judgeReading(requirement: ReadingRequirement, value: number | null | undefined): ReadingJudgement {
+  const toleranceText = requirement.toleranceText;
+  if (value === null || value === undefined || typeof value !== "number" || !Number.isFinite(value)) {
+    return { verdict: "missing", toleranceText };
+  }
+  const t = requirement.tolerance;
+  const nominal = requirement.nominal;
+  switch (t.kind) {
+    case "window": {
+      if (nominal === null) return { verdict: "missing", toleranceText };
+      const allowed = Math.max(t.absKHz, (t.percent / 100) * Math.abs(nominal));
+      const deviation = value - nominal;
+      return { verdict: Math.abs(deviation) <= allowed + EPS ? "pass" : "fail", toleranceText, deviation, allowed };
+    }
+    case "percent": {
+      if (nominal === null) return { verdict: "missing", toleranceText };
+      const allowed = (t.percent / 100) * Math.abs(nominal);
+      const deviation = value - nominal;
+      return { verdict: Math.abs(deviation) <= allowed + EPS ? "pass" : "fail", toleranceText, deviation, allowed };
+    }
+    case "max":
+      return { verdict: value <= t.limit + EPS ? "pass" : "fail", toleranceText, allowed: t.limit };
+    case "recorded":
+      return { verdict: "pass", toleranceText };
+  }
+}
+
+export type SheetJudgement = {
+  results: (ReadingRequirement & ReadingJudgement & { value: number | null })[];
+  missing: string[];
+  failing: string[];
+  /** True when every required reading is present and passes: the completion gate. */
+  complete: boolean;
+};
+
+export function judgeReadings(
+  requirements: readonly ReadingRequirement[],
+  readings: Readonly<Record<string, number | null | undefined>>,
+): SheetJudgement {
+  const results = requirements.map((r) => {
+    const raw = readings[r.key];
+    const value = typeof raw === "number" && Number.isFinite(raw) ? raw : null;
+    return { ...r, ...judgeReading(r, value), value };
+  });
+  const missing = results.filter((r) => r.verdict === "missing").map((r) => r.key);
+  const failing = results.filter((r) => r.verdict === "fail").map((r) => r.key);
+  return { results, missing, failing, complete: missing.length === 0 && failing.length === 0 };
+}

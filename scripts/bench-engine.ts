@@ -1,0 +1,70 @@
+/**
+ * Engine timings: median time per priced estimate (checklist + pricing + one tracking solve) and per
+ * tracking solve. Prints figures only; the goals (≤ 1 ms and ≤ 0.2 ms) are for reading, not asserting.
+ */
+import { performance } from "node:perf_hooks";
+import { solveTracking } from "../lib/alignment/solve-tracking";
+import { computeChecklist } from "../lib/checklist/compute-checklist";
+import { setProfileSchema } from "../lib/checklist/profile";
+import { priceEstimate } from "../lib/pricing/price-estimate";
+import { defaultShopPolicy } from "../lib/shop-policy";
+
+// The Haldane console from the demo scenario: the largest checklist the shop meets.
+const profile = setProfileSchema.parse({
+  kind: "tube-transformer",
+  bands: [
+    { kind: "MW", lowKHz: 540, highKHz: 1600, ifKHz: 455 },
+    { kind: "SW", lowKHz: 2300, highKHz: 7300, ifKHz: 455 },
+    { kind: "SW", lowKHz: 7000, highKHz: 22000, ifKHz: 455 },
+    { kind: "FM", lowKHz: 88000, highKHz: 108000, ifKHz: 10700 },
+  ],
+  electrolytics: 4,
+  paperCapacitors: 22,
+  tubes: 10,
+  ifTransformers: 5,
+  seleniumRectifier: true,
+  lineCordWorn: true,
+  dialCordBroken: true,
+});
+
+const trackingInput = { band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } };
+
+function median(xs: number[]): number {
+  const s = [...xs].sort((a, b) => a - b);
+  const m = Math.floor(s.length / 2);
+  return s.length % 2 ? s[m] : (s[m - 1] + s[m]) / 2;
+}
+
+/** Runs fn in batches so the timer's resolution does not dominate, and reports per-call figures. */
+function measure(fn: () => unknown, batches = 200, perBatch = 50) {
+  let sink = 0;
+  for (let i = 0; i < 500; i++) sink += fn() ? 1 : 0;
+  const times: number[] = [];
+  for (let b = 0; b < batches; b++) {
+    const t0 = performance.now();
+    for (let i = 0; i < perBatch; i++) sink += fn() ? 1 : 0;
+    times.push((performance.now() - t0) / perBatch);
+  }
+  if (sink < 0) console.log(sink);
+  const sorted = [...times].sort((a, b) => a - b);
+  return { median: median(times), p90: sorted[Math.floor(sorted.length * 0.9)] };
+}
+
+const estimate = measure(() => {
+  const lines = computeChecklist(profile, defaultShopPolicy);
+  const priced = priceEstimate(lines, defaultShopPolicy);
+  const tracking = solveTracking(trackingInput);
+  return priced.totals.totalMinor + tracking.maxAbsErrorKHz;
+});
+const tracking = measure(() => solveTracking(trackingInput).maxAbsErrorKHz);
+
+const rows = [
+  ["priced estimate (checklist + pricing + tracking solve)", estimate, 1],
+  ["tracking solve (three-point, error curve of 101 points)", tracking, 0.2],
+] as const;
+
+const fmt = (ms: number) => `${(ms * 1000).toFixed(1)} µs`;
+console.log(`${"measure".padEnd(58)}${"median".padStart(12)}${"p90".padStart(12)}${"goal".padStart(12)}`);
+for (const [name, r, goal] of rows) {
+  console.log(`${name.padEnd(58)}${fmt(r.median).padStart(12)}${fmt(r.p90).padStart(12)}${`≤ ${goal} ms`.padStart(12)}`);
+}
