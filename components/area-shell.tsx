@@ -11,7 +11,7 @@ export function AreaShell({ title, nav, children, dense }: { title: string; nav:
           <span className="font-serif font-bold">{title}</span>
           <nav aria-label={`${title} sections`} className="flex flex-wrap gap-x-4 gap-y-1">
             {nav.map((n) => (
-              <Link key={n.href} href={n.href} className="text-bakelite hover:text-ember-dark">
+              <Link key={n.href} href={n.href} className="text-bakelite no-underline hover:text-ember-dark hover:underline">
                 {n.label}
               </Link>
             ))}

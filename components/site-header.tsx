@@ -39,7 +39,7 @@ export async function SiteHeader() {
         </Link>
         <nav aria-label="Main" className="flex flex-1 flex-wrap items-center gap-4 text-sm">
           {links.map((l) => (
-            <Link key={l.href} href={l.href} className="text-dial hover:text-brass-light">
+            <Link key={l.href} href={l.href} className="text-dial no-underline hover:text-brass-light hover:underline">
               {l.label}
             </Link>
           ))}
@@ -54,7 +54,7 @@ export async function SiteHeader() {
             </>
           ) : (
             <>
-              <Link href="/sign-in" className="text-dial">
+              <Link href="/sign-in" className="text-dial no-underline hover:underline">
                 Sign in
               </Link>
               <Link href="/sign-up" className="rounded-card bg-ember px-3 py-1.5 font-semibold text-white no-underline hover:bg-ember-dark">
