@@ -1,0 +1,88 @@
+// A throwaway stack for tests and benchmarks: PostgreSQL on a free loopback port, migrated and seeded,
+// the built app and the stand-ins. stop() ends everything it started and removes the folder.
+import { chmodSync, existsSync, mkdirSync, mkdtempSync, rmSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import {
+  bin,
+  ensureChromium,
+  ensureDatabase,
+  ensureDependencies,
+  ensurePostgres,
+  freePort,
+  generateSecrets,
+  log,
+  ROOT,
+  run,
+  serviceEnv,
+  spawnService,
+  startCluster,
+  waitForHttp,
+} from "./stack.mjs";
+
+export async function bootScratchStack({ distDir = ".next-test", build = true, chromium = false, quiet = true, extraEnv = {} } = {}) {
+  ensureDependencies();
+  const pgBin = ensurePostgres();
+  const chromiumPath = chromium ? ensureChromium() : undefined;
+  const children = [];
+  const scratch = mkdtempSync(join(tmpdir(), "bandedge-scratch-"));
+  chmodSync(scratch, 0o755);
+  let cluster;
+  const stop = () => {
+    for (const c of children) if (c.exitCode === null) c.kill("SIGTERM");
+    if (cluster) cluster.stop("immediate");
+    if (!process.env.BANDEDGE_KEEP_TEST_STATE) rmSync(scratch, { recursive: true, force: true });
+  };
+  try {
+    const [pgPort, appPort, mailPort, stripePort, uploadPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort()]);
+    const secrets = generateSecrets();
+    cluster = startCluster({
+      bin: pgBin,
+      dataDir: join(scratch, "pgdata"),
+      socketDir: join(scratch, "pgsock"),
+      logFile: join(scratch, "postgres.log"),
+      port: pgPort,
+      password: secrets.PG_PASSWORD,
+      fast: true,
+    });
+    ensureDatabase({ bin: pgBin, port: pgPort, password: secrets.PG_PASSWORD, name: "bandedge" });
+    const env = serviceEnv({
+      secrets,
+      pgPort,
+      appPort,
+      mailPort,
+      stripePort,
+      uploadPort,
+      stateDir: scratch,
+      extra: {
+        NEXT_DIST_DIR: distDir,
+        ...(chromiumPath ? { CHROMIUM_PATH: chromiumPath } : {}),
+        PG_BIN: pgBin,
+        PG_PASSWORD: secrets.PG_PASSWORD,
+        PG_PORT: String(pgPort),
+        TEST_ARTIFACTS: join(ROOT, "test-results"),
+        TEST_SCRATCH: scratch,
+        ...extraEnv,
+      },
+    });
+    mkdirSync(join(ROOT, "test-results"), { recursive: true });
+    log("Migrating and seeding the scratch database…");
+    run(bin("tsx"), ["scripts/migrate.ts"], { env });
+    run(bin("tsx"), ["scripts/seed.ts"], { env });
+    if (build || !existsSync(join(ROOT, distDir, "BUILD_ID"))) {
+      log("Building the app…");
+      run(bin("next"), ["build"], { env });
+    }
+    children.push(spawnService("mail", bin("tsx"), ["scripts/fakes/mail-server.ts"], env, { quiet }));
+    for (const fake of ["stripe-server.ts", "upload-server.ts"]) {
+      if (existsSync(join(ROOT, "scripts", "fakes", fake))) children.push(spawnService(fake, bin("tsx"), [join("scripts", "fakes", fake)], env, { quiet }));
+    }
+    children.push(spawnService("app", bin("next"), ["start", "--hostname", "127.0.0.1", "--port", String(appPort)], env, { quiet }));
+    await waitForHttp(`http://127.0.0.1:${mailPort}/health`);
+    await waitForHttp(`http://127.0.0.1:${appPort}/api/health`, 90_000);
+    return { env, scratch, appUrl: `http://127.0.0.1:${appPort}`, stop, children };
+  } catch (e) {
+    stop();
+    throw e;
+  }
+}
