@@ -78,7 +78,7 @@ async function main() {
   log("Applying database migrations…");
   run(bin("tsx"), ["scripts/migrate.ts"], { env });
   log("Seeding the demo shop (kept if already there)…");
-  run(bin("tsx"), ["scripts/seed.ts"], { env });
+  run(bin("tsx"), ["--conditions=react-server", "scripts/seed.ts"], { env });
 
   if (prepareOnly) {
     cluster.stop("fast");

@@ -68,7 +68,7 @@ export async function bootScratchStack({ distDir = ".next-test", build = true, c
     mkdirSync(join(ROOT, "test-results"), { recursive: true });
     log("Migrating and seeding the scratch database…");
     run(bin("tsx"), ["scripts/migrate.ts"], { env });
-    run(bin("tsx"), ["scripts/seed.ts"], { env });
+    run(bin("tsx"), ["--conditions=react-server", "scripts/seed.ts"], { env });
     if (build || !existsSync(join(ROOT, distDir, "BUILD_ID"))) {
       log("Building the app…");
       run(bin("next"), ["build"], { env });

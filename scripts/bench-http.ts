@@ -1,0 +1,178 @@
+// HTTP figures of QUALITY.md, measured side by side in one run on a throwaway stack (loopback only,
+// bounded in count and time). Prints a table; asserts nothing.
+import { randomUUID } from "node:crypto";
+import { cpus, totalmem } from "node:os";
+import autocannon from "autocannon";
+import pg from "pg";
+import sharp from "sharp";
+import Stripe from "stripe";
+// @ts-expect-error plain ESM module without type declarations
+import { bootScratchStack } from "./lib/scratch-stack.mjs";
+
+type Stack = { env: Record<string, string>; appUrl: string; stop: () => void };
+type Row = { metric: string; figure: string; goal: string };
+const rows: Row[] = [];
+
+function percentile(sorted: number[], p: number): number {
+  if (!sorted.length) return NaN;
+  const i = Math.min(sorted.length - 1, Math.max(0, Math.ceil((p / 100) * sorted.length) - 1));
+  return sorted[i]!;
+}
+
+async function cannon(opts: autocannon.Options): Promise<autocannon.Result> {
+  return new Promise((resolve, reject) => {
+    autocannon({ duration: 8, ...opts }, (err, result) => (err ? reject(err) : resolve(result)));
+  });
+}
+
+async function signIn(appUrl: string, email: string, password: string): Promise<string> {
+  const res = await fetch(`${appUrl}/api/auth/sign-in/email`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: appUrl, "x-forwarded-for": `192.0.2.${Math.floor(Math.random() * 250)}` },
+    body: JSON.stringify({ email, password }),
+  });
+  if (!res.ok) throw new Error(`sign-in failed: ${res.status}`);
+  return res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+}
+
+function errorsOf(r: autocannon.Result): number {
+  return r.errors + r.timeouts + r.non2xx;
+}
+
+async function listVsBare(stack: Stack, cookie: string, connections: number) {
+  const bare = await cannon({ url: `${stack.appUrl}/api/health`, connections });
+  const list = await cannon({ url: `${stack.appUrl}/api/bench/queue?page=1&pageSize=25`, connections, headers: { cookie } });
+  const ratio = list.requests.average / bare.requests.average;
+  rows.push({ metric: `bare static JSON, ${connections} conns`, figure: `${bare.requests.average.toFixed(0)} req/s, p97.5 ${bare.latency.p97_5} ms, errors ${errorsOf(bare)}`, goal: "baseline" });
+  rows.push({
+    metric: `authenticated JSON list, ${connections} conns`,
+    figure: `${list.requests.average.toFixed(0)} req/s (${ratio.toFixed(2)}× bare), p97.5 ${list.latency.p97_5} ms, errors ${errorsOf(list)}`,
+    goal: connections === 10 ? "≥ 0.35× bare, p97.5 ≤ 60 ms, 0 errors" : "0 errors, p97.5 ≤ 300 ms",
+  });
+}
+
+async function webhookBurst(stack: Stack, db: pg.Pool) {
+  const stripe = new Stripe("sk_test_bench");
+  const secret = stack.env.STRIPE_WEBHOOK_SECRET!;
+  const unique = 400;
+  const events = Array.from({ length: unique }, () => ({
+    id: `evt_bench_${randomUUID().replace(/-/g, "")}`,
+    object: "event",
+    type: "checkout.session.completed",
+    created: Math.floor(Date.now() / 1000),
+    data: { object: { id: `cs_bench_${randomUUID().replace(/-/g, "")}`, object: "checkout.session", payment_status: "paid", amount_total: 1000, currency: "usd", metadata: {} } },
+  }));
+  const sends = [...events, ...events.slice(0, 100)].sort(() => Math.random() - 0.5);
+  const latencies: number[] = [];
+  let errors = 0;
+  const queue = [...sends];
+  await Promise.all(
+    Array.from({ length: 10 }, async () => {
+      for (let e = queue.pop(); e; e = queue.pop()) {
+        const payload = JSON.stringify(e);
+        const header = stripe.webhooks.generateTestHeaderString({ payload, secret });
+        const t0 = performance.now();
+        const res = await fetch(`${stack.appUrl}/api/webhooks/stripe`, { method: "POST", headers: { "stripe-signature": header, "content-type": "application/json" }, body: payload });
+        await res.arrayBuffer();
+        latencies.push(performance.now() - t0);
+        if (res.status >= 300) errors++;
+      }
+    }),
+  );
+  latencies.sort((a, b) => a - b);
+  const stored = await db.query<{ n: number }>("select count(*)::int as n from payment_event where id like 'evt_bench_%'");
+  rows.push({
+    metric: "webhook burst, 500 signed events (20 % duplicates)",
+    figure: `p97.5 ${percentile(latencies, 97.5).toFixed(1)} ms, errors ${errors}, events stored ${stored.rows[0]!.n} of ${unique} unique`,
+    goal: "p97.5 ≤ 100 ms, final state exact",
+  });
+}
+
+async function pdfAndVerify(stack: Stack, db: pg.Pool, ownerCookie: string) {
+  const cert = await db.query<{ id: string; code: string }>("select id, code from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1");
+  if (!cert.rows.length) {
+    rows.push({ metric: "certificate PDF / verification page", figure: "no certificate in the seed", goal: "—" });
+    return;
+  }
+  const { id, code } = cert.rows[0]!;
+  const pdfUrl = `${stack.appUrl}/api/certificates/${id}/pdf`;
+  for (let i = 0; i < 3; i++) await (await fetch(pdfUrl, { headers: { cookie: ownerCookie } })).arrayBuffer();
+  const times: number[] = [];
+  for (let i = 0; i < 30; i++) {
+    const t0 = performance.now();
+    const r = await fetch(pdfUrl, { headers: { cookie: ownerCookie } });
+    await r.arrayBuffer();
+    times.push(performance.now() - t0);
+  }
+  times.sort((a, b) => a - b);
+  rows.push({ metric: "certificate PDF, warm", figure: `p95 ${percentile(times, 95).toFixed(0)} ms`, goal: "p95 ≤ 300 ms" });
+
+  const idle = await cannon({ url: `${stack.appUrl}/api/health`, connections: 2, duration: 4 });
+  let rendering = true;
+  const renderers = Array.from({ length: 4 }, async () => {
+    while (rendering) await (await fetch(pdfUrl, { headers: { cookie: ownerCookie } })).arrayBuffer();
+  });
+  const busy = await cannon({ url: `${stack.appUrl}/api/health`, connections: 2, duration: 4 });
+  rendering = false;
+  await Promise.all(renderers);
+  rows.push({
+    metric: "JSON latency while 4 PDFs render",
+    figure: `mean ${busy.latency.average.toFixed(1)} ms vs idle ${idle.latency.average.toFixed(1)} ms (${(busy.latency.average / Math.max(idle.latency.average, 0.01)).toFixed(1)}×)`,
+    goal: "≤ 2× idle",
+  });
+
+  const verify = await cannon({ url: `${stack.appUrl}/verify/${code}`, connections: 20, headers: { "x-forwarded-for": "198.51.100.9" } });
+  rows.push({
+    metric: "public verification page, 20 conns",
+    figure: `${verify.requests.average.toFixed(0)} req/s, p97.5 ${verify.latency.p97_5} ms, non-2xx ${verify.non2xx} (rate limit included)`,
+    goal: "p97.5 ≤ 80 ms",
+  });
+}
+
+async function photoReencode() {
+  const { processPhoto } = await import("../lib/uploads");
+  const width = 4000;
+  const height = 3000;
+  const noise = Buffer.alloc(width * height * 3);
+  for (let i = 0; i < noise.length; i++) noise[i] = (i * 2654435761) >>> 24;
+  const jpeg = await sharp(noise, { raw: { width, height, channels: 3 } }).jpeg({ quality: 90 }).toBuffer();
+  const rssBefore = process.memoryUsage().rss;
+  const times: number[] = [];
+  for (let i = 0; i < 3; i++) {
+    const t0 = performance.now();
+    await processPhoto(jpeg);
+    times.push(performance.now() - t0);
+  }
+  times.sort((a, b) => a - b);
+  const rssGrowth = (process.memoryUsage().rss - rssBefore) / 1024 / 1024;
+  rows.push({ metric: "photo re-encode, 12 MP JPEG", figure: `median ${times[1]!.toFixed(0)} ms, RSS growth ${rssGrowth.toFixed(0)} MiB`, goal: "≤ 1.2 s, memory bounded" });
+}
+
+async function main() {
+  const stack: Stack = await bootScratchStack({ distDir: process.env.BANDEDGE_BENCH_DIST ?? ".next-test", build: !process.argv.includes("--skip-build"), extraEnv: { AUTH_RATE_LIMIT_MAX: "1000" } });
+  const db = new pg.Pool({ connectionString: stack.env.DATABASE_URL, max: 2 });
+  try {
+    const techCookie = await signIn(stack.appUrl, "tomas@kestrel-lane.example", "bench-tech-2026");
+    const ownerCookie = await signIn(stack.appUrl, "odile@kestrel-lane.example", "bench-owner-2026");
+    await listVsBare(stack, techCookie, 10);
+    await listVsBare(stack, techCookie, 50);
+    await webhookBurst(stack, db);
+    await pdfAndVerify(stack, db, ownerCookie);
+    Object.assign(process.env, stack.env);
+    await photoReencode();
+  } finally {
+    await db.end();
+    stack.stop();
+  }
+  console.log(`\nBandedge HTTP benchmarks — ${new Date().toISOString().slice(0, 10)}, ${cpus().length} cores, ${(totalmem() / 2 ** 30).toFixed(0)} GiB\n`);
+  const w = Math.max(...rows.map((r) => r.metric.length));
+  const f = Math.max(...rows.map((r) => r.figure.length));
+  console.log(`${"metric".padEnd(w)} | ${"figure".padEnd(f)} | goal`);
+  console.log(`${"-".repeat(w)}-|-${"-".repeat(f)}-|-----`);
+  for (const r of rows) console.log(`${r.metric.padEnd(w)} | ${r.figure.padEnd(f)} | ${r.goal}`);
+}
+
+main().catch((e) => {
+  console.error(e);
+  process.exit(1);
+});
