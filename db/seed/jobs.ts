@@ -111,8 +111,8 @@ async function recordDemoPayment(ctx: TxContext, job: { id: string; key: string 
     amountMinor: amount,
     currency: rev.currency,
     status: "paid",
-    checkoutSessionId: `cs_demo_${job.key}_${purpose}`,
-    paymentIntentId: `pi_demo_${job.key}_${purpose}`,
+    checkoutSessionId: `cs_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
+    paymentIntentId: `pi_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
     idempotencyKey: `demo:${job.key}:${purpose}`,
     paidAt: new Date(),
   });

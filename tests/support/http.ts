@@ -4,6 +4,8 @@ import { nextTestIp } from "./ip";
 // A small HTTP client with a cookie jar, our Origin header and its own client address.
 export class TestClient {
   readonly ip: string;
+  /** Sent with every request (e.g. a spoofed internal header, to prove it changes nothing). */
+  extraHeaders: Record<string, string> = {};
   private cookies = new Map<string, string>();
 
   constructor({ ip = nextTestIp() }: { ip?: string } = {}) {
@@ -27,6 +29,7 @@ export class TestClient {
 
   async request(path: string, init: RequestInit & { json?: unknown } = {}): Promise<Response> {
     const headers = new Headers(init.headers);
+    for (const [k, v] of Object.entries(this.extraHeaders)) headers.set(k, v);
     headers.set("x-forwarded-for", this.ip);
     if (!headers.has("origin")) headers.set("origin", testEnv.appUrl);
     if (this.cookies.size) headers.set("cookie", this.cookieHeader());
