@@ -1,44 +1,70 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { count, eq } from "drizzle-orm";
-import { db } from "@/db";
-import { jobs, user } from "@/db/schema";
+import { formatMoney } from "@/components/office/format";
+import { officeOverviewFigures } from "@/db/queries/office";
+import { getShop } from "@/lib/services/shop";
 import { requirePermission } from "@/lib/session";
 
 export const metadata: Metadata = { title: "Office" };
 
 export default async function OfficePage() {
   const viewer = await requirePermission("office.use", "/office");
-  const [[openJobs], [staff]] = await Promise.all([
-    db.select({ n: count() }).from(jobs),
-    db.select({ n: count() }).from(user).where(eq(user.role, "technician")),
-  ]);
+  const [figures, shop] = await Promise.all([officeOverviewFigures(), getShop()]);
+  const currency = shop.policy.currency;
+  const stats = [
+    { label: "Open jobs", value: String(figures.open_jobs), href: "/bench" },
+    { label: "On the bench", value: String(figures.on_bench), href: "/bench" },
+    { label: "Balance due", value: String(figures.balance_due), href: "/bench" },
+    { label: "Received this month", value: formatMoney(figures.paid_this_month, currency), href: "/office/reports" },
+    { label: "Refunds waiting for the processor", value: String(figures.refunds_in_flight), href: "/office/payments" },
+    { label: "Active technicians", value: String(figures.technicians), href: "/office/staff" },
+  ];
   const tiles = [
-    { href: "/office/settings", title: "Rates & policy", text: "Labour rate, billing increment, minutes per checklist rule, tax, deposit policy, warranty wording and tolerances." },
+    { href: "/office/settings", title: "Rates & policy", text: "Shop identity, labour rate, billing increment, minutes per checklist rule, parts, tax, deposit policy, warranty wording and tolerances." },
     { href: "/office/staff", title: "Staff", text: "Invite technicians, change roles, deactivate accounts." },
-    { href: "/office/payments", title: "Payments", text: "Deposits and balances received, refunds." },
+    { href: "/office/payments", title: "Payments", text: "Deposits and balances received; full or partial refunds." },
     { href: "/office/audit", title: "Audit log", text: "Every change: who, what, when, before and after." },
     { href: "/office/reports", title: "Reports", text: "Jobs per state, turnaround, deposits and revenue per month." },
     { href: "/bench", title: "The bench", text: "The job queue, estimates, bench sheets and certificates." },
   ];
   return (
-    <div className="space-y-6">
+    <div className="space-y-8">
       <div>
         <h1 className="text-3xl font-bold">Good day, {viewer.name.split(" ")[0]}</h1>
-        <p className="text-bakelite-soft">
-          <span className="figure">{openJobs?.n ?? 0}</span> jobs on file · <span className="figure">{staff?.n ?? 0}</span> technicians
-        </p>
+        <p className="text-bakelite-soft">{shop.name} at a glance.</p>
       </div>
-      <ul className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
-        {tiles.map((t) => (
-          <li key={t.href} className="card p-4">
-            <h2 className="text-lg font-semibold">
-              <Link href={t.href}>{t.title}</Link>
-            </h2>
-            <p className="mt-1 text-sm text-bakelite-soft">{t.text}</p>
-          </li>
-        ))}
-      </ul>
+      <section aria-labelledby="glance">
+        <h2 id="glance" className="sr-only">
+          Figures
+        </h2>
+        <dl className="grid gap-3 sm:grid-cols-3 lg:grid-cols-6">
+          {stats.map((s) => (
+            <div key={s.label} className="card p-3">
+              <dt className="text-xs text-bakelite-soft">{s.label}</dt>
+              <dd className="figure mt-1 text-xl font-semibold">
+                <Link href={s.href} className="text-bakelite no-underline hover:underline">
+                  {s.value}
+                </Link>
+              </dd>
+            </div>
+          ))}
+        </dl>
+      </section>
+      <section aria-labelledby="sections">
+        <h2 id="sections" className="sr-only">
+          Sections
+        </h2>
+        <ul className="grid gap-4 sm:grid-cols-2 lg:grid-cols-3">
+          {tiles.map((t) => (
+            <li key={t.href} className="card p-4">
+              <h3 className="text-lg font-semibold">
+                <Link href={t.href}>{t.title}</Link>
+              </h3>
+              <p className="mt-1 text-sm text-bakelite-soft">{t.text}</p>
+            </li>
+          ))}
+        </ul>
+      </section>
     </div>
   );
 }

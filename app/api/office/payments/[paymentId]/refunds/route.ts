@@ -1,0 +1,15 @@
+import { z } from "zod";
+import { json, route } from "@/lib/api";
+import { notFound } from "@/lib/errors";
+import { requestRefund } from "@/lib/services/refunds";
+import { refundFormSchema } from "@/lib/validation/office";
+
+// Starts a refund; it is confirmed later by the processor's webhook (202: accepted, not yet settled).
+export const POST = route<{ paymentId: string }, typeof refundFormSchema>(
+  { permission: "payment.refund", body: refundFormSchema },
+  async ({ params, body, viewer }) => {
+    if (!z.uuid().safeParse(params.paymentId).success) throw notFound("That payment");
+    const refund = await requestRefund({ paymentId: params.paymentId, input: body, actorId: viewer.id });
+    return json(refund, { status: 202 });
+  },
+);

@@ -1,0 +1,7 @@
+// One query-key factory for the office; mutations invalidate exactly the keys they change.
+export const officeKeys = {
+  all: ["office"] as const,
+  settings: () => [...officeKeys.all, "settings"] as const,
+  payments: () => [...officeKeys.all, "payments"] as const,
+  payment: (paymentId: string) => [...officeKeys.payments(), paymentId] as const,
+};

@@ -1,0 +1,224 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useState } from "react";
+import { useForm } from "react-hook-form";
+import { describedBy } from "@/components/ui/field";
+import { Notice } from "@/components/ui/notice";
+import type { getPaymentForOffice } from "@/db/queries/office";
+import { jobNumber } from "@/lib/jobs/states";
+import { refundFormSchema, type RefundFormValues } from "@/lib/validation/office";
+import { ApiError, officeFetch } from "./api-client";
+import { formatMoney, formatWhen, type Currency, type Jsonify } from "./format";
+import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL, REFUND_STATUS_LABEL } from "./labels";
+import { officeKeys } from "./query-keys";
+
+export type PaymentDetail = Jsonify<NonNullable<Awaited<ReturnType<typeof getPaymentForOffice>>>>;
+
+export function RefundPanel({ initial, currency }: { initial: PaymentDetail; currency: Currency }) {
+  const queryClient = useQueryClient();
+  const key = officeKeys.payment(initial.id);
+  // The refund just asked for, until the processor's webhook has settled it.
+  const [awaiting, setAwaiting] = useState<string | null>(null);
+  const { data: payment = initial } = useQuery({
+    queryKey: key,
+    queryFn: () => officeFetch<PaymentDetail>(`/api/office/payments/${initial.id}`),
+    initialData: initial,
+    // A requested refund is settled by the processor's webhook; look again until it is.
+    refetchInterval: (q) => {
+      const refunds = q.state.data?.refunds ?? [];
+      const waiting = refunds.some((r) => r.status === "requested") || (awaiting !== null && !refunds.some((r) => r.id === awaiting && r.status !== "requested"));
+      return waiting ? 1500 : false;
+    },
+    refetchIntervalInBackground: true,
+  });
+  const [outcome, setOutcome] = useState<{ tone: "success" | "error"; text: string } | null>(null);
+  const left = payment.amountMinor - payment.refundedMinor - payment.inFlightMinor;
+  const refundable = payment.status === "paid" && left > 0;
+
+  const { register, handleSubmit, formState, setError, reset } = useForm<RefundFormValues>({
+    resolver: zodResolver(refundFormSchema),
+    defaultValues: { amount: "", reason: "" },
+  });
+  const { errors } = formState;
+
+  const refund = useMutation({
+    mutationFn: (values: RefundFormValues) =>
+      officeFetch<{ refundId: string; amountMinor: number }>(`/api/office/payments/${payment.id}/refunds`, { method: "POST", json: values }),
+    onSuccess: (r) => {
+      setAwaiting(r.refundId);
+      setOutcome({ tone: "success", text: `Refund of ${formatMoney(r.amountMinor, currency)} sent to the processor. It shows as refunded once the processor confirms it.` });
+      reset({ amount: "", reason: "" });
+    },
+    onError: (e) => {
+      if (e instanceof ApiError && e.fields) {
+        for (const [field, message] of Object.entries(e.fields)) if (field === "amount" || field === "reason") setError(field, { type: "server", message });
+      }
+      setOutcome({ tone: "error", text: e instanceof Error ? e.message : "The refund could not be started. Nothing was refunded; try again." });
+    },
+    onSettled: () => {
+      void queryClient.invalidateQueries({ queryKey: key, exact: true });
+      void queryClient.invalidateQueries({ queryKey: officeKeys.payments(), exact: true });
+    },
+  });
+
+  const status = PAYMENT_STATUS_LABEL[payment.status];
+  return (
+    <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
+      <div className="space-y-6">
+        <section aria-labelledby="payment-facts" className="card p-5">
+          <h2 id="payment-facts" className="text-xl font-semibold">
+            {PURPOSE_LABEL[payment.purpose]} for job {jobNumber(payment.jobNumber)}
+          </h2>
+          <p className="text-sm text-bakelite-soft">
+            {payment.maker} {payment.model} · {payment.customerName}
+          </p>
+          <dl className="mt-4 grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-3">
+            <div>
+              <dt className="text-bakelite-muted">Amount</dt>
+              <dd className="figure text-lg">{formatMoney(payment.amountMinor, currency)}</dd>
+            </div>
+            <div>
+              <dt className="text-bakelite-muted">Status</dt>
+              <dd>
+                <span aria-hidden="true">{status.icon} </span>
+                {status.text}
+              </dd>
+            </div>
+            <div>
+              <dt className="text-bakelite-muted">Paid at</dt>
+              <dd className="figure">{formatWhen(payment.paidAt)}</dd>
+            </div>
+            <div>
+              <dt className="text-bakelite-muted">Refunded so far</dt>
+              <dd className="figure" data-testid="refunded-so-far">
+                {formatMoney(payment.refundedMinor, currency)}
+              </dd>
+            </div>
+            <div>
+              <dt className="text-bakelite-muted">Waiting for the processor</dt>
+              <dd className="figure">{formatMoney(payment.inFlightMinor, currency)}</dd>
+            </div>
+            <div>
+              <dt className="text-bakelite-muted">Left to refund</dt>
+              <dd className="figure">{formatMoney(Math.max(left, 0), currency)}</dd>
+            </div>
+          </dl>
+        </section>
+
+        <section aria-labelledby="refund-history" className="card overflow-x-auto p-5">
+          <h2 id="refund-history" className="mb-2 text-xl font-semibold">
+            Refunds
+          </h2>
+          {payment.refunds.length === 0 ? (
+            <p className="text-sm text-bakelite-soft">No refunds on this payment.</p>
+          ) : (
+            <table className="dense-table">
+              <thead>
+                <tr>
+                  <th scope="col">Asked</th>
+                  <th scope="col" className="text-right">
+                    Amount
+                  </th>
+                  <th scope="col">Status</th>
+                  <th scope="col">Reason</th>
+                  <th scope="col">By</th>
+                </tr>
+              </thead>
+              <tbody>
+                {payment.refunds.map((r) => (
+                  <tr key={r.id}>
+                    <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
+                    <td className="figure whitespace-nowrap text-right">{formatMoney(r.amountMinor, currency)}</td>
+                    <td>
+                      <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
+                      {REFUND_STATUS_LABEL[r.status].text}
+                      {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt)}</span> : null}
+                    </td>
+                    <td className="max-w-xs whitespace-pre-wrap break-words">{r.reason}</td>
+                    <td>{r.createdByName ?? "—"}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          )}
+        </section>
+      </div>
+
+      <section aria-labelledby="refund-form" className="card h-fit p-5">
+        <h2 id="refund-form" className="text-xl font-semibold">
+          Refund
+        </h2>
+        {refundable ? (
+          <form
+            noValidate
+            className="mt-3 space-y-3"
+            onSubmit={handleSubmit((v) => {
+              setOutcome(null);
+              refund.mutate(v);
+            })}
+          >
+            <div className="space-y-0.5">
+              <label htmlFor="refund-amount" className="field-label">
+                Amount to refund ({currency.code})
+              </label>
+              <input
+                id="refund-amount"
+                inputMode="decimal"
+                autoComplete="off"
+                className="field-input figure"
+                aria-invalid={!!errors.amount}
+                aria-describedby={describedBy("refund-amount", { hint: true, error: errors.amount })}
+                {...register("amount")}
+              />
+              <p id="refund-amount-hint" className="field-hint">
+                Up to {formatMoney(left, currency)}. Part of the payment may be refunded.
+              </p>
+              {errors.amount ? (
+                <p id="refund-amount-error" className="field-error" role="alert">
+                  {errors.amount.message}
+                </p>
+              ) : null}
+            </div>
+            <div className="space-y-0.5">
+              <label htmlFor="refund-reason" className="field-label">
+                Reason
+              </label>
+              <textarea
+                id="refund-reason"
+                rows={3}
+                className="field-input"
+                aria-invalid={!!errors.reason}
+                aria-describedby={describedBy("refund-reason", { hint: true, error: errors.reason })}
+                {...register("reason")}
+              />
+              <p id="refund-reason-hint" className="field-hint">
+                Kept in the audit log with your name.
+              </p>
+              {errors.reason ? (
+                <p id="refund-reason-error" className="field-error" role="alert">
+                  {errors.reason.message}
+                </p>
+              ) : null}
+            </div>
+            <button type="submit" className="btn-primary w-full" disabled={refund.isPending}>
+              {refund.isPending ? "Sending to the processor…" : "Refund this amount"}
+            </button>
+          </form>
+        ) : (
+          <p className="mt-2 text-sm text-bakelite-soft">
+            {payment.status !== "paid" ? "Only a received payment can be refunded." : "Everything paid has been refunded or is waiting for the processor."}
+          </p>
+        )}
+        {outcome ? (
+          <div className="mt-3">
+            <Notice tone={outcome.tone} live>
+              <p>{outcome.text}</p>
+            </Notice>
+          </div>
+        ) : null}
+      </section>
+    </div>
+  );
+}

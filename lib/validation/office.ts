@@ -1,0 +1,319 @@
+import { z } from "zod";
+import { ruleCodes, ruleCodeSchema } from "@/lib/checklist/rules";
+import { formatMinor, toMinor } from "@/lib/pricing/money";
+import { partCodes, partCodeSchema } from "@/lib/pricing/parts";
+import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/shop-policy";
+import { toleranceSettingsSchema } from "@/lib/verdicts/tolerances";
+import { coveredWording, coveredWordingKeys, coveredWordingKeySchema, exclusionCodes, exclusionCodeSchema, exclusionWording } from "@/lib/warranty/exclusions";
+
+// ─── Warranty terms (free text kept in shop_settings.warranty_terms, printed on certificates) ───
+// Field names are the ones the certificate reads (lib/services/certificates.ts reads them field by field).
+
+const termsText = (label: string, max: number) =>
+  z.string().trim().min(1, `${label} cannot be empty.`).max(max, `Keep this under ${max.toLocaleString("en-US")} characters.`);
+
+export const warrantyTermsSchema = z.object({
+  /** Whether a later owner of the set (a buyer, an heir) keeps the coverage for the rest of the term. */
+  transferable: z.boolean(),
+  /** Who may claim, in the shop's words. */
+  whoIsCovered: termsText("Who is covered", 1000),
+  /** What the shop will do and pay for when a claim is accepted. */
+  whatWeWillDo: termsText("What the shop will do", 1500),
+  /** What the shop will not do or pay for, beyond the listed exclusions. */
+  whatWeWillNotDo: termsText("What the shop will not do", 1500),
+  /** Claim procedure, one step per entry, printed as a numbered list. */
+  howToClaim: z.array(termsText("A claim step", 400)).min(1, "Give at least one claim step.").max(10, "Ten steps at most."),
+  /** How a disagreement about a claim is settled. */
+  disputes: termsText("Disputes", 1000),
+  /** Any limit on implied warranties, with the local-law caveat. */
+  impliedWarranties: termsText("Implied warranties", 1000),
+  /** Any exclusion of incidental or consequential damages, with the local-law caveat. */
+  consequentialDamages: termsText("Incidental and consequential damages", 1000),
+  /** Anything else the shop wants printed, as written. May be blank. */
+  shopWording: z.string().trim().max(4000, "Keep this under 4,000 characters."),
+});
+export type WarrantyTerms = z.infer<typeof warrantyTermsSchema>;
+
+export const defaultWarrantyTerms: WarrantyTerms = {
+  transferable: true,
+  whoIsCovered:
+    "The owner of the set during the term. If the set is sold or given away, the new owner is covered for the rest of the term on showing this certificate's code.",
+  whatWeWillDo:
+    "If a fault comes from the work or parts listed on this certificate, we will repair it again at no charge for labour or parts; if we cannot, we will refund the price of the affected work.",
+  whatWeWillNotDo:
+    "We do not pay for shipping the set to us, for faults outside the work and parts listed, or for the exclusions below.",
+  howToClaim: [
+    "Unplug the set (and take out any batteries) and do not use it until we have looked at the fault.",
+    "Open a claim in the Bandedge portal under Warranty claims, or with this certificate's code, and describe the symptom; add photos if you can.",
+    "Wait for our answer by e-mail before sending the set: we may ask to inspect it first. Then send or bring it to the shop address on this certificate.",
+  ],
+  disputes: "If you disagree with our decision, write to us at the address above and the shop owner will review it.",
+  impliedWarranties:
+    "Any implied warranty lasts only as long as this warranty's term. Some states do not allow limits on how long an implied warranty lasts, so this limit may not apply to you.",
+  consequentialDamages:
+    "We are not responsible for incidental or consequential damages. Some states do not allow the exclusion or limitation of incidental or consequential damages, so this limitation may not apply to you.",
+  shopWording: "",
+};
+
+/** Stored terms, field by field over the defaults; a damaged row never breaks the form or a certificate. */
+export function parseWarrantyTerms(raw: unknown): WarrantyTerms {
+  const base = raw && typeof raw === "object" && !Array.isArray(raw) ? (raw as Record<string, unknown>) : {};
+  const merged: Record<string, unknown> = { ...defaultWarrantyTerms };
+  for (const key of Object.keys(defaultWarrantyTerms) as (keyof WarrantyTerms)[]) {
+    const one = warrantyTermsSchema.shape[key].safeParse(base[key]);
+    if (one.success) merged[key] = one.data;
+  }
+  return warrantyTermsSchema.parse(merged);
+}
+
+type ShopIdentity = { name: string; addressLines: string[]; phone: string; email: string };
+
+// ─── The office settings form (shared by the form and the server) ───
+
+/** Amounts typed in the currency's major unit ("90.00"); converted with the engine's toMinor. */
+const moneyText = z
+  .string()
+  .trim()
+  .regex(/^\d{1,8}(\.\d{1,3})?$/, "Write an amount such as 90.00, digits and a decimal point only.");
+
+/** Percentages typed with at most two decimals ("8.25"), stored as basis points (825). */
+const percentText = z
+  .string()
+  .trim()
+  .regex(/^\d{1,4}(\.\d{1,2})?$/, "Write a percentage such as 8.25, with at most two decimals.");
+
+const wholeNumber = (label: string, min: number, max: number) =>
+  z
+    .number({ error: `${label}: enter a whole number.` })
+    .int(`${label}: enter a whole number.`)
+    .min(min, `${label}: at least ${min}.`)
+    .max(max, `${label}: at most ${max}.`);
+
+const emailOrBlank = z.union([z.literal(""), z.string().trim().toLowerCase().email("Enter a valid e-mail address or leave it blank.").max(254)]);
+
+export const settingsFormSchema = z
+  .object({
+    version: z.number().int().min(0),
+    identity: z.object({
+      name: z.string().trim().min(1, "The shop needs a name; it is printed on every certificate.").max(120, "Keep the name under 120 characters."),
+      /** One address line per line of the text box. */
+      addressText: z
+        .string()
+        .max(800, "The address is too long.")
+        .refine((s) => addressLines(s).length >= 1, "Give the shop's address; it is printed on every certificate.")
+        .refine((s) => addressLines(s).length <= 6, "Six lines at most.")
+        .refine((s) => addressLines(s).every((l) => l.length <= 120), "Keep each line under 120 characters."),
+      phone: z.string().trim().max(40, "Keep the phone number under 40 characters."),
+      email: emailOrBlank,
+    }),
+    currency: z.object({ code: z.string().regex(/^[A-Z]{3}$/), exponent: z.number().int().min(0).max(3) }),
+    labourRate: moneyText,
+    billingIncrementMinutes: wholeNumber("Billing increment", 1, 240),
+    minutesPerRule: z.array(z.object({ code: ruleCodeSchema, minutes: wholeNumber("Minutes", 0, 6000) })),
+    parts: z.object({
+      defaultMarkupPercent: percentText,
+      catalogue: z.array(
+        z.object({
+          code: partCodeSchema,
+          title: z.string().trim().min(1, "Give the part a name.").max(120, "Keep the name under 120 characters."),
+          cost: moneyText,
+          /** Blank: the default markup applies. */
+          markupPercent: z.union([z.literal(""), percentText]),
+        }),
+      ),
+    }),
+    tax: z.object({ labourPercent: percentText, partsPercent: percentText }),
+    deposit: z.object({ percent: percentText, atLeastParts: z.boolean(), processorMinimum: moneyText }),
+    warranty: z.object({
+      termDays: wholeNumber("Warranty term", 0, 3650),
+      designation: z.enum(["limited", "full"]),
+      /** Form-only: the owner confirms the terms meet the minimum standards for a full warranty. */
+      fullAcknowledged: z.boolean(),
+      coveredKeys: z.array(coveredWordingKeySchema),
+      excludedKeys: z.array(exclusionCodeSchema),
+    }),
+    warrantyTerms: warrantyTermsSchema,
+    tolerances: toleranceSettingsSchema,
+  })
+  .superRefine((v, ctx) => {
+    const exp = v.currency.exponent;
+    const money = (value: string, path: (string | number)[], label: string) => {
+      const m = /^(\d+)(?:\.(\d+))?$/.exec(value.trim());
+      if (!m) return;
+      if ((m[2] ?? "").length > exp) {
+        ctx.addIssue({ code: "custom", path, message: exp === 0 ? `${label}: ${v.currency.code} has no decimal places.` : `${label}: ${v.currency.code} has ${exp} decimal places.` });
+        return;
+      }
+      if (Number(m[1] + (m[2] ?? "").padEnd(exp, "0")) > MAX_AMOUNT_MINOR) ctx.addIssue({ code: "custom", path, message: `${label}: that is above what the payment processor accepts.` });
+    };
+    const percent = (value: string, path: (string | number)[], label: string, max: number) => {
+      if (!/^\d{1,4}(\.\d{1,2})?$/.test(value.trim())) return;
+      if (Number(value) > max) ctx.addIssue({ code: "custom", path, message: `${label}: at most ${max} %.` });
+    };
+    money(v.labourRate, ["labourRate"], "Labour rate");
+    money(v.deposit.processorMinimum, ["deposit", "processorMinimum"], "Processor minimum");
+    v.parts.catalogue.forEach((p, i) => {
+      money(p.cost, ["parts", "catalogue", i, "cost"], "Cost");
+      if (p.markupPercent) percent(p.markupPercent, ["parts", "catalogue", i, "markupPercent"], "Markup", 1000);
+    });
+    percent(v.parts.defaultMarkupPercent, ["parts", "defaultMarkupPercent"], "Default markup", 1000);
+    percent(v.tax.labourPercent, ["tax", "labourPercent"], "Labour tax", 100);
+    percent(v.tax.partsPercent, ["tax", "partsPercent"], "Parts tax", 100);
+    percent(v.deposit.percent, ["deposit", "percent"], "Deposit", 100);
+
+    const seenRules = new Set(v.minutesPerRule.map((r) => r.code));
+    if (seenRules.size !== v.minutesPerRule.length || ruleCodes.some((c) => !seenRules.has(c))) {
+      ctx.addIssue({ code: "custom", path: ["minutesPerRule"], message: "Every checklist rule needs its minutes, once." });
+    }
+    const seenParts = new Set(v.parts.catalogue.map((p) => p.code));
+    if (seenParts.size !== v.parts.catalogue.length || partCodes.some((c) => !seenParts.has(c))) {
+      ctx.addIssue({ code: "custom", path: ["parts", "catalogue"], message: "Every catalogue part needs its price, once." });
+    }
+    if (new Set(v.warranty.coveredKeys).size !== v.warranty.coveredKeys.length) {
+      ctx.addIssue({ code: "custom", path: ["warranty", "coveredKeys"], message: "Each covered item once." });
+    }
+    if (v.warranty.coveredKeys.length === 0) {
+      ctx.addIssue({ code: "custom", path: ["warranty", "coveredKeys"], message: "A warranty has to cover something: tick at least one item." });
+    }
+    if (new Set(v.warranty.excludedKeys).size !== v.warranty.excludedKeys.length) {
+      ctx.addIssue({ code: "custom", path: ["warranty", "excludedKeys"], message: "Each exclusion once." });
+    }
+    if (v.warranty.designation === "full") {
+      if (!v.warranty.fullAcknowledged) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["warranty", "fullAcknowledged"],
+          message: "Confirm that these terms meet the minimum standards for a full warranty, or keep the limited designation.",
+        });
+      }
+      if (!v.warrantyTerms.transferable) {
+        ctx.addIssue({
+          code: "custom",
+          path: ["warrantyTerms", "transferable"],
+          message: "A full warranty covers everyone who owns the set during the term: let the coverage pass to a later owner.",
+        });
+      }
+      if (v.warranty.termDays === 0) {
+        ctx.addIssue({ code: "custom", path: ["warranty", "termDays"], message: "A full warranty needs a term of at least one day." });
+      }
+    }
+  });
+
+export type SettingsFormValues = z.infer<typeof settingsFormSchema>;
+
+export function addressLines(text: string): string[] {
+  return text
+    .split(/\r?\n/)
+    .map((l) => l.trim())
+    .filter((l) => l.length > 0);
+}
+
+const pct = (bp: number) => formatMinor(bp, 2);
+const bpOf = (percent: string, field: string) => toMinor(percent, 2, field);
+
+/** The stored settings as the form shows them: money in major units, basis points as percentages. */
+export function settingsToForm(shop: { name: string; addressLines: string[]; phone: string; email: string; policy: ShopPolicy; warrantyTerms: unknown; version: number }): SettingsFormValues {
+  const p = shop.policy;
+  const exp = p.currency.exponent;
+  return {
+    version: shop.version,
+    identity: { name: shop.name, addressText: shop.addressLines.join("\n"), phone: shop.phone, email: shop.email },
+    currency: { ...p.currency },
+    labourRate: formatMinor(p.labourRateMinorPerHour, exp),
+    billingIncrementMinutes: p.billingIncrementMinutes,
+    minutesPerRule: ruleCodes.map((code) => ({ code, minutes: p.minutesPerRule[code] ?? 0 })),
+    parts: {
+      defaultMarkupPercent: pct(p.parts.defaultMarkupBp),
+      catalogue: partCodes.map((code) => {
+        const e = p.parts.catalogue[code];
+        return { code, title: e?.title ?? code, cost: formatMinor(e?.costMinor ?? 0, exp), markupPercent: e?.markupBp === undefined ? "" : pct(e.markupBp) };
+      }),
+    },
+    tax: { labourPercent: pct(p.tax.labourBp), partsPercent: pct(p.tax.partsBp) },
+    deposit: { percent: pct(p.deposit.percentBp), atLeastParts: p.deposit.atLeastParts, processorMinimum: formatMinor(p.deposit.processorMinimumMinor, exp) },
+    warranty: {
+      termDays: p.warranty.termDays,
+      designation: p.warranty.designation,
+      fullAcknowledged: p.warranty.designation === "full",
+      coveredKeys: [...p.warranty.coveredKeys],
+      excludedKeys: [...p.warranty.excludedKeys],
+    },
+    warrantyTerms: parseWarrantyTerms(shop.warrantyTerms),
+    tolerances: structuredClone(p.tolerances),
+  };
+}
+
+/** The form's values as stored: identity columns, the engine's policy (checked by its schema) and the terms. */
+export function settingsFromForm(v: SettingsFormValues): { identity: ShopIdentity; policy: ShopPolicy; warrantyTerms: WarrantyTerms } {
+  const exp = v.currency.exponent;
+  const policy: ShopPolicy = {
+    currency: { ...v.currency },
+    labourRateMinorPerHour: toMinor(v.labourRate, exp, "labourRate"),
+    billingIncrementMinutes: v.billingIncrementMinutes,
+    minutesPerRule: Object.fromEntries(v.minutesPerRule.map((r) => [r.code, r.minutes])) as ShopPolicy["minutesPerRule"],
+    parts: {
+      defaultMarkupBp: bpOf(v.parts.defaultMarkupPercent, "parts.defaultMarkupPercent"),
+      catalogue: Object.fromEntries(
+        v.parts.catalogue.map((p, i) => [
+          p.code,
+          {
+            title: p.title.trim(),
+            costMinor: toMinor(p.cost, exp, `parts.catalogue.${i}.cost`),
+            ...(p.markupPercent ? { markupBp: bpOf(p.markupPercent, `parts.catalogue.${i}.markupPercent`) } : {}),
+          },
+        ]),
+      ) as ShopPolicy["parts"]["catalogue"],
+    },
+    tax: { labourBp: bpOf(v.tax.labourPercent, "tax.labourPercent"), partsBp: bpOf(v.tax.partsPercent, "tax.partsPercent") },
+    deposit: {
+      percentBp: bpOf(v.deposit.percent, "deposit.percent"),
+      atLeastParts: v.deposit.atLeastParts,
+      processorMinimumMinor: toMinor(v.deposit.processorMinimum, exp, "deposit.processorMinimum"),
+    },
+    warranty: {
+      termDays: v.warranty.termDays,
+      designation: v.warranty.designation,
+      // Printed in the engine's order, whatever order the boxes were ticked in.
+      coveredKeys: coveredWordingKeys.filter((k) => v.warranty.coveredKeys.includes(k)),
+      excludedKeys: exclusionCodes.filter((k) => v.warranty.excludedKeys.includes(k)),
+    },
+    tolerances: structuredClone(v.tolerances),
+  };
+  return {
+    identity: { name: v.identity.name.trim(), addressLines: addressLines(v.identity.addressText), phone: v.identity.phone.trim(), email: v.identity.email.trim() },
+    policy: shopPolicySchema.parse(policy),
+    warrantyTerms: warrantyTermsSchema.parse(v.warrantyTerms),
+  };
+}
+
+export { coveredWording, exclusionWording };
+
+// ─── Refunds ───
+
+export const refundFormSchema = z.object({
+  /** Typed in the major unit; the server converts with the payment's currency and checks what is left. */
+  amount: moneyText.refine((s) => Number(s) > 0, "A refund must be more than zero."),
+  reason: z.string().trim().min(3, "Say why the money goes back; the reason is kept in the audit log.").max(500, "Keep the reason under 500 characters."),
+});
+export type RefundFormValues = z.infer<typeof refundFormSchema>;
+
+// ─── Audit log and reports filters (query strings) ───
+
+const isoDay = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, "Use a date such as 2026-03-01.");
+const blankToUndefined = (v: unknown) => (v === "" || v === null ? undefined : v);
+
+export const auditFilterSchema = z.object({
+  actor: z.preprocess(blankToUndefined, z.string().max(200).optional()),
+  entity: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+  action: z.preprocess(blankToUndefined, z.string().max(100).optional()),
+  from: z.preprocess(blankToUndefined, isoDay.optional()),
+  to: z.preprocess(blankToUndefined, isoDay.optional()),
+  page: z.preprocess(blankToUndefined, z.coerce.number().int().min(1).max(100_000).default(1)),
+});
+export type AuditFilter = z.infer<typeof auditFilterSchema>;
+
+const isoMonth = z.string().regex(/^\d{4}-(0[1-9]|1[0-2])$/, "Use a month such as 2026-03.");
+export const reportRangeSchema = z
+  .object({ from: z.preprocess(blankToUndefined, isoMonth.optional()), to: z.preprocess(blankToUndefined, isoMonth.optional()) })
+  .refine((r) => !r.from || !r.to || r.from <= r.to, { path: ["to"], message: "The end month comes after the start month." });
+export type ReportRange = z.infer<typeof reportRangeSchema>;
