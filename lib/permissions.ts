@@ -8,6 +8,8 @@ export const PERMISSIONS = {
   "estimate.approve": ["customer"],
   "payment.start": ["customer"],
   "message.post": ["customer", "technician", "owner"],
+  // Seeing a photo also needs ownership (its uploader, its job's owner) or a workshop role; see db/queries/photos.
+  "photo.view": ["customer", "technician", "owner"],
   "claim.open": ["customer"],
   "bench.use": ["technician", "owner"],
   "job.triage": ["technician", "owner"],
@@ -28,6 +30,9 @@ export const PERMISSIONS = {
   "reports.read": ["owner"],
   "certificate.revoke": ["owner"],
   "certificate.reissue": ["owner"],
+  // The holder downloads their own certificate; staff any (ownership is checked beside the data).
+  "certificate.download": ["customer", "technician", "owner"],
+  "certificate.list": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;

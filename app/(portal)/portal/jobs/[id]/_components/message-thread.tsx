@@ -1,0 +1,65 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useForm } from "react-hook-form";
+import type { z } from "zod";
+import { describedBy, Field } from "@/components/ui/field";
+import { Notice } from "@/components/ui/notice";
+import type { PortalMessage } from "@/lib/services/portal-view";
+import { messageSchema } from "@/lib/validation/quote";
+import { api } from "../../../_lib/api";
+import { portalKeys } from "../../../_lib/query-keys";
+
+type MessageInput = z.infer<typeof messageSchema>;
+
+export function MessageThread({ jobId }: { jobId: string }) {
+  const queryClient = useQueryClient();
+  const messages = useQuery({ queryKey: portalKeys.messages(jobId), queryFn: () => api<{ messages: PortalMessage[] }>(`/api/portal/jobs/${jobId}/messages`) });
+  const { register, handleSubmit, reset, formState } = useForm<MessageInput>({ resolver: zodResolver(messageSchema) });
+  const post = useMutation({
+    mutationFn: (v: MessageInput) => api(`/api/portal/jobs/${jobId}/messages`, { method: "POST", body: v }),
+    onSuccess: async () => {
+      reset({ body: "" });
+      // An answer may also move the job (the shop was waiting on it).
+      await Promise.all([queryClient.invalidateQueries({ queryKey: portalKeys.messages(jobId) }), queryClient.invalidateQueries({ queryKey: portalKeys.job(jobId) })]);
+    },
+  });
+
+  return (
+    <section aria-labelledby="messages-title" className="space-y-3">
+      <h2 id="messages-title" className="text-2xl font-bold">
+        Messages with the shop
+      </h2>
+      {messages.isError ? (
+        <Notice tone="error">
+          <p>{messages.error.message}</p>
+        </Notice>
+      ) : null}
+      {messages.data?.messages.length ? (
+        <ol className="space-y-3">
+          {messages.data.messages.map((m) => (
+            <li key={m.id} className={`card max-w-prose p-4 ${m.mine ? "ml-auto bg-dial-deep" : ""}`}>
+              <p className="text-sm font-semibold">
+                {m.from}
+                {m.isQuestion ? <span className="ml-2 text-ember-dark">asked a question</span> : null}
+                <span className="ml-2 font-normal text-bakelite-muted">{new Date(m.createdAt).toLocaleString("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}</span>
+              </p>
+              <p className="mt-1 whitespace-pre-line">{m.body}</p>
+            </li>
+          ))}
+        </ol>
+      ) : messages.isSuccess ? (
+        <p className="text-bakelite-muted">No messages yet. Write to the shop any time.</p>
+      ) : null}
+      <form noValidate onSubmit={handleSubmit((v) => post.mutate(v))} className="space-y-2">
+        <Field id="message-body" label="Write to the shop" error={formState.errors.body?.message ?? (post.isError ? post.error.message : undefined)}>
+          <textarea id="message-body" rows={3} className="field-input" aria-invalid={!!formState.errors.body} aria-describedby={describedBy("message-body", { error: formState.errors.body })} {...register("body")} />
+        </Field>
+        <button type="submit" className="btn-secondary" disabled={post.isPending}>
+          {post.isPending ? "Sending…" : "Send message"}
+        </button>
+      </form>
+    </section>
+  );
+}

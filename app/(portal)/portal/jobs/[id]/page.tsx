@@ -1,0 +1,19 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { getJobForCustomer } from "@/db/queries/jobs";
+import { requirePermission } from "@/lib/session";
+import { JobView } from "./_components/job-view";
+
+export const metadata: Metadata = { title: "My job" };
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+export default async function JobPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  const { id } = await params;
+  const viewer = await requirePermission("portal.use", `/portal/jobs/${id}`);
+  if (!UUID.test(id)) notFound();
+  const owned = await getJobForCustomer({ jobId: id, customerId: viewer.id });
+  if (!owned) notFound();
+  const sp = await searchParams;
+  return <JobView jobId={id} justCreated={sp.new === "1"} paymentCancelled={sp.payment === "cancelled"} />;
+}

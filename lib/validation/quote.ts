@@ -1,0 +1,93 @@
+import { z } from "zod";
+
+// The quote request, shared by the form (react-hook-form + zod resolver) and the server.
+
+export const MAX_PHOTOS = 12;
+export const MAX_PHOTO_BYTES = 16 * 1024 * 1024;
+export const SET_KINDS = ["tube-acdc", "tube-transformer", "transistor-battery", "transistor-mains"] as const;
+export const DIAL_BANDS = ["LW", "MW", "SW", "FM"] as const;
+export const POWERED_RECENTLY = ["no", "briefly", "yes", "unknown"] as const;
+export const DELIVERY = ["mail-in", "drop-off"] as const;
+export const CONTACT = ["email", "phone"] as const;
+
+export const SET_KIND_HELP: Record<(typeof SET_KINDS)[number], { label: string; hint: string }> = {
+  "tube-acdc": { label: "Tube set without a mains transformer (AC/DC)", hint: "Small table sets, often five tubes; the chassis can be live." },
+  "tube-transformer": { label: "Tube set with a mains transformer", hint: "Heavier sets and consoles; a transformer sits on the chassis." },
+  "transistor-battery": { label: "Transistor set on batteries", hint: "Portables and pocket sets." },
+  "transistor-mains": { label: "Transistor set on mains power", hint: "Plugs into the wall, sometimes with batteries too." },
+};
+
+export const BAND_LABEL: Record<(typeof DIAL_BANDS)[number], string> = {
+  LW: "Long wave (LW)",
+  MW: "Medium wave / AM broadcast (MW)",
+  SW: "Short wave (SW)",
+  FM: "FM",
+};
+
+export const POWERED_LABEL: Record<(typeof POWERED_RECENTLY)[number], string> = {
+  no: "No, it has not been plugged in",
+  briefly: "Briefly, to see if it works",
+  yes: "Yes, it has been used recently",
+  unknown: "I don't know",
+};
+
+export const CAUTIONS = [
+  "Please do not plug in or switch on a set that has not been restored: old capacitors and worn cords can overheat, catch fire or give a shock.",
+  "AC/DC sets (tube sets without a mains transformer) can have a live chassis: never touch the chassis or the back of an opened set while it is plugged in.",
+  "Remove all batteries from portables before shipping; leaking cells damage the set.",
+  "Work on mains wiring follows your local electrical codes; leave it to licensed, qualified people.",
+] as const;
+
+const optionalText = (max: number, message: string) => z.string().trim().max(max, message).optional().default("");
+
+const yearSchema = z.preprocess(
+  (v) => (v === "" || v === null || v === undefined ? undefined : v),
+  z.coerce
+    .number({ error: "Enter the year as four digits, or leave it empty." })
+    .int("Enter the year as four digits, or leave it empty.")
+    .min(1900, "A year from 1900 on, or leave it empty.")
+    .max(new Date().getFullYear(), "That year is in the future.")
+    .optional(),
+);
+
+export const quoteRequestSchema = z
+  .object({
+    maker: z.string().trim().min(1, "Write the maker as printed on the set.").max(80, "Keep the maker under 80 characters."),
+    model: z.string().trim().min(1, "Write the model as printed, e.g. on the back or the label.").max(80, "Keep the model under 80 characters."),
+    year: yearSchema,
+    serial: optionalText(60, "Keep the serial number under 60 characters."),
+    kind: z.enum(SET_KINDS, { error: "Choose the kind of set." }),
+    bands: z.array(z.enum(DIAL_BANDS)).min(1, "Tick at least one band printed on the dial.").max(4),
+    dialMarkings: optionalText(300, "Keep the dial markings under 300 characters."),
+    symptoms: z.string().trim().min(10, "Tell us in a sentence or two what is wrong.").max(4000, "Keep it under 4000 characters."),
+    priorWork: optionalText(4000, "Keep it under 4000 characters."),
+    poweredRecently: z.enum(POWERED_RECENTLY, { error: "Tell us whether it was powered recently." }),
+    delivery: z.enum(DELIVERY, { error: "Choose mail-in or drop-off." }),
+    contactPreference: z.enum(CONTACT, { error: "Choose how we should reach you." }),
+    phone: optionalText(40, "Keep the phone number under 40 characters."),
+    cautionsAcknowledged: z.literal(true, { error: "Please read the cautions and tick the box." }),
+    photos: z
+      .array(z.string().min(1).max(4000))
+      .min(1, "Add at least one photo of the set.")
+      .max(MAX_PHOTOS, `At most ${MAX_PHOTOS} photos per request.`),
+    idempotencyKey: z.string().uuid(),
+  })
+  .superRefine((v, ctx) => {
+    if (v.contactPreference === "phone" && !/^[+()\d\s.-]{6,40}$/.test(v.phone)) {
+      ctx.addIssue({ code: "custom", path: ["phone"], message: "Give a phone number we can call, or choose e-mail." });
+    }
+  });
+
+export type QuoteRequestInput = z.input<typeof quoteRequestSchema>;
+export type QuoteRequest = z.infer<typeof quoteRequestSchema>;
+
+export const messageSchema = z.object({
+  body: z.string().trim().min(1, "Write a message first.").max(4000, "Keep the message under 4000 characters."),
+});
+
+export const approveSchema = z.object({ revisionId: z.string().uuid() });
+export const declineSchema = z.object({
+  revisionId: z.string().uuid(),
+  reason: z.string().trim().min(3, "Tell the shop briefly why, so they can help.").max(2000, "Keep the reason under 2000 characters."),
+});
+export const checkoutSchema = z.object({ jobId: z.string().uuid(), purpose: z.enum(["deposit", "balance"]) });
