@@ -1,0 +1,27 @@
+import type { Metadata } from "next";
+import { notFound } from "next/navigation";
+import { z } from "zod";
+import { JobWorkspace } from "@/components/bench/job-workspace";
+import { getJobDetailForStaff } from "@/db/queries/bench";
+import { jobNumber } from "@/lib/jobs/states";
+import { requirePermission } from "@/lib/session";
+
+type Props = { params: Promise<{ id: string }> };
+
+export async function generateMetadata({ params }: Props): Promise<Metadata> {
+  const { id } = await params;
+  const parsed = z.uuid().safeParse(id);
+  if (!parsed.success) return { title: "Job" };
+  const row = await getJobDetailForStaff({ jobId: parsed.data });
+  return { title: row ? `${jobNumber(row.job.number)} · ${row.set.maker} ${row.set.model}` : "Job" };
+}
+
+export default async function BenchJobPage({ params }: Props) {
+  const { id } = await params;
+  await requirePermission("bench.use", `/bench/jobs/${id}`);
+  const parsed = z.uuid().safeParse(id);
+  if (!parsed.success) notFound();
+  const row = await getJobDetailForStaff({ jobId: parsed.data });
+  if (!row) notFound();
+  return <JobWorkspace jobId={parsed.data} />;
+}

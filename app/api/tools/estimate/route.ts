@@ -1,0 +1,15 @@
+import { json, readJson, route } from "@/lib/api";
+import { getShop } from "@/lib/services/shop";
+import { estimateRequestSchema, invalidInputBody, runEstimateTool } from "@/lib/tools";
+
+// POST /api/tools/estimate — profile → checklist → priced estimate with the shop's policy in force.
+export const POST = route({ permission: "tools.use" }, async ({ request }) => {
+  const { policy } = await getShop();
+  try {
+    return runEstimateTool(estimateRequestSchema.parse(await readJson(request)), policy);
+  } catch (e) {
+    const bad = invalidInputBody(e);
+    if (bad) return json(bad, { status: 400 });
+    throw e;
+  }
+});

@@ -1,0 +1,346 @@
+"use client";
+
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useRef, useState } from "react";
+import { useForm, useWatch, type Control, type UseFormRegister } from "react-hook-form";
+import { describedBy, Field } from "@/components/ui/field";
+import { Notice } from "@/components/ui/notice";
+import { judgeReading, formatNumber, type ReadingRequirement } from "@/lib/verdicts";
+import { benchNoteSchema, parseReadingText } from "@/lib/validation/bench";
+import { api, ApiError, errorText } from "./api-client";
+import { benchKeys } from "./query-keys";
+import { SafetyCautions } from "./safety-cautions";
+import type { BenchSheetJson } from "./types";
+import { VerdictBadge } from "./verdict-badge";
+
+type SheetForm = { readings: { text: string; note: string }[] };
+type Requirement = BenchSheetJson["requirements"][number];
+
+const GROUP_TITLE = (code: string): string => {
+  if (code.startsWith("align.if.")) return "IF alignment";
+  if (code.startsWith("align.tracking.")) return `Tracking, band ${Number(code.split(".")[2]) + 1}`;
+  if (code.startsWith("align.dial.")) return `Band edges, band ${Number(code.split(".")[2]) + 1}`;
+  if (code === "test.voltages") return "Supply voltage";
+  if (code === "test.leakage") return "Leakage current (final hot check)";
+  return code;
+};
+
+function nominalText(r: ReadingRequirement): string {
+  if (r.nominal === null) return "";
+  if (r.tolerance.kind === "window") return `${r.tolerance.reference === "target" ? "target" : "mark"} ${formatNumber(r.nominal)} ${r.unit}`;
+  return `schematic ${formatNumber(r.nominal)} ${r.unit}`;
+}
+
+function deviationText(r: ReadingRequirement, value: number): string | null {
+  const j = judgeReading(r, value);
+  if (j.deviation === undefined) return null;
+  const sign = j.deviation >= 0 ? "+" : "−";
+  return `${sign}${formatNumber(Math.abs(j.deviation))} ${r.unit} (allowed ±${formatNumber(j.allowed ?? 0)})`;
+}
+
+function ReadingRow({
+  r,
+  index,
+  control,
+  register,
+  editable,
+  onSave,
+  saving,
+  serverError,
+  inputRef,
+  onEnter,
+}: {
+  r: Requirement;
+  index: number;
+  control: Control<SheetForm>;
+  register: UseFormRegister<SheetForm>;
+  editable: boolean;
+  onSave: (index: number) => void;
+  saving: boolean;
+  serverError?: string;
+  inputRef: (el: HTMLInputElement | null) => void;
+  onEnter: (index: number) => void;
+}) {
+  const text = useWatch({ control, name: `readings.${index}.text` }) ?? "";
+  const parsed = parseReadingText(text);
+  const live = parsed === undefined ? "invalid" : judgeReading(r, parsed).verdict;
+  const savedText = r.value === null ? "" : String(r.value);
+  const dirty = text.trim() !== savedText;
+  const id = `rd-${r.key.replaceAll(".", "-")}`;
+  const reg = register(`readings.${index}.text`);
+  return (
+    <tr data-reading={r.key} data-verdict={live}>
+      <th scope="row" className="font-normal">
+        <label htmlFor={id}>{r.label}</label>
+        {nominalText(r) ? <span className="block text-xs text-bakelite-muted figure">{nominalText(r)}</span> : null}
+      </th>
+      <td>
+        <div className="flex items-center gap-1">
+          <input
+            id={id}
+            inputMode="decimal"
+            autoComplete="off"
+            className="field-input figure mt-0 w-28 py-0.5 text-right"
+            disabled={!editable}
+            aria-invalid={live === "invalid" || live === "fail" ? true : undefined}
+            aria-describedby={`${id}-tol ${id}-verdict${serverError ? ` ${id}-error` : ""}`}
+            {...reg}
+            ref={(el) => {
+              reg.ref(el);
+              inputRef(el);
+            }}
+            onKeyDown={(e) => {
+              if (e.key === "Enter") {
+                e.preventDefault();
+                onSave(index);
+                onEnter(index);
+              }
+            }}
+          />
+          <span className="figure text-sm">{r.unit}</span>
+        </div>
+        {serverError ? (
+          <p id={`${id}-error`} className="field-error">
+            {serverError}
+          </p>
+        ) : null}
+      </td>
+      <td id={`${id}-tol`} className="text-xs">
+        {r.toleranceText} <span className="figure">({r.unit})</span>
+      </td>
+      <td aria-live="polite">
+        <VerdictBadge verdict={live} id={`${id}-verdict`} />
+        {parsed !== null && parsed !== undefined ? <span className="ml-1 figure text-xs text-bakelite-muted">{deviationText(r, parsed)}</span> : null}
+      </td>
+      <td className="text-xs text-bakelite-muted">
+        {saving ? "Saving…" : dirty ? (
+          <button type="button" className="btn-quiet px-1 py-0 text-xs" onClick={() => onSave(index)} disabled={!editable}>
+            Save<span className="sr-only"> {r.label}</span>
+          </button>
+        ) : r.recordedAt ? (
+          <span>
+            Saved{r.recordedByName ? ` by ${r.recordedByName}` : ""}, {new Date(r.recordedAt).toLocaleString("en-US")}
+          </span>
+        ) : (
+          "—"
+        )}
+      </td>
+    </tr>
+  );
+}
+
+function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
+  const qc = useQueryClient();
+  const form = useForm<SheetForm>({ defaultValues: { readings: sheet.requirements.map((r) => ({ text: r.value === null ? "" : String(r.value), note: r.note ?? "" })) } });
+  const inputs = useRef<(HTMLInputElement | null)[]>([]);
+  const [pending, setPending] = useState<Set<number>>(new Set());
+  const [errors, setErrors] = useState<Record<number, string>>({});
+  const save = useMutation({
+    mutationFn: (body: { key: string; value: number | null }) => api(`/api/bench/jobs/${jobId}/readings`, { method: "POST", body }),
+    onSettled: () => void qc.invalidateQueries({ queryKey: benchKeys.sheet(jobId) }),
+  });
+  const saveRow = (i: number) => {
+    const r = sheet.requirements[i]!;
+    const value = parseReadingText(form.getValues(`readings.${i}.text`) ?? "");
+    if (value === undefined) {
+      setErrors((e) => ({ ...e, [i]: "Enter a number, e.g. 455 or 0.21." }));
+      return;
+    }
+    setErrors((e) => {
+      const { [i]: _drop, ...rest } = e;
+      return rest;
+    });
+    setPending((p) => new Set(p).add(i));
+    save.mutate(
+      { key: r.key, value },
+      {
+        onError: (e) => setErrors((x) => ({ ...x, [i]: e instanceof ApiError ? (e.fields.value ?? e.message) : errorText(e) })),
+        onSettled: () =>
+          setPending((p) => {
+            const n = new Set(p);
+            n.delete(i);
+            return n;
+          }),
+      },
+    );
+  };
+  const focusNext = (i: number) => inputs.current[i + 1]?.focus();
+
+  const groups: { code: string; items: { r: Requirement; i: number }[] }[] = [];
+  sheet.requirements.forEach((r, i) => {
+    const g = groups.find((x) => x.code === r.lineCode);
+    if (g) g.items.push({ r, i });
+    else groups.push({ code: r.lineCode, items: [{ r, i }] });
+  });
+
+  return (
+    <section aria-labelledby="readings-heading" className="card overflow-x-auto p-3">
+      <h3 id="readings-heading" className="text-lg font-semibold">
+        Readings
+      </h3>
+      <p className="text-xs text-bakelite-muted">Type a reading and press Enter to save it and move to the next; the verdict follows as you type.</p>
+      <table className="dense-table mt-2">
+        <thead>
+          <tr>
+            <th scope="col">Reading</th>
+            <th scope="col">Value</th>
+            <th scope="col">Tolerance</th>
+            <th scope="col">Verdict</th>
+            <th scope="col">Saved</th>
+          </tr>
+        </thead>
+        {groups.map((g) => (
+          <tbody key={g.code}>
+            <tr>
+              <th colSpan={5} scope="colgroup" className="bg-dial-deep text-left text-xs uppercase tracking-wide">
+                {GROUP_TITLE(g.code)}
+              </th>
+            </tr>
+            {g.items.map(({ r, i }) => (
+              <ReadingRow
+                key={r.key}
+                r={r}
+                index={i}
+                control={form.control}
+                register={form.register}
+                editable={sheet.editable}
+                onSave={saveRow}
+                saving={pending.has(i)}
+                serverError={errors[i]}
+                inputRef={(el) => {
+                  inputs.current[i] = el;
+                }}
+                onEnter={focusNext}
+              />
+            ))}
+          </tbody>
+        ))}
+      </table>
+    </section>
+  );
+}
+
+function Tasks({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
+  const qc = useQueryClient();
+  const tickKey = [...benchKeys.sheet(jobId), "tick"];
+  // A tick shows at once (local state); the server's answer then lands in the sheet, or the tick is taken back.
+  const [local, setLocal] = useState<Record<string, boolean>>({});
+  const [error, setError] = useState<string | null>(null);
+  const forget = (code: string) =>
+    setLocal((l) => {
+      const { [code]: _gone, ...rest } = l;
+      return rest;
+    });
+  const tick = useMutation({
+    mutationKey: tickKey,
+    mutationFn: (body: { code: string; done: boolean }) => api<{ code: string; done: boolean; doneAt: string | null }>(`/api/bench/jobs/${jobId}/tasks`, { method: "POST", body }),
+    onSuccess: (res) => {
+      qc.setQueryData<BenchSheetJson>(benchKeys.sheet(jobId), (old) => (old ? { ...old, tasks: old.tasks.map((t) => (t.code === res.code ? { ...t, doneAt: res.doneAt, doneByName: res.done ? t.doneByName : null } : t)) } : old));
+      forget(res.code);
+      setError(null);
+    },
+    onError: (e, body) => {
+      forget(body.code);
+      setError(errorText(e));
+    },
+    // Several quick ticks: refetch (names, the completion gate) once the last one is in.
+    onSettled: () => {
+      if (qc.isMutating({ mutationKey: tickKey }) === 1) void qc.invalidateQueries({ queryKey: benchKeys.sheet(jobId) });
+    },
+  });
+  const isDone = (t: BenchSheetJson["tasks"][number]) => local[t.code] ?? Boolean(t.doneAt);
+  const done = sheet.tasks.filter(isDone).length;
+  return (
+    <section aria-labelledby="tasks-heading" className="card p-3">
+      <h3 id="tasks-heading" className="text-lg font-semibold">
+        Checklist <span className="figure text-sm font-normal">({done} of {sheet.tasks.length} done)</span>
+      </h3>
+      {sheet.tasks.length === 0 ? <p className="text-sm text-bakelite-muted">No checklist yet: it comes from the estimate once sent.</p> : null}
+      <ul className="mt-1 space-y-0.5 text-sm">
+        {sheet.tasks.map((t) => (
+          <li key={t.code} data-task={t.code}>
+            <label className="inline-flex items-start gap-2">
+              <input
+                type="checkbox"
+                className="mt-1"
+                checked={isDone(t)}
+                disabled={!sheet.editable}
+                onChange={(e) => {
+                  const value = e.target.checked;
+                  setLocal((l) => ({ ...l, [t.code]: value }));
+                  tick.mutate({ code: t.code, done: value });
+                }}
+              />
+              <span>
+                {t.title}
+                <span className="block text-xs text-bakelite-muted">
+                  {t.code in local ? "Saving…" : t.doneAt ? `✓ Done by ${t.doneByName ?? "you"}, ${new Date(t.doneAt).toLocaleString("en-US")}` : "○ Open"}
+                </span>
+              </span>
+            </label>
+          </li>
+        ))}
+      </ul>
+      {error ? (
+        <p className="field-error" role="alert">
+          {error}
+        </p>
+      ) : null}
+    </section>
+  );
+}
+
+function BenchNote({ jobId }: { jobId: string }) {
+  const qc = useQueryClient();
+  const [body, setBody] = useState("");
+  const [error, setError] = useState<string | null>(null);
+  const m = useMutation({
+    mutationFn: (text: string) => api(`/api/bench/jobs/${jobId}/notes`, { method: "POST", body: { body: text } }),
+    onSuccess: () => {
+      setBody("");
+      void qc.invalidateQueries({ queryKey: benchKeys.job(jobId) });
+    },
+    onError: (e) => setError(errorText(e)),
+  });
+  return (
+    <form
+      noValidate
+      className="card space-y-2 p-3"
+      onSubmit={(e) => {
+        e.preventDefault();
+        const parsed = benchNoteSchema.safeParse({ body });
+        if (!parsed.success) return setError(parsed.error.issues[0]?.message ?? "Write the note first.");
+        setError(null);
+        m.mutate(parsed.data.body);
+      }}
+    >
+      <Field id="bench-note" label="Bench note (workshop only)" error={error ?? undefined}>
+        <textarea id="bench-note" rows={2} className="field-input" value={body} onChange={(e) => setBody(e.target.value)} aria-describedby={describedBy("bench-note", { error })} />
+      </Field>
+      <button type="submit" className="btn-secondary py-1" disabled={m.isPending}>
+        Add note
+      </button>
+    </form>
+  );
+}
+
+export function BenchSheetPanel({ jobId }: { jobId: string }) {
+  const q = useQuery({ queryKey: benchKeys.sheet(jobId), queryFn: () => api<BenchSheetJson>(`/api/bench/jobs/${jobId}/sheet`) });
+  if (q.isPending) return <p role="status">Loading the bench sheet…</p>;
+  if (q.isError) return <Notice tone="error">{errorText(q.error)}</Notice>;
+  const sheet = q.data;
+  if (!sheet.profile) return <Notice tone="caution">The set profile is incomplete: finish it in Triage before the bench sheet can list its readings.</Notice>;
+  return (
+    <div className="space-y-3">
+      <SafetyCautions kind={sheet.profile.kind} seleniumRectifier={sheet.profile.seleniumRectifier} />
+      {!sheet.editable ? <Notice tone="info">Readings and ticks are recorded while the set is on the bench or in final checks.</Notice> : null}
+      <div className="grid gap-3 xl:grid-cols-[2fr_1fr]">
+        <Readings key={sheet.requirements.map((r) => r.key).join("|")} sheet={sheet} jobId={jobId} />
+        <div className="space-y-3">
+          <Tasks sheet={sheet} jobId={jobId} />
+          <BenchNote jobId={jobId} />
+        </div>
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,129 @@
+"use client";
+
+import { useQuery } from "@tanstack/react-query";
+import { useRef, useState, type KeyboardEvent } from "react";
+import { StateBadge } from "@/components/state-badge";
+import { Notice } from "@/components/ui/notice";
+import type { Band } from "@/lib/bands/band";
+import { setKindLabels, setKinds, type SetKind } from "@/lib/checklist/profile";
+import type { JobState } from "@/db/schema/enums";
+import { STATE_LABEL } from "@/lib/jobs/states";
+import { AlignmentCalculator } from "./alignment-calculator";
+import { api, errorText } from "./api-client";
+import { BenchSheetPanel } from "./bench-sheet";
+import { CompletionPanel } from "./completion-panel";
+import { EstimatePanel } from "./estimate-builder";
+import { benchKeys } from "./query-keys";
+import { TriagePanel } from "./triage-panel";
+import type { JobDetailJson } from "./types";
+
+const TABS = [
+  { id: "triage", label: "Triage" },
+  { id: "estimate", label: "Estimate" },
+  { id: "sheet", label: "Bench sheet" },
+  { id: "alignment", label: "Alignment" },
+  { id: "completion", label: "Completion" },
+] as const;
+type TabId = (typeof TABS)[number]["id"];
+
+function tabFor(state: JobState): TabId {
+  if (state === "requested" || state === "in_triage" || state === "awaiting_owner") return "triage";
+  if (state === "estimate_sent" || state === "approved") return "estimate";
+  if (state === "on_bench") return "sheet";
+  return "completion";
+}
+
+function profileBands(detail: JobDetailJson): Band[] {
+  const bands = (detail.set.profile as { bands?: unknown }).bands;
+  if (!Array.isArray(bands)) return [];
+  return bands.filter((b): b is Band => typeof b === "object" && b !== null && typeof (b as Band).lowKHz === "number" && typeof (b as Band).highKHz === "number" && typeof (b as Band).ifKHz === "number");
+}
+
+export function JobWorkspace({ jobId }: { jobId: string }) {
+  const q = useQuery({ queryKey: benchKeys.job(jobId), queryFn: () => api<JobDetailJson>(`/api/bench/jobs/${jobId}`) });
+  const [tab, setTab] = useState<TabId | null>(null);
+  const tabRefs = useRef<Record<string, HTMLButtonElement | null>>({});
+  if (q.isPending) return <p role="status">Loading the job…</p>;
+  if (q.isError) return <Notice tone="error">{errorText(q.error)}</Notice>;
+  const d = q.data;
+  const current = tab ?? tabFor(d.job.state);
+  const kind = (setKinds as readonly string[]).includes(d.set.kind) ? (d.set.kind as SetKind) : null;
+
+  // Arrow keys move between tabs (the usual tab-list pattern); Tab moves into the panel.
+  const onKey = (e: KeyboardEvent<HTMLButtonElement>) => {
+    const i = TABS.findIndex((t) => t.id === current);
+    let next = -1;
+    if (e.key === "ArrowRight") next = (i + 1) % TABS.length;
+    if (e.key === "ArrowLeft") next = (i - 1 + TABS.length) % TABS.length;
+    if (e.key === "Home") next = 0;
+    if (e.key === "End") next = TABS.length - 1;
+    if (next >= 0) {
+      e.preventDefault();
+      setTab(TABS[next]!.id);
+      tabRefs.current[TABS[next]!.id]?.focus();
+    }
+  };
+
+  return (
+    <div className="space-y-3">
+      <header className="flex flex-wrap items-baseline gap-x-4 gap-y-1">
+        <h1 className="text-2xl font-bold">
+          <span className="figure">{d.job.jobNumber}</span> · {d.set.maker} {d.set.model}
+          {d.set.year ? <span className="text-bakelite-muted"> ({d.set.year})</span> : null}
+        </h1>
+        <StateBadge state={d.job.state} audience="staff" />
+        <p className="text-sm">
+          {kind ? setKindLabels[kind] : d.set.kind} · owner {d.customer.name} ({d.customer.email}) · {d.technicianName ? `with ${d.technicianName}` : "unassigned"}
+          {d.job.isWarranty ? " · warranty job" : ""}
+        </p>
+      </header>
+      <p className="sr-only" role="status" aria-live="polite">
+        State: {STATE_LABEL[d.job.state].staff}
+      </p>
+
+      <div role="tablist" aria-label="Job sections" className="flex flex-wrap gap-1 border-b border-dial-rule">
+        {TABS.map((t) => (
+          <button
+            key={t.id}
+            ref={(el) => {
+              tabRefs.current[t.id] = el;
+            }}
+            type="button"
+            role="tab"
+            id={`tab-${t.id}`}
+            aria-selected={current === t.id}
+            aria-controls={`panel-${t.id}`}
+            tabIndex={current === t.id ? 0 : -1}
+            onKeyDown={onKey}
+            onClick={() => setTab(t.id)}
+            className={`-mb-px rounded-t border px-3 py-1.5 text-sm font-semibold ${current === t.id ? "border-dial-rule border-b-white bg-white text-bakelite" : "border-transparent text-ember-dark hover:bg-dial-deep"}`}
+          >
+            {t.label}
+          </button>
+        ))}
+      </div>
+
+      <div role="tabpanel" id={`panel-${current}`} aria-labelledby={`tab-${current}`} tabIndex={-1}>
+        {current === "triage" ? <TriagePanel detail={d} /> : null}
+        {current === "estimate" ? <EstimatePanel jobId={jobId} /> : null}
+        {current === "sheet" ? <BenchSheetPanel jobId={jobId} /> : null}
+        {current === "alignment" ? <AlignmentCalculator bands={profileBands(d)} /> : null}
+        {current === "completion" ? <CompletionPanel detail={d} /> : null}
+      </div>
+
+      <details className="card p-3 text-sm">
+        <summary className="cursor-pointer font-semibold">History</summary>
+        <ol className="mt-1 space-y-0.5">
+          {d.history.map((h) => (
+            <li key={h.id} className="figure text-xs">
+              {new Date(h.at).toLocaleString("en-US")} — {h.fromState ? `${STATE_LABEL[h.fromState].staff} → ` : ""}
+              {STATE_LABEL[h.toState].staff}
+              {h.actorName ? ` by ${h.actorName}` : ""}
+              {h.note ? ` · ${h.note}` : ""}
+            </li>
+          ))}
+        </ol>
+      </details>
+    </div>
+  );
+}

@@ -1,0 +1,161 @@
+import { and, asc, desc, eq, ilike, inArray, isNull, notInArray, or, sql, type SQL } from "drizzle-orm";
+import { alias } from "drizzle-orm/pg-core";
+import { db, type Database } from "@/db";
+import { jobs, jobStateHistory, jobTasks, messages, photos, radioSets, readings, user } from "@/db/schema";
+import type { JobState } from "@/db/schema/enums";
+import { parseJobNumber, type QueueQuery } from "@/lib/validation/bench";
+
+const CLOSED: JobState[] = ["returned", "declined_by_owner", "declined_by_shop", "cancelled"];
+const technician = alias(user, "technician");
+
+function escapeLike(s: string): string {
+  return s.replace(/[\\%_]/g, (c) => `\\${c}`);
+}
+
+// The bench queue: every job (staff see all of them), filtered, sorted and paged in SQL.
+export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery; viewerId: string }) {
+  const where: SQL[] = [];
+  if (query.states.length > 0) where.push(inArray(jobs.state, query.states));
+  else if (!query.includeClosed) where.push(notInArray(jobs.state, CLOSED));
+  if (query.technician === "me") where.push(eq(jobs.technicianId, viewerId));
+  else if (query.technician === "none") where.push(isNull(jobs.technicianId));
+  else if (query.technician) where.push(eq(jobs.technicianId, query.technician));
+  if (query.q) {
+    const like = `%${escapeLike(query.q)}%`;
+    const n = parseJobNumber(query.q);
+    const text = or(
+      ilike(user.name, like),
+      ilike(user.email, like),
+      ilike(radioSets.maker, like),
+      ilike(radioSets.model, like),
+      ilike(sql`${radioSets.maker} || ' ' || ${radioSets.model}`, like),
+    )!;
+    where.push(n !== null ? or(eq(jobs.number, n), text)! : text);
+  }
+  const filter = where.length ? and(...where) : undefined;
+  const order = query.dir === "asc" ? asc : desc;
+  const sortColumn = {
+    number: jobs.number,
+    updatedAt: jobs.updatedAt,
+    createdAt: jobs.createdAt,
+    state: jobs.state,
+    customer: user.name,
+    set: sql`${radioSets.maker} || ' ' || ${radioSets.model}`,
+    technician: technician.name,
+  }[query.sort];
+
+  const base = db
+    .select({
+      id: jobs.id,
+      number: jobs.number,
+      state: jobs.state,
+      isWarranty: jobs.isWarranty,
+      createdAt: jobs.createdAt,
+      updatedAt: jobs.updatedAt,
+      maker: radioSets.maker,
+      model: radioSets.model,
+      year: radioSets.year,
+      kind: radioSets.kind,
+      customerName: user.name,
+      customerEmail: user.email,
+      technicianId: jobs.technicianId,
+      technicianName: technician.name,
+    })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .leftJoin(technician, eq(technician.id, jobs.technicianId))
+    .where(filter);
+
+  const [rows, [count]] = await Promise.all([
+    base
+      .orderBy(order(sortColumn), desc(jobs.number))
+      .limit(query.pageSize)
+      .offset((query.page - 1) * query.pageSize),
+    db
+      .select({ n: sql<number>`count(*)::int` })
+      .from(jobs)
+      .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+      .innerJoin(user, eq(user.id, jobs.customerId))
+      .leftJoin(technician, eq(technician.id, jobs.technicianId))
+      .where(filter),
+  ]);
+  return { rows, total: count?.n ?? 0 };
+}
+
+// People who can take a job: active technicians and the shop owner.
+export async function listAssignableStaff(tx: Database = db) {
+  return tx
+    .select({ id: user.id, name: user.name, role: user.role })
+    .from(user)
+    .where(and(inArray(user.role, ["technician", "owner"]), or(isNull(user.banned), eq(user.banned, false))))
+    .orderBy(asc(user.name));
+}
+
+export async function getJobDetailForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  const [row] = await tx
+    .select({
+      job: jobs,
+      set: radioSets,
+      customer: { id: user.id, name: user.name, email: user.email },
+      technicianName: technician.name,
+    })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .leftJoin(technician, eq(technician.id, jobs.technicianId))
+    .where(eq(jobs.id, jobId))
+    .limit(1);
+  return row ?? null;
+}
+
+export async function listMessagesForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  return tx
+    .select({ id: messages.id, body: messages.body, internal: messages.internal, isQuestion: messages.isQuestion, createdAt: messages.createdAt, authorName: user.name, authorRole: user.role })
+    .from(messages)
+    .innerJoin(user, eq(user.id, messages.authorId))
+    .where(eq(messages.jobId, jobId))
+    .orderBy(asc(messages.createdAt));
+}
+
+export async function listPhotosForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  return tx
+    .select({ id: photos.id, url: photos.url, thumbUrl: photos.thumbUrl, displayName: photos.displayName, width: photos.width, height: photos.height })
+    .from(photos)
+    .where(eq(photos.jobId, jobId))
+    .orderBy(asc(photos.createdAt));
+}
+
+export async function listHistoryForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  return tx
+    .select({ id: jobStateHistory.id, fromState: jobStateHistory.fromState, toState: jobStateHistory.toState, note: jobStateHistory.note, at: jobStateHistory.at, actorName: user.name })
+    .from(jobStateHistory)
+    .leftJoin(user, eq(user.id, jobStateHistory.actorId))
+    .where(eq(jobStateHistory.jobId, jobId))
+    .orderBy(asc(jobStateHistory.at));
+}
+
+export async function listReadingsForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  return tx
+    .select({
+      key: readings.key,
+      value: readings.value,
+      unit: readings.unit,
+      note: readings.note,
+      verdict: readings.verdict,
+      toleranceText: readings.toleranceText,
+      recordedAt: readings.recordedAt,
+      recordedByName: user.name,
+    })
+    .from(readings)
+    .leftJoin(user, eq(user.id, readings.recordedBy))
+    .where(eq(readings.jobId, jobId));
+}
+
+export async function listTasksForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  return tx
+    .select({ id: jobTasks.id, code: jobTasks.code, title: jobTasks.title, doneAt: jobTasks.doneAt, doneByName: user.name })
+    .from(jobTasks)
+    .leftJoin(user, eq(user.id, jobTasks.doneBy))
+    .where(eq(jobTasks.jobId, jobId));
+}

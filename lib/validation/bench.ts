@@ -1,0 +1,109 @@
+import { z } from "zod";
+import { JOB_STATES } from "@/db/schema/enums";
+import { setProfileSchema } from "@/lib/checklist/profile";
+
+// Shared by the bench forms and the bench JSON routes.
+
+export const QUEUE_SORTS = ["number", "updatedAt", "createdAt", "state", "customer", "set", "technician"] as const;
+export type QueueSort = (typeof QUEUE_SORTS)[number];
+
+export const queueQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).max(10_000).default(1),
+  pageSize: z.coerce.number().int().min(5).max(100).default(25),
+  sort: z.enum(QUEUE_SORTS).default("updatedAt"),
+  dir: z.enum(["asc", "desc"]).default("desc"),
+  // Comma-separated states; empty means the open ones.
+  states: z
+    .string()
+    .max(400)
+    .default("")
+    .transform((s) => s.split(",").map((x) => x.trim()).filter(Boolean))
+    .pipe(z.array(z.enum(JOB_STATES, { error: "Unknown state in the filter." }))),
+  // "me", "none", a technician's id, or empty for everyone.
+  technician: z.string().max(80).default(""),
+  q: z.string().trim().max(120).default(""),
+  includeClosed: z
+    .enum(["0", "1"])
+    .default("0")
+    .transform((v) => v === "1"),
+});
+export type QueueQuery = z.infer<typeof queueQuerySchema>;
+export type QueueQueryInput = z.input<typeof queueQuerySchema>;
+
+/** "KL-0042", "kl42", "42" → 42; anything else → null. */
+export function parseJobNumber(q: string): number | null {
+  const m = /^(?:KL-?)?0*(\d{1,7})$/i.exec(q.trim());
+  return m ? Number(m[1]) : null;
+}
+
+export const assignSchema = z.object({ technicianId: z.string().min(1).max(80).nullable() });
+
+export const profileUpdateSchema = z.object({
+  maker: z.string().trim().min(1, "Give the maker as printed.").max(80),
+  model: z.string().trim().min(1, "Give the model as printed.").max(80),
+  year: z
+    .union([z.literal(""), z.coerce.number().int().min(1900, "A year from 1900 on.").max(2030, "A year up to 2030.")])
+    .transform((v) => (v === "" ? null : v))
+    .nullable()
+    .optional(),
+  profile: setProfileSchema,
+});
+export type ProfileUpdate = z.infer<typeof profileUpdateSchema>;
+export type ProfileUpdateInput = z.input<typeof profileUpdateSchema>;
+
+export const questionSchema = z.object({
+  question: z.string().trim().min(5, "Write the question for the owner (at least 5 characters).").max(2000, "Keep it under 2000 characters."),
+});
+
+export const declineSchema = z.object({
+  reason: z.string().trim().min(5, "Say why the shop cannot take the job (at least 5 characters).").max(1000, "Keep it under 1000 characters."),
+});
+
+export const readingInputSchema = z.object({
+  key: z.string().min(1).max(60),
+  // null clears the reading (it then counts as missing).
+  value: z.number({ error: "Enter a number." }).finite("Enter a number.").nullable(),
+  note: z.string().trim().max(500, "Keep the note under 500 characters.").optional(),
+});
+export type ReadingInput = z.infer<typeof readingInputSchema>;
+
+/** What a technician types into a reading cell: "1,003.5" or "0.21" → a number; "" → null; junk → undefined. */
+export function parseReadingText(text: string): number | null | undefined {
+  const s = text.trim().replace(/,/g, "");
+  if (s === "") return null;
+  if (!/^-?\d+(\.\d+)?$/.test(s)) return undefined;
+  return Number(s);
+}
+
+export const taskInputSchema = z.object({ code: z.string().min(1).max(80), done: z.boolean() });
+
+export const benchNoteSchema = z.object({
+  body: z.string().trim().min(1, "Write the note first.").max(4000, "Keep the note under 4000 characters."),
+});
+
+export const returnSchema = z.discriminatedUnion("method", [
+  z.object({ method: z.literal("pick-up") }),
+  z.object({
+    method: z.literal("shipped"),
+    carrier: z.string().trim().min(2, "Name the carrier.").max(60),
+    trackingNumber: z
+      .string()
+      .trim()
+      .min(4, "Enter the tracking number.")
+      .max(60)
+      .regex(/^[A-Za-z0-9 -]+$/, "Letters, digits, spaces and dashes only."),
+  }),
+]);
+export type ReturnInput = z.infer<typeof returnSchema>;
+
+export const emptySchema = z.object({}).strict();
+
+// The return form keeps both text fields whichever method is picked; it yields a ReturnInput.
+export const returnFormSchema = z
+  .object({ method: z.enum(["pick-up", "shipped"]), carrier: z.string(), trackingNumber: z.string() })
+  .transform((v, ctx): ReturnInput => {
+    const parsed = returnSchema.safeParse(v.method === "pick-up" ? { method: "pick-up" } : v);
+    if (parsed.success) return parsed.data;
+    for (const issue of parsed.error.issues) ctx.addIssue({ code: "custom", path: issue.path, message: issue.message });
+    return z.NEVER;
+  });

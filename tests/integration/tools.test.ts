@@ -1,0 +1,89 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { runAlignmentTool } from "@/lib/tools/alignment-request";
+import { DEMO, signedIn } from "../support/accounts";
+import { closeTestPool } from "../support/db";
+import { TestClient } from "../support/http";
+import { AURELIAN_PROFILE } from "./bench-fixtures";
+
+const MW = { band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } };
+
+let tech: TestClient;
+let owner: TestClient;
+let customer: TestClient;
+
+beforeAll(async () => {
+  [tech, owner, customer] = await Promise.all([signedIn(DEMO.tech), signedIn(DEMO.owner), signedIn(DEMO.customer)]);
+});
+afterAll(async () => {
+  await closeTestPool();
+});
+
+describe("POST /api/tools/alignment", () => {
+  it("answers staff with the engine's own figures", async () => {
+    for (const client of [tech, owner]) {
+      const res = await client.post("/api/tools/alignment", MW);
+      expect(res.status).toBe(200);
+      const body = await res.json();
+      expect(body).toEqual(JSON.parse(JSON.stringify(runAlignmentTool(MW))));
+      expect(body.lo).toEqual({ lowKHz: 995, highKHz: 2055 });
+      // 101 even samples across the band, with the tracking points themselves added.
+      const curveKHz = (body.design.errorCurve as { kHz: number }[]).map((p) => p.kHz);
+      expect(curveKHz.length).toBeGreaterThanOrEqual(101);
+      expect(curveKHz.length).toBeLessThanOrEqual(104);
+      for (const p of body.trackingPointsKHz as number[]) expect(curveKHz).toContain(p);
+    }
+  });
+
+  it("is not found for customers and asks visitors to sign in", async () => {
+    expect((await customer.post("/api/tools/alignment", MW)).status).toBe(404);
+    const anon = await new TestClient().post("/api/tools/alignment", MW);
+    expect(anon.status).toBe(401);
+  });
+
+  it("answers bad input with field messages", async () => {
+    const res = await tech.post("/api/tools/alignment", { band: { lowKHz: 1600, highKHz: 540 }, ifKHz: 3, gang: { minPF: 10, maxPF: 5 } });
+    expect(res.status).toBe(400);
+    const { error } = (await res.json()) as { error: { code: string; fields: Record<string, string> } };
+    expect(error.code).toBe("invalid_input");
+    expect(error.fields["band.highKHz"]).toMatch(/above the low end/);
+    expect(error.fields.ifKHz).toMatch(/IF lies in/);
+    expect(error.fields["gang.maxPF"]).toMatch(/above its minimum/);
+
+    const missing = await tech.post("/api/tools/alignment", { band: { lowKHz: 540 } });
+    expect(missing.status).toBe(400);
+    const m = (await missing.json()) as { error: { fields: Record<string, string> } };
+    expect(Object.keys(m.error.fields)).toEqual(expect.arrayContaining(["band.highKHz", "ifKHz"]));
+
+    // The engine's own refusal: a gang that cannot cover the band.
+    const narrow = await tech.post("/api/tools/alignment", { ...MW, gang: { minPF: 100, maxPF: 120 } });
+    expect(narrow.status).toBe(400);
+    const n = (await narrow.json()) as { error: { fields: Record<string, string> } };
+    expect(Object.keys(n.error.fields).length).toBeGreaterThan(0);
+
+    const notJson = await tech.request("/api/tools/alignment", { method: "POST", body: "{not json", headers: { "content-type": "application/json" } });
+    expect(notJson.status).toBe(400);
+  });
+});
+
+describe("POST /api/tools/estimate", () => {
+  it("prices a profile for staff", async () => {
+    const res = await tech.post("/api/tools/estimate", { profile: AURELIAN_PROFILE });
+    expect(res.status).toBe(200);
+    const body = (await res.json()) as { lines: { code: string; labourMinor: number; partsMinor: number }[]; totals: { totalMinor: number; labourMinor: number; partsMinor: number; taxMinor: number; depositMinor: number } };
+    expect(body.lines.map((l) => l.code)).toEqual(expect.arrayContaining(["safety.isolation-bench", "safety.y-capacitor", "test.leakage"]));
+    expect(body.totals.labourMinor).toBe(body.lines.reduce((s, l) => s + l.labourMinor, 0));
+    expect(body.totals.partsMinor).toBe(body.lines.reduce((s, l) => s + l.partsMinor, 0));
+    expect(body.totals.totalMinor).toBe(body.totals.labourMinor + body.totals.partsMinor + body.totals.taxMinor);
+    expect(body.totals.depositMinor).toBeLessThanOrEqual(body.totals.totalMinor);
+  });
+
+  it("keeps others out and explains bad profiles field by field", async () => {
+    expect((await customer.post("/api/tools/estimate", { profile: AURELIAN_PROFILE })).status).toBe(404);
+    expect((await new TestClient().post("/api/tools/estimate", { profile: AURELIAN_PROFILE })).status).toBe(401);
+    const res = await tech.post("/api/tools/estimate", { profile: { ...AURELIAN_PROFILE, kind: "crystal", bands: [{ kind: "MW", lowKHz: 540, highKHz: 99000, ifKHz: 455 }] } });
+    expect(res.status).toBe(400);
+    const { error } = (await res.json()) as { error: { fields: Record<string, string> } };
+    expect(error.fields["profile.kind"]).toBeTruthy();
+    expect(error.fields["profile.bands.0.highKHz"]).toMatch(/MW dial ends/);
+  });
+});
