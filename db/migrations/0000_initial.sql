@@ -92,7 +92,7 @@ CREATE TABLE "job_state_history" (
 	"to_state" "job_state" NOT NULL,
 	"actor_id" text,
 	"note" text,
-	"at" timestamp with time zone DEFAULT now() NOT NULL
+	"at" timestamp with time zone DEFAULT clock_timestamp() NOT NULL
 );
 --> statement-breakpoint
 CREATE TABLE "job_task" (
@@ -323,7 +323,7 @@ CREATE TABLE "audit_event" (
 	"entity_id" text NOT NULL,
 	"before" jsonb,
 	"after" jsonb,
-	"at" timestamp with time zone DEFAULT now() NOT NULL
+	"at" timestamp with time zone DEFAULT clock_timestamp() NOT NULL
 );
 --> statement-breakpoint
 CREATE TABLE "email_outbox" (

@@ -87,7 +87,7 @@ export const jobStateHistory = pgTable(
     toState: jobState("to_state").notNull(),
     actorId: text("actor_id").references(() => user.id),
     note: text("note"),
-    at: timestamp("at", { withTimezone: true }).notNull().defaultNow(),
+    at: timestamp("at", { withTimezone: true }).notNull().default(sql`clock_timestamp()`), // several moves in one transaction keep their order
   },
   (t) => [index("job_state_history_job_idx").on(t.jobId, t.at)],
 );
