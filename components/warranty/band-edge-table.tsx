@@ -1,0 +1,43 @@
+import { bandEdgeRows } from "@/lib/pdf/certificate-tables";
+import type { CertificateDocument } from "@/lib/services/certificates";
+
+const VERDICT_ICON = { true: "✓", false: "✕", null: "–" } as const;
+
+/** Per band: the printed dial range, the measured edges, the tolerance applied and the verdict in words. */
+export function BandEdgeTable({ document, caption = "Band edges, measured against the dial" }: { document: Pick<CertificateDocument, "bands" | "readings">; caption?: string }) {
+  const rows = bandEdgeRows(document);
+  return (
+    <div className="overflow-x-auto">
+      <table className="dense-table w-full">
+        <caption className="mb-1 text-left font-semibold">{caption}</caption>
+        <thead>
+          <tr>
+            <th scope="col">Band</th>
+            <th scope="col">Dial range</th>
+            <th scope="col">Low edge measured</th>
+            <th scope="col">High edge measured</th>
+            <th scope="col">Tolerance applied</th>
+            <th scope="col">Verdict</th>
+          </tr>
+        </thead>
+        <tbody>
+          {rows.map((r) => (
+            <tr key={r.index}>
+              <th scope="row" className="text-left font-normal">
+                {r.name}
+              </th>
+              <td className="figure whitespace-nowrap">{r.nominal}</td>
+              <td className="figure whitespace-nowrap">{r.low}</td>
+              <td className="figure whitespace-nowrap">{r.high}</td>
+              <td>{r.tolerance}</td>
+              <td className={`whitespace-nowrap font-semibold ${r.passed === false ? "text-fail" : r.passed ? "text-pass" : "text-bakelite-muted"}`}>
+                <span aria-hidden="true">{VERDICT_ICON[String(r.passed) as "true" | "false" | "null"]} </span>
+                {r.verdict}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,244 @@
+import fc from "fast-check";
+import { PDFParse } from "pdf-parse";
+import { afterAll, describe, expect, it } from "vitest";
+import { canonicalJson, CODE_LENGTH } from "@/lib/certificates";
+import { formatReading } from "@/lib/pdf/certificate-tables";
+import { verifyStoredCertificate, type CertificateDocument } from "@/lib/services/certificates";
+import { DEMO, signedIn } from "../support/accounts";
+import { closeTestPool, sql } from "../support/db";
+import { TestClient } from "../support/http";
+import { firstLink, waitForMail } from "../support/mail";
+import { createCertificate, createReturnedJob, haldaneConsole, issueFor, stopQueue } from "./certificates-fixtures";
+
+afterAll(async () => {
+  await stopQueue();
+  await closeTestPool();
+});
+
+type Row = { id: string; code: string; content: CertificateDocument; signature: string; key_id: string; term_ends_at: Date; customer_id: string };
+
+async function loadRow(id: string): Promise<Row> {
+  const [row] = await sql<Row>("select id, code, content, signature, key_id, term_ends_at, customer_id from certificate where id = $1", [id]);
+  return row!;
+}
+
+async function pdfText(res: Response): Promise<string> {
+  const parser = new PDFParse({ data: new Uint8Array(await res.arrayBuffer()) });
+  try {
+    return (await parser.getText()).text;
+  } finally {
+    await parser.destroy();
+  }
+}
+
+describe("issuing a certificate when a set is returned", () => {
+  it("snapshots exactly the readings, ticked lines and parts recorded for the job, signed", async () => {
+    const job = await createReturnedJob({ profile: haldaneConsole, maker: "Haldane", model: "Console 9" });
+    const t0 = Date.now() - 50;
+    const { certificateId, code } = await issueFor(job.jobId);
+    expect(code.replaceAll("-", "")).toHaveLength(CODE_LENGTH);
+    const row = await loadRow(certificateId);
+    const d = row.content;
+
+    const stored = await sql<{ key: string; value: number; unit: string; verdict: string; tolerance_text: string }>(
+      "select key, value, unit, verdict, tolerance_text from reading where job_id = $1 order by key",
+      [job.jobId],
+    );
+    expect(stored.length).toBeGreaterThan(10);
+    const onCert = new Map(d.readings.map((r) => [r.key, r]));
+    expect(onCert.size).toBe(stored.length);
+    for (const r of stored) {
+      const c = onCert.get(r.key);
+      expect(c, r.key).toBeDefined();
+      expect(c!.value, r.key).toBe(r.value);
+      expect(c!.unit, r.key).toBe(r.unit);
+      expect(c!.verdict, r.key).toBe(r.verdict);
+      expect(c!.toleranceText, r.key).toBe(r.tolerance_text);
+    }
+    // Every band: the printed dial range from the profile, its measured edges present.
+    expect(d.bands.map((b) => [b.lowKHz, b.highKHz])).toEqual(haldaneConsole.bands.map((b) => [b.lowKHz, b.highKHz]));
+    for (const b of d.bands) {
+      expect(onCert.get(`band.${b.index}.edge.low`)?.value).toBe(stored.find((s) => s.key === `band.${b.index}.edge.low`)!.value);
+      expect(onCert.get(`band.${b.index}.edge.high`)?.value).toBe(stored.find((s) => s.key === `band.${b.index}.edge.high`)!.value);
+    }
+    expect(d.work.map((w) => w.code).sort()).toEqual(job.tasks.map((t) => t.code).sort());
+    expect(d.parts.map((p) => p.code).sort()).toEqual([...job.partCodes].sort());
+    expect(d.set).toMatchObject({ maker: "Haldane", model: "Console 9", year: 1952, kind: "tube-transformer" });
+    expect(d.technician.name).toBe("Tomas Reyne");
+    expect(d.shop.name).toBe("Kestrel Lane Wireless");
+    expect(d.warranty).toMatchObject({ designation: "limited", termDays: 90, startsOn: d.completedOn });
+    expect(d.terms.rightsSentence).toMatch(/other rights which vary from state to state/);
+    expect(d.terms.howToClaim.length).toBeGreaterThan(0);
+    expect(new Date(row.term_ends_at).toISOString().slice(0, 10)).toBe(d.warranty.endsOn);
+    expect(verifyStoredCertificate(row)).toBe(true);
+
+    const audit = await sql("select 1 from audit_event where entity = 'certificate' and entity_id = $1 and action = 'certificate.issue'", [certificateId]);
+    expect(audit).toHaveLength(1);
+
+    // Issuing again (a retried return) hands back the same certificate.
+    expect(await issueFor(job.jobId)).toEqual({ certificateId, code });
+    expect(await sql("select 1 from certificate where job_id = $1", [job.jobId])).toHaveLength(1);
+
+    const mail = await waitForMail(DEMO.customer.email, /Warranty certificate for your Haldane Console 9/, { after: t0 });
+    expect(firstLink(mail, `/verify/${code}`)).toContain(`/verify/${code}`);
+    expect(firstLink(mail, `/api/certificates/${certificateId}/pdf`)).toContain("/pdf");
+  });
+
+  it("refuses a job that has not been returned", async () => {
+    const job = await createReturnedJob();
+    await sql("update job set state = 'paid_in_full' where id = $1", [job.jobId]);
+    await expect(issueFor(job.jobId)).rejects.toMatchObject({ code: "conflict" });
+  });
+});
+
+describe("the certificate PDF", () => {
+  it("carries every measured band edge and the designation, for the holder and staff only", async () => {
+    const c = await createCertificate({ profile: haldaneConsole, maker: "Haldane", model: "Console 9" });
+    const owner = await signedIn(DEMO.customer);
+    const res = await owner.get(`/api/certificates/${c.certificateId}/pdf`);
+    expect(res.status).toBe(200);
+    expect(res.headers.get("content-type")).toBe("application/pdf");
+    expect(res.headers.get("cache-control")).toContain("no-store");
+    const text = (await pdfText(res)).replace(/\s+/g, " ");
+    expect(text).toContain("Limited warranty");
+    expect(text).toContain(c.code);
+    const edges = c.readings.filter((r) => /^band\.\d+\.edge\./.test(r.key));
+    expect(edges).toHaveLength(haldaneConsole.bands.length * 2);
+    for (const e of edges) expect(text, e.key).toContain(formatReading(e.value, "kHz"));
+    expect(text).toContain("at most 0.5 mA");
+    expect(text).toMatch(/other rights which vary from state to state/);
+
+    const tech = await signedIn(DEMO.tech);
+    expect((await tech.get(`/api/certificates/${c.certificateId}/pdf`)).status).toBe(200);
+    const other = await signedIn(DEMO.customer2);
+    expect((await other.get(`/api/certificates/${c.certificateId}/pdf`)).status).toBe(404);
+    expect((await new TestClient().get(`/api/certificates/${c.certificateId}/pdf`)).status).toBe(401);
+  });
+});
+
+describe("signatures", () => {
+  it("never verify after a random byte flip in the signature or the content", async () => {
+    const c = await createCertificate();
+    const row = await loadRow(c.certificateId);
+    expect(verifyStoredCertificate(row)).toBe(true);
+    const sig = Buffer.from(row.signature, "base64url");
+    fc.assert(
+      fc.property(fc.nat({ max: sig.length - 1 }), fc.integer({ min: 1, max: 255 }), (i, mask) => {
+        const flipped = Buffer.from(sig);
+        flipped[i] = flipped[i]! ^ mask;
+        return verifyStoredCertificate({ content: row.content, signature: flipped.toString("base64url") }) === false;
+      }),
+      { numRuns: 300 },
+    );
+    const bytes = Buffer.from(canonicalJson(row.content), "utf8");
+    fc.assert(
+      fc.property(fc.nat({ max: bytes.length - 1 }), fc.integer({ min: 1, max: 255 }), (i, mask) => {
+        const flipped = Buffer.from(bytes);
+        flipped[i] = flipped[i]! ^ mask;
+        let content: unknown;
+        try {
+          content = JSON.parse(flipped.toString("utf8"));
+        } catch {
+          return true; // not even JSON: nothing a row could hold
+        }
+        return verifyStoredCertificate({ content: content as Record<string, unknown>, signature: row.signature }) === false;
+      }),
+      { numRuns: 300 },
+    );
+  });
+});
+
+describe("the public verification page", () => {
+  it("shows what a buyer needs and nothing personal, and is not indexed", async () => {
+    const c = await createCertificate({ serial: "AU-52-1187" });
+    const html = await (await new TestClient().get(`/verify/${c.code}`)).text();
+    expect(html).toContain("Valid");
+    expect(html).toContain("Aurelian");
+    expect(html).toContain("Model 5T");
+    expect(html).toContain("AU••••87");
+    expect(html).not.toContain("AU-52-1187");
+    expect(html).not.toContain("Mira Holloway");
+    expect(html).not.toContain(DEMO.customer.email);
+    expect(html).toMatch(/<meta name="robots" content="noindex, nofollow"/);
+    for (const e of c.readings.filter((r) => /^band\.\d+\.edge\./.test(r.key))) expect(html).toContain(formatReading(e.value, "kHz"));
+    // Lower case and spaces are read as the same code.
+    const loose = await new TestClient().get(`/verify/${c.code.toLowerCase()}`);
+    expect(loose.status).toBe(307);
+    expect(loose.headers.get("location")).toContain(`/verify/${c.code}`);
+  });
+
+  it("says a certificate altered in the database cannot be verified", async () => {
+    const c = await createCertificate();
+    const before = await (await new TestClient().get(`/verify/${c.code}`)).text();
+    expect(before).not.toContain("cannot be verified");
+    await sql("update certificate set content = jsonb_set(content, '{readings,0,value}', '1234.5') where id = $1", [c.certificateId]);
+    const after = await (await new TestClient().get(`/verify/${c.code}`)).text();
+    expect(after).toContain("This certificate cannot be verified");
+    expect(after).not.toContain("Band edges");
+    const owner = await signedIn(DEMO.customer);
+    expect((await owner.get(`/api/certificates/${c.certificateId}/pdf`)).status).toBe(409);
+  });
+
+  it("shows expired, revoked (with the reason) and superseded certificates as such", async () => {
+    const old = await createCertificate({ returnedDaysAgo: 120 });
+    expect(await (await new TestClient().get(`/verify/${old.code}`)).text()).toContain("Expired");
+
+    const owner = await signedIn(DEMO.owner);
+    const customer = await signedIn(DEMO.customer);
+    const r = await createCertificate();
+    expect((await customer.post(`/api/certificates/${r.certificateId}/revoke`, { reason: "Set returned under a false name" })).status).toBe(404);
+    const bad = await owner.post(`/api/certificates/${r.certificateId}/revoke`, { reason: "" });
+    expect(bad.status).toBe(400);
+    expect((await bad.json()).error.fields.reason).toBeTruthy();
+    expect((await owner.post(`/api/certificates/${r.certificateId}/revoke`, { reason: "Issued for the wrong chassis" })).status).toBe(200);
+    const revoked = await (await new TestClient().get(`/verify/${r.code}`)).text();
+    expect(revoked).toContain("Revoked");
+    expect(revoked).toContain("Issued for the wrong chassis");
+
+    const s = await createCertificate();
+    await sql("update reading set value = value + 0.5 where job_id = $1 and key = 'band.0.edge.low'", [s.jobId]);
+    const re = await owner.post(`/api/certificates/${s.certificateId}/reissue`, { reason: "Low band edge re-measured" });
+    expect(re.status).toBe(200);
+    const { code: newCode, certificateId: newId } = (await re.json()) as { code: string; certificateId: string };
+    const superseded = await (await new TestClient().get(`/verify/${s.code}`)).text();
+    expect(superseded).toContain("Superseded");
+    expect(superseded).toContain(newCode);
+    const fresh = await (await new TestClient().get(`/verify/${newCode}`)).text();
+    expect(fresh).toContain("Valid");
+    expect(fresh).toContain(s.code);
+    const newRow = await loadRow(newId);
+    const low = s.readings.find((x) => x.key === "band.0.edge.low")!;
+    expect(newRow.content.readings.find((x) => x.key === "band.0.edge.low")!.value).toBe(low.value + 0.5);
+    expect(newRow.content.warranty.startsOn).toBe((await loadRow(s.certificateId)).content.warranty.startsOn);
+    // A superseded certificate cannot be corrected or claimed again.
+    expect((await owner.post(`/api/certificates/${s.certificateId}/reissue`, { reason: "Second try at it" })).status).toBe(409);
+  });
+
+  it("answers unknown and malformed codes plainly", async () => {
+    const unknown = await (await new TestClient().get("/verify/0000-0000-0000-0000-0000-0000-0000")).text();
+    expect(unknown).toContain("No certificate has this code");
+    const malformed = await (await new TestClient().get("/verify/not-a-code")).text();
+    expect(malformed).toContain("That is not a certificate code");
+  });
+
+  it("is rate-limited per client address", async () => {
+    const c = await createCertificate();
+    const client = new TestClient({ ip: "198.51.100.23" });
+    let limited = false;
+    for (let i = 0; i < 70 && !limited; i++) {
+      const html = await (await client.get(`/verify/${c.code}`)).text();
+      if (html.includes("Too many checks")) limited = true;
+    }
+    expect(limited).toBe(true);
+    expect(await (await new TestClient().get(`/verify/${c.code}`)).text()).toContain("Valid");
+  });
+});
+
+describe("who may see certificates", () => {
+  it("keeps the office list to the shop owner", async () => {
+    await createCertificate();
+    expect((await (await signedIn(DEMO.owner)).get("/office/certificates")).status).toBe(200);
+    expect((await (await signedIn(DEMO.customer)).get("/office/certificates")).status).toBe(404);
+    expect((await (await signedIn(DEMO.tech)).get("/office/certificates")).status).toBe(404);
+  });
+});
