@@ -121,10 +121,16 @@ async function pdfAndVerify(stack: Stack, db: pg.Pool, ownerCookie: string) {
     goal: "≤ 2× idle",
   });
 
-  const verify = await cannon({ url: `${stack.appUrl}/verify/${code}`, connections: 20, headers: { "x-forwarded-for": "198.51.100.9" } });
+  // Each request from its own address, so the figure is the verification itself rather than the rate limiter.
+  let n = 0;
+  const verify = await cannon({
+    url: `${stack.appUrl}/verify/${code}`,
+    connections: 20,
+    requests: [{ setupRequest: (req) => ({ ...req, headers: { ...req.headers, "x-forwarded-for": `198.51.${(++n >> 8) & 255}.${n & 255}` } }) }],
+  });
   rows.push({
     metric: "public verification page, 20 conns",
-    figure: `${verify.requests.average.toFixed(0)} req/s, p97.5 ${verify.latency.p97_5} ms, non-2xx ${verify.non2xx} (rate limit included)`,
+    figure: `${verify.requests.average.toFixed(0)} req/s, p97.5 ${verify.latency.p97_5} ms, non-2xx ${verify.non2xx}`,
     goal: "p97.5 ≤ 80 ms",
   });
 }

@@ -1,6 +1,7 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO } from "../support/accounts";
+import { sql } from "../support/db";
 import { axeViolations, describeViolations } from "../support/axe";
 import { launchBrowser, newContext, signInPage } from "../support/browser";
 
@@ -13,11 +14,34 @@ afterAll(async () => {
 });
 
 // Every page in its main state, per audience. Pages with ids are reached by following the first link of a list.
-const AUDIENCES: { who: string; login?: { email: string; password: string }; pages: string[]; follow?: { from: string; link: RegExp }[] }[] = [
-  { who: "anonymous", pages: ["/", "/sign-in", "/sign-up", "/reset-password", "/verify", "/mailbox"] },
-  { who: "set owner", login: DEMO.customer, pages: ["/portal"] },
-  { who: "technician", login: DEMO.tech, pages: ["/bench"] },
-  { who: "shop owner", login: DEMO.owner, pages: ["/office", "/office/staff"] },
+const AUDIENCES: { who: string; login?: { email: string; password: string }; pages: string[]; follow?: { from: string; link: RegExp }[]; certificatePage?: boolean }[] = [
+  { who: "anonymous", pages: ["/", "/sign-in", "/sign-up", "/reset-password", "/verify", "/mailbox"], certificatePage: true },
+  {
+    who: "set owner",
+    login: DEMO.customer,
+    pages: ["/portal", "/portal/request", "/portal/claims"],
+    follow: [
+      { from: "/portal", link: /Aurelian/ },
+      { from: "/portal", link: /Haldane/ },
+      { from: "/portal/claims", link: /KL-|Aurelian|claim/i },
+    ],
+  },
+  {
+    who: "technician",
+    login: DEMO.tech,
+    pages: ["/bench", "/bench/calculator", "/bench/claims"],
+    follow: [
+      { from: "/bench", link: /KL-0008/ },
+      { from: "/bench", link: /KL-0002/ },
+      { from: "/bench/claims", link: /KL-|Aurelian|claim/i },
+    ],
+  },
+  {
+    who: "shop owner",
+    login: DEMO.owner,
+    pages: ["/office", "/office/staff", "/office/settings", "/office/payments", "/office/certificates", "/office/audit", "/office/reports"],
+    follow: [{ from: "/office/payments", link: /KL-/ }],
+  },
 ];
 
 async function check(page: Page, path: string) {
@@ -36,8 +60,15 @@ describe("accessibility (axe-core, WCAG 2.2 AA tags)", () => {
       for (const path of a.pages) await check(page, path);
       for (const f of a.follow ?? []) {
         await page.goto(f.from);
-        const href = await page.getByRole("link", { name: f.link }).first().getAttribute("href");
-        if (href) await check(page, href);
+        const link = page.getByRole("link", { name: f.link }).first();
+        await link.waitFor({ timeout: 15_000 });
+        const href = await link.getAttribute("href");
+        expect(href, `a link matching ${f.link} on ${f.from}`).toBeTruthy();
+        await check(page, href!);
+      }
+      if (a.certificatePage) {
+        const [cert] = await sql<{ code: string }>("select code from certificate order by issued_at limit 1");
+        await check(page, `/verify/${cert!.code}`);
       }
       await ctx.close();
     });

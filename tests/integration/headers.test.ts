@@ -39,4 +39,11 @@ describe("security headers", () => {
     const res = await new TestClient().post("/api/auth/sign-in/email", DEMO.customer, { headers: { origin: "http://evil.example" } });
     expect(res.status).toBe(403);
   });
+
+  it("answers 400, not a server error, for an address with a broken percent-escape", async () => {
+    for (const path of ["/verify/%E0%A4%A", "/bench/jobs/%E0%A4%A", "/portal/jobs/%zz"]) {
+      const res = await new TestClient().get(path);
+      expect(res.status, path).toBe(400);
+    }
+  });
 });

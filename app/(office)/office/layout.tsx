@@ -2,11 +2,12 @@ import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
 import { requirePermission } from "@/lib/session";
 
-export const OFFICE_NAV = [
+const OFFICE_NAV = [
   { href: "/office", label: "Overview" },
   { href: "/office/settings", label: "Rates & policy" },
   { href: "/office/staff", label: "Staff" },
   { href: "/office/payments", label: "Payments" },
+  { href: "/office/certificates", label: "Certificates" },
   { href: "/office/audit", label: "Audit log" },
   { href: "/office/reports", label: "Reports" },
 ];

@@ -52,7 +52,7 @@ export default async function OfficeCertificatesPage() {
                     {c.revokeReason ? <p className="text-xs">{c.revokeReason}</p> : null}
                   </td>
                   <td>
-                    <a href={`/api/certificates/${c.id}/pdf`}>
+                    <a href={`/api/certificates/${c.id}/pdf`} className="inline-block min-h-6 min-w-6 py-0.5">
                       PDF<span className="sr-only"> of {c.code}</span>
                     </a>
                     <CertificateActions id={c.id} canRevoke={live && can(viewer.role, "certificate.revoke")} canReissue={live && can(viewer.role, "certificate.reissue")} />

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { getJobForCustomer } from "@/db/queries/jobs";
 import { requirePermission } from "@/lib/session";
+import { JobCertificates } from "@/components/warranty/job-certificates";
 import { JobView } from "./_components/job-view";
 
 export const metadata: Metadata = { title: "My job" };
@@ -15,5 +16,5 @@ export default async function JobPage({ params, searchParams }: { params: Promis
   const owned = await getJobForCustomer({ jobId: id, customerId: viewer.id });
   if (!owned) notFound();
   const sp = await searchParams;
-  return <JobView jobId={id} justCreated={sp.new === "1"} paymentCancelled={sp.payment === "cancelled"} />;
+  return <JobView jobId={id} justCreated={sp.new === "1"} paymentCancelled={sp.payment === "cancelled"} certificates={<JobCertificates jobId={id} customerId={viewer.id} />} />;
 }

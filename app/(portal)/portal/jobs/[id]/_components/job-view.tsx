@@ -1,5 +1,7 @@
 "use client";
 
+import type { ReactNode } from "react";
+
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
@@ -21,14 +23,14 @@ const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
   final_checks: "The work is done; the final measurements are being checked.",
   balance_due: "Your set is finished. Once the balance is paid, we return it.",
   paid_in_full: "Paid in full. We are preparing the set for its return.",
-  returned: "Your set is back with you. Your warranty certificate will be listed here.",
+  returned: "Your set is back with you. Its warranty certificate is below: keep the PDF, and show its code to a later buyer.",
 };
 
 function when(iso: string): string {
   return new Date(iso).toLocaleString("en-GB", { day: "numeric", month: "long", year: "numeric", hour: "2-digit", minute: "2-digit" });
 }
 
-export function JobView({ jobId, justCreated, paymentCancelled }: { jobId: string; justCreated: boolean; paymentCancelled: boolean }) {
+export function JobView({ jobId, justCreated, paymentCancelled, certificates }: { jobId: string; justCreated: boolean; paymentCancelled: boolean; certificates?: ReactNode }) {
   const query = useQuery({ queryKey: portalKeys.job(jobId), queryFn: () => api<PortalJobView>(`/api/portal/jobs/${jobId}`) });
 
   if (query.isPending) {
@@ -95,6 +97,8 @@ export function JobView({ jobId, justCreated, paymentCancelled }: { jobId: strin
           ) : null}
         </section>
       ) : null}
+
+      {certificates}
 
       {v.confirming ? (
         <Notice tone="info" live title="Confirming your payment">
