@@ -191,15 +191,22 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
   }
 }
 
-// Spreads the demo history over past weeks so lists, timelines and reports look lived-in.
+// Spreads the demo history over past weeks so lists, timelines and reports look lived-in; the latest
+// move of each job stays at today, so a certificate's own dates match its job's timeline.
 async function backdate(ctx: TxContext, jobId: string, daysAgo: number) {
   const start = sql`now() - make_interval(days => ${daysAgo})`;
   await ctx.tx.execute(sql`
     with h as (select id, row_number() over (order by at, ctid) - 1 as i, count(*) over () as n from job_state_history where job_id = ${jobId})
-    update job_state_history s set at = ${start} + (h.i * (${daysAgo}::numeric / greatest(h.n, 1))) * interval '1 day'
+    update job_state_history s set at = ${start} + (h.i * (${daysAgo}::numeric / greatest(h.n - 1, 1))) * interval '1 day'
     from h where s.id = h.id`);
   await ctx.tx.execute(sql`update job set created_at = ${start}, received_at = case when state in ('on_bench','final_checks','balance_due','paid_in_full','returned') then ${start} + interval '3 days' else received_at end where id = ${jobId}`);
   await ctx.tx.execute(sql`update job set updated_at = (select max(at) from job_state_history where job_id = ${jobId}) where id = ${jobId}`);
+  await ctx.tx.execute(sql`
+    update payment p set paid_at = h.at, created_at = h.at
+    from job_state_history h
+    where p.job_id = ${jobId} and h.job_id = ${jobId}
+      and h.to_state = (case when p.purpose = 'deposit' then 'deposit_paid' else 'paid_in_full' end)::job_state`);
+
 }
 
 export async function seedDemoJobs(ctx: TxContext): Promise<number> {
