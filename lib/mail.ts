@@ -19,7 +19,7 @@ export async function queueEmail<T extends TemplateName>(ctx: TxContext, args: Q
     .returning({ id: emailOutbox.id });
   if (!row) return; // already queued by an earlier attempt
   const boss = await getBoss();
-  await boss.send(QUEUES.email, { outboxId: row.id }, { db: ctx.raw, retryLimit: 8, retryDelay: 5, retryBackoff: true });
+  await boss.send(QUEUES.email, { outboxId: row.id }, { db: ctx.raw, retryLimit: 8, retryDelay: 5, retryBackoff: true, expireInSeconds: 120 });
 }
 
 export async function queueEmailNow<T extends TemplateName>(args: QueueArgs<T>): Promise<void> {

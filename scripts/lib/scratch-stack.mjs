@@ -20,7 +20,11 @@ import {
   waitForHttp,
 } from "./stack.mjs";
 
-export async function bootScratchStack({ distDir = ".next-test", build = true, chromium = false, quiet = true, extraEnv = {} } = {}) {
+// appLog: a file that receives the app instances' output (instead of the terminal).
+// durable: keep PostgreSQL's fsync, synchronous_commit and full_page_writes on (the fault test needs them).
+// The answer also carries the cluster (stop(mode) / start()) and startApp(port), which starts one more
+// `next start` of the same build (added to children, so stop() ends it too).
+export async function bootScratchStack({ distDir = ".next-test", build = true, chromium = false, quiet = true, extraEnv = {}, durable = false, appLog } = {}) {
   ensureDependencies();
   const pgBin = ensurePostgres();
   const chromiumPath = chromium ? ensureChromium() : undefined;
@@ -43,7 +47,7 @@ export async function bootScratchStack({ distDir = ".next-test", build = true, c
       logFile: join(scratch, "postgres.log"),
       port: pgPort,
       password: secrets.PG_PASSWORD,
-      fast: true,
+      fast: !durable,
     });
     ensureDatabase({ bin: pgBin, port: pgPort, password: secrets.PG_PASSWORD, name: "bandedge" });
     const env = serviceEnv({
@@ -77,10 +81,15 @@ export async function bootScratchStack({ distDir = ".next-test", build = true, c
     for (const fake of ["stripe-server.ts", "upload-server.ts"]) {
       if (existsSync(join(ROOT, "scripts", "fakes", fake))) children.push(spawnService(fake, bin("tsx"), [join("scripts", "fakes", fake)], env, { quiet }));
     }
-    children.push(spawnService("app", bin("next"), ["start", "--hostname", "127.0.0.1", "--port", String(appPort)], env, { quiet }));
+    const startApp = (port = appPort, { name = "app" } = {}) => {
+      const child = spawnService(name, bin("next"), ["start", "--hostname", "127.0.0.1", "--port", String(port)], env, { quiet, logFile: appLog });
+      children.push(child);
+      return child;
+    };
+    const app = startApp();
     await waitForHttp(`http://127.0.0.1:${mailPort}/health`);
     await waitForHttp(`http://127.0.0.1:${appPort}/api/health`, 90_000);
-    return { env, scratch, appUrl: `http://127.0.0.1:${appPort}`, stop, children };
+    return { env, scratch, appUrl: `http://127.0.0.1:${appPort}`, stop, children, app, startApp, cluster, pgBin };
   } catch (e) {
     stop();
     throw e;

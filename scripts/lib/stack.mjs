@@ -1,7 +1,7 @@
 // Shared steps of the start and test commands. Node built-ins only: this runs before dependencies exist.
 import { execFileSync, spawn, spawnSync } from "node:child_process";
 import { createHash, generateKeyPairSync, randomBytes } from "node:crypto";
-import { chmodSync, chownSync, existsSync, mkdirSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
+import { chmodSync, chownSync, closeSync, existsSync, mkdirSync, openSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import { createServer } from "node:net";
 import { dirname, join, resolve } from "node:path";
 import { fileURLToPath } from "node:url";
@@ -103,16 +103,30 @@ export function startCluster({ bin, dataDir, socketDir, logFile, port, password,
   ownByPostgres(logFile);
   const opts = [`-h 127.0.0.1`, `-p ${port}`, `-k ${socketDir}`, "-c max_connections=200"];
   if (fast) opts.push("-c fsync=off", "-c synchronous_commit=off", "-c full_page_writes=off");
+  const start = () => {
+    const r = asPg(join(bin, "pg_ctl"), ["-D", dataDir, "-l", logFile, "-o", opts.join(" "), "-w", "-t", "60", "start"]);
+    if (r.status !== 0) throw new Error(`PostgreSQL did not start: ${r.stderr || r.stdout}\n${readFileSync(logFile, "utf8").slice(-2000)}`);
+  };
   const status = asPg(join(bin, "pg_ctl"), ["-D", dataDir, "status"]);
   if (status.status === 0) {
     log("PostgreSQL is already running for this folder.");
   } else {
-    const r = asPg(join(bin, "pg_ctl"), ["-D", dataDir, "-l", logFile, "-o", opts.join(" "), "-w", "-t", "60", "start"]);
-    if (r.status !== 0) throw new Error(`PostgreSQL did not start: ${r.stderr || r.stdout}\n${readFileSync(logFile, "utf8").slice(-2000)}`);
+    start();
   }
   return {
     stop(mode = "fast") {
       asPg(join(bin, "pg_ctl"), ["-D", dataDir, "-m", mode, "-w", "stop"], { stdio: "ignore" });
+    },
+    /** Starts the cluster again after stop(), with the same settings (used by the fault test). */
+    start,
+    /** The server's current settings, e.g. setting("fsync") → "on". */
+    setting(name) {
+      const r = spawnSync(join(bin, "psql"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-d", "postgres", "-tAc", `show ${name}`], {
+        encoding: "utf8",
+        env: { ...process.env, PGPASSWORD: password },
+      });
+      if (r.status !== 0) throw new Error(`psql failed: ${r.stderr}`);
+      return r.stdout.trim();
     },
   };
 }
@@ -208,8 +222,12 @@ export function serviceEnv({ secrets, pgPort, appPort, mailPort, stripePort, upl
   };
 }
 
-export function spawnService(name, cmd, args, env, { quiet = false } = {}) {
-  const child = spawn(cmd, args, { cwd: ROOT, env, stdio: quiet ? ["ignore", "ignore", "inherit"] : ["ignore", "inherit", "inherit"], detached: false });
+// logFile: append the service's output there instead of the terminal (a noisy app under fault injection).
+export function spawnService(name, cmd, args, env, { quiet = false, logFile } = {}) {
+  const out = logFile ? openSync(logFile, "a") : undefined;
+  const stdio = out !== undefined ? ["ignore", out, out] : quiet ? ["ignore", "ignore", "inherit"] : ["ignore", "inherit", "inherit"];
+  const child = spawn(cmd, args, { cwd: ROOT, env, stdio, detached: false });
+  if (out !== undefined) closeSync(out);
   child.on("exit", (code, signal) => {
     if (code !== 0 && signal == null && !child.killed) process.stderr.write(`[${name}] exited with code ${code}\n`);
   });
