@@ -6,6 +6,9 @@ const root = fileURLToPath(new URL(".", import.meta.url));
 export default defineConfig({
   resolve: { alias: { "@": root } },
   test: {
+    // One file at a time across all projects: integration and browser tests share one app and one database.
+    fileParallelism: false,
+    maxWorkers: 1,
     projects: [
       {
         extends: true,

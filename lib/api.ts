@@ -1,7 +1,7 @@
 import "server-only";
 import type { z } from "zod";
 import { env } from "./env";
-import { AppError, toAppError } from "./errors";
+import { AppError, NUL_MESSAGE, nulCharacterPath, toAppError } from "./errors";
 import { can, type Permission } from "./permissions";
 import { viewerFromHeaders, type Viewer } from "./session";
 
@@ -60,11 +60,15 @@ export async function readJson(request: Request, limitBytes = 256 * 1024): Promi
   const text = await request.text();
   if (text.length > limitBytes) throw new AppError("payload_too_large", "The request is too large.");
   if (!text) return {};
+  let parsed: unknown;
   try {
-    return JSON.parse(text);
+    parsed = JSON.parse(text);
   } catch {
     throw new AppError("invalid_input", "The request body is not valid JSON.");
   }
+  const nul = nulCharacterPath(parsed);
+  if (nul) throw new AppError("invalid_input", "Some fields need attention.", { [nul]: NUL_MESSAGE });
+  return parsed;
 }
 
 // The one wrapper for JSON route handlers: session, permission, origin, body validation, error shape.

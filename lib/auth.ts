@@ -10,6 +10,7 @@ import * as schema from "@/db/schema";
 import { env } from "./env";
 import { queueEmailNow } from "./mail";
 import { isCommonPassword } from "./common-passwords";
+import { NUL_MESSAGE, nulCharacterPath } from "./errors";
 import { hashPassword, verifyPassword } from "./password";
 
 // better-auth's own admin endpoints: only the shop owner may use them.
@@ -101,6 +102,10 @@ function createAuth() {
     },
     hooks: {
       before: createAuthMiddleware(async (ctx) => {
+        // Text the database cannot store (a NUL character) is refused as bad input, not left to fail there.
+        if (nulCharacterPath(ctx.body ?? null) || nulCharacterPath(ctx.query ?? null)) {
+          throw new APIError("BAD_REQUEST", { code: "INVALID_CHARACTER", message: NUL_MESSAGE });
+        }
         if (ctx.path !== "/sign-up/email" && ctx.path !== "/reset-password" && ctx.path !== "/change-password") return;
         const body = (ctx.body ?? {}) as { password?: unknown; newPassword?: unknown };
         const candidate = typeof body.newPassword === "string" ? body.newPassword : body.password;

@@ -26,6 +26,13 @@ export async function viewerFromHeaders(h: Headers): Promise<Viewer | null> {
   return { id: user.id, name: user.name, email: user.email, role, sessionId: session.id };
 }
 
+// The sign-in service's own endpoints (session, account and password changes) know only the sliding expiry:
+// a session past the absolute lifetime is ended before they run, so they see no session either.
+export async function endSessionPastLifetime(h: Headers): Promise<void> {
+  if (!/(?:^|;\s*)(?:__Secure-)?better-auth\.session_token=/.test(h.get("cookie") ?? "")) return;
+  await viewerFromHeaders(h);
+}
+
 export const getViewer = cache(async (): Promise<Viewer | null> => viewerFromHeaders(await headers()));
 
 // For pages: anonymous visitors go to sign-in; a signed-in person without the permission sees not-found.

@@ -73,17 +73,17 @@ export type Draft = z.infer<typeof draftSchema>;
 
 export const saveEstimateSchema = draftSchema.extend({
   // The version the editor started from; a stale one is refused with 409.
-  version: z.number().int().min(0),
+  version: z.number().int().min(0).max(2 ** 31 - 1),
 });
 export type SaveEstimateInput = z.infer<typeof saveEstimateSchema>;
 
 export const sendEstimateSchema = z.object({
-  version: z.number().int().min(1, "Save the estimate before sending it."),
+  version: z.number().int().min(1, "Save the estimate before sending it.").max(2 ** 31 - 1),
   changeSummary: z.string().trim().max(1000, "Keep the summary under 1000 characters.").optional(),
 });
 export type SendEstimateInput = z.infer<typeof sendEstimateSchema>;
 
-export const rebuildEstimateSchema = z.object({ version: z.number().int().min(0) });
+export const rebuildEstimateSchema = z.object({ version: z.number().int().min(0).max(2 ** 31 - 1) });
 
 /** "$1,234.56" from minor units; used on the bench, in e-mails and on the portal. */
 export function moneyText(amountMinor: number, currency: string, exponent: number): string {

@@ -93,7 +93,7 @@ const emailOrBlank = z.union([z.literal(""), z.string().trim().toLowerCase().ema
 
 export const settingsFormSchema = z
   .object({
-    version: z.number().int().min(0),
+    version: z.number().int().min(0).max(2 ** 31 - 1),
     identity: z.object({
       name: z.string().trim().min(1, "The shop needs a name; it is printed on every certificate.").max(120, "Keep the name under 120 characters."),
       /** One address line per line of the text box. */

@@ -1,12 +1,9 @@
-import { randomUUID } from "node:crypto";
-import { mkdirSync, writeFileSync } from "node:fs";
-import { join } from "node:path";
-import sharp from "sharp";
 import { beforeAll, describe, expect, it } from "vitest";
 import { PERMISSIONS } from "@/lib/permissions";
 import { DEMO } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
+import { fixturesFromSeed, pathOf } from "./access/fixtures";
 import { actionInventory, routeInventory } from "./access/inventory";
 import { ACTIONS, ROUTES, type Fixtures, type Role, type RouteEntry } from "./access/matrix";
 
@@ -19,35 +16,6 @@ const LOGINS: Record<Exclude<Role, "anonymous">, { email: string; password: stri
 };
 
 let fixtures: Fixtures;
-
-async function fixturesFromSeed(): Promise<Fixtures> {
-  const one = async <T extends Record<string, unknown>>(q: string, v: unknown[] = []) => {
-    const rows = await sql<T>(q, v);
-    if (!rows[0]) throw new Error(`fixture query found nothing: ${q}`);
-    return rows[0];
-  };
-  const { id: jobA } = await one<{ id: string }>("select id from job where idempotency_key = 'demo-returned' and customer_id = 'demo-cust-mira'");
-  const { id: jobOpenA } = await one<{ id: string }>("select id from job where idempotency_key = 'demo-final' and customer_id = 'demo-cust-mira'");
-  const { id: revisionA } = await one<{ id: string }>("select id from estimate_revision where job_id = $1 order by revision desc limit 1", [jobA]);
-  const { id: certificateA } = await one<{ id: string }>("select id from certificate where job_id = $1", [jobA]);
-  const { id: claimA } = await one<{ id: string }>("select id from claim where certificate_id = $1", [certificateA]);
-  const pay = await one<{ id: string; checkout_session_id: string }>("select id, checkout_session_id from payment where job_id = $1 and purpose = 'deposit'", [jobA]);
-  // A photo of customer A's set, stored the way the upload path stores one.
-  const photoId = randomUUID();
-  const key = `photos/${randomUUID()}.jpg`;
-  const dir = join(process.env.UPLOAD_DIR!, "store", "photos");
-  mkdirSync(dir, { recursive: true });
-  const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: "#884422" } }).jpeg().toBuffer();
-  writeFileSync(join(process.env.UPLOAD_DIR!, "store", key), jpeg);
-  await sql("insert into photo (id, uploader_id, job_id, storage_key, display_name, mime, width, height, bytes) values ($1, 'demo-cust-mira', $2, $3, 'front.jpg', 'image/jpeg', 8, 8, $4)", [photoId, jobA, key, jpeg.length]);
-  return { jobA, jobOpenA, revisionA, certificateA, claimA, paymentA: pay.id, sessionA: pay.checkout_session_id, photoA: photoId };
-}
-
-function pathOf(entry: RouteEntry, f: Fixtures): string {
-  let path = entry.route;
-  for (const [k, v] of Object.entries(entry.params?.(f) ?? {})) path = path.replace(`[...${k}]`, v).replace(`[${k}]`, encodeURIComponent(v));
-  return path + (entry.query ?? "");
-}
 
 function expected(entry: RouteEntry, role: Role): "allow" | "deny" | "public" {
   const rule = entry.rules[role];
