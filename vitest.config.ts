@@ -9,6 +9,8 @@ export default defineConfig({
     // One file at a time across all projects: integration and browser tests share one app and one database.
     fileParallelism: false,
     maxWorkers: 1,
+    // Pages and the queue answer asynchronously; on a loaded machine a second is not enough to wait.
+    expect: { poll: { timeout: 20_000, interval: 100 } },
     projects: [
       {
         extends: true,
