@@ -72,10 +72,11 @@ function useStateChange(jobId: string) {
   };
 }
 
-function ProfileEditor({ detail }: { detail: JobDetailJson }) {
+// Remounted whenever the stored profile changes (its key is the set's updated-at), so the "saved" notice
+// lives in the parent and survives the refetch that follows a save.
+function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; saved: boolean; setSaved: (v: boolean) => void }) {
   const jobId = detail.job.id;
   const qc = useQueryClient();
-  const [saved, setSaved] = useState(false);
   const form = useForm<ProfileForm, unknown, ProfileOut>({ resolver: zodResolver(profileUpdateSchema), defaultValues: defaultsFrom(detail), mode: "onBlur" });
   const { register, control, handleSubmit, formState, setError, watch } = form;
   const bands = useFieldArray({ control, name: "profile.bands" });
@@ -341,6 +342,7 @@ function MessageForm({ jobId, kind }: { jobId: string; kind: "question" | "decli
 }
 
 export function TriagePanel({ detail }: { detail: JobDetailJson }) {
+  const [profileSaved, setProfileSaved] = useState(false);
   const jobId = detail.job.id;
   const onChange = useStateChange(jobId);
   const start = useMutation({ mutationFn: () => api(`/api/bench/jobs/${jobId}/triage`, { method: "POST" }), onSuccess: onChange });
@@ -406,7 +408,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
           )}
         </section>
         <div className="space-y-3 lg:col-span-2">
-          <ProfileEditor key={detail.set.updatedAt} detail={detail} />
+          <ProfileEditor key={detail.set.updatedAt} detail={detail} saved={profileSaved} setSaved={setProfileSaved} />
           {state === "in_triage" ? (
             <div className="grid gap-3 md:grid-cols-2">
               <MessageForm jobId={jobId} kind="question" />
