@@ -154,6 +154,46 @@ async function photoReencode() {
   rows.push({ metric: "photo re-encode, 12 MP JPEG", figure: `median ${times[1]!.toFixed(0)} ms, RSS growth ${rssGrowth.toFixed(0)} MiB`, goal: "≤ 1.2 s, memory bounded" });
 }
 
+// JavaScript the browser fetches on a first visit to each page (decoded bytes, cold cache).
+async function firstLoadJs(stack: Stack, db: pg.Pool) {
+  const { chromium } = await import("playwright-core");
+  const browser = await chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run"],
+  });
+  const code = (await db.query<{ code: string }>("select code from certificate order by issued_at limit 1")).rows[0]?.code;
+  const plan: { who: string; login?: [string, string]; paths: string[] }[] = [
+    { who: "anonymous", paths: ["/", "/sign-in", "/sign-up", ...(code ? [`/verify/${code}`] : [])] },
+    { who: "set owner", login: ["mira.holloway@example.com", "demo-owner-2026"], paths: ["/portal", "/portal/request"] },
+    { who: "technician", login: ["tomas@kestrel-lane.example", "bench-tech-2026"], paths: ["/bench", "/bench/calculator"] },
+    { who: "shop owner", login: ["odile@kestrel-lane.example", "bench-owner-2026"], paths: ["/office", "/office/reports"] },
+  ];
+  const figures: string[] = [];
+  try {
+    for (const p of plan) {
+      const cookie = p.login ? await signIn(stack.appUrl, p.login[0], p.login[1]) : "";
+      for (const path of p.paths) {
+        const ctx = await browser.newContext();
+        if (cookie) {
+          await ctx.addCookies(cookie.split("; ").map((c) => ({ name: c.slice(0, c.indexOf("=")), value: c.slice(c.indexOf("=") + 1), url: stack.appUrl })));
+        }
+        const page = await ctx.newPage();
+        let bytes = 0;
+        page.on("response", async (res) => {
+          if (res.request().resourceType() === "script") bytes += (await res.body().catch(() => Buffer.alloc(0))).length;
+        });
+        await page.goto(`${stack.appUrl}${path}`, { waitUntil: "load" });
+        await page.waitForTimeout(500);
+        figures.push(`${path.startsWith("/verify/") ? "/verify/[code]" : path} ${(bytes / 1024).toFixed(0)} KiB`);
+        await ctx.close();
+      }
+    }
+  } finally {
+    await browser.close();
+  }
+  rows.push({ metric: "JavaScript on first load (decoded)", figure: figures.join(", "), goal: "verification and sign-in the lightest" });
+}
+
 async function main() {
   const stack: Stack = await bootScratchStack({ distDir: process.env.BANDEDGE_BENCH_DIST ?? ".next-test", build: !process.argv.includes("--skip-build"), extraEnv: { AUTH_RATE_LIMIT_MAX: "1000" } });
   const db = new pg.Pool({ connectionString: stack.env.DATABASE_URL, max: 2 });
@@ -164,6 +204,7 @@ async function main() {
     await listVsBare(stack, techCookie, 50);
     await webhookBurst(stack, db);
     await pdfAndVerify(stack, db, ownerCookie);
+    await firstLoadJs(stack, db);
     Object.assign(process.env, stack.env);
     await photoReencode();
   } finally {
