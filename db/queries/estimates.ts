@@ -13,21 +13,26 @@ export async function getEstimateForStaff({ jobId }: { jobId: string }, tx: Data
   return row ?? null;
 }
 
+// What both sides see of a revision: its number, state, money and dates (never cost prices or markups).
+export const revisionSummaryColumns = {
+  id: estimateRevisions.id,
+  revision: estimateRevisions.revision,
+  status: estimateRevisions.status,
+  currency: estimateRevisions.currency,
+  labourMinor: estimateRevisions.labourMinor,
+  partsMinor: estimateRevisions.partsMinor,
+  taxMinor: estimateRevisions.taxMinor,
+  totalMinor: estimateRevisions.totalMinor,
+  depositMinor: estimateRevisions.depositMinor,
+  pricing: estimateRevisions.pricing,
+  changeSummary: estimateRevisions.changeSummary,
+  sentAt: estimateRevisions.sentAt,
+};
+
 export async function listRevisionsForStaff({ jobId }: { jobId: string }, tx: Database = db) {
   return tx
     .select({
-      id: estimateRevisions.id,
-      revision: estimateRevisions.revision,
-      status: estimateRevisions.status,
-      currency: estimateRevisions.currency,
-      labourMinor: estimateRevisions.labourMinor,
-      partsMinor: estimateRevisions.partsMinor,
-      taxMinor: estimateRevisions.taxMinor,
-      totalMinor: estimateRevisions.totalMinor,
-      depositMinor: estimateRevisions.depositMinor,
-      pricing: estimateRevisions.pricing,
-      changeSummary: estimateRevisions.changeSummary,
-      sentAt: estimateRevisions.sentAt,
+      ...revisionSummaryColumns,
       sentByName: user.name,
       decidedAt: estimateRevisions.decidedAt,
       declineReason: estimateRevisions.declineReason,

@@ -1,6 +1,7 @@
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { db } from "@/db";
 import { estimateLines, estimateRevisions, jobs, jobStateHistory, messages, photos, radioSets, user } from "@/db/schema";
+import { revisionSummaryColumns } from "./estimates";
 
 // Everything here is scoped to one customer: another customer's ids simply find nothing.
 
@@ -71,18 +72,7 @@ export async function listPhotosForCustomer({ jobId, customerId }: { jobId: stri
 export async function listRevisionsForCustomer({ jobId, customerId }: { jobId: string; customerId: string }) {
   const revisions = await db
     .select({
-      id: estimateRevisions.id,
-      revision: estimateRevisions.revision,
-      status: estimateRevisions.status,
-      currency: estimateRevisions.currency,
-      labourMinor: estimateRevisions.labourMinor,
-      partsMinor: estimateRevisions.partsMinor,
-      taxMinor: estimateRevisions.taxMinor,
-      totalMinor: estimateRevisions.totalMinor,
-      depositMinor: estimateRevisions.depositMinor,
-      pricing: estimateRevisions.pricing,
-      changeSummary: estimateRevisions.changeSummary,
-      sentAt: estimateRevisions.sentAt,
+      ...revisionSummaryColumns,
       decidedAt: estimateRevisions.decidedAt,
       declineReason: estimateRevisions.declineReason,
     })
