@@ -121,7 +121,11 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
         <section className="card space-y-1 p-4">
           <h2 className="font-semibold">Decision</h2>
           <p>{row.claim.decisionReason ?? "No message."}</p>
-          {row.claim.warrantyJobId ? <Link href={`/bench/jobs/${row.claim.warrantyJobId}`}>Warranty job</Link> : null}
+          {row.claim.warrantyJobId ? (
+            <Notice tone="success" title="Warranty job opened">
+              <Link href={`/bench/jobs/${row.claim.warrantyJobId}`}>Open the warranty job</Link>
+            </Notice>
+          ) : null}
         </section>
       )}
     </div>
