@@ -4,7 +4,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useState } from "react";
 import { get, useForm, useWatch, type FieldErrors, type Path, type UseFormRegister } from "react-hook-form";
-import { describedBy } from "@/components/ui/field";
+import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { bandKinds } from "@/lib/bands/band";
 import { checklistCategories, ruleCategory } from "@/lib/checklist/rules";
@@ -52,10 +52,7 @@ function TextField({
   const id = `f-${name.replaceAll(".", "-")}`;
   const error = errorAt(errors, name);
   return (
-    <div className={`space-y-0.5 ${className}`}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
+    <Field id={id} label={label} error={error} hint={hint} className={className}>
       <div className="flex items-center gap-2">
         {prefix ? <span className="figure mt-1 text-sm text-bakelite-soft">{prefix}</span> : null}
         <input
@@ -70,17 +67,7 @@ function TextField({
         />
         {suffix ? <span className="mt-1 whitespace-nowrap text-sm text-bakelite-soft">{suffix}</span> : null}
       </div>
-      {hint ? (
-        <p id={`${id}-hint`} className="field-hint">
-          {hint}
-        </p>
-      ) : null}
-      {error ? (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      ) : null}
-    </div>
+    </Field>
   );
 }
 
@@ -88,22 +75,9 @@ function TextArea({ name, label, hint, register, errors, rows = 3 }: { name: Pat
   const id = `f-${name.replaceAll(".", "-")}`;
   const error = errorAt(errors, name);
   return (
-    <div className="space-y-0.5">
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
+    <Field id={id} label={label} error={error} hint={hint}>
       <textarea id={id} rows={rows} className="field-input" aria-invalid={!!error} aria-describedby={describedBy(id, { error, hint })} {...register(name)} />
-      {hint ? (
-        <p id={`${id}-hint`} className="field-hint">
-          {hint}
-        </p>
-      ) : null}
-      {error ? (
-        <p id={`${id}-error`} className="field-error" role="alert">
-          {error}
-        </p>
-      ) : null}
-    </div>
+    </Field>
   );
 }
 

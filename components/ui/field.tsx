@@ -6,16 +6,18 @@ export function Field({
   label,
   error,
   hint,
+  className = "",
   children,
 }: {
   id: string;
+  className?: string;
   label: ReactNode;
   error?: string;
   hint?: ReactNode;
   children: ReactNode;
 }) {
   return (
-    <div className="space-y-0.5">
+    <div className={`space-y-0.5 ${className}`}>
       <label htmlFor={id} className="field-label">
         {label}
       </label>
