@@ -1,10 +1,11 @@
 import "server-only";
+import { createHmac, timingSafeEqual } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { headers } from "next/headers";
 import { notFound, redirect } from "next/navigation";
 import { cache } from "react";
 import { db } from "@/db";
-import { session as sessionTable } from "@/db/schema";
+import { session as sessionTable, user } from "@/db/schema";
 import type { Role } from "@/db/schema/enums";
 import { auth, SESSION_ABSOLUTE_SECONDS } from "./auth";
 import { can, isRole, type Permission } from "./permissions";
@@ -14,16 +15,83 @@ export type Viewer = { id: string; name: string; email: string; role: Role; sess
 // Resolves the session against the database on every request (no cookie cache), so a revoked
 // or deactivated account stops working at the next request.
 export async function viewerFromHeaders(h: Headers): Promise<Viewer | null> {
+  const quick = await readSessionDirectly(h);
+  if (quick === "absent") return null;
+  if (quick !== "ask-auth") return quick;
   const result = await auth().api.getSession({ headers: h });
   if (!result) return null;
   const { user, session } = result;
-  if (user.banned) return null;
-  if (Date.now() - new Date(session.createdAt).getTime() > SESSION_ABSOLUTE_SECONDS * 1000) {
-    await db.delete(sessionTable).where(eq(sessionTable.id, session.id));
+  return admit({ id: user.id, name: user.name, email: user.email, role: user.role, banned: user.banned, sessionId: session.id, createdAt: new Date(session.createdAt) });
+}
+
+async function admit(row: { id: string; name: string; email: string; role: string | null | undefined; banned: boolean | null | undefined; sessionId: string; createdAt: Date }): Promise<Viewer | null> {
+  if (row.banned) return null;
+  if (Date.now() - row.createdAt.getTime() > SESSION_ABSOLUTE_SECONDS * 1000) {
+    await db.delete(sessionTable).where(eq(sessionTable.id, row.sessionId));
     return null;
   }
-  const role = isRole(user.role) ? user.role : "customer";
-  return { id: user.id, name: user.name, email: user.email, role, sessionId: session.id };
+  const role = row.role && isRole(row.role) ? row.role : "customer";
+  return { id: row.id, name: row.name, email: row.email, role, sessionId: row.sessionId };
+}
+
+function cookieValue(header: string, name: string): string | null {
+  for (const part of header.split(";")) {
+    const eq = part.indexOf("=");
+    if (eq > 0 && part.slice(0, eq).trim() === name) return part.slice(eq + 1).trim();
+  }
+  return null;
+}
+
+/**
+ * The read-only path of a session check, in one query: the signed session cookie is verified here and
+ * the session and its user read together. Anything that needs a write or a new cookie (expired, due for
+ * its sliding refresh) goes to the sign-in service itself ("ask-auth"), which stays the only writer.
+ * "absent": no session cookie, or one whose signature or token does not match (the service answers
+ * no session for both as well).
+ */
+async function readSessionDirectly(h: Headers): Promise<Viewer | null | "absent" | "ask-auth"> {
+  const cookies = h.get("cookie");
+  if (!cookies) return "absent";
+  const ctx = await auth().$context;
+  const raw = cookieValue(cookies, ctx.authCookies.sessionToken.name);
+  if (!raw) return "absent";
+  let value: string;
+  try {
+    value = decodeURIComponent(raw);
+  } catch {
+    return "absent";
+  }
+  const dot = value.lastIndexOf(".");
+  if (dot < 1) return "absent";
+  const token = value.slice(0, dot);
+  const signature = value.slice(dot + 1);
+  if (signature.length !== 44 || !signature.endsWith("=")) return "absent";
+  const expected = createHmac("sha256", ctx.secret).update(token).digest();
+  const given = Buffer.from(signature, "base64");
+  if (given.length !== expected.length || !timingSafeEqual(given, expected)) return "absent";
+
+  const found = await db
+    .select({
+      sessionId: sessionTable.id,
+      expiresAt: sessionTable.expiresAt,
+      createdAt: sessionTable.createdAt,
+      id: user.id,
+      name: user.name,
+      email: user.email,
+      role: user.role,
+      banned: user.banned,
+    })
+    .from(sessionTable)
+    .innerJoin(user, eq(user.id, sessionTable.userId))
+    .where(eq(sessionTable.token, token))
+    .limit(1);
+  const row = found[0];
+  if (!row) return "absent";
+  const { expiresIn, updateAge } = ctx.sessionConfig;
+  const now = Date.now();
+  if (row.expiresAt.getTime() <= now) return "ask-auth";
+  if (row.expiresAt.getTime() - expiresIn * 1000 + updateAge * 1000 <= now) return "ask-auth";
+  return admit(row);
 }
 
 // The sign-in service's own endpoints (session, account and password changes) know only the sliding expiry:

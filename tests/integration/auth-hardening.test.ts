@@ -346,3 +346,58 @@ describe("the sign-in limiter", () => {
     expect((await counter(ip, "/request-password-reset"))?.count).toBeGreaterThanOrEqual(1);
   });
 });
+
+describe("the session check on every request", () => {
+  function sessionCookie(client: TestClient): { name: string; token: string; signature: string } {
+    const m = /(?:^|; )((?:__Secure-)?better-auth\.session_token)=([^;]+)/.exec(client.cookieHeader());
+    if (!m) throw new Error("the client has no session cookie");
+    const value = decodeURIComponent(m[2]!);
+    const dot = value.lastIndexOf(".");
+    return { name: m[1]!, token: value.slice(0, dot), signature: value.slice(dot + 1) };
+  }
+
+  it("refuses a session cookie the app did not sign, on routes and pages", async () => {
+    const { client } = await newCustomer("tampered");
+    const other = await newCustomer("tampered-other");
+    expect((await client.get("/api/portal/jobs")).status).toBe(200);
+    const mine = sessionCookie(client);
+    const theirs = sessionCookie(other.client);
+    const flipped = (mine.signature[0] === "A" ? "B" : "A") + mine.signature.slice(1);
+    const forged = [
+      `${mine.token}.${flipped}`, // signature altered
+      `${theirs.token}.${mine.signature}`, // another live session's token under this signature
+      mine.token, // no signature at all
+      `${mine.token}.`,
+      `${mine.token}.${mine.signature}x`,
+    ];
+    for (const value of forged) {
+      const cookie = `${mine.name}=${encodeURIComponent(value)}`;
+      const api = await new TestClient().get("/api/portal/jobs", { headers: { cookie } });
+      expect(api.status, value).toBe(401);
+      const page = await new TestClient().get("/portal", { headers: { cookie } });
+      expect(page.headers.get("location") ?? "", value).toContain("/sign-in");
+    }
+    // Both real sessions still work.
+    expect((await client.get("/api/portal/jobs")).status).toBe(200);
+    expect((await other.client.get("/api/portal/jobs")).status).toBe(200);
+  });
+
+  it("extends a session due for its sliding refresh and ends one that has expired", async () => {
+    const { client } = await newCustomer("sliding");
+    const { token } = sessionCookie(client);
+    // Last extended two days ago (the refresh is due once a day): the next request extends it by the full week.
+    await sql("update session set expires_at = now() + interval '5 days' where token = $1", [token]);
+    expect((await client.get("/api/portal/jobs")).status).toBe(200);
+    const [row] = await sql<{ days: string }>("select extract(epoch from expires_at - now()) / 86400 as days from session where token = $1", [token]);
+    expect(Number(row!.days)).toBeGreaterThan(6.9);
+    // A request well inside the day after a refresh leaves the expiry alone.
+    const [before] = await sql<{ e: Date }>("select expires_at as e from session where token = $1", [token]);
+    expect((await client.get("/api/portal/jobs")).status).toBe(200);
+    const [after] = await sql<{ e: Date }>("select expires_at as e from session where token = $1", [token]);
+    expect(after!.e.getTime()).toBe(before!.e.getTime());
+    // Past its expiry: refused, and the row is removed.
+    await sql("update session set expires_at = now() - interval '1 minute' where token = $1", [token]);
+    expect((await client.get("/api/portal/jobs")).status).toBe(401);
+    expect(await sql("select 1 from session where token = $1", [token])).toHaveLength(0);
+  });
+});
