@@ -17,7 +17,19 @@ function privateKey(pem: string): KeyObject {
   return key;
 }
 
+// Parsed verification keys by PEM text: the public check page verifies on every view. A shop has a handful.
+const publicKeys = new Map<string, KeyObject>();
+
 function publicKey(pem: string): KeyObject {
+  const known = publicKeys.get(pem);
+  if (known) return known;
+  const key = parsePublicKey(pem);
+  if (publicKeys.size >= 16) publicKeys.clear();
+  publicKeys.set(pem, key);
+  return key;
+}
+
+function parsePublicKey(pem: string): KeyObject {
   let key: KeyObject;
   try {
     key = createPublicKey(pem);
