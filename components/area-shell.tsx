@@ -1,7 +1,9 @@
 import Link from "next/link";
 import type { ReactNode } from "react";
+import { Providers } from "./providers";
 import { SiteFooter, SiteHeader } from "./site-header";
 
+// The signed-in areas fetch their data through the query client; public pages ship without it.
 export function AreaShell({ title, nav, children, dense }: { title: string; nav: { href: string; label: string }[]; children: ReactNode; dense?: boolean }) {
   return (
     <>
@@ -19,7 +21,7 @@ export function AreaShell({ title, nav, children, dense }: { title: string; nav:
         </div>
       </div>
       <main id="main" className={`mx-auto max-w-page px-4 ${dense ? "py-4" : "py-8"}`}>
-        {children}
+        <Providers>{children}</Providers>
       </main>
       <SiteFooter />
     </>
