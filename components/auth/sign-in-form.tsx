@@ -7,8 +7,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { authClient } from "@/lib/auth-client";
-import { signInSchema, type SignInInput } from "@/lib/validation/account";
+import { signInSchema, type SignInInput } from "@/lib/validation/sign-in";
 
 export function SignInForm({ next }: { next?: string }) {
   const router = useRouter();
@@ -18,10 +17,23 @@ export function SignInForm({ next }: { next?: string }) {
 
   const onSubmit = handleSubmit(async (values) => {
     setProblem(null);
-    const { error } = await authClient.signIn.email({ email: values.email, password: values.password });
-    if (error) {
-      if (error.status === 429) setProblem("Too many attempts. Please wait a minute and try again.");
-      else if (error.code === "EMAIL_NOT_VERIFIED") setProblem("Please confirm your e-mail address first: we sent you a link when you signed up.");
+    // The sign-in service's own endpoint, called directly: its browser client is not needed for one request.
+    let res: Response;
+    try {
+      res = await fetch("/api/auth/sign-in/email", {
+        method: "POST",
+        headers: { "content-type": "application/json" },
+        body: JSON.stringify({ email: values.email, password: values.password }),
+      });
+    } catch {
+      setProblem("The shop could not be reached. Check your connection and try again.");
+      return;
+    }
+    if (!res.ok) {
+      const code = ((await res.json().catch(() => null)) as { code?: string } | null)?.code;
+      if (res.status === 429) setProblem("Too many attempts. Please wait a minute and try again.");
+      else if (res.status >= 500) setProblem("Signing in failed on the shop's side. Please try again in a moment.");
+      else if (code === "EMAIL_NOT_VERIFIED") setProblem("Please confirm your e-mail address first: we sent you a link when you signed up.");
       else setProblem("That e-mail and password do not match an account.");
       return;
     }

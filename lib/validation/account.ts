@@ -7,9 +7,6 @@ export const passwordSchema = z
   .min(8, "Use at least 8 characters.")
   .max(128, "Use at most 128 characters.");
 
-export const signInSchema = z.object({ email: emailSchema, password: z.string().min(1, "Enter your password.").max(128) });
-export type SignInInput = z.infer<typeof signInSchema>;
-
 export const signUpSchema = z.object({
   name: z.string().trim().min(1, "Tell us your name.").max(120),
   email: emailSchema,
