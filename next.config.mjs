@@ -1,4 +1,8 @@
-/** @type {import('next').NextConfig} */
+import { PHASE_DEVELOPMENT_SERVER } from "next/constants.js";
+import { buildPdfWorker, pdfWorkerFile } from "./scripts/build-pdf-worker.mjs";
+
+const distDir = process.env.NEXT_DIST_DIR || ".next";
+
 const securityHeaders = [
   { key: "X-Content-Type-Options", value: "nosniff" },
   { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
@@ -21,12 +25,21 @@ const securityHeaders = [
   },
 ];
 
+/** @type {import('next').NextConfig} */
 const nextConfig = {
-  distDir: process.env.NEXT_DIST_DIR || ".next",
+  distDir,
   poweredByHeader: false,
   productionBrowserSourceMaps: false,
   reactStrictMode: true,
-  serverExternalPackages: ["pg-boss", "@node-rs/argon2", "sharp"],
+  serverExternalPackages: ["pg-boss", "@node-rs/argon2", "sharp", "piscina"],
+  // Certificate PDFs render in worker threads from a bundle of their own (scripts/build-pdf-worker.mjs),
+  // written into the dist dir after Next's compile step; the app finds it through this build-time value.
+  env: { BANDEDGE_PDF_WORKER: pdfWorkerFile(distDir) },
+  compiler: {
+    runAfterProductionCompile: async ({ projectDir, distDir: outDir }) => {
+      await buildPdfWorker({ projectDir, distDir: outDir });
+    },
+  },
   async headers() {
     return [
       { source: "/:path*", headers: securityHeaders },
@@ -35,4 +48,8 @@ const nextConfig = {
   },
 };
 
-export default nextConfig;
+export default async function config(phase) {
+  // `next dev` has no production compile step; the worker is bundled once as the dev server starts.
+  if (phase === PHASE_DEVELOPMENT_SERVER) await buildPdfWorker({ distDir });
+  return nextConfig;
+}

@@ -1,8 +1,9 @@
 import { getCertificateById, getCertificateForCustomer } from "@/db/queries/certificates";
-import { route } from "@/lib/api";
+import { json, route } from "@/lib/api";
 import { env } from "@/lib/env";
 import { AppError } from "@/lib/errors";
-import { renderCertificatePdf } from "@/lib/pdf/certificate-pdf";
+import { certificatePdfFailure, renderCertificatePdfOffThread } from "@/lib/pdf/certificate-pdf-pool";
+import { RenderPoolError } from "@/lib/pdf/render-pool";
 import { can } from "@/lib/permissions";
 import { certificateStatus, isUuid } from "@/lib/services/certificates";
 
@@ -18,7 +19,7 @@ export const GET = route<{ id: string }>({ permission: "certificate.download" },
   const { status, document } = certificateStatus(row);
   if (!document) throw new AppError("conflict", "This certificate cannot be verified, so it cannot be printed. Please contact the shop.");
   const newer = row.supersededById ? await getCertificateById({ certificateId: row.supersededById }) : null;
-  const pdf = await renderCertificatePdf({
+  const input = {
     document,
     verifyUrl: `${env().APP_URL.replace(/\/$/, "")}/verify/${row.code}`,
     keyId: row.keyId,
@@ -27,8 +28,17 @@ export const GET = route<{ id: string }>({ permission: "certificate.download" },
       revoked: status === "revoked" && row.revokedAt ? { reason: row.revokeReason ?? "", on: row.revokedAt.toISOString().slice(0, 10) } : null,
       supersededByCode: newer?.code ?? null,
     },
-  });
-  return new Response(new Uint8Array(pdf), {
+  };
+  let pdf: Uint8Array<ArrayBuffer>;
+  try {
+    pdf = await renderCertificatePdfOffThread(input);
+  } catch (e) {
+    if (!(e instanceof RenderPoolError)) throw e;
+    const { error, retryAfterSeconds } = certificatePdfFailure(e);
+    if (retryAfterSeconds === null) throw error;
+    return json(error.toJSON(), { status: error.status, headers: { "retry-after": String(retryAfterSeconds) } });
+  }
+  return new Response(pdf, {
     headers: {
       "content-type": "application/pdf",
       "content-disposition": `attachment; filename="certificate-${row.code}.pdf"`,
