@@ -285,8 +285,8 @@ async function main() {
       checkouts: [] as { jobId: string; sessionId: string }[],
       webhooks: new Map<string, { jobId: string; sessionId: string }>(),
       claims: [] as { certificateId: string; marker: string }[],
-      messages: [] as { marker: string; jobId: string; firstAttempt: boolean }[],
-      messagesGivenUp: [] as { marker: string; attempts: number }[],
+      messages: [] as { marker: string; key: string; jobId: string; authorId: string; messageId: string; repeat: boolean }[],
+      messagesGivenUp: [] as { marker: string; key: string }[],
     };
 
     const signer = new Stripe("sk_test_fault_signer");
@@ -409,14 +409,17 @@ async function main() {
 
     async function messageTask(job: { client: Client; jobId: string }) {
       const marker = randomUUID();
+      // One key per message, as the portal's composer keeps it: every retry of this message sends it again.
+      const key = randomUUID();
       const text = `Is there anything you need from me before the set goes in? Ref ${marker}`;
-      const before = ops.length;
-      const ok = await perform("message", marker, async (signal) =>
-        answer(await job.client.request(`/api/portal/jobs/${job.jobId}/messages`, { method: "POST", json: { body: text }, signal }), (status) => (status === 201 ? true : undefined)),
+      const stored = await perform("message", key, async (signal) =>
+        answer(await job.client.request(`/api/portal/jobs/${job.jobId}/messages`, { method: "POST", json: { body: text, idempotencyKey: key }, signal }), (status, b) =>
+          // 201 stored now; 200 stored by an earlier attempt whose answer was lost.
+          status === 201 || status === 200 ? { id: (b as { id: string }).id, repeat: status === 200 } : undefined,
+        ),
       );
-      const rec = ops[before]!;
-      if (ok) ledger.messages.push({ marker, jobId: job.jobId, firstAttempt: rec.attempts === 1 });
-      else ledger.messagesGivenUp.push({ marker, attempts: rec.attempts });
+      if (stored) ledger.messages.push({ marker, key, jobId: job.jobId, authorId: job.client.userId, messageId: stored.id, repeat: stored.repeat });
+      else ledger.messagesGivenUp.push({ marker, key });
     }
 
     // ---- tasks, workers and the fault schedule ----
@@ -630,21 +633,40 @@ async function main() {
     );
     for (const r of claimRows) if (r.n !== 1 || r.open !== 1 || r.mine !== 1) violation(`claim on ${r.certificate_id}: ${r.n} claims, ${r.open} open, ${r.mine} with our text`);
 
-    // Messages: the route has no idempotency key, so a retried message may be stored twice (at least once);
-    // one acknowledged at the first attempt is stored exactly once.
+    // Messages: every retry carried the message's idempotency key, so each acknowledged message is stored
+    // exactly once, under its key, as the message the answer named, with one audit entry; one never
+    // acknowledged is stored at most once.
     const allMarkers = [...ledger.messages.map((m) => m.marker), ...ledger.messagesGivenUp.map((m) => m.marker)];
-    const msgRows = await q<{ marker: string; n: number }>(
-      `select l.marker, count(m.id)::int as n from unnest($1::text[]) as l(marker) left join message m on m.body like '%Ref ' || l.marker group by l.marker`,
+    const msgRows = await q<{ marker: string; n: number; ids: string[] | null; keys: (string | null)[] | null; authors: string[] | null; audits: number }>(
+      `select l.marker, count(m.id)::int as n, array_agg(m.id::text) filter (where m.id is not null) as ids,
+              array_agg(m.idempotency_key) filter (where m.id is not null) as keys,
+              array_agg(m.author_id) filter (where m.id is not null) as authors,
+              (select count(*)::int from audit_event a where a.entity = 'message' and a.entity_id in (select x.id::text from message x where x.body like '%Ref ' || l.marker)) as audits
+         from unnest($1::text[]) as l(marker) left join message m on m.body like '%Ref ' || l.marker group by l.marker`,
       [allMarkers],
     );
-    const msgCount = new Map(msgRows.map((r) => [r.marker, r.n]));
+    const msgByMarker = new Map(msgRows.map((r) => [r.marker, r]));
     let messageDuplicates = 0;
     for (const m of ledger.messages) {
-      const n = msgCount.get(m.marker) ?? 0;
+      const r = msgByMarker.get(m.marker);
+      const n = r?.n ?? 0;
       if (n < 1) violation(`message ${m.marker}: acknowledged but missing`);
-      if (m.firstAttempt && n !== 1) violation(`message ${m.marker}: acknowledged at the first attempt but stored ${n} times`);
+      else if (n > 1) violation(`message ${m.marker}: acknowledged once but stored ${n} times`);
+      else if (r!.ids![0] !== m.messageId) violation(`message ${m.marker}: stored as ${r!.ids![0]}, the answer said ${m.messageId}`);
+      else if (r!.keys![0] !== m.key) violation(`message ${m.marker}: stored under key ${r!.keys![0]}, sent with ${m.key}`);
+      else if (r!.authors![0] !== m.authorId) violation(`message ${m.marker}: stored as written by ${r!.authors![0]}, sent by ${m.authorId}`);
+      if (r && r.audits !== n) violation(`message ${m.marker}: ${r.audits} audit entries for ${n} stored`);
       if (n > 1) messageDuplicates += n - 1;
     }
+    for (const m of ledger.messagesGivenUp) {
+      const n = msgByMarker.get(m.marker)?.n ?? 0;
+      if (n > 1) violation(`message ${m.marker}: never acknowledged, yet stored ${n} times`);
+      if (n > 1) messageDuplicates += n - 1;
+    }
+    const [dupMessageKeys] = await q<{ n: number }>(
+      `select count(*)::int as n from (select 1 from message where idempotency_key is not null group by author_id, job_id, idempotency_key having count(*) > 1) d`,
+    );
+    if (dupMessageKeys!.n > 0) violation(`${dupMessageKeys!.n} message idempotency keys have more than one message`);
 
     // Invariants over the whole database.
     const [twoPaid] = await q<{ n: number }>(`select count(*)::int as n from (select 1 from payment where status = 'paid' group by revision_id, purpose having count(*) > 1) d`);
@@ -753,6 +775,8 @@ async function main() {
       eventsChecked: hookRows.length,
       claimsChecked: claimRows.length,
       messagesChecked: ledger.messages.length,
+      messagesRetried: acked("message").filter((o) => o.attempts > 1).length,
+      messagesRecognisedAsRepeats: ledger.messages.filter((m) => m.repeat).length,
       messageDuplicates,
       historyChainsChecked: chainsChecked,
       outboxRows: outbox.length,
@@ -766,7 +790,7 @@ async function main() {
     console.log(
       `\n${summary.operations} operations, ${summary.acknowledged} acknowledged, ${summary.retried} retried (${summary.attempts} attempts); ` +
         `${summary.kills} SIGKILLs, ${summary.appRestarts} app restarts, ${summary.pgRestarts} PostgreSQL immediate restart; ` +
-        `${summary.messageDuplicates} retried messages stored twice (messages are at-least-once); ${summary.outboxStillQueued} e-mails still queued with a live job; ` +
+        `${summary.messagesChecked} messages stored exactly once under their keys (${summary.messagesRetried} retried, ${summary.messagesRecognisedAsRepeats} answered as a repeat of a stored one, ${summary.messageDuplicates} duplicates); ${summary.outboxStillQueued} e-mails still queued with a live job; ` +
         `two instances: ${summary.dualEvents} events × ${DUAL_DELIVERIES_PER_INSTANCE * 2} simultaneous deliveries; load ${summary.loadSeconds} s, total ${summary.totalSeconds} s`,
     );
     console.log(`FAULT-TEST-SUMMARY ${JSON.stringify(summary)}`);

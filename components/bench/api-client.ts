@@ -37,3 +37,9 @@ export async function api<T>(path: string, init: { method?: "GET" | "POST" | "PU
 export function errorText(e: unknown): string {
   return e instanceof Error ? e.message : "Something went wrong. Please try again.";
 }
+
+// For idempotent posts only (they carry their own key): a lost answer — no connection, or the server failing
+// — is tried again a couple of times with the same body, so the server can recognise the repeat.
+export function retryLostAnswer(failures: number, e: unknown): boolean {
+  return failures < 2 && (!(e instanceof ApiError) || e.status >= 500);
+}

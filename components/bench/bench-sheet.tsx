@@ -7,7 +7,7 @@ import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { judgeReading, formatNumber, type ReadingRequirement } from "@/lib/verdicts";
 import { benchNoteSchema, parseReadingText } from "@/lib/validation/bench";
-import { api, ApiError, errorText } from "./api-client";
+import { api, ApiError, errorText, retryLostAnswer } from "./api-client";
 import { benchKeys } from "./query-keys";
 import { SafetyCautions } from "./safety-cautions";
 import type { BenchSheetJson } from "./types";
@@ -294,13 +294,24 @@ function BenchNote({ jobId }: { jobId: string }) {
   const qc = useQueryClient();
   const [body, setBody] = useState("");
   const [error, setError] = useState<string | null>(null);
+  // One key per note: kept while it is retried, so a lost answer never stores it twice; renewed once stored.
+  const [idempotencyKey, setIdempotencyKey] = useState(() => crypto.randomUUID());
   const m = useMutation({
-    mutationFn: (text: string) => api(`/api/bench/jobs/${jobId}/notes`, { method: "POST", body: { body: text } }),
+    mutationFn: (note: { body: string; idempotencyKey: string }) => api(`/api/bench/jobs/${jobId}/notes`, { method: "POST", body: note }),
+    retry: retryLostAnswer,
     onSuccess: () => {
       setBody("");
+      setIdempotencyKey(crypto.randomUUID());
       void qc.invalidateQueries({ queryKey: benchKeys.job(jobId) });
     },
-    onError: (e) => setError(errorText(e)),
+    onError: (e) => {
+      // Another text under a key that already stored a note: the next try is a note of its own.
+      if (e instanceof ApiError && e.fields.idempotencyKey) {
+        setIdempotencyKey(crypto.randomUUID());
+        void qc.invalidateQueries({ queryKey: benchKeys.job(jobId) });
+      }
+      setError(errorText(e));
+    },
   });
   return (
     <form
@@ -308,10 +319,10 @@ function BenchNote({ jobId }: { jobId: string }) {
       className="card space-y-2 p-3"
       onSubmit={(e) => {
         e.preventDefault();
-        const parsed = benchNoteSchema.safeParse({ body });
+        const parsed = benchNoteSchema.safeParse({ body, idempotencyKey });
         if (!parsed.success) return setError(parsed.error.issues[0]?.message ?? "Write the note first.");
         setError(null);
-        m.mutate(parsed.data.body);
+        m.mutate(parsed.data);
       }}
     >
       <Field id="bench-note" label="Bench note (workshop only)" error={error ?? undefined}>

@@ -10,7 +10,7 @@ import { Notice } from "@/components/ui/notice";
 import { bandKinds } from "@/lib/bands/band";
 import { setKindLabels, setKinds, symptomFlags } from "@/lib/checklist/profile";
 import { declineSchema, profileUpdateSchema, questionSchema } from "@/lib/validation/bench";
-import { api, ApiError, errorText } from "./api-client";
+import { api, ApiError, errorText, retryLostAnswer } from "./api-client";
 import { benchKeys } from "./query-keys";
 import type { JobDetailJson } from "./types";
 
@@ -308,14 +308,22 @@ const declineText = z.object({ text: declineSchema.shape.reason });
 function MessageForm({ jobId, kind }: { jobId: string; kind: "question" | "decline" }) {
   const onChange = useStateChange(jobId);
   const form = useForm<{ text: string }>({ resolver: zodResolver(kind === "question" ? questionText : declineText), defaultValues: { text: "" } });
+  // A question is a message: one key per composed question, kept across its retries, renewed once stored.
+  const [idempotencyKey, setIdempotencyKey] = useState(() => crypto.randomUUID());
   const m = useMutation({
-    mutationFn: (text: string) => api(`/api/bench/jobs/${jobId}/${kind}`, { method: "POST", body: kind === "question" ? { question: text } : { reason: text } }),
+    mutationFn: ({ text, key }: { text: string; key: string }) => api(`/api/bench/jobs/${jobId}/${kind}`, { method: "POST", body: kind === "question" ? { question: text, idempotencyKey: key } : { reason: text } }),
+    retry: kind === "question" ? retryLostAnswer : false,
     onSuccess: () => {
       form.reset({ text: "" });
+      setIdempotencyKey(crypto.randomUUID());
       onChange();
     },
     onError: (e) => {
       if (e instanceof ApiError) {
+        if (e.fields.idempotencyKey) {
+          setIdempotencyKey(crypto.randomUUID());
+          onChange();
+        }
         const message = e.fields.question ?? e.fields.reason;
         if (message) form.setError("text", { message });
       }
@@ -325,7 +333,7 @@ function MessageForm({ jobId, kind }: { jobId: string; kind: "question" | "decli
   const error = form.formState.errors.text?.message;
   const hint = kind === "question" ? "The owner gets it by e-mail and on their job page; the job waits for their answer." : "The owner sees this reason. The job closes.";
   return (
-    <form noValidate className="card space-y-2 p-3" onSubmit={form.handleSubmit((v) => m.mutate(v.text))}>
+    <form noValidate className="card space-y-2 p-3" onSubmit={form.handleSubmit((v) => m.mutate({ text: v.text, key: idempotencyKey }))}>
       <Field id={id} label={kind === "question" ? "Ask the owner a question" : "Decline the job"} error={error} hint={hint}>
         <textarea id={id} rows={3} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, { error, hint })} {...form.register("text")} />
       </Field>

@@ -129,9 +129,15 @@ export const messages = pgTable(
     // Staff-only notes never reach the customer.
     internal: boolean("internal").notNull().default(false),
     isQuestion: boolean("is_question").notNull().default(false),
+    // Chosen by the author's browser per composed message, so a retried post stores it once. Null on
+    // messages the system writes itself (e.g. a decline reason) and on rows from before the column.
+    idempotencyKey: text("idempotency_key"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("message_job_idx").on(t.jobId, t.createdAt)],
+  (t) => [
+    index("message_job_idx").on(t.jobId, t.createdAt),
+    uniqueIndex("message_idempotency_key_idx").on(t.authorId, t.jobId, t.idempotencyKey).where(sql`${t.idempotencyKey} is not null`),
+  ],
 );
 
 // Checklist lines ticked at the bench (who and when).

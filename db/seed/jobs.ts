@@ -148,7 +148,12 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
   await startTriage(ctx, { jobId: job.id, actorId: tech });
   if (t === "in_triage") return;
   if (t === "awaiting_owner") {
-    await askQuestion(ctx, { jobId: job.id, actorId: tech, question: "Does the dial pointer move when you turn the tuning knob? A photo of the back of the chassis would help too." });
+    await askQuestion(ctx, {
+      jobId: job.id,
+      actorId: tech,
+      question: "Does the dial pointer move when you turn the tuning knob? A photo of the back of the chassis would help too.",
+      idempotencyKey: `demo:${job.key}:question`,
+    });
     return;
   }
   if (t === "declined_by_shop") {

@@ -15,6 +15,7 @@ import { computeBalance } from "@/lib/pricing/deposit";
 import { issueCertificate } from "@/lib/services/certificates";
 import { checkProfile } from "@/lib/services/estimates";
 import { transitionJob } from "@/lib/services/jobs";
+import { findKeyedMessage } from "@/lib/services/messages";
 import { getShop } from "@/lib/services/shop";
 import { judgeReading, judgeReadings, listRequiredReadings, type ReadingRequirement } from "@/lib/verdicts";
 import type { ProfileUpdate, ReadingInput, ReturnInput } from "@/lib/validation/bench";
@@ -81,11 +82,16 @@ export async function updateProfile(ctx: TxContext, { jobId, actorId, input }: {
   return { setId: set.id };
 }
 
-/** Asks the owner a question: a message they see, an e-mail, and the job waits on them. */
-export async function askQuestion(ctx: TxContext, { jobId, actorId, question }: { jobId: string; actorId: string; question: string }) {
-  const { job, set, customer } = await loadJob(ctx.tx, jobId);
+/**
+ * Asks the owner a question: a message they see, an e-mail, and the job waits on them. The same key again
+ * (a retry after a lost answer) returns the first question without a second message, e-mail or move.
+ */
+export async function askQuestion(ctx: TxContext, { jobId, actorId, question, idempotencyKey }: { jobId: string; actorId: string; question: string; idempotencyKey: string }) {
+  const { job, set, customer } = await loadJob(ctx.tx, jobId, { lock: true });
+  const existing = await findKeyedMessage(ctx, { jobId, authorId: actorId, idempotencyKey, body: question, internal: false, isQuestion: true });
+  if (existing) return { messageId: existing.id, duplicate: true };
   requireState(job, ["in_triage"], "ask the owner a question");
-  const [msg] = await ctx.tx.insert(messages).values({ jobId, authorId: actorId, body: question, isQuestion: true, internal: false }).returning({ id: messages.id });
+  const [msg] = await ctx.tx.insert(messages).values({ jobId, authorId: actorId, body: question, isQuestion: true, internal: false, idempotencyKey }).returning({ id: messages.id });
   await transitionJob(ctx, { jobId, to: "awaiting_owner", actor: "staff", actorId, note: "Question sent to the owner" });
   await queueEmail(ctx, {
     to: customer.email,
@@ -93,7 +99,7 @@ export async function askQuestion(ctx: TxContext, { jobId, actorId, question }: 
     props: { name: customer.name, jobNumber: jobNumber(job.number), setName: setName(set), question, url: portalUrl(jobId) },
     dedupeKey: `shop-question:${msg!.id}`,
   });
-  return { messageId: msg!.id };
+  return { messageId: msg!.id, duplicate: false };
 }
 
 /** The shop turns the job down; the reason is kept as a message the owner can read. */
@@ -199,10 +205,13 @@ export async function setTask(ctx: TxContext, { jobId, actorId, code, done }: { 
   return { code, done, doneAt: done ? now.toISOString() : null };
 }
 
-export async function addBenchNote(ctx: TxContext, { jobId, actorId, body }: { jobId: string; actorId: string; body: string }) {
-  await loadJob(ctx.tx, jobId);
-  const [msg] = await ctx.tx.insert(messages).values({ jobId, authorId: actorId, body, internal: true }).returning({ id: messages.id });
-  return { messageId: msg!.id };
+/** A workshop-only note; the same key again returns the first note instead of adding another. */
+export async function addBenchNote(ctx: TxContext, { jobId, actorId, body, idempotencyKey }: { jobId: string; actorId: string; body: string; idempotencyKey: string }) {
+  await loadJob(ctx.tx, jobId, { lock: true });
+  const existing = await findKeyedMessage(ctx, { jobId, authorId: actorId, idempotencyKey, body, internal: true, isQuestion: false });
+  if (existing) return { messageId: existing.id, duplicate: true };
+  const [msg] = await ctx.tx.insert(messages).values({ jobId, authorId: actorId, body, internal: true, idempotencyKey }).returning({ id: messages.id });
+  return { messageId: msg!.id, duplicate: false };
 }
 
 // ---- Completion and return -----------------------------------------------------------------------------

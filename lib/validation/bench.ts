@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { JOB_STATES } from "@/db/schema/enums";
 import { setProfileSchema } from "@/lib/checklist/profile";
+import { messageKeySchema } from "@/lib/validation/messages";
 
 // Shared by the bench forms and the bench JSON routes.
 
@@ -53,6 +54,7 @@ export type ProfileUpdateInput = z.input<typeof profileUpdateSchema>;
 
 export const questionSchema = z.object({
   question: z.string().trim().min(5, "Write the question for the owner (at least 5 characters).").max(2000, "Keep it under 2000 characters."),
+  idempotencyKey: messageKeySchema,
 });
 
 export const declineSchema = z.object({
@@ -79,6 +81,7 @@ export const taskInputSchema = z.object({ code: z.string().min(1).max(80), done:
 
 export const benchNoteSchema = z.object({
   body: z.string().trim().min(1, "Write the note first.").max(4000, "Keep the note under 4000 characters."),
+  idempotencyKey: messageKeySchema,
 });
 
 export const returnSchema = z.discriminatedUnion("method", [

@@ -81,10 +81,6 @@ export const quoteRequestSchema = z
 export type QuoteRequestInput = z.input<typeof quoteRequestSchema>;
 export type QuoteRequest = z.infer<typeof quoteRequestSchema>;
 
-export const messageSchema = z.object({
-  body: z.string().trim().min(1, "Write a message first.").max(4000, "Keep the message under 4000 characters."),
-});
-
 export const approveSchema = z.object({ revisionId: z.string().uuid() });
 export const declineSchema = z.object({
   revisionId: z.string().uuid(),

@@ -255,12 +255,12 @@ describe("stored text is shown literally", () => {
   it("triage: a question, the owner's answer, a bench note, estimate lines and a change summary", async () => {
     const job = `/api/bench/jobs/${state.jobId}`;
     await ok(await state.tech.post(`${job}/triage`, {}), "triage");
-    await ok(await state.tech.post(`${job}/question`, { question: P.question }), "question");
+    await ok(await state.tech.post(`${job}/question`, { question: P.question, idempotencyKey: randomUUID() }), "question");
     const question = await waitForMail(state.email, "A question about your");
     const mailPage = await newPage();
     await expectMailInert(mailPage, question, ["question", "maker", "model"]);
-    await ok(await state.customer.post(`/api/portal/jobs/${state.jobId}/messages`, { body: P.message }), "answer");
-    await ok(await state.tech.post(`${job}/notes`, { body: P.note }), "bench note");
+    await ok(await state.customer.post(`/api/portal/jobs/${state.jobId}/messages`, { body: P.message, idempotencyKey: randomUUID() }), "answer");
+    await ok(await state.tech.post(`${job}/notes`, { body: P.note, idempotencyKey: randomUUID() }), "bench note");
 
     const line = (over: Record<string, unknown>) => ({
       key: randomUUID().slice(0, 8),

@@ -1,3 +1,4 @@
+import { randomUUID } from "node:crypto";
 import { beforeAll, describe, expect, it } from "vitest";
 import { PERMISSIONS } from "@/lib/permissions";
 import { DEMO } from "../support/accounts";
@@ -109,7 +110,7 @@ describe("field-level access", () => {
   it("ignores fields a customer should not set", async () => {
     const a = new TestClient();
     await a.signIn(DEMO.customer.email, DEMO.customer.password);
-    const res = await a.post(`/api/portal/jobs/${fixtures.jobOpenA}/messages`, { body: "When will it be ready?", internal: true, authorId: "demo-owner-odile", jobId: fixtures.jobA });
+    const res = await a.post(`/api/portal/jobs/${fixtures.jobOpenA}/messages`, { body: "When will it be ready?", idempotencyKey: randomUUID(), internal: true, authorId: "demo-owner-odile", jobId: fixtures.jobA });
     expect(res.status).toBeLessThan(300);
     const [row] = await sql<{ author_id: string; internal: boolean; job_id: string }>("select author_id, internal, job_id from message where body = 'When will it be ready?' order by created_at desc limit 1");
     expect(row).toEqual({ author_id: "demo-cust-mira", internal: false, job_id: fixtures.jobOpenA });

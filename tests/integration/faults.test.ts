@@ -16,6 +16,10 @@ type Summary = {
   jobsChecked: number;
   eventsChecked: number;
   claimsChecked: number;
+  messagesChecked: number;
+  messagesRetried: number;
+  messagesRecognisedAsRepeats: number;
+  messageDuplicates: number;
   dualEvents: number;
   violations: number;
 };
@@ -56,6 +60,9 @@ describe("durability under faults", () => {
     expect(summary.jobsChecked).toBeGreaterThan(0);
     expect(summary.eventsChecked).toBeGreaterThan(0);
     expect(summary.claimsChecked).toBeGreaterThan(0);
+    // Messages carry an idempotency key like the other operations: each acknowledged one is stored once.
+    expect(summary.messagesChecked).toBe(400);
+    expect(summary.messageDuplicates).toBe(0);
     expect(summary.dualEvents).toBe(20);
   }, 480_000);
 });

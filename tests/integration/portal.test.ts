@@ -1,3 +1,4 @@
+import { randomUUID } from "node:crypto";
 import { afterAll, describe, expect, it } from "vitest";
 import { newCustomer } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
@@ -104,7 +105,7 @@ describe("the owner's job page data", () => {
   it("sends a customer's answer back to triage when the shop was waiting on it", async () => {
     const { client, email } = await newCustomer("answer");
     const job = await seedJobWithEstimate({ email, state: "awaiting_owner" });
-    const res = await client.post(`/api/portal/jobs/${job.jobId}/messages`, { body: "Yes, the label says 5T-48 and chassis 4471." });
+    const res = await client.post(`/api/portal/jobs/${job.jobId}/messages`, { body: "Yes, the label says 5T-48 and chassis 4471.", idempotencyKey: randomUUID() });
     expect(res.status).toBe(201);
     expect((await sql<{ state: string }>("select state from job where id = $1", [job.jobId]))[0]!.state).toBe("in_triage");
   });
@@ -141,7 +142,7 @@ describe("another owner's things are not found", () => {
     const posts: [string, unknown][] = [
       [`/api/portal/jobs/${job.jobId}/estimate/approve`, { revisionId: job.revisionId }],
       [`/api/portal/jobs/${job.jobId}/estimate/decline`, { revisionId: job.revisionId, reason: "Not mine to decide" }],
-      [`/api/portal/jobs/${job.jobId}/messages`, { body: "Hello from B" }],
+      [`/api/portal/jobs/${job.jobId}/messages`, { body: "Hello from B", idempotencyKey: randomUUID() }],
       ["/api/payments/checkout", { jobId: job.jobId, purpose: "deposit" }],
     ];
     for (const [path, body] of posts) expect((await b.client.post(path, body)).status, `B POST ${path}`).toBe(404);

@@ -7,6 +7,8 @@
 //   own   — allowed for the customer whose resource it is (customer A); customer B gets 404
 //   public — no session needed (the answer is the route's own business)
 
+import { randomUUID } from "node:crypto";
+
 export type Role = "anonymous" | "customerA" | "customerB" | "technician" | "owner";
 export type Rule = "allow" | "deny" | "own" | "public";
 export type Fixtures = { jobA: string; revisionA: string; certificateA: string; claimA: string; paymentA: string; sessionA: string; photoA: string; jobOpenA: string };
@@ -43,7 +45,7 @@ export const ROUTES: RouteEntry[] = [
   { method: "POST", route: "/api/portal/jobs", action: "quote.request", rules: customers, body: () => ({}) },
   { method: "GET", route: "/api/portal/jobs/[id]", action: "job.read (own)", rules: customerOwn, params: job },
   { method: "GET", route: "/api/portal/jobs/[id]/messages", action: "message.read (own)", rules: customerOwn, params: job },
-  { method: "POST", route: "/api/portal/jobs/[id]/messages", action: "message.post (own)", rules: customerOwn, params: job, body: () => ({ body: "Access probe: is the set on the bench yet?" }) },
+  { method: "POST", route: "/api/portal/jobs/[id]/messages", action: "message.post (own)", rules: customerOwn, params: job, body: () => ({ body: "Access probe: is the set on the bench yet?", idempotencyKey: randomUUID() }) },
   { method: "POST", route: "/api/portal/jobs/[id]/estimate/approve", action: "estimate.approve (own)", rules: customerOwn, params: jobDone, body: (f) => ({ revisionId: f.revisionA }) },
   { method: "POST", route: "/api/portal/jobs/[id]/estimate/decline", action: "estimate.approve (own)", rules: customerOwn, params: jobDone, body: (f) => ({ revisionId: f.revisionA, reason: "Access probe: more than I can spend." }) },
   { method: "GET", route: "/api/payments/[paymentId]", action: "payment.read (own)", rules: customerOwn, params: (f) => ({ paymentId: f.paymentA }) },

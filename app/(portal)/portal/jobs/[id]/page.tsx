@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { getJobForCustomer } from "@/db/queries/jobs";
+import { getPortalJobView } from "@/lib/services/portal-view";
 import { requirePermission } from "@/lib/session";
 import { JobCertificates } from "@/components/warranty/job-certificates";
 import { JobView } from "./_components/job-view";
@@ -15,6 +16,6 @@ export default async function JobPage({ params, searchParams }: { params: Promis
   if (!UUID.test(id)) notFound();
   const owned = await getJobForCustomer({ jobId: id, customerId: viewer.id });
   if (!owned) notFound();
-  const sp = await searchParams;
-  return <JobView jobId={id} justCreated={sp.new === "1"} paymentCancelled={sp.payment === "cancelled"} certificates={<JobCertificates jobId={id} customerId={viewer.id} />} />;
+  const [sp, initial] = await Promise.all([searchParams, getPortalJobView({ jobId: id, customerId: viewer.id })]);
+  return <JobView jobId={id} initial={initial} justCreated={sp.new === "1"} paymentCancelled={sp.payment === "cancelled"} certificates={<JobCertificates jobId={id} customerId={viewer.id} />} />;
 }

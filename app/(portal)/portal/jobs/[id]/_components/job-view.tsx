@@ -26,20 +26,28 @@ const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
   returned: "Your set is back with you. Its warranty certificate is below: keep the PDF, and show its code to a later buyer.",
 };
 
+// The first render happens on the server: a fixed time zone keeps server and browser text identical.
 function when(iso: string): string {
-  return new Date(iso).toLocaleString("en-GB", { day: "numeric", month: "long", year: "numeric", hour: "2-digit", minute: "2-digit" });
+  return `${new Date(iso).toLocaleString("en-GB", { day: "numeric", month: "long", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone: "UTC" })} UTC`;
 }
 
-export function JobView({ jobId, justCreated, paymentCancelled, certificates }: { jobId: string; justCreated: boolean; paymentCancelled: boolean; certificates?: ReactNode }) {
-  const query = useQuery({ queryKey: portalKeys.job(jobId), queryFn: () => api<PortalJobView>(`/api/portal/jobs/${jobId}`) });
+// `initial` is the same view loaded by the page on the server, so the job shows in the first HTML
+// instead of after the scripts and a second round trip; the query keeps it fresh from then on.
+export function JobView({
+  jobId,
+  initial,
+  justCreated,
+  paymentCancelled,
+  certificates,
+}: {
+  jobId: string;
+  initial: PortalJobView;
+  justCreated: boolean;
+  paymentCancelled: boolean;
+  certificates?: ReactNode;
+}) {
+  const query = useQuery({ queryKey: portalKeys.job(jobId), queryFn: () => api<PortalJobView>(`/api/portal/jobs/${jobId}`), initialData: initial });
 
-  if (query.isPending) {
-    return (
-      <p role="status" className="text-bakelite-muted">
-        Loading your job…
-      </p>
-    );
-  }
   if (query.isError) {
     return (
       <Notice tone="error" live title="We could not load this job">

@@ -1,11 +1,12 @@
-import { transaction } from "@/db/transaction";
 import { route } from "@/lib/api";
 import { askQuestion } from "@/lib/services/bench";
+import { inMessageTransaction } from "@/lib/services/messages";
 import { questionSchema } from "@/lib/validation/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
-// POST /api/bench/jobs/:id/question { question } — message + e-mail; the job waits on the owner.
+// POST /api/bench/jobs/:id/question { question, idempotencyKey } — message + e-mail; the job waits on the
+// owner. The same key again returns the first question (duplicate: true) with no second e-mail.
 export const POST = route<{ id: string }, typeof questionSchema>({ permission: "job.triage", body: questionSchema }, async ({ params, body, viewer }) => {
   const jobId = await jobIdFrom(params);
-  return transaction((ctx) => askQuestion(ctx, { jobId, actorId: viewer.id, question: body.question }));
+  return inMessageTransaction((ctx) => askQuestion(ctx, { jobId, actorId: viewer.id, question: body.question, idempotencyKey: body.idempotencyKey }));
 });

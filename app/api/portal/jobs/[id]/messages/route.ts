@@ -1,8 +1,7 @@
-import { transaction } from "@/db/transaction";
 import { route } from "@/lib/api";
-import { postMessage } from "@/lib/services/messages";
+import { inMessageTransaction, postMessage } from "@/lib/services/messages";
 import { getPortalMessages } from "@/lib/services/portal-view";
-import { messageSchema } from "@/lib/validation/quote";
+import { messageSchema } from "@/lib/validation/messages";
 import { idFrom } from "../../../_lib/ids";
 
 // GET /api/portal/jobs/:id/messages — the thread as the owner sees it (no internal notes).
@@ -10,9 +9,10 @@ export const GET = route<{ id: string }>({ permission: "portal.use" }, async ({ 
   return { messages: await getPortalMessages({ jobId: idFrom(params.id), customerId: viewer.id }) };
 });
 
-// POST /api/portal/jobs/:id/messages { body }
+// POST /api/portal/jobs/:id/messages { body, idempotencyKey } — the same key again gives the same message
+// (200, duplicate: true) and stores nothing; the same key with another text is refused (409).
 export const POST = route<{ id: string }, typeof messageSchema>({ permission: "portal.use", body: messageSchema }, async ({ viewer, params, body }) => {
   const jobId = idFrom(params.id);
-  const row = await transaction((ctx) => postMessage(ctx, { jobId, author: { id: viewer.id, side: "customer" }, body: body.body }));
-  return Response.json({ id: row.id }, { status: 201, headers: { "cache-control": "no-store" } });
+  const row = await inMessageTransaction((ctx) => postMessage(ctx, { jobId, author: { id: viewer.id, side: "customer" }, body: body.body, idempotencyKey: body.idempotencyKey }));
+  return Response.json({ id: row.id, duplicate: row.duplicate }, { status: row.duplicate ? 200 : 201, headers: { "cache-control": "no-store" } });
 });

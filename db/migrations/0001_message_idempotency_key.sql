@@ -1,0 +1,2 @@
+ALTER TABLE "message" ADD COLUMN "idempotency_key" text;--> statement-breakpoint
+CREATE UNIQUE INDEX "message_idempotency_key_idx" ON "message" USING btree ("author_id","job_id","idempotency_key") WHERE "message"."idempotency_key" is not null;
