@@ -29,6 +29,8 @@ export function PhotoPicker({ onChange, error, describedById }: { onChange: (s: 
   const [note, setNote] = useState<string | null>(null);
   const [dragging, setDragging] = useState(false);
   const inputRef = useRef<HTMLInputElement>(null);
+  const chooseRef = useRef<HTMLButtonElement>(null);
+  const listRef = useRef<HTMLUListElement>(null);
   const itemsRef = useRef<Item[]>([]);
   itemsRef.current = items;
 
@@ -85,7 +87,9 @@ export function PhotoPicker({ onChange, error, describedById }: { onChange: (s: 
         return item;
       });
       setItems((all) => [...all, ...fresh]);
-      for (const item of fresh) if (item.status === "uploading") void start(item);
+      const uploading = fresh.filter((i) => i.status === "uploading");
+      if (uploading.length) setAnnounce(`Uploading ${uploading.map((i) => i.file.name).join(", ")}…`);
+      for (const item of uploading) void start(item);
     },
     [start],
   );
@@ -93,8 +97,16 @@ export function PhotoPicker({ onChange, error, describedById }: { onChange: (s: 
   const remove = (item: Item) => {
     item.controller?.abort();
     URL.revokeObjectURL(item.preview);
+    // The focused Remove button goes away with its photo: keep the keyboard user's place by moving focus to
+    // the next photo's Remove button, else the previous one's, else back to "Choose photos".
+    const index = itemsRef.current.findIndex((i) => i.id === item.id);
+    const neighbour = itemsRef.current[index + 1] ?? itemsRef.current[index - 1];
     setItems((all) => all.filter((i) => i.id !== item.id));
     setAnnounce(`${item.file.name} removed.`);
+    requestAnimationFrame(() => {
+      const next = neighbour ? listRef.current?.querySelector<HTMLButtonElement>(`button[data-remove="${neighbour.id}"]`) : null;
+      (next ?? chooseRef.current)?.focus();
+    });
   };
 
   return (
@@ -113,7 +125,7 @@ export function PhotoPicker({ onChange, error, describedById }: { onChange: (s: 
         }}
       >
         <p className="text-base">Drag photos here, or</p>
-        <button type="button" className="btn-secondary mt-2" onClick={() => inputRef.current?.click()} aria-describedby={describedById}>
+        <button ref={chooseRef} type="button" className="btn-secondary mt-2" onClick={() => inputRef.current?.click()} aria-describedby={describedById}>
           Choose photos
         </button>
         <input
@@ -137,7 +149,7 @@ export function PhotoPicker({ onChange, error, describedById }: { onChange: (s: 
         {announce}
       </p>
       {items.length ? (
-        <ul className="grid gap-3 sm:grid-cols-2" aria-label="Photos added">
+        <ul ref={listRef} className="grid gap-3 sm:grid-cols-2" aria-label="Photos added">
           {items.map((item) => (
             <li key={item.id} className="card flex gap-3 p-3" data-status={item.status}>
               {/* eslint-disable-next-line @next/next/no-img-element */}
@@ -162,10 +174,10 @@ export function PhotoPicker({ onChange, error, describedById }: { onChange: (s: 
                 <div className="flex gap-2">
                   {item.status === "failed" || (item.status === "refused" && item.message === "The shop's server did not accept this photo.") ? (
                     <button type="button" className="btn-quiet px-2 py-1" onClick={() => void start(item)}>
-                      Retry
+                      Retry<span className="sr-only"> {item.file.name}</span>
                     </button>
                   ) : null}
-                  <button type="button" className="btn-quiet px-2 py-1" onClick={() => remove(item)}>
+                  <button type="button" className="btn-quiet px-2 py-1" data-remove={item.id} onClick={() => remove(item)}>
                     Remove<span className="sr-only"> {item.file.name}</span>
                   </button>
                 </div>
