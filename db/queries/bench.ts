@@ -44,7 +44,9 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
     technician: technician.name,
   }[query.sort];
 
-  const base = db
+  // One round trip: the page of rows with the filtered total beside each (count over the whole filter,
+  // before limit/offset). Only a page past the end, which has no row to carry it, asks for the total apart.
+  const rows = await db
     .select({
       id: jobs.id,
       number: jobs.number,
@@ -60,27 +62,28 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
       customerEmail: user.email,
       technicianId: jobs.technicianId,
       technicianName: technician.name,
+      total: sql<number>`(count(*) over ())::int`,
     })
     .from(jobs)
     .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
     .innerJoin(user, eq(user.id, jobs.customerId))
     .leftJoin(technician, eq(technician.id, jobs.technicianId))
-    .where(filter);
-
-  const [rows, [count]] = await Promise.all([
-    base
-      .orderBy(order(sortColumn), desc(jobs.number))
-      .limit(query.pageSize)
-      .offset((query.page - 1) * query.pageSize),
-    db
+    .where(filter)
+    .orderBy(order(sortColumn), desc(jobs.number))
+    .limit(query.pageSize)
+    .offset((query.page - 1) * query.pageSize);
+  let total = rows[0]?.total;
+  if (total === undefined) {
+    const [count] = await db
       .select({ n: sql<number>`count(*)::int` })
       .from(jobs)
       .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
       .innerJoin(user, eq(user.id, jobs.customerId))
       .leftJoin(technician, eq(technician.id, jobs.technicianId))
-      .where(filter),
-  ]);
-  return { rows, total: count?.n ?? 0 };
+      .where(filter);
+    total = count?.n ?? 0;
+  }
+  return { rows: rows.map(({ total: _total, ...row }) => row), total };
 }
 
 // People who can take a job: active technicians and the shop owner.

@@ -1,3 +1,4 @@
+import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
@@ -75,6 +76,12 @@ describe("the queue", () => {
     const page1 = await queue(tech, { q: model, pageSize: "5", page: "1" });
     expect(page1.total).toBe(2);
     expect(page1.pageCount).toBe(1);
+    // The total is the whole filter's, whichever page is asked for, including one past the end.
+    const past = await queue(tech, { q: model, pageSize: "5", page: "3" });
+    expect(past.rows).toHaveLength(0);
+    expect(past.total).toBe(2);
+    expect(past.pageCount).toBe(1);
+    expect(JSON.stringify(page1.rows[0])).not.toContain('"total"');
 
     const bad = await tech.get("/api/bench/queue?states=nonsense");
     expect(bad.status).toBe(400);
@@ -136,10 +143,10 @@ describe("triage", () => {
     expect(est.lines.map((l) => l.code)).toContain("safety.selenium");
     expect(est.lines.find((l) => l.code === "recap.electrolytic")!.quantity).toBe(3);
 
-    const short = await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "Hm?" });
+    const short = await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "Hm?", idempotencyKey: randomUUID() });
     expect(short.status).toBe(400);
     const started = Date.now();
-    const ask = await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "Is the original line cord still fitted, or has it been replaced?" });
+    const ask = await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "Is the original line cord still fitted, or has it been replaced?", idempotencyKey: randomUUID() });
     expect(ask.status).toBe(200);
     const [after] = await sql<{ state: string }>("select state from job where id = $1", [jobId]);
     expect(after!.state).toBe("awaiting_owner");
@@ -149,7 +156,7 @@ describe("triage", () => {
     expect(mail.subject).toMatch(/question/i);
     expect(mail.text).toContain("original line cord");
     // A second question while waiting is refused.
-    expect((await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "And the dial glass?" })).status).toBe(409);
+    expect((await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "And the dial glass?", idempotencyKey: randomUUID() })).status).toBe(409);
   });
 
   it("declines a job with a reason the owner can read", async () => {
