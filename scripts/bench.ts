@@ -2,7 +2,7 @@
 import { spawnSync } from "node:child_process";
 import { existsSync } from "node:fs";
 
-const parts = ["scripts/bench-engine.ts", "scripts/bench-http.ts"];
+const parts = ["scripts/bench-engine.ts", "scripts/bench-http.ts", "scripts/bench-lighthouse.ts"];
 for (const part of parts) {
   if (!existsSync(part)) continue;
   console.log(`\n== ${part} ==`);
