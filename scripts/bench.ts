@@ -1,11 +1,17 @@
 // npm run bench: prints the performance figures; never asserts. Each part is its own script.
+// The HTTP part builds the app once (unless `npm run bench -- --skip-build`); the later parts reuse that build.
 import { spawnSync } from "node:child_process";
 import { existsSync } from "node:fs";
 
-const parts = ["scripts/bench-engine.ts", "scripts/bench-http.ts", "scripts/bench-lighthouse.ts"];
+const skipBuild = process.argv.includes("--skip-build");
+const parts: { file: string; args: string[] }[] = [
+  { file: "scripts/bench-engine.ts", args: [] },
+  { file: "scripts/bench-http.ts", args: skipBuild ? ["--skip-build"] : [] },
+  { file: "scripts/bench-lighthouse.ts", args: ["--skip-build"] },
+];
 for (const part of parts) {
-  if (!existsSync(part)) continue;
-  console.log(`\n== ${part} ==`);
-  const r = spawnSync("node_modules/.bin/tsx", [part], { stdio: "inherit" });
+  if (!existsSync(part.file)) continue;
+  console.log(`\n== ${part.file} ==`);
+  const r = spawnSync("node_modules/.bin/tsx", [part.file, ...part.args], { stdio: "inherit" });
   if (r.status !== 0) process.exitCode = 1;
 }
