@@ -9,6 +9,7 @@ import { Notice } from "@/components/ui/notice";
 import { JOB_STATES, type JobState } from "@/db/schema/enums";
 import { jobNumber, STATE_LABEL } from "@/lib/jobs/states";
 import type { QueueQueryInput, QueueSort } from "@/lib/validation/bench";
+import { INITIAL_QUEUE_PARAMS } from "@/lib/validation/queue-params";
 import { api, errorText } from "./api-client";
 import { benchKeys } from "./query-keys";
 
@@ -35,7 +36,8 @@ const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, QueueRow>();
 const emptyRows: QueueRow[] = [];
 
-const dateFmt = new Intl.DateTimeFormat("en-US", { month: "short", day: "numeric", hour: "2-digit", minute: "2-digit" });
+// Rendered first on the server, so the time is given in UTC (named) and reads the same in every browser.
+const dateFmt = new Intl.DateTimeFormat("en-US", { month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" });
 
 function AssignCell({ row, staff }: { row: QueueRow; staff: StaffMember[] }) {
   const qc = useQueryClient();
@@ -75,7 +77,10 @@ function AssignCell({ row, staff }: { row: QueueRow; staff: StaffMember[] }) {
   );
 }
 
-export function QueueTable({ viewerId }: { viewerId: string }) {
+// The first page as the server read it, so the queue is in the first paint rather than after a second request.
+type InitialQueue = { queue: QueuePage; staff: StaffMember[]; readAt: number };
+
+export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: InitialQueue }) {
   const [sorting, setSorting] = useState<SortingState>([{ id: "updatedAt", desc: true }]);
   const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 25 });
   const [stateFilter, setStateFilter] = useState<string>("");
@@ -108,12 +113,20 @@ export function QueueTable({ viewerId }: { viewerId: string }) {
     q,
   };
   const search_ = new URLSearchParams(Object.entries(params).map(([k, v]) => [k, String(v ?? "")]));
+  const untouched = JSON.stringify(params) === JSON.stringify(INITIAL_QUEUE_PARAMS);
   const result = useQuery({
     queryKey: benchKeys.queue(params),
     queryFn: () => api<QueuePage>(`/api/bench/queue?${search_.toString()}`),
     placeholderData: keepPreviousData,
+    initialData: untouched ? initial?.queue : undefined,
+    initialDataUpdatedAt: initial?.readAt,
   });
-  const staffQuery = useQuery({ queryKey: benchKeys.staff(), queryFn: () => api<{ staff: StaffMember[] }>("/api/bench/staff") });
+  const staffQuery = useQuery({
+    queryKey: benchKeys.staff(),
+    queryFn: () => api<{ staff: StaffMember[] }>("/api/bench/staff"),
+    initialData: initial ? { staff: initial.staff } : undefined,
+    initialDataUpdatedAt: initial?.readAt,
+  });
   const staff = staffQuery.data?.staff ?? [];
 
   const columns = helper.columns([
@@ -140,7 +153,7 @@ export function QueueTable({ viewerId }: { viewerId: string }) {
     helper.accessor("customerName", { id: "customer", header: "Owner", cell: (info) => info.getValue() }),
     helper.accessor("state", { id: "state", header: "State", cell: (info) => <StateBadge state={info.getValue()} audience="staff" /> }),
     helper.accessor("technicianName", { id: "technician", header: "Technician", cell: (info) => <AssignCell row={info.row.original} staff={staff} /> }),
-    helper.accessor("updatedAt", { id: "updatedAt", header: "Last change", cell: (info) => <span className="figure">{dateFmt.format(new Date(info.getValue()))}</span> }),
+    helper.accessor("updatedAt", { id: "updatedAt", header: "Last change", cell: (info) => <span className="figure">{dateFmt.format(new Date(info.getValue()))} UTC</span> }),
   ]);
 
   const table = useTable({
