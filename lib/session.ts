@@ -1,6 +1,6 @@
 import "server-only";
 import { createHmac, timingSafeEqual } from "node:crypto";
-import { eq } from "drizzle-orm";
+import { eq, sql } from "drizzle-orm";
 import { headers } from "next/headers";
 import { notFound, redirect } from "next/navigation";
 import { cache } from "react";
@@ -32,6 +32,31 @@ async function admit(row: { id: string; name: string; email: string; role: strin
   }
   const role = row.role && isRole(row.role) ? row.role : "customer";
   return { id: row.id, name: row.name, email: row.email, role, sessionId: row.sessionId };
+}
+
+// Prepared once per database connection: the statement every signed-in request runs.
+let preparedSessionByToken: ReturnType<typeof prepareSessionByToken> | undefined;
+function prepareSessionByToken() {
+  return db
+    .select({
+      sessionId: sessionTable.id,
+      expiresAt: sessionTable.expiresAt,
+      createdAt: sessionTable.createdAt,
+      id: user.id,
+      name: user.name,
+      email: user.email,
+      role: user.role,
+      banned: user.banned,
+    })
+    .from(sessionTable)
+    .innerJoin(user, eq(user.id, sessionTable.userId))
+    .where(eq(sessionTable.token, sql.placeholder("token")))
+    .limit(1)
+    .prepare("bandedge_session_by_token");
+}
+function sessionByToken() {
+  preparedSessionByToken ??= prepareSessionByToken();
+  return preparedSessionByToken;
 }
 
 function cookieValue(header: string, name: string): string | null {
@@ -70,21 +95,7 @@ async function readSessionDirectly(h: Headers): Promise<Viewer | null | "absent"
   const given = Buffer.from(signature, "base64");
   if (given.length !== expected.length || !timingSafeEqual(given, expected)) return "absent";
 
-  const found = await db
-    .select({
-      sessionId: sessionTable.id,
-      expiresAt: sessionTable.expiresAt,
-      createdAt: sessionTable.createdAt,
-      id: user.id,
-      name: user.name,
-      email: user.email,
-      role: user.role,
-      banned: user.banned,
-    })
-    .from(sessionTable)
-    .innerJoin(user, eq(user.id, sessionTable.userId))
-    .where(eq(sessionTable.token, token))
-    .limit(1);
+  const found = await sessionByToken().execute({ token });
   const row = found[0];
   if (!row) return "absent";
   const { expiresIn, updateAge } = ctx.sessionConfig;
