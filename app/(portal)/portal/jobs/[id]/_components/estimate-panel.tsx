@@ -1,21 +1,16 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import dynamic from "next/dynamic";
 import { useState } from "react";
-import { useForm } from "react-hook-form";
-import { z } from "zod";
-import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import type { PortalJobView } from "@/lib/services/portal-view";
-import { declineSchema } from "@/lib/validation/quote";
 import { api } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
 
 type Estimate = NonNullable<PortalJobView["estimate"]>;
 
-const reasonSchema = declineSchema.pick({ reason: true });
-type ReasonInput = z.infer<typeof reasonSchema>;
+const DeclineForm = dynamic(() => import("./decline-form"), { loading: () => <p className="text-sm text-bakelite-muted">Opening the form…</p> });
 
 function minutes(n: number): string {
   if (!n) return "";
@@ -44,7 +39,6 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
     mutationFn: (reason: string) => api(`/api/portal/jobs/${jobId}/estimate/decline`, { method: "POST", body: { revisionId: estimate.id, reason } }),
     onSuccess: refresh,
   });
-  const { register, handleSubmit, formState } = useForm<ReasonInput>({ resolver: zodResolver(reasonSchema) });
 
   return (
     <section aria-labelledby="estimate-title" className="space-y-5">
@@ -172,26 +166,7 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
               </button>
             </div>
           ) : (
-            <form noValidate className="space-y-3" onSubmit={handleSubmit((v) => decline.mutate(v.reason))}>
-              <Field id="reason" label="Why are you declining?" hint="The shop reads every answer; a reason helps them suggest another way." error={formState.errors.reason?.message}>
-                <textarea
-                  id="reason"
-                  rows={3}
-                  className="field-input"
-                  aria-invalid={!!formState.errors.reason}
-                  aria-describedby={describedBy("reason", { error: formState.errors.reason, hint: true })}
-                  {...register("reason")}
-                />
-              </Field>
-              <div className="flex flex-wrap gap-3">
-                <button type="submit" className="btn-primary" disabled={decline.isPending}>
-                  {decline.isPending ? "Sending…" : "Decline the estimate"}
-                </button>
-                <button type="button" className="btn-quiet" onClick={() => setDeclining(false)}>
-                  Go back
-                </button>
-              </div>
-            </form>
+            <DeclineForm pending={decline.isPending} onDecline={(reason) => decline.mutate(reason)} onBack={() => setDeclining(false)} />
           )}
           <p className="text-sm text-bakelite-muted">Approving does not charge you; the deposit is a separate step.</p>
         </div>
