@@ -188,10 +188,10 @@ export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOut
 }
 
 // Claims the event id; false when an earlier (or concurrent, now committed) delivery already did the work.
-async function claimEvent(ctx: TxContext, eventId: string, type: string, paymentId: string | null): Promise<boolean> {
+async function claimEvent(ctx: TxContext, eventId: string, type: string, paymentId: string | null, outcome = "received"): Promise<boolean> {
   const [row] = await ctx.tx
     .insert(paymentEvents)
-    .values({ id: eventId, type, paymentId, outcome: "received" })
+    .values({ id: eventId, type, paymentId, outcome })
     .onConflictDoNothing({ target: paymentEvents.id })
     .returning({ id: paymentEvents.id });
   return Boolean(row);
@@ -210,11 +210,13 @@ function idOf(v: string | { id: string } | null | undefined): string | null {
 async function onCheckoutEvent(ctx: TxContext, eventId: string, type: string, session: Stripe.Checkout.Session): Promise<WebhookOutcome> {
   const { tx } = ctx;
   const [payment] = await tx.select().from(payments).where(eq(payments.checkoutSessionId, session.id)).for("update").limit(1);
-  if (!(await claimEvent(ctx, eventId, type, payment?.id ?? null))) return { outcome: "duplicate" };
   if (!payment) {
+    // Nothing to apply: the event is stored with its outcome in the one statement that claims it.
+    if (!(await claimEvent(ctx, eventId, type, null, "unknown-session"))) return { outcome: "duplicate" };
     console.error("[bandedge] webhook for an unknown checkout session", { eventId, sessionId: session.id });
-    return finish(ctx, eventId, "unknown-session");
+    return { outcome: "unknown-session" };
   }
+  if (!(await claimEvent(ctx, eventId, type, payment.id))) return { outcome: "duplicate" };
 
   const [revision] = await tx.select().from(estimateRevisions).where(eq(estimateRevisions.id, payment.revisionId)).limit(1);
   const problems: string[] = [];

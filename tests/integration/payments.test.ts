@@ -160,6 +160,27 @@ describe("stripe webhook", () => {
     expect(await sql("select 1 from payment_event where id = $1", [ev.id])).toHaveLength(0);
   });
 
+  it("stores an event for a checkout session it never opened once, as unknown, and changes nothing", async () => {
+    const id = `evt_test_unknown_${Date.now()}_${Math.floor(Math.random() * 1e6)}`;
+    const payload = JSON.stringify({
+      id,
+      object: "event",
+      type: "checkout.session.completed",
+      created: Math.floor(Date.now() / 1000),
+      data: { object: { id: `cs_test_nobody_${id}`, object: "checkout.session", payment_status: "paid", amount_total: 9372, currency: "usd", metadata: {} } },
+    });
+    const paidBefore = await sql<{ n: number }>("select count(*)::int as n from payment where status = 'paid'");
+    const first = await deliver(payload);
+    expect(first.status).toBe(200);
+    expect(((await first.json()) as { outcome: string }).outcome).toBe("unknown-session");
+    const again = await deliver(payload);
+    expect(again.status).toBe(200);
+    expect(((await again.json()) as { outcome: string }).outcome).toBe("duplicate");
+    const stored = await sql<{ outcome: string; payment_id: string | null }>("select outcome, payment_id from payment_event where id = $1", [id]);
+    expect(stored).toEqual([{ outcome: "unknown-session", payment_id: null }]);
+    expect(await sql<{ n: number }>("select count(*)::int as n from payment where status = 'paid'")).toEqual(paidBefore);
+  });
+
   it("refuses an event signed ten minutes ago", async () => {
     const { job, sessionId } = await approvedWithCheckout();
     await payOnStandin(sessionId, "succeed", { hold: true });
