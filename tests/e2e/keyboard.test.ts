@@ -2,6 +2,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { sql } from "../support/db";
 import { launchBrowser, newContext, snap } from "../support/browser";
+import { focused, signInByKeyboard, tabTo } from "../support/keyboard";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -10,34 +11,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-type Focused = { tag: string; id: string; text: string; role: string | null };
-
-async function focused(page: Page): Promise<Focused> {
-  return page.evaluate(() => {
-    const el = document.activeElement as HTMLElement | null;
-    return { tag: el?.tagName ?? "", id: el?.id ?? "", text: (el?.innerText || el?.getAttribute("aria-label") || "").trim(), role: el?.getAttribute("role") ?? null };
-  });
-}
-
-// Presses Tab (never the mouse) until the focused element matches, within a bounded number of steps.
-async function tabTo(page: Page, match: (f: Focused) => boolean, what: string, max = 120): Promise<void> {
-  for (let i = 0; i < max; i++) {
-    await page.keyboard.press("Tab");
-    if (match(await focused(page))) return;
-  }
-  throw new Error(`could not reach ${what} with the Tab key`);
-}
-
-async function signInByKeyboard(page: Page, email: string, password: string) {
-  await page.goto("/sign-in");
-  await tabTo(page, (f) => f.id === "email", "the e-mail field");
-  await page.keyboard.type(email);
-  await page.keyboard.press("Tab");
-  await page.keyboard.type(password);
-  await page.keyboard.press("Enter");
-  await page.waitForURL((u) => !u.pathname.startsWith("/sign-in") && !u.pathname.startsWith("/after-sign-in"), { timeout: 20_000 });
-}
 
 describe("keyboard alone", () => {
   it("lets a set owner open a job and approve the estimate", async () => {

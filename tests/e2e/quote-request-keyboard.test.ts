@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { newCustomer } from "../support/accounts";
 import { launchBrowser, newContext, snap } from "../support/browser";
 import { closeTestPool, sql } from "../support/db";
+import { focused, signInByKeyboard, tabTo as tabToMatching, type Focused } from "../support/keyboard";
 import { jpeg } from "../fixtures/images";
 
 let browser: Browser;
@@ -17,38 +18,9 @@ afterAll(async () => {
   await closeTestPool();
 });
 
-type Focused = { tag: string; id: string; type: string; name: string; value: string; checked: boolean; text: string; outline: string };
-
-async function focused(page: Page): Promise<Focused> {
-  return page.evaluate(() => {
-    const el = document.activeElement as HTMLElement | null;
-    const input = el instanceof HTMLInputElement ? el : null;
-    const style = el ? getComputedStyle(el) : null;
-    return {
-      tag: el?.tagName ?? "",
-      id: el?.id ?? "",
-      type: input?.type ?? "",
-      name: el?.getAttribute("name") ?? "",
-      value: input?.value ?? "",
-      checked: input?.checked ?? false,
-      text: (el?.innerText || el?.getAttribute("aria-label") || "").replace(/\s+/g, " ").trim(),
-      // The focus indicator the user sees: the outline drawn for :focus-visible.
-      outline: style && style.outlineStyle !== "none" && parseFloat(style.outlineWidth) >= 2 ? `${style.outlineWidth} ${style.outlineStyle}` : "",
-    };
-  });
-}
-
-// Presses Tab (never the mouse) until the focused element matches, within a bounded number of steps.
-async function tabTo(page: Page, match: (f: Focused) => boolean, what: string, max = 80): Promise<Focused> {
-  for (let i = 0; i < max; i++) {
-    await page.keyboard.press("Tab");
-    const f = await focused(page);
-    if (match(f)) {
-      expect(f.outline, `focus is visible on ${what}`).not.toBe("");
-      return f;
-    }
-  }
-  throw new Error(`could not reach ${what} with the Tab key`);
+// Every control reached here must also show its focus outline.
+function tabTo(page: Page, match: (f: Focused) => boolean, what: string): Promise<Focused> {
+  return tabToMatching(page, match, what, { max: 80, visible: true });
 }
 
 // Inside a radio group the arrow keys move the choice; bounded, so a broken group fails instead of looping.
@@ -78,16 +50,6 @@ async function liveRegionText(page: Page): Promise<string> {
   );
 }
 
-async function signInByKeyboard(page: Page, email: string, password: string) {
-  await page.goto("/sign-in");
-  await tabTo(page, (f) => f.id === "email", "the e-mail field");
-  await page.keyboard.type(email);
-  await page.keyboard.press("Tab");
-  await page.keyboard.type(password);
-  await page.keyboard.press("Enter");
-  await page.waitForURL((u) => !u.pathname.startsWith("/sign-in") && !u.pathname.startsWith("/after-sign-in"), { timeout: 20_000 });
-}
-
 describe("the quote request by keyboard alone", () => {
   it("fills every required field, adds and removes photos, and sends the request", async () => {
     const owner = await newCustomer("kbd-quote");
@@ -96,7 +58,7 @@ describe("the quote request by keyboard alone", () => {
     // Keep playwright's file-chooser interception on for the whole page: it is switched per listener, and a
     // listener added just before a key press can lose the race with the dialog.
     page.on("filechooser", () => undefined);
-    await signInByKeyboard(page, owner.email, owner.password);
+    await signInByKeyboard(page, owner.email, owner.password, { visible: true });
     await page.goto("/portal");
     await tabTo(page, (f) => f.tag === "A" && f.text === "Request a quote", "the request link");
     await page.keyboard.press("Enter");
