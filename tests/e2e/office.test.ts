@@ -48,7 +48,8 @@ describe("the shop owner runs the office", () => {
     await signInPage(page, DEMO.owner.email, DEMO.owner.password);
     await page.goto("/office/settings");
     await expect.poll(() => page.getByRole("heading", { name: "Rates & policy" }).count()).toBe(1);
-    expect(await page.getByLabel("Labour rate").inputValue()).toBe("90.00");
+    // The form fills its fields as it starts in the browser: wait for that, then read them.
+    await expect.poll(() => page.getByLabel("Labour rate").inputValue()).toBe("90.00");
     expect(await page.getByLabel("Tax on parts").inputValue()).toBe("8.00");
     await snap(page, "office-01-settings");
     await noAxeViolations(page);
