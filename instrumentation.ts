@@ -2,6 +2,6 @@
 export async function register() {
   if (process.env.NEXT_RUNTIME !== "nodejs") return;
   if (process.env.WORKER_ENABLED === "0") return;
-  const { startWorkers } = await import("./lib/workers");
+  const { startWorkers } = await import("@/lib/server/workers");
   await startWorkers().catch((e: unknown) => console.error("[bandedge] workers did not start", e));
 }

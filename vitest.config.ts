@@ -4,7 +4,8 @@ import { defineConfig } from "vitest/config";
 const root = fileURLToPath(new URL(".", import.meta.url));
 
 export default defineConfig({
-  resolve: { alias: { "@": root } },
+  // Tests run server modules directly, as the react-server condition does for the app: the marker is empty there.
+  resolve: { alias: { "@": root, "server-only": `${root}node_modules/server-only/empty.js` } },
   test: {
     // One file at a time across all projects: integration and browser tests share one app and one database.
     fileParallelism: false,

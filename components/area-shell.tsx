@@ -1,13 +1,25 @@
 import Link from "next/link";
 import type { ReactNode } from "react";
 import { Providers } from "./providers";
-import { SiteFooter, SiteHeader } from "./site-header";
+import { SiteFooter, SiteHeader, type HeaderViewer } from "./site-header";
 
 // The signed-in areas fetch their data through the query client; public pages ship without it.
-export function AreaShell({ title, nav, children, dense }: { title: string; nav: { href: string; label: string }[]; children: ReactNode; dense?: boolean }) {
+export function AreaShell({
+  viewer,
+  title,
+  nav,
+  children,
+  dense,
+}: {
+  viewer: HeaderViewer;
+  title: string;
+  nav: { href: string; label: string }[];
+  children: ReactNode;
+  dense?: boolean;
+}) {
   return (
     <>
-      <SiteHeader />
+      <SiteHeader viewer={viewer} />
       <div className="border-b border-dial-rule bg-dial-deep">
         <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-5 gap-y-1 px-4 py-2 text-sm">
           <span className="font-serif font-bold">{title}</span>

@@ -1,6 +1,5 @@
 import Link from "next/link";
-import { can, ROLE_LABEL } from "@/lib/permissions";
-import { getViewer } from "@/lib/session";
+import { can, ROLE_LABEL, type Role } from "@/lib/engine/permissions";
 import { SignOutButton } from "./sign-out-button";
 
 // The dial-scale rule under the brand is our mark: ticks like a tuning scale.
@@ -22,12 +21,15 @@ function DialMark() {
   );
 }
 
-export async function SiteHeader() {
-  const viewer = await getViewer();
+/** Who is signed in, as the header shows them; the page or layout reads the session. */
+export type HeaderViewer = { name: string; role: Role } | null;
+
+export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
   const links: { href: string; label: string }[] = [];
   if (viewer) {
     if (can(viewer.role, "portal.use")) links.push({ href: "/portal", label: "My sets" });
-    if (can(viewer.role, "bench.use")) links.push({ href: "/bench", label: "Bench" }, { href: "/bench/calculator", label: "Alignment calculator" });
+    if (can(viewer.role, "bench.use"))
+      links.push({ href: "/bench", label: "Bench" }, { href: "/bench/calculator", label: "Alignment calculator" });
     if (can(viewer.role, "office.use")) links.push({ href: "/office", label: "Office" });
   }
   return (
@@ -72,9 +74,7 @@ export function SiteFooter() {
   return (
     <footer className="mt-16 border-t border-dial-rule bg-dial-deep">
       <div className="mx-auto grid max-w-page gap-4 px-4 py-8 text-sm text-bakelite-soft sm:grid-cols-2">
-        <p>
-          Kestrel Lane Wireless · 14 Kestrel Lane, Port Alder · Workshop open Tuesday to Saturday.
-        </p>
+        <p>Kestrel Lane Wireless · 14 Kestrel Lane, Port Alder · Workshop open Tuesday to Saturday.</p>
         <p className="sm:text-right">
           Mains work on old sets can injure or kill. Our notes are general guidance; follow local codes and licensed practice.
         </p>

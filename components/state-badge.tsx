@@ -1,5 +1,5 @@
-import type { JobState } from "@/db/schema/enums";
-import { STATE_LABEL } from "@/lib/jobs/states";
+import type { JobState } from "@/lib/engine/jobs/states";
+import { STATE_LABEL } from "@/lib/engine/jobs/states";
 
 const TONE: Partial<Record<JobState, string>> = {
   estimate_sent: "border-ember text-ember-dark",
@@ -15,7 +15,9 @@ const TONE: Partial<Record<JobState, string>> = {
 export function StateBadge({ state, audience }: { state: JobState; audience: "owner" | "staff" }) {
   const label = STATE_LABEL[state];
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${TONE[state] ?? "border-bakelite-soft text-bakelite"}`}>
+    <span
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${TONE[state] ?? "border-bakelite-soft text-bakelite"}`}
+    >
       <span aria-hidden="true">{label.icon}</span>
       {label[audience]}
     </span>

@@ -14,8 +14,8 @@ export default function BalanceDue({
     <MailLayout preview={`Your ${setName} is finished`}>
       <Heading style={mailStyles.h1}>Your set is finished</Heading>
       <Text style={mailStyles.p}>
-        Hello {name}, the work on your {setName} ({jobNumber}) is done and every final check passed. The measurements are on
-        your job page and will be printed on the warranty certificate.
+        Hello {name}, the work on your {setName} ({jobNumber}) is done and every final check passed. The measurements are on your job page
+        and will be printed on the warranty certificate.
       </Text>
       <Text style={mailStyles.p}>The balance still to pay is {balanceText}. Once it is paid we will return the set to you.</Text>
       <Button href={url} style={mailStyles.button}>

@@ -33,7 +33,10 @@ export default function CertificateIssued({
     <MailLayout preview={`Your warranty certificate for the ${maker} ${model}`}>
       <Heading style={mailStyles.h1}>{corrected ? "Your corrected warranty certificate" : "Your warranty certificate"}</Heading>
       <Text style={mailStyles.p}>
-        Hello {name}, your {maker} {model} is back with you. {corrected ? "We corrected its certificate: this one replaces the earlier one, which now says it has been superseded." : "Its certificate lists the work we did, the parts we fitted and the band edges we measured."}
+        Hello {name}, your {maker} {model} is back with you.{" "}
+        {corrected
+          ? "We corrected its certificate: this one replaces the earlier one, which now says it has been superseded."
+          : "Its certificate lists the work we did, the parts we fitted and the band edges we measured."}
       </Text>
       <Text style={mailStyles.p}>
         {kind} warranty, {termDays} days, until {endsOn}. Certificate code: <strong>{code}</strong>
@@ -45,7 +48,9 @@ export default function CertificateIssued({
         The PDF is also on <Link href={jobUrl}>your job page</Link>. Anyone you show the code to, such as a buyer, can check it at{" "}
         <Link href={verifyUrl}>{verifyUrl}</Link>.
       </Text>
-      <Text style={mailStyles.small}>If the set develops a fault, unplug it and open a warranty claim from your portal before sending it back.</Text>
+      <Text style={mailStyles.small}>
+        If the set develops a fault, unplug it and open a warranty claim from your portal before sending it back.
+      </Text>
     </MailLayout>
   );
 }

@@ -34,10 +34,15 @@ export default function ClaimDecision({
       </Text>
       {reason ? <Text style={mailStyles.p}>{reason}</Text> : null}
       {decision === "accepted" ? (
-        <Text style={mailStyles.p}>We opened a warranty job for it; the covered work is at no charge. Please keep the set unplugged and send or bring it to {shopAddress}.</Text>
+        <Text style={mailStyles.p}>
+          We opened a warranty job for it; the covered work is at no charge. Please keep the set unplugged and send or bring it to{" "}
+          {shopAddress}.
+        </Text>
       ) : null}
       {decision === "inspecting" ? (
-        <Text style={mailStyles.p}>Please keep the set unplugged and send or bring it to {shopAddress}. We will decide once we have seen it.</Text>
+        <Text style={mailStyles.p}>
+          Please keep the set unplugged and send or bring it to {shopAddress}. We will decide once we have seen it.
+        </Text>
       ) : null}
       <Button href={claimUrl} style={mailStyles.button}>
         See the claim

@@ -23,8 +23,8 @@ export default function EstimateReady({
     <MailLayout preview={`Your estimate for ${setName} is ready`}>
       <Heading style={mailStyles.h1}>Your estimate is ready</Heading>
       <Text style={mailStyles.p}>
-        Hello {name}, the technician has written the estimate for your {setName} ({jobNumber}). It lists every step of the
-        work with the reason for it, the parts, the tax and what the warranty will cover.
+        Hello {name}, the technician has written the estimate for your {setName} ({jobNumber}). It lists every step of the work with the
+        reason for it, the parts, the tax and what the warranty will cover.
       </Text>
       <Text style={mailStyles.p}>
         Total: {totalText}. Deposit to start the work: {depositText}.

@@ -23,7 +23,8 @@ function define<P>(def: TemplateDef<P>): TemplateDef<P> {
 export const TEMPLATES = {
   "certificate-issued": define<CertificateIssuedProps>({
     component: CertificateIssued,
-    subject: (p) => (p.corrected ? `Corrected warranty certificate for your ${p.maker} ${p.model}` : `Warranty certificate for your ${p.maker} ${p.model}`),
+    subject: (p) =>
+      p.corrected ? `Corrected warranty certificate for your ${p.maker} ${p.model}` : `Warranty certificate for your ${p.maker} ${p.model}`,
   }),
   "claim-decision": define<ClaimDecisionProps>({
     component: ClaimDecision,
@@ -77,7 +78,9 @@ export const TEMPLATES = {
   "set-returned": define<SetReturnedProps>({
     component: SetReturned,
     subject: (p) =>
-      p.method === "shipped" ? `Your ${p.setName} is on its way (${p.jobNumber})` : `Your ${p.setName} is ready for pick-up (${p.jobNumber})`,
+      p.method === "shipped"
+        ? `Your ${p.setName} is on its way (${p.jobNumber})`
+        : `Your ${p.setName} is ready for pick-up (${p.jobNumber})`,
   }),
 };
 

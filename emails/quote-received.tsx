@@ -14,8 +14,8 @@ export default function QuoteReceived({
     <MailLayout preview={`We received your quote request ${jobNumber}`}>
       <Heading style={mailStyles.h1}>We have your quote request</Heading>
       <Text style={mailStyles.p}>
-        Hello {name}, thank you for telling us about your {setName}. Your request is number {jobNumber}. A technician will
-        look at your description and photos and write an estimate; we will e-mail you when it is ready, or if we have a question.
+        Hello {name}, thank you for telling us about your {setName}. Your request is number {jobNumber}. A technician will look at your
+        description and photos and write an estimate; we will e-mail you when it is ready, or if we have a question.
       </Text>
       <Text style={mailStyles.p}>
         {delivery === "mail-in"

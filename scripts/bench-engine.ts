@@ -3,11 +3,11 @@
  * tracking solve. Prints figures only; the goals (≤ 1 ms and ≤ 0.2 ms) are for reading, not asserting.
  */
 import { performance } from "node:perf_hooks";
-import { solveTracking } from "../lib/alignment/solve-tracking";
-import { computeChecklist } from "../lib/checklist/compute-checklist";
-import { setProfileSchema } from "../lib/checklist/profile";
-import { priceEstimate } from "../lib/pricing/price-estimate";
-import { defaultShopPolicy } from "../lib/shop-policy";
+import { solveTracking } from "@/lib/engine/alignment/solve-tracking";
+import { computeChecklist } from "@/lib/engine/checklist/compute-checklist";
+import { setProfileSchema } from "@/lib/engine/checklist/profile";
+import { priceEstimate } from "@/lib/engine/pricing/price-estimate";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 
 // The Haldane console from the demo scenario: the largest checklist the shop meets.
 const profile = setProfileSchema.parse({

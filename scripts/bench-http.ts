@@ -32,7 +32,10 @@ async function signIn(appUrl: string, email: string, password: string): Promise<
     body: JSON.stringify({ email, password }),
   });
   if (!res.ok) throw new Error(`sign-in failed: ${res.status}`);
-  return res.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
+  return res.headers
+    .getSetCookie()
+    .map((c) => c.split(";")[0])
+    .join("; ");
 }
 
 function errorsOf(r: autocannon.Result): number {
@@ -43,7 +46,11 @@ async function listVsBare(stack: Stack, cookie: string, connections: number) {
   const bare = await cannon({ url: `${stack.appUrl}/api/health`, connections });
   const list = await cannon({ url: `${stack.appUrl}/api/bench/queue?page=1&pageSize=25`, connections, headers: { cookie } });
   const ratio = list.requests.average / bare.requests.average;
-  rows.push({ metric: `bare static JSON, ${connections} conns`, figure: `${bare.requests.average.toFixed(0)} req/s, p97.5 ${bare.latency.p97_5} ms, errors ${errorsOf(bare)}`, goal: "baseline" });
+  rows.push({
+    metric: `bare static JSON, ${connections} conns`,
+    figure: `${bare.requests.average.toFixed(0)} req/s, p97.5 ${bare.latency.p97_5} ms, errors ${errorsOf(bare)}`,
+    goal: "baseline",
+  });
   rows.push({
     metric: `authenticated JSON list, ${connections} conns`,
     figure: `${list.requests.average.toFixed(0)} req/s (${ratio.toFixed(2)}× bare), p97.5 ${list.latency.p97_5} ms, errors ${errorsOf(list)}`,
@@ -60,7 +67,16 @@ async function webhookBurst(stack: Stack, db: pg.Pool) {
     object: "event",
     type: "checkout.session.completed",
     created: Math.floor(Date.now() / 1000),
-    data: { object: { id: `cs_bench_${randomUUID().replace(/-/g, "")}`, object: "checkout.session", payment_status: "paid", amount_total: 1000, currency: "usd", metadata: {} } },
+    data: {
+      object: {
+        id: `cs_bench_${randomUUID().replace(/-/g, "")}`,
+        object: "checkout.session",
+        payment_status: "paid",
+        amount_total: 1000,
+        currency: "usd",
+        metadata: {},
+      },
+    },
   }));
   // Warm the route first at the same concurrency (module load, JIT, the database pool's connections), as the
   // PDF figure does; these events are not counted.
@@ -68,7 +84,10 @@ async function webhookBurst(stack: Stack, db: pg.Pool) {
     Array.from({ length: 10 }, async () => {
       for (let i = 0; i < 5; i++) {
         const payload = JSON.stringify({ ...events[0]!, id: `evt_warm_${randomUUID().replace(/-/g, "")}` });
-        const headers = { "stripe-signature": stripe.webhooks.generateTestHeaderString({ payload, secret }), "content-type": "application/json" };
+        const headers = {
+          "stripe-signature": stripe.webhooks.generateTestHeaderString({ payload, secret }),
+          "content-type": "application/json",
+        };
         await (await fetch(`${stack.appUrl}/api/webhooks/stripe`, { method: "POST", headers, body: payload })).arrayBuffer();
       }
     }),
@@ -83,7 +102,11 @@ async function webhookBurst(stack: Stack, db: pg.Pool) {
         const payload = JSON.stringify(e);
         const header = stripe.webhooks.generateTestHeaderString({ payload, secret });
         const t0 = performance.now();
-        const res = await fetch(`${stack.appUrl}/api/webhooks/stripe`, { method: "POST", headers: { "stripe-signature": header, "content-type": "application/json" }, body: payload });
+        const res = await fetch(`${stack.appUrl}/api/webhooks/stripe`, {
+          method: "POST",
+          headers: { "stripe-signature": header, "content-type": "application/json" },
+          body: payload,
+        });
         await res.arrayBuffer();
         latencies.push(performance.now() - t0);
         if (res.status >= 300) errors++;
@@ -100,7 +123,9 @@ async function webhookBurst(stack: Stack, db: pg.Pool) {
 }
 
 async function certificatePdf(stack: Stack, db: pg.Pool, ownerCookie: string) {
-  const cert = await db.query<{ id: string }>("select id from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1");
+  const cert = await db.query<{ id: string }>(
+    "select id from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1",
+  );
   if (!cert.rows.length) {
     rows.push({ metric: "certificate PDF", figure: "no certificate in the seed", goal: "—" });
     return;
@@ -121,7 +146,11 @@ async function certificatePdf(stack: Stack, db: pg.Pool, ownerCookie: string) {
     times.push(performance.now() - t0);
   }
   times.sort((a, b) => a - b);
-  rows.push({ metric: "certificate PDF, warm", figure: `p50 ${percentile(times, 50).toFixed(0)} ms, p95 ${percentile(times, 95).toFixed(0)} ms`, goal: "p95 ≤ 300 ms" });
+  rows.push({
+    metric: "certificate PDF, warm",
+    figure: `p50 ${percentile(times, 50).toFixed(0)} ms, p95 ${percentile(times, 95).toFixed(0)} ms`,
+    goal: "p95 ≤ 300 ms",
+  });
 
   const idle = await cannon({ url: `${stack.appUrl}/api/health`, connections: 2, duration: 4 });
   let rendering = true;
@@ -144,7 +173,9 @@ async function certificatePdf(stack: Stack, db: pg.Pool, ownerCookie: string) {
 }
 
 async function verifyPage(stack: Stack, db: pg.Pool) {
-  const cert = await db.query<{ code: string }>("select code from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1");
+  const cert = await db.query<{ code: string }>(
+    "select code from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1",
+  );
   const code = cert.rows[0]?.code;
   if (!code) {
     rows.push({ metric: "public verification page", figure: "no certificate in the seed", goal: "—" });
@@ -155,7 +186,9 @@ async function verifyPage(stack: Stack, db: pg.Pool) {
   const verify = await cannon({
     url: `${stack.appUrl}/verify/${code}`,
     connections: 20,
-    requests: [{ setupRequest: (req) => ({ ...req, headers: { ...req.headers, "x-forwarded-for": `198.51.${(++n >> 8) & 255}.${n & 255}` } }) }],
+    requests: [
+      { setupRequest: (req) => ({ ...req, headers: { ...req.headers, "x-forwarded-for": `198.51.${(++n >> 8) & 255}.${n & 255}` } }) },
+    ],
   });
   rows.push({
     metric: "public verification page, 20 conns",
@@ -165,12 +198,14 @@ async function verifyPage(stack: Stack, db: pg.Pool) {
 }
 
 async function photoReencode() {
-  const { processPhoto } = await import("../lib/uploads");
+  const { processPhoto } = await import("@/lib/server/uploads/photos");
   const width = 4000;
   const height = 3000;
   const noise = Buffer.alloc(width * height * 3);
   for (let i = 0; i < noise.length; i++) noise[i] = (i * 2654435761) >>> 24;
-  const jpeg = await sharp(noise, { raw: { width, height, channels: 3 } }).jpeg({ quality: 90 }).toBuffer();
+  const jpeg = await sharp(noise, { raw: { width, height, channels: 3 } })
+    .jpeg({ quality: 90 })
+    .toBuffer();
   const rssBefore = process.memoryUsage().rss;
   const times: number[] = [];
   for (let i = 0; i < 3; i++) {
@@ -180,7 +215,11 @@ async function photoReencode() {
   }
   times.sort((a, b) => a - b);
   const rssGrowth = (process.memoryUsage().rss - rssBefore) / 1024 / 1024;
-  rows.push({ metric: "photo re-encode, 12 MP JPEG", figure: `median ${times[1]!.toFixed(0)} ms, RSS growth ${rssGrowth.toFixed(0)} MiB`, goal: "≤ 1.2 s, memory bounded" });
+  rows.push({
+    metric: "photo re-encode, 12 MP JPEG",
+    figure: `median ${times[1]!.toFixed(0)} ms, RSS growth ${rssGrowth.toFixed(0)} MiB`,
+    goal: "≤ 1.2 s, memory bounded",
+  });
 }
 
 // JavaScript a first visit needs: the scripts the page's own HTML loads (framework, page and its client
@@ -190,7 +229,14 @@ async function firstLoadJs(stack: Stack, db: pg.Pool) {
   const { chromium } = await import("playwright-core");
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
-    args: ["--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update", "--disable-sync", "--no-first-run"],
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+      "--no-first-run",
+    ],
   });
   const code = (await db.query<{ code: string }>("select code from certificate order by issued_at limit 1")).rows[0]?.code;
   const plan: { who: string; login?: [string, string]; paths: string[] }[] = [
@@ -206,7 +252,9 @@ async function firstLoadJs(stack: Stack, db: pg.Pool) {
       for (const path of p.paths) {
         const ctx = await browser.newContext();
         if (cookie) {
-          await ctx.addCookies(cookie.split("; ").map((c) => ({ name: c.slice(0, c.indexOf("=")), value: c.slice(c.indexOf("=") + 1), url: stack.appUrl })));
+          await ctx.addCookies(
+            cookie.split("; ").map((c) => ({ name: c.slice(0, c.indexOf("=")), value: c.slice(c.indexOf("=") + 1), url: stack.appUrl })),
+          );
         }
         const page = await ctx.newPage();
         const url = `${stack.appUrl}${path}`;
@@ -218,7 +266,11 @@ async function firstLoadJs(stack: Stack, db: pg.Pool) {
         const own = new Set([...html.matchAll(/<script[^>]*\ssrc="([^"]+)"/g)].map((m) => new URL(m[1]!.replace(/&amp;/g, "&"), url).href));
         await page.waitForLoadState("networkidle");
         const entries = await page.evaluate(() =>
-          (performance.getEntriesByType("resource") as PerformanceResourceTiming[]).map((e) => ({ name: e.name, decoded: e.decodedBodySize, encoded: e.encodedBodySize })),
+          (performance.getEntriesByType("resource") as PerformanceResourceTiming[]).map((e) => ({
+            name: e.name,
+            decoded: e.decodedBodySize,
+            encoded: e.encodedBodySize,
+          })),
         );
         const mine = entries.filter((e) => own.has(e.name));
         measured.push({
@@ -233,7 +285,10 @@ async function firstLoadJs(stack: Stack, db: pg.Pool) {
     await browser.close();
   }
   const kib = (n: number) => (n / 1024).toFixed(0);
-  const lightest = [...measured].sort((a, b) => a.decoded - b.decoded).slice(0, 4).map((m) => m.path);
+  const lightest = [...measured]
+    .sort((a, b) => a.decoded - b.decoded)
+    .slice(0, 4)
+    .map((m) => m.path);
   rows.push({
     metric: "JavaScript on first load (decoded / compressed KiB)",
     figure: `${measured.map((m) => `${m.path} ${kib(m.decoded)}/${kib(m.encoded)}`).join(", ")}; lightest first: ${lightest.join(" ≤ ")}`,
@@ -248,7 +303,11 @@ const selected = new Set(onlyArg ? onlyArg.slice("--only=".length).split(",") : 
 for (const s of selected) if (!(PARTS as readonly string[]).includes(s)) throw new Error(`unknown part "${s}"; parts: ${PARTS.join(", ")}`);
 
 async function main() {
-  const stack: Stack = await bootScratchStack({ distDir: process.env.BANDEDGE_BENCH_DIST ?? ".next-test", build: !process.argv.includes("--skip-build"), extraEnv: { AUTH_RATE_LIMIT_MAX: "1000" } });
+  const stack: Stack = await bootScratchStack({
+    distDir: process.env.BANDEDGE_BENCH_DIST ?? ".next-test",
+    build: !process.argv.includes("--skip-build"),
+    extraEnv: { AUTH_RATE_LIMIT_MAX: "1000" },
+  });
   const db = new pg.Pool({ connectionString: stack.env.DATABASE_URL, max: 2 });
   try {
     const techCookie = await signIn(stack.appUrl, "tomas@kestrel-lane.example", "bench-tech-2026");
@@ -267,7 +326,9 @@ async function main() {
     await db.end();
     stack.stop();
   }
-  console.log(`\nBandedge HTTP benchmarks — ${new Date().toISOString().slice(0, 10)}, ${cpus().length} cores, ${(totalmem() / 2 ** 30).toFixed(0)} GiB\n`);
+  console.log(
+    `\nBandedge HTTP benchmarks — ${new Date().toISOString().slice(0, 10)}, ${cpus().length} cores, ${(totalmem() / 2 ** 30).toFixed(0)} GiB\n`,
+  );
   const w = Math.max(...rows.map((r) => r.metric.length));
   const f = Math.max(...rows.map((r) => r.figure.length));
   console.log(`${"metric".padEnd(w)} | ${"figure".padEnd(f)} | goal`);

@@ -96,7 +96,13 @@ class Browser {
     this.profile = mkdtempSync(join(tmpdir(), "bandedge-lh-profile-"));
     const child = spawn(
       this.executable,
-      [...CHROME_FLAGS, `--remote-debugging-address=127.0.0.1`, `--remote-debugging-port=${this.port}`, `--user-data-dir=${this.profile}`, "about:blank"],
+      [
+        ...CHROME_FLAGS,
+        `--remote-debugging-address=127.0.0.1`,
+        `--remote-debugging-port=${this.port}`,
+        `--user-data-dir=${this.profile}`,
+        "about:blank",
+      ],
       { detached: true, stdio: "ignore" },
     );
     this.child = child;
@@ -174,7 +180,8 @@ function failingAudits(lhr: Result, id: "performance" | "accessibility"): string
         .slice(0, 4)
         .map((i) => i.node?.selector ?? i.node?.snippet)
         .filter(Boolean);
-      if (nodes.length) line += `\n      at ${nodes.join("\n      at ")}${details.items.length > 4 ? `\n      … ${details.items.length - 4} more` : ""}`;
+      if (nodes.length)
+        line += `\n      at ${nodes.join("\n      at ")}${details.items.length > 4 ? `\n      … ${details.items.length - 4} more` : ""}`;
     }
     lines.push(line);
   }
@@ -182,9 +189,16 @@ function failingAudits(lhr: Result, id: "performance" | "accessibility"): string
 }
 
 async function targets(db: pg.Pool): Promise<Target[]> {
-  const code = (await db.query<{ code: string }>("select code from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1")).rows[0]?.code;
+  const code = (
+    await db.query<{ code: string }>(
+      "select code from certificate where revoked_at is null and superseded_by_id is null order by issued_at limit 1",
+    )
+  ).rows[0]?.code;
   const jobId = (
-    await db.query<{ id: string }>(`select j.id from job j join "user" u on u.id = j.customer_id where u.email = $1 order by j.created_at limit 1`, [OWNER.email])
+    await db.query<{ id: string }>(
+      `select j.id from job j join "user" u on u.id = j.customer_id where u.email = $1 order by j.created_at limit 1`,
+      [OWNER.email],
+    )
   ).rows[0]?.id;
   const list: Target[] = [
     { key: "home", label: "/", path: "/" },
@@ -216,7 +230,10 @@ async function audit(browser: Browser, url: string, cookie: string | undefined):
 }
 
 async function main() {
-  const only = process.argv.find((a) => a.startsWith("--only="))?.slice("--only=".length).split(",");
+  const only = process.argv
+    .find((a) => a.startsWith("--only="))
+    ?.slice("--only=".length)
+    .split(",");
   const runsArg = process.argv.find((a) => a.startsWith("--runs="))?.slice("--runs=".length);
   const runs = runsArg === undefined ? 3 : Number(runsArg);
   if (!Number.isInteger(runs) || runs < 1 || runs > MAX_RUNS) throw new Error(`--runs must be a whole number from 1 to ${MAX_RUNS}`);
@@ -310,7 +327,10 @@ async function main() {
           ...(perf !== null && perf < GOAL.performance ? failingAudits(lhr, "performance") : []),
           ...(a11y !== null && a11y < GOAL.accessibility ? failingAudits(lhr, "accessibility") : []),
         ];
-        findings.push(`${t.label} (performance ${perf ?? "—"}, accessibility ${a11y ?? "—"}${notes.length ? `; ${notes.join("; ")}` : ""})`, ...lines);
+        findings.push(
+          `${t.label} (performance ${perf ?? "—"}, accessibility ${a11y ?? "—"}${notes.length ? `; ${notes.join("; ")}` : ""})`,
+          ...lines,
+        );
       }
     }
     if (rows.some((r) => r.note.includes("failed"))) process.exitCode = 1;
@@ -324,7 +344,16 @@ async function main() {
     `\nBandedge Lighthouse ${version} — ${new Date().toISOString().slice(0, 10)}, ${cpus().length} cores (load average ${loadBefore.toFixed(1)} before, ${loadavg()[0]!.toFixed(1)} after), default mobile config, simulated throttling, median of ${runs} run${runs > 1 ? "s" : ""}\n`,
   );
   const goal = `performance ≥ ${GOAL.performance}, accessibility ≥ ${GOAL.accessibility}`;
-  const head: Row = { label: "page", perf: "performance", a11y: "accessibility", lcp: "LCP", tbt: "TBT", cls: "CLS", runs: "performance of each run", note: "goal" };
+  const head: Row = {
+    label: "page",
+    perf: "performance",
+    a11y: "accessibility",
+    lcp: "LCP",
+    tbt: "TBT",
+    cls: "CLS",
+    runs: "performance of each run",
+    note: "goal",
+  };
   const cols: (keyof Row)[] = ["label", "perf", "a11y", "lcp", "tbt", "cls", "runs"];
   const width = Object.fromEntries(cols.map((c) => [c, Math.max(...[head, ...rows].map((r) => r[c].length))])) as Record<keyof Row, number>;
   const line = (r: Row, last: string) => `${cols.map((c) => r[c].padEnd(width[c])).join(" | ")} | ${last}`;

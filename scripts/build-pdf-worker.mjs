@@ -1,4 +1,4 @@
-// The certificate PDF renders in worker threads (lib/pdf/render-pool.ts), and a worker needs a real
+// The certificate PDF renders in worker threads (lib/server/pdf/render-pool.ts), and a worker needs a real
 // JavaScript file at run time. `next build` bundles route code into its own chunks, so the worker entry is
 // bundled here with esbuild instead: next.config.mjs calls this after Next's compile step (and once when
 // the dev server starts), writing into the build's own dist dir. Packages stay external and load from
@@ -19,13 +19,15 @@ export async function buildPdfWorker({ projectDir = ROOT, distDir }) {
   const outfile = isAbsolute(distDir) ? pdfWorkerFile(distDir) : join(projectDir, pdfWorkerFile(distDir));
   await build({
     absWorkingDir: projectDir,
-    entryPoints: [join(projectDir, "lib", "pdf", "certificate-worker.ts")],
+    entryPoints: [join(projectDir, "lib", "server", "pdf", "certificate-worker.ts")],
     outfile,
     bundle: true,
     platform: "node",
     format: "esm",
     target: "node20",
     packages: "external",
+    // The worker is server code by construction; the marker package only guards the browser bundle.
+    alias: { "server-only": "./node_modules/server-only/empty.js" },
     jsx: "automatic",
     tsconfig: join(projectDir, "tsconfig.json"),
     sourcemap: "linked",

@@ -21,7 +21,11 @@ const dest = new URL(base);
 dest.pathname = `/${target}`;
 const bin = ensurePostgres();
 
-const exists = spawnSync(join(bin, "psql"), [admin.toString(), "-tAc", `select 1 from pg_database where datname = '${target.replace(/'/g, "''")}'`], { encoding: "utf8" });
+const exists = spawnSync(
+  join(bin, "psql"),
+  [admin.toString(), "-tAc", `select 1 from pg_database where datname = '${target.replace(/'/g, "''")}'`],
+  { encoding: "utf8" },
+);
 if (exists.status !== 0) throw new Error(exists.stderr);
 if (exists.stdout.trim() === "1") {
   if (!replace) {

@@ -1,4 +1,4 @@
-import { seedDemo } from "@/db/seed";
+import { seedDemo } from "./demo-seed";
 
 // Idempotent: a second run neither duplicates nor wipes anything.
 seedDemo()

@@ -93,7 +93,8 @@ async function main() {
 
   children.push(spawnService("mail", bin("tsx"), ["scripts/fakes/mail-server.ts"], env));
   for (const fake of ["stripe-server.ts", "upload-server.ts"]) {
-    if (existsSync(join(ROOT, "scripts", "fakes", fake))) children.push(spawnService(fake, bin("tsx"), [join("scripts", "fakes", fake)], env));
+    if (existsSync(join(ROOT, "scripts", "fakes", fake)))
+      children.push(spawnService(fake, bin("tsx"), [join("scripts", "fakes", fake)], env));
   }
   const app = spawnService("app", bin("next"), ["start", "--hostname", "127.0.0.1", "--port", String(appPort)], env);
   children.push(app);

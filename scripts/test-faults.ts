@@ -16,7 +16,7 @@ import pg from "pg";
 import sharp from "sharp";
 import Stripe from "stripe";
 import type { JobState } from "@/db/schema/enums";
-import { TRANSITIONS } from "@/lib/jobs/states";
+import { TRANSITIONS } from "@/lib/engine/jobs/states";
 // @ts-expect-error plain ESM module without type declarations
 import { bootScratchStack } from "./lib/scratch-stack.mjs";
 // @ts-expect-error plain ESM module without type declarations
@@ -155,7 +155,13 @@ async function main() {
   const distDir = process.env.BANDEDGE_TEST_DIST ?? ".next-faults";
   // The app's output (stack traces while PostgreSQL is down, mostly) goes to a file, kept when a check fails.
   const appLog = join(tmpdir(), `bandedge-faults-app-${process.pid}.log`);
-  const stack: Stack = await bootScratchStack({ distDir, build: !skipBuild || !existsSync(join(distDir, "BUILD_ID")), durable: true, quiet: true, appLog });
+  const stack: Stack = await bootScratchStack({
+    distDir,
+    build: !skipBuild || !existsSync(join(distDir, "BUILD_ID")),
+    durable: true,
+    quiet: true,
+    appLog,
+  });
   let app: ChildProcess = stack.app;
   let dual: ChildProcess | undefined;
   const expectedExits = new WeakSet<ChildProcess>();
@@ -223,7 +229,15 @@ async function main() {
     async function approvedJob(customerId: string): Promise<{ jobId: string; number: number }> {
       const [set] = await q<{ id: string }>(
         `insert into radio_set (owner_id, maker, model, year, kind, profile) values ($1, 'Corvane', 'Seven', 1961, 'transistor-battery', $2) returning id`,
-        [customerId, JSON.stringify({ kind: "transistor-battery", bands: [{ kind: "MW", lowKHz: 530, highKHz: 1610, ifKHz: 455 }], electrolytics: 4, paperCapacitors: 0 })],
+        [
+          customerId,
+          JSON.stringify({
+            kind: "transistor-battery",
+            bands: [{ kind: "MW", lowKHz: 530, highKHz: 1610, ifKHz: 455 }],
+            electrolytics: 4,
+            paperCapacitors: 0,
+          }),
+        ],
       );
       const [job] = await q<{ id: string; number: number }>(
         `insert into job (set_id, customer_id, state, symptoms) values ($1, $2, 'approved', 'Weak and scratchy, fades after a few minutes.') returning id, number`,
@@ -235,7 +249,10 @@ async function main() {
            ($1, 'in_triage', 'estimate_sent', null, now() - interval '2 hours'), ($1, 'estimate_sent', 'approved', $2, now() - interval '1 hour')`,
         [job!.id, customerId],
       );
-      const [est] = await q<{ id: string }>(`insert into estimate (job_id, draft, current_revision) values ($1, '{"lines":[]}', 1) returning id`, [job!.id]);
+      const [est] = await q<{ id: string }>(
+        `insert into estimate (job_id, draft, current_revision) values ($1, '{"lines":[]}', 1) returning id`,
+        [job!.id],
+      );
       const [rev] = await q<{ id: string }>(
         `insert into estimate_revision (estimate_id, job_id, revision, status, currency, labour_minor, parts_minor, tax_minor, total_minor, deposit_minor, pricing, decided_by, decided_at)
          values ($1, $2, 1, 'approved', 'USD', 18000, 2400, 192, 20592, 6178, '{"exponent":2}', $3, now() - interval '1 hour') returning id`,
@@ -263,12 +280,24 @@ async function main() {
       return out;
     }
 
-    const payJobs = await inParallel(Array.from({ length: PAYMENTS }, (_, i) => customers[i % CUSTOMERS]!), 6, async (c) => ({ client: c, ...(await approvedJob(c.userId)) }));
-    const dualJobs = await inParallel(Array.from({ length: DUAL_EVENTS }, (_, i) => customers[i % CUSTOMERS]!), 6, async (c) => ({ client: c, ...(await approvedJob(c.userId)) }));
-    const certs = await inParallel(Array.from({ length: CLAIMS }, (_, i) => holders[i % holders.length]!), 4, async (holder) => {
-      const c = await createCertificate({ customerId: holder.userId, maker: "Aurelian", model: "Model 5T" });
-      return { holder, certificateId: c.certificateId, jobId: c.jobId };
-    });
+    const payJobs = await inParallel(
+      Array.from({ length: PAYMENTS }, (_, i) => customers[i % CUSTOMERS]!),
+      6,
+      async (c) => ({ client: c, ...(await approvedJob(c.userId)) }),
+    );
+    const dualJobs = await inParallel(
+      Array.from({ length: DUAL_EVENTS }, (_, i) => customers[i % CUSTOMERS]!),
+      6,
+      async (c) => ({ client: c, ...(await approvedJob(c.userId)) }),
+    );
+    const certs = await inParallel(
+      Array.from({ length: CLAIMS }, (_, i) => holders[i % holders.length]!),
+      4,
+      async (holder) => {
+        const c = await createCertificate({ customerId: holder.userId, maker: "Aurelian", model: "Model 5T" });
+        return { holder, certificateId: c.certificateId, jobId: c.jobId };
+      },
+    );
     const fixtureJobs = new Set(certs.map((c) => c.jobId)); // written straight into the tables, without history
     await stopQueue();
     await closeTestPool();
@@ -276,7 +305,9 @@ async function main() {
     const photo = await sharp({ create: { width: 320, height: 240, channels: 3, background: { r: 120, g: 86, b: 52 } } })
       .jpeg({ quality: 80 })
       .toBuffer();
-    console.log(`Prepared ${CUSTOMERS} customers, ${PAYMENTS + DUAL_EVENTS} approved jobs and ${CLAIMS} certificates in ${((Date.now() - prepStart) / 1000).toFixed(1)} s`);
+    console.log(
+      `Prepared ${CUSTOMERS} customers, ${PAYMENTS + DUAL_EVENTS} approved jobs and ${CLAIMS} certificates in ${((Date.now() - prepStart) / 1000).toFixed(1)} s`,
+    );
 
     // ---- the ledger ----
     const ledger = {
@@ -293,12 +324,16 @@ async function main() {
     const deliverTo = (base: string, payload: string, signal?: AbortSignal) =>
       fetch(`${base}/api/webhooks/stripe`, {
         method: "POST",
-        headers: { "content-type": "application/json", "stripe-signature": signer.webhooks.generateTestHeaderString({ payload, secret: env.STRIPE_WEBHOOK_SECRET }) },
+        headers: {
+          "content-type": "application/json",
+          "stripe-signature": signer.webhooks.generateTestHeaderString({ payload, secret: env.STRIPE_WEBHOOK_SECRET }),
+        },
         body: payload,
         signal,
       });
 
-    const ticketStorageKey = (ticket: string) => (JSON.parse(Buffer.from(ticket.split(".")[0]!, "base64url").toString("utf8")) as { key: string }).key;
+    const ticketStorageKey = (ticket: string) =>
+      (JSON.parse(Buffer.from(ticket.split(".")[0]!, "base64url").toString("utf8")) as { key: string }).key;
 
     async function upload(client: Client): Promise<string | null> {
       return perform("upload", `upload:${randomUUID()}`, async (signal) => {
@@ -355,10 +390,13 @@ async function main() {
 
     async function paymentTask(job: { client: Client; jobId: string }, enqueue: (t: () => Promise<void>) => void) {
       const url = await perform("checkout", `checkout:${job.jobId}`, async (signal) =>
-        answer(await job.client.request("/api/payments/checkout", { method: "POST", json: { jobId: job.jobId, purpose: "deposit" }, signal }), (status, b) => {
-          const r = b as { kind?: string; url?: string };
-          return status === 200 && r.kind === "redirect" && r.url ? r.url : undefined;
-        }),
+        answer(
+          await job.client.request("/api/payments/checkout", { method: "POST", json: { jobId: job.jobId, purpose: "deposit" }, signal }),
+          (status, b) => {
+            const r = b as { kind?: string; url?: string };
+            return status === 200 && r.kind === "redirect" && r.url ? r.url : undefined;
+          },
+        ),
       );
       if (!url) return;
       const sessionId = /\/checkout\/(cs_[A-Za-z0-9_]+)/.exec(url)?.[1];
@@ -375,7 +413,9 @@ async function main() {
             redirect: "manual",
           });
           await paid.text();
-          const events = (await (await fetch(`${env.STRIPE_API_BASE}/control/events?session=${sessionId}&type=checkout.session.completed`)).json()) as { data: { payload: string }[] };
+          const events = (await (
+            await fetch(`${env.STRIPE_API_BASE}/control/events?session=${sessionId}&type=checkout.session.completed`)
+          ).json()) as { data: { payload: string }[] };
           payload = events.data[0]?.payload;
         } catch {
           await sleep(200);
@@ -385,7 +425,9 @@ async function main() {
       const eventId = (JSON.parse(payload) as { id: string }).id;
       ledger.webhooks.set(eventId, { jobId: job.jobId, sessionId });
       const deliverOnce = async () => {
-        await perform("webhook", eventId, async (signal) => answer(await deliverTo(appUrl, payload!, signal), (status) => (status === 200 ? true : undefined)));
+        await perform("webhook", eventId, async (signal) =>
+          answer(await deliverTo(appUrl, payload!, signal), (status) => (status === 200 ? true : undefined)),
+        );
       };
       await deliverOnce();
       enqueue(deliverOnce); // the processor delivers again later
@@ -397,7 +439,12 @@ async function main() {
         answer(
           await cert.holder.request("/api/claims", {
             method: "POST",
-            json: { certificateId: cert.certificateId, symptomCategory: "hum", description: `A hum comes back after warming up. Ref ${marker}`, statements: [] },
+            json: {
+              certificateId: cert.certificateId,
+              symptomCategory: "hum",
+              description: `A hum comes back after warming up. Ref ${marker}`,
+              statements: [],
+            },
             signal,
           }),
           // A 409 from the one-open-claim rule proves an earlier attempt's claim exists.
@@ -413,19 +460,27 @@ async function main() {
       const key = randomUUID();
       const text = `Is there anything you need from me before the set goes in? Ref ${marker}`;
       const stored = await perform("message", key, async (signal) =>
-        answer(await job.client.request(`/api/portal/jobs/${job.jobId}/messages`, { method: "POST", json: { body: text, idempotencyKey: key }, signal }), (status, b) =>
-          // 201 stored now; 200 stored by an earlier attempt whose answer was lost.
-          status === 201 || status === 200 ? { id: (b as { id: string }).id, repeat: status === 200 } : undefined,
+        answer(
+          await job.client.request(`/api/portal/jobs/${job.jobId}/messages`, {
+            method: "POST",
+            json: { body: text, idempotencyKey: key },
+            signal,
+          }),
+          (status, b) =>
+            // 201 stored now; 200 stored by an earlier attempt whose answer was lost.
+            status === 201 || status === 200 ? { id: (b as { id: string }).id, repeat: status === 200 } : undefined,
         ),
       );
-      if (stored) ledger.messages.push({ marker, key, jobId: job.jobId, authorId: job.client.userId, messageId: stored.id, repeat: stored.repeat });
+      if (stored)
+        ledger.messages.push({ marker, key, jobId: job.jobId, authorId: job.client.userId, messageId: stored.id, repeat: stored.repeat });
       else ledger.messagesGivenUp.push({ marker, key });
     }
 
     // ---- tasks, workers and the fault schedule ----
     const tasks: (() => Promise<void>)[] = [];
     for (let i = 0; i < QUOTES; i++) tasks.push(() => quoteTask(customers[i % CUSTOMERS]!));
-    for (const j of payJobs) tasks.push(() => paymentTask(j, (t) => tasks.splice(Math.min(tasks.length, next + 20 + Math.floor(Math.random() * 200)), 0, t)));
+    for (const j of payJobs)
+      tasks.push(() => paymentTask(j, (t) => tasks.splice(Math.min(tasks.length, next + 20 + Math.floor(Math.random() * 200)), 0, t)));
     for (const c of certs) tasks.push(() => claimTask(c));
     for (let i = 0; i < MESSAGES; i++) tasks.push(() => messageTask(payJobs[i % payJobs.length]!));
     for (let i = tasks.length - 1; i > 0; i--) {
@@ -477,7 +532,9 @@ async function main() {
     })();
 
     const loadStart = Date.now();
-    console.log(`Load: ${plannedTasks} tasks through ${WORKERS} workers, faults at ${FAULTS.map((f) => `${Math.round(f.at * 100)} % (${f.kind})`).join(", ")}`);
+    console.log(
+      `Load: ${plannedTasks} tasks through ${WORKERS} workers, faults at ${FAULTS.map((f) => `${Math.round(f.at * 100)} % (${f.kind})`).join(", ")}`,
+    );
     await Promise.all(
       Array.from({ length: WORKERS }, async () => {
         while (next < tasks.length) {
@@ -522,14 +579,18 @@ async function main() {
         body: new URLSearchParams({ outcome: "succeed", deliver: "hold" }),
         redirect: "manual",
       });
-      const events = (await (await fetch(`${env.STRIPE_API_BASE}/control/events?session=${sessionId}&type=checkout.session.completed`)).json()) as { data: { id: string; payload: string }[] };
+      const events = (await (
+        await fetch(`${env.STRIPE_API_BASE}/control/events?session=${sessionId}&type=checkout.session.completed`)
+      ).json()) as { data: { id: string; payload: string }[] };
       const ev = events.data[0];
       if (!ev) {
         violation(`two instances: no event for ${sessionId}`);
         continue;
       }
       const answers = await Promise.all(
-        [appUrl, dualUrl].flatMap((base) => Array.from({ length: DUAL_DELIVERIES_PER_INSTANCE }, () => deliverTo(base, ev.payload, AbortSignal.timeout(REQUEST_TIMEOUT_MS)))),
+        [appUrl, dualUrl].flatMap((base) =>
+          Array.from({ length: DUAL_DELIVERIES_PER_INSTANCE }, () => deliverTo(base, ev.payload, AbortSignal.timeout(REQUEST_TIMEOUT_MS))),
+        ),
       );
       const bodies = await Promise.all(answers.map(async (r) => ((await r.json()) as { outcome?: string }).outcome ?? "?"));
       dualResults.push({ jobId: job.jobId, eventId: ev.id, outcomes: bodies, statuses: answers.map((r) => r.status) });
@@ -585,7 +646,9 @@ async function main() {
       if (r.mail !== "queued" && r.mail !== "sent") violation(`quote ${r.key}: the "quote received" e-mail is ${r.mail ?? "missing"}`);
       if (!r.created) violation(`quote ${r.key}: no creation row in the history`);
     }
-    const [dupKeys] = await q<{ n: number }>(`select count(*)::int as n from (select 1 from job where idempotency_key is not null group by customer_id, idempotency_key having count(*) > 1) d`);
+    const [dupKeys] = await q<{ n: number }>(
+      `select count(*)::int as n from (select 1 from job where idempotency_key is not null group by customer_id, idempotency_key having count(*) > 1) d`,
+    );
     if (dupKeys!.n > 0) violation(`${dupKeys!.n} idempotency keys have more than one job`);
 
     // Uploads: the re-encoded photo behind every acknowledged ticket is in the store.
@@ -631,13 +694,22 @@ async function main() {
          from unnest($1::uuid[], $2::text[]) as l(cert, marker) left join claim c on c.certificate_id = l.cert group by l.cert`,
       [ledger.claims.map((c) => c.certificateId), ledger.claims.map((c) => c.marker)],
     );
-    for (const r of claimRows) if (r.n !== 1 || r.open !== 1 || r.mine !== 1) violation(`claim on ${r.certificate_id}: ${r.n} claims, ${r.open} open, ${r.mine} with our text`);
+    for (const r of claimRows)
+      if (r.n !== 1 || r.open !== 1 || r.mine !== 1)
+        violation(`claim on ${r.certificate_id}: ${r.n} claims, ${r.open} open, ${r.mine} with our text`);
 
     // Messages: every retry carried the message's idempotency key, so each acknowledged message is stored
     // exactly once, under its key, as the message the answer named, with one audit entry; one never
     // acknowledged is stored at most once.
     const allMarkers = [...ledger.messages.map((m) => m.marker), ...ledger.messagesGivenUp.map((m) => m.marker)];
-    const msgRows = await q<{ marker: string; n: number; ids: string[] | null; keys: (string | null)[] | null; authors: string[] | null; audits: number }>(
+    const msgRows = await q<{
+      marker: string;
+      n: number;
+      ids: string[] | null;
+      keys: (string | null)[] | null;
+      authors: string[] | null;
+      audits: number;
+    }>(
       `select l.marker, count(m.id)::int as n, array_agg(m.id::text) filter (where m.id is not null) as ids,
               array_agg(m.idempotency_key) filter (where m.id is not null) as keys,
               array_agg(m.author_id) filter (where m.id is not null) as authors,
@@ -654,7 +726,8 @@ async function main() {
       else if (n > 1) violation(`message ${m.marker}: acknowledged once but stored ${n} times`);
       else if (r!.ids![0] !== m.messageId) violation(`message ${m.marker}: stored as ${r!.ids![0]}, the answer said ${m.messageId}`);
       else if (r!.keys![0] !== m.key) violation(`message ${m.marker}: stored under key ${r!.keys![0]}, sent with ${m.key}`);
-      else if (r!.authors![0] !== m.authorId) violation(`message ${m.marker}: stored as written by ${r!.authors![0]}, sent by ${m.authorId}`);
+      else if (r!.authors![0] !== m.authorId)
+        violation(`message ${m.marker}: stored as written by ${r!.authors![0]}, sent by ${m.authorId}`);
       if (r && r.audits !== n) violation(`message ${m.marker}: ${r.audits} audit entries for ${n} stored`);
       if (n > 1) messageDuplicates += n - 1;
     }
@@ -669,10 +742,14 @@ async function main() {
     if (dupMessageKeys!.n > 0) violation(`${dupMessageKeys!.n} message idempotency keys have more than one message`);
 
     // Invariants over the whole database.
-    const [twoPaid] = await q<{ n: number }>(`select count(*)::int as n from (select 1 from payment where status = 'paid' group by revision_id, purpose having count(*) > 1) d`);
+    const [twoPaid] = await q<{ n: number }>(
+      `select count(*)::int as n from (select 1 from payment where status = 'paid' group by revision_id, purpose having count(*) > 1) d`,
+    );
     if (twoPaid!.n > 0) violation(`${twoPaid!.n} revisions have more than one paid payment of one purpose`);
     const jobsAll = await q<{ id: string; state: JobState }>(`select id, state from job`);
-    const hist = await q<{ job_id: string; from_state: JobState | null; to_state: JobState; at: Date }>(`select job_id, from_state, to_state, at from job_state_history order by job_id, at`);
+    const hist = await q<{ job_id: string; from_state: JobState | null; to_state: JobState; at: Date }>(
+      `select job_id, from_state, to_state, at from job_state_history order by job_id, at`,
+    );
     const byJob = new Map<string, typeof hist>();
     for (const h of hist) byJob.set(h.job_id, [...(byJob.get(h.job_id) ?? []), h]);
     let chainsChecked = 0;
@@ -723,7 +800,8 @@ async function main() {
       if (o.status === "failed") violation(`e-mail ${o.id} failed`);
       else if (o.status === "queued" && !o.live) violation(`e-mail ${o.id} is queued with no queue job: it will never be sent`);
       else if (o.status === "queued") queuedLive++;
-      else if (o.status === "sent" && deliveredKeys.get(`outbox-${o.id}`) !== 1) violation(`e-mail ${o.id} is marked sent but the mail service has ${deliveredKeys.get(`outbox-${o.id}`) ?? 0} copies`);
+      else if (o.status === "sent" && deliveredKeys.get(`outbox-${o.id}`) !== 1)
+        violation(`e-mail ${o.id} is marked sent but the mail service has ${deliveredKeys.get(`outbox-${o.id}`) ?? 0} copies`);
     }
 
     // Two instances: one payment, one state change, one e-mail per event.
@@ -740,7 +818,9 @@ async function main() {
       const applied = d.outcomes.filter((o) => o === "paid").length;
       if (d.statuses.some((s) => s !== 200)) violation(`two instances, ${d.eventId}: answers ${d.statuses.join(", ")}`);
       if (r!.events !== 1 || r!.paid !== 1 || r!.moves !== 1 || r!.receipts !== 1 || applied !== 1) {
-        violation(`two instances, ${d.eventId}: ${r!.events} events, ${r!.paid} paid, ${r!.moves} state changes, ${r!.receipts} receipts, applied ${applied}× (${d.outcomes.join(", ")})`);
+        violation(
+          `two instances, ${d.eventId}: ${r!.events} events, ${r!.paid} paid, ${r!.moves} state changes, ${r!.receipts} receipts, applied ${applied}× (${d.outcomes.join(", ")})`,
+        );
       }
       if (mails > 1) violation(`two instances, ${d.eventId}: ${mails} receipts at the mail service`);
     }
@@ -748,7 +828,8 @@ async function main() {
     await db.end();
 
     // The faults must have happened and bitten, or this run proved nothing.
-    if (counts.kills !== 2 || counts.appRestarts !== 2) violation(`expected 2 kills and restarts of the app, got ${counts.kills} and ${counts.appRestarts}`);
+    if (counts.kills !== 2 || counts.appRestarts !== 2)
+      violation(`expected 2 kills and restarts of the app, got ${counts.kills} and ${counts.appRestarts}`);
     if (counts.pgRestarts !== 1) violation(`expected 1 PostgreSQL restart, got ${counts.pgRestarts}`);
     if (!ops.some((o) => o.attempts > 1)) violation("no operation needed a retry: the faults did not reach the load");
 

@@ -1,7 +1,8 @@
 #!/usr/bin/env node
 // npm test: a throwaway PostgreSQL cluster on a free loopback port, the built app and its stand-ins,
 // then unit, integration and browser tests. Ends with one line: "N passed, N failed".
-//   npm test -- FILES…     run only those test files;  --skip-build  reuse the last test build.
+//   npm test -- FILES…     run only those test files;  --skip-build  reuse the last test build;
+//   --skip-lint  leave out the lint step (it runs first on every full run and counts as one check).
 import { spawnSync } from "node:child_process";
 import { existsSync, readFileSync } from "node:fs";
 import { join } from "node:path";
@@ -10,6 +11,7 @@ import { bin, log, ROOT } from "./lib/stack.mjs";
 
 const only = process.argv.slice(2).filter((a) => !a.startsWith("--"));
 const skipBuild = process.argv.includes("--skip-build");
+const skipLint = process.argv.includes("--skip-lint") || only.length > 0;
 let stack;
 
 process.on("SIGINT", () => {
@@ -17,8 +19,18 @@ process.on("SIGINT", () => {
   process.exit(130);
 });
 
+/** ESLint (with the layer rules) and Prettier; any finding fails the run. */
+function lint() {
+  log("Linting (ESLint, Prettier)…");
+  const r = spawnSync("npm", ["run", "--silent", "lint"], { cwd: ROOT, stdio: "inherit", env: process.env });
+  return r.status === 0;
+}
+
 async function main() {
+  // Lint needs the dependencies the stack installs; a clean tree lints in well under a minute.
+  let lintOk = null;
   stack = await bootScratchStack({ distDir: process.env.BANDEDGE_TEST_DIST ?? ".next-test", build: !skipBuild, chromium: true });
+  if (!skipLint) lintOk = lint();
   const report = join(stack.scratch, "vitest.json");
   const args = ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${report}`, ...only];
   log("Running the tests…");
@@ -36,6 +48,11 @@ async function main() {
     failed += (json.testResults ?? []).filter((f) => f.status === "failed" && (f.assertionResults ?? []).length === 0).length;
   }
   if (r.status !== 0 && failed === 0) failed = 1;
+  if (lintOk === true) passed += 1;
+  if (lintOk === false) {
+    failed += 1;
+    process.stdout.write("\nLint found problems (see above): `npm run lint` lists them, `npm run format` fixes formatting.\n");
+  }
   stack.stop();
   process.stdout.write(`\n${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}\n`);
   process.exit(failed > 0 || r.status !== 0 ? 1 : 0);

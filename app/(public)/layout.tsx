@@ -1,10 +1,12 @@
 import type { ReactNode } from "react";
 import { SiteFooter, SiteHeader } from "@/components/site-header";
+import { getViewer } from "@/lib/server/session";
 
-export default function PublicLayout({ children }: { children: ReactNode }) {
+export default async function PublicLayout({ children }: { children: ReactNode }) {
+  const viewer = await getViewer();
   return (
     <>
-      <SiteHeader />
+      <SiteHeader viewer={viewer} />
       <main id="main" className="mx-auto max-w-page px-4 py-8">
         {children}
       </main>

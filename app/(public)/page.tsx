@@ -2,11 +2,26 @@ import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
 
 const STEPS = [
-  { title: "Tell us about the set", text: "Maker and model as printed, the bands on the dial, what it does or does not do, and a few photos of the front, back, chassis and labels." },
-  { title: "We price the work", text: "A technician reads your photos and builds an itemised estimate: safety work, new capacitors, alignment of every band, tests and burn-in." },
-  { title: "Approve and pay a deposit", text: "You see each line with the reason for it. Approve online and pay the deposit; nothing starts before you say yes." },
-  { title: "Ship or drop it off", text: "We send packing notes. At the bench every reading is recorded: IF peak, oscillator and band edges, leakage current on mains sets." },
-  { title: "Get it back with a certificate", text: "Pay the balance and your set comes home with a signed warranty certificate listing the measured band edges, checkable by anyone." },
+  {
+    title: "Tell us about the set",
+    text: "Maker and model as printed, the bands on the dial, what it does or does not do, and a few photos of the front, back, chassis and labels.",
+  },
+  {
+    title: "We price the work",
+    text: "A technician reads your photos and builds an itemised estimate: safety work, new capacitors, alignment of every band, tests and burn-in.",
+  },
+  {
+    title: "Approve and pay a deposit",
+    text: "You see each line with the reason for it. Approve online and pay the deposit; nothing starts before you say yes.",
+  },
+  {
+    title: "Ship or drop it off",
+    text: "We send packing notes. At the bench every reading is recorded: IF peak, oscillator and band edges, leakage current on mains sets.",
+  },
+  {
+    title: "Get it back with a certificate",
+    text: "Pay the balance and your set comes home with a signed warranty certificate listing the measured band edges, checkable by anyone.",
+  },
 ];
 
 export default function HomePage() {
@@ -17,9 +32,8 @@ export default function HomePage() {
           <p className="text-sm font-semibold uppercase tracking-[0.2em] text-ember">Port Alder · since the days of the valve</p>
           <h1 className="text-4xl font-bold leading-tight sm:text-5xl">Your old radio, made safe and brought back on tune.</h1>
           <p className="max-w-prose text-lg text-bakelite-soft">
-            Kestrel Lane Wireless restores tube and transistor receivers sent in from near and far: AC/DC table sets,
-            transformer consoles, portables, shortwave and FM. Every set leaves with its band edges measured and a
-            signed warranty certificate.
+            Kestrel Lane Wireless restores tube and transistor receivers sent in from near and far: AC/DC table sets, transformer consoles,
+            portables, shortwave and FM. Every set leaves with its band edges measured and a signed warranty certificate.
           </p>
           <div className="flex flex-wrap gap-3">
             <Link href="/sign-up" className="btn-primary">
@@ -79,8 +93,14 @@ export default function HomePage() {
           Before you send it
         </h2>
         <Notice tone="caution" title="Please do not plug in an unrestored set">
-          <p>Capacitors and cords more than fifty years old can short, overheat and catch fire, and a failed part can put mains voltage where you can touch it.</p>
-          <p>AC/DC sets (no power transformer) can have a live chassis even when switched off. Remove batteries from portables before shipping.</p>
+          <p>
+            Capacitors and cords more than fifty years old can short, overheat and catch fire, and a failed part can put mains voltage where
+            you can touch it.
+          </p>
+          <p>
+            AC/DC sets (no power transformer) can have a live chassis even when switched off. Remove batteries from portables before
+            shipping.
+          </p>
           <p>These notes are general guidance. Work on mains equipment should follow your local codes and licensed practice.</p>
         </Notice>
       </section>

@@ -7,7 +7,7 @@ import { useForm } from "react-hook-form";
 import type { z } from "zod";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { authClient } from "@/lib/auth-client";
+import { authClient } from "@/lib/client/auth-client";
 import { resetRequestSchema, resetSchema } from "@/lib/validation/account";
 
 export function ResetRequestForm() {
@@ -40,7 +40,15 @@ export function ResetRequestForm() {
         </Notice>
       ) : null}
       <Field id="email" label="E-mail of your account" error={err?.message}>
-        <input id="email" type="email" autoComplete="email" className="field-input" aria-invalid={!!err} aria-describedby={describedBy("email", { error: err })} {...register("email")} />
+        <input
+          id="email"
+          type="email"
+          autoComplete="email"
+          className="field-input"
+          aria-invalid={!!err}
+          aria-describedby={describedBy("email", { error: err })}
+          {...register("email")}
+        />
       </Field>
       <button type="submit" className="btn-primary" disabled={formState.isSubmitting}>
         Send me a link
@@ -82,10 +90,26 @@ export function ResetPasswordForm({ token }: { token: string }) {
         </Notice>
       ) : null}
       <Field id="password" label="New password" error={errors.password?.message} hint="At least 8 characters.">
-        <input id="password" type="password" autoComplete="new-password" className="field-input" aria-invalid={!!errors.password} aria-describedby={describedBy("password", { error: errors.password, hint: true })} {...register("password")} />
+        <input
+          id="password"
+          type="password"
+          autoComplete="new-password"
+          className="field-input"
+          aria-invalid={!!errors.password}
+          aria-describedby={describedBy("password", { error: errors.password, hint: true })}
+          {...register("password")}
+        />
       </Field>
       <Field id="confirm" label="Type it again" error={errors.confirm?.message}>
-        <input id="confirm" type="password" autoComplete="new-password" className="field-input" aria-invalid={!!errors.confirm} aria-describedby={describedBy("confirm", { error: errors.confirm })} {...register("confirm")} />
+        <input
+          id="confirm"
+          type="password"
+          autoComplete="new-password"
+          className="field-input"
+          aria-invalid={!!errors.confirm}
+          aria-describedby={describedBy("confirm", { error: errors.confirm })}
+          {...register("confirm")}
+        />
       </Field>
       <button type="submit" className="btn-primary" disabled={formState.isSubmitting}>
         Set new password

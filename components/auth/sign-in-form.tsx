@@ -42,7 +42,8 @@ export function SignInForm({ next }: { next?: string }) {
         const code = ((await res.json().catch(() => null)) as { code?: string } | null)?.code;
         if (res.status === 429) setProblem("Too many attempts. Please wait a minute and try again.");
         else if (res.status >= 500) setProblem("Signing in failed on the shop's side. Please try again in a moment.");
-        else if (code === "EMAIL_NOT_VERIFIED") setProblem("Please confirm your e-mail address first: we sent you a link when you signed up.");
+        else if (code === "EMAIL_NOT_VERIFIED")
+          setProblem("Please confirm your e-mail address first: we sent you a link when you signed up.");
         else setProblem("That e-mail and password do not match an account.");
         return;
       }
@@ -63,10 +64,26 @@ export function SignInForm({ next }: { next?: string }) {
         </div>
       ) : null}
       <Field id="email" label="E-mail" error={errors.email}>
-        <input id="email" name="email" type="email" autoComplete="email" className="field-input" aria-invalid={!!errors.email} aria-describedby={describedBy("email", { error: errors.email })} />
+        <input
+          id="email"
+          name="email"
+          type="email"
+          autoComplete="email"
+          className="field-input"
+          aria-invalid={!!errors.email}
+          aria-describedby={describedBy("email", { error: errors.email })}
+        />
       </Field>
       <Field id="password" label="Password" error={errors.password}>
-        <input id="password" name="password" type="password" autoComplete="current-password" className="field-input" aria-invalid={!!errors.password} aria-describedby={describedBy("password", { error: errors.password })} />
+        <input
+          id="password"
+          name="password"
+          type="password"
+          autoComplete="current-password"
+          className="field-input"
+          aria-invalid={!!errors.password}
+          aria-describedby={describedBy("password", { error: errors.password })}
+        />
       </Field>
       <div className="flex flex-wrap items-center justify-between gap-3">
         <button type="submit" className="btn-primary" disabled={submitting}>

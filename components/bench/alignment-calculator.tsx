@@ -4,11 +4,11 @@ import { useQuery } from "@tanstack/react-query";
 import { useState } from "react";
 import { useForm, type FieldPath } from "react-hook-form";
 import { Notice } from "@/components/ui/notice";
-import { bandKinds, type Band } from "@/lib/bands/band";
-import { alignmentRequestSchema, fieldErrors, type AlignmentRequest, type AlignmentResponse } from "@/lib/tools";
-import { formatNumber } from "@/lib/verdicts";
-import { api, ApiError, errorText } from "./api-client";
-import { benchKeys } from "./query-keys";
+import { bandKinds, type Band } from "@/lib/engine/bands/band";
+import { alignmentRequestSchema, fieldErrors, type AlignmentRequest, type AlignmentResponse } from "@/lib/engine/requests";
+import { formatNumber } from "@/lib/engine/verdicts";
+import { api, ApiError, errorText } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import { TrackingPlot } from "./tracking-plot";
 
 type CalcForm = {
@@ -31,7 +31,9 @@ function toRequest(v: CalcForm): unknown {
     band: { lowKHz: num(v.band.lowKHz), highKHz: num(v.band.highKHz), ...(v.band.kind ? { kind: v.band.kind } : {}) },
     ifKHz: num(v.ifKHz),
     ...(v.injection ? { injection: v.injection } : {}),
-    ...(gangGiven ? { gang: { minPF: num(v.gang.minPF), maxPF: num(v.gang.maxPF), ...(v.gang.strayPF.trim() ? { strayPF: num(v.gang.strayPF) } : {}) } } : {}),
+    ...(gangGiven
+      ? { gang: { minPF: num(v.gang.minPF), maxPF: num(v.gang.maxPF), ...(v.gang.strayPF.trim() ? { strayPF: num(v.gang.strayPF) } : {}) } }
+      : {}),
     ...(tp.some((x) => x !== undefined) ? { trackingPointsKHz: tp } : {}),
   };
 }
@@ -133,11 +135,16 @@ function Result({ r }: { r: AlignmentResponse }) {
             <Figure name="design.oscillatorInductanceUH" label="Oscillator inductance" value={d.oscillatorInductanceUH} unit="µH" />
             <Figure name="design.maxAbsErrorKHz" label="Largest tracking error" value={d.maxAbsErrorKHz} unit="kHz" />
           </dl>
-          <TrackingPlot curve={d.errorCurve} trackingPointsKHz={r.trackingPointsKHz} minimaxCurve={d.minimax?.errorCurve ?? null} unit={unit} />
+          <TrackingPlot
+            curve={d.errorCurve}
+            trackingPointsKHz={r.trackingPointsKHz}
+            minimaxCurve={d.minimax?.errorCurve ?? null}
+            unit={unit}
+          />
           {d.minimax ? (
             <p className="text-sm">
-              Equal-ripple points: <span className="figure">{d.minimax.trackingPointsKHz.map((p) => freq(p)).join(", ")}</span>, largest error{" "}
-              <span className="figure">{f2(d.minimax.maxAbsErrorKHz)} kHz</span>.
+              Equal-ripple points: <span className="figure">{d.minimax.trackingPointsKHz.map((p) => freq(p)).join(", ")}</span>, largest
+              error <span className="figure">{f2(d.minimax.maxAbsErrorKHz)} kHz</span>.
             </p>
           ) : null}
           <table className="dense-table">
@@ -171,7 +178,9 @@ function Result({ r }: { r: AlignmentResponse }) {
           </table>
         </section>
       ) : (
-        <p className="text-sm text-bakelite-muted">Give the gang capacitance (minimum and maximum) to solve the tracking design and plot the error.</p>
+        <p className="text-sm text-bakelite-muted">
+          Give the gang capacitance (minimum and maximum) to solve the tracking design and plot the error.
+        </p>
       )}
     </div>
   );
@@ -195,7 +204,8 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
     clearErrors();
     const parsed = alignmentRequestSchema.safeParse(toRequest(v));
     if (!parsed.success) {
-      for (const [k, m] of Object.entries(fieldErrors(parsed.error))) setError((k === "_" ? "root" : k) as FieldPath<CalcForm>, { message: m });
+      for (const [k, m] of Object.entries(fieldErrors(parsed.error)))
+        setError((k === "_" ? "root" : k) as FieldPath<CalcForm>, { message: m });
       return;
     }
     setRequest(parsed.data);
@@ -215,7 +225,14 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
           {label}
         </label>
         <div className="flex items-center gap-1">
-          <input id={id} inputMode="decimal" className="field-input figure mt-0 w-28 py-1 text-right" aria-invalid={message ? true : undefined} aria-describedby={message ? `${id}-error` : hint ? `${id}-hint` : undefined} {...register(path)} />
+          <input
+            id={id}
+            inputMode="decimal"
+            className="field-input figure mt-0 w-28 py-1 text-right"
+            aria-invalid={message ? true : undefined}
+            aria-describedby={message ? `${id}-error` : hint ? `${id}-hint` : undefined}
+            {...register(path)}
+          />
           <span className="text-xs">{unit}</span>
         </div>
         {hint ? (
@@ -296,7 +313,9 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
           {input("trackingPointsKHz.1", "Middle", "kHz")}
           {input("trackingPointsKHz.2", "High", "kHz")}
         </fieldset>
-        {formState.errors.root?.message || apiFields._ ? <p className="field-error">{formState.errors.root?.message ?? apiFields._}</p> : null}
+        {formState.errors.root?.message || apiFields._ ? (
+          <p className="field-error">{formState.errors.root?.message ?? apiFields._}</p>
+        ) : null}
         <button type="submit" className="btn-primary py-1">
           Calculate
         </button>

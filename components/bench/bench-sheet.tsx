@@ -5,10 +5,10 @@ import { useRef, useState } from "react";
 import { useForm, useWatch, type Control, type UseFormRegister } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { judgeReading, formatNumber, type ReadingRequirement } from "@/lib/verdicts";
+import { judgeReading, formatNumber, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { benchNoteSchema, parseReadingText } from "@/lib/validation/bench";
-import { api, ApiError, errorText, retryLostAnswer } from "./api-client";
-import { benchKeys } from "./query-keys";
+import { api, ApiError, errorText, retryLostAnswer } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import { SafetyCautions } from "./safety-cautions";
 import type { BenchSheetJson } from "./types";
 import { VerdictBadge } from "./verdict-badge";
@@ -27,7 +27,8 @@ const GROUP_TITLE = (code: string): string => {
 
 function nominalText(r: ReadingRequirement): string {
   if (r.nominal === null) return "";
-  if (r.tolerance.kind === "window") return `${r.tolerance.reference === "target" ? "target" : "mark"} ${formatNumber(r.nominal)} ${r.unit}`;
+  if (r.tolerance.kind === "window")
+    return `${r.tolerance.reference === "target" ? "target" : "mark"} ${formatNumber(r.nominal)} ${r.unit}`;
   return `schematic ${formatNumber(r.nominal)} ${r.unit}`;
 }
 
@@ -110,10 +111,14 @@ function ReadingRow({
       </td>
       <td aria-live="polite">
         <VerdictBadge verdict={live} id={`${id}-verdict`} />
-        {parsed !== null && parsed !== undefined ? <span className="ml-1 figure text-xs text-bakelite-muted">{deviationText(r, parsed)}</span> : null}
+        {parsed !== null && parsed !== undefined ? (
+          <span className="ml-1 figure text-xs text-bakelite-muted">{deviationText(r, parsed)}</span>
+        ) : null}
       </td>
       <td className="text-xs text-bakelite-muted">
-        {saving ? "Saving…" : dirty ? (
+        {saving ? (
+          "Saving…"
+        ) : dirty ? (
           <button type="button" className="btn-quiet px-1 py-0 text-xs" onClick={() => onSave(index)} disabled={!editable}>
             Save<span className="sr-only"> {r.label}</span>
           </button>
@@ -131,7 +136,9 @@ function ReadingRow({
 
 function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
   const qc = useQueryClient();
-  const form = useForm<SheetForm>({ defaultValues: { readings: sheet.requirements.map((r) => ({ text: r.value === null ? "" : String(r.value), note: r.note ?? "" })) } });
+  const form = useForm<SheetForm>({
+    defaultValues: { readings: sheet.requirements.map((r) => ({ text: r.value === null ? "" : String(r.value), note: r.note ?? "" })) },
+  });
   const inputs = useRef<(HTMLInputElement | null)[]>([]);
   const [pending, setPending] = useState<Set<number>>(new Set());
   const [errors, setErrors] = useState<Record<number, string>>({});
@@ -178,7 +185,9 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
       <h3 id="readings-heading" className="text-lg font-semibold">
         Readings
       </h3>
-      <p className="text-xs text-bakelite-muted">Type a reading and press Enter to save it and move to the next; the verdict follows as you type.</p>
+      <p className="text-xs text-bakelite-muted">
+        Type a reading and press Enter to save it and move to the next; the verdict follows as you type.
+      </p>
       <table className="dense-table mt-2">
         <thead>
           <tr>
@@ -233,9 +242,19 @@ function Tasks({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
     });
   const tick = useMutation({
     mutationKey: tickKey,
-    mutationFn: (body: { code: string; done: boolean }) => api<{ code: string; done: boolean; doneAt: string | null }>(`/api/bench/jobs/${jobId}/tasks`, { method: "POST", body }),
+    mutationFn: (body: { code: string; done: boolean }) =>
+      api<{ code: string; done: boolean; doneAt: string | null }>(`/api/bench/jobs/${jobId}/tasks`, { method: "POST", body }),
     onSuccess: (res) => {
-      qc.setQueryData<BenchSheetJson>(benchKeys.sheet(jobId), (old) => (old ? { ...old, tasks: old.tasks.map((t) => (t.code === res.code ? { ...t, doneAt: res.doneAt, doneByName: res.done ? t.doneByName : null } : t)) } : old));
+      qc.setQueryData<BenchSheetJson>(benchKeys.sheet(jobId), (old) =>
+        old
+          ? {
+              ...old,
+              tasks: old.tasks.map((t) =>
+                t.code === res.code ? { ...t, doneAt: res.doneAt, doneByName: res.done ? t.doneByName : null } : t,
+              ),
+            }
+          : old,
+      );
       forget(res.code);
       setError(null);
     },
@@ -253,9 +272,14 @@ function Tasks({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
   return (
     <section aria-labelledby="tasks-heading" className="card p-3">
       <h3 id="tasks-heading" className="text-lg font-semibold">
-        Checklist <span className="figure text-sm font-normal">({done} of {sheet.tasks.length} done)</span>
+        Checklist{" "}
+        <span className="figure text-sm font-normal">
+          ({done} of {sheet.tasks.length} done)
+        </span>
       </h3>
-      {sheet.tasks.length === 0 ? <p className="text-sm text-bakelite-muted">No checklist yet: it comes from the estimate once sent.</p> : null}
+      {sheet.tasks.length === 0 ? (
+        <p className="text-sm text-bakelite-muted">No checklist yet: it comes from the estimate once sent.</p>
+      ) : null}
       <ul className="mt-1 space-y-0.5 text-sm">
         {sheet.tasks.map((t) => (
           <li key={t.code} data-task={t.code}>
@@ -274,7 +298,11 @@ function Tasks({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
               <span>
                 {t.title}
                 <span className="block text-xs text-bakelite-muted">
-                  {t.code in local ? "Saving…" : t.doneAt ? `✓ Done by ${t.doneByName ?? "you"}, ${new Date(t.doneAt).toLocaleString("en-US")}` : "○ Open"}
+                  {t.code in local
+                    ? "Saving…"
+                    : t.doneAt
+                      ? `✓ Done by ${t.doneByName ?? "you"}, ${new Date(t.doneAt).toLocaleString("en-US")}`
+                      : "○ Open"}
                 </span>
               </span>
             </label>
@@ -326,7 +354,14 @@ function BenchNote({ jobId }: { jobId: string }) {
       }}
     >
       <Field id="bench-note" label="Bench note (workshop only)" error={error ?? undefined}>
-        <textarea id="bench-note" rows={2} className="field-input" value={body} onChange={(e) => setBody(e.target.value)} aria-describedby={describedBy("bench-note", { error })} />
+        <textarea
+          id="bench-note"
+          rows={2}
+          className="field-input"
+          value={body}
+          onChange={(e) => setBody(e.target.value)}
+          aria-describedby={describedBy("bench-note", { error })}
+        />
       </Field>
       <button type="submit" className="btn-secondary py-1" disabled={m.isPending}>
         Add note
@@ -340,11 +375,14 @@ export function BenchSheetPanel({ jobId }: { jobId: string }) {
   if (q.isPending) return <p role="status">Loading the bench sheet…</p>;
   if (q.isError) return <Notice tone="error">{errorText(q.error)}</Notice>;
   const sheet = q.data;
-  if (!sheet.profile) return <Notice tone="caution">The set profile is incomplete: finish it in Triage before the bench sheet can list its readings.</Notice>;
+  if (!sheet.profile)
+    return <Notice tone="caution">The set profile is incomplete: finish it in Triage before the bench sheet can list its readings.</Notice>;
   return (
     <div className="space-y-3">
       <SafetyCautions kind={sheet.profile.kind} seleniumRectifier={sheet.profile.seleniumRectifier} />
-      {!sheet.editable ? <Notice tone="info">Readings and ticks are recorded while the set is on the bench or in final checks.</Notice> : null}
+      {!sheet.editable ? (
+        <Notice tone="info">Readings and ticks are recorded while the set is on the bench or in final checks.</Notice>
+      ) : null}
       <div className="grid gap-3 xl:grid-cols-[2fr_1fr]">
         <Readings key={sheet.requirements.map((r) => r.key).join("|")} sheet={sheet} jobId={jobId} />
         <div className="space-y-3">

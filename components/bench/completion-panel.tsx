@@ -8,8 +8,8 @@ import type { z } from "zod";
 import { Notice } from "@/components/ui/notice";
 import { returnFormSchema, type ReturnInput } from "@/lib/validation/bench";
 import { moneyText } from "@/lib/validation/estimate";
-import { api, ApiError, errorText } from "./api-client";
-import { benchKeys } from "./query-keys";
+import { api, ApiError, errorText } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { BenchSheetJson, JobDetailJson } from "./types";
 
 type ReturnForm = z.input<typeof returnFormSchema>;
@@ -26,7 +26,10 @@ function useStateChange(jobId: string) {
 
 function ReturnPanel({ jobId }: { jobId: string }) {
   const onChange = useStateChange(jobId);
-  const form = useForm<ReturnForm, unknown, ReturnInput>({ resolver: zodResolver(returnFormSchema), defaultValues: { method: "pick-up", carrier: "", trackingNumber: "" } });
+  const form = useForm<ReturnForm, unknown, ReturnInput>({
+    resolver: zodResolver(returnFormSchema),
+    defaultValues: { method: "pick-up", carrier: "", trackingNumber: "" },
+  });
   const method = useWatch({ control: form.control, name: "method" });
   const [done, setDone] = useState<string | null>(null);
   const m = useMutation({
@@ -36,7 +39,8 @@ function ReturnPanel({ jobId }: { jobId: string }) {
       onChange();
     },
     onError: (e) => {
-      if (e instanceof ApiError) for (const k of ["carrier", "trackingNumber"] as const) if (e.fields[k]) form.setError(k, { message: e.fields[k] });
+      if (e instanceof ApiError)
+        for (const k of ["carrier", "trackingNumber"] as const) if (e.fields[k]) form.setError(k, { message: e.fields[k] });
     },
   });
   const errs = form.formState.errors;
@@ -60,7 +64,13 @@ function ReturnPanel({ jobId }: { jobId: string }) {
             <label htmlFor="ret-carrier" className="field-label">
               Carrier
             </label>
-            <input id="ret-carrier" className="field-input py-1" aria-invalid={errs.carrier ? true : undefined} aria-describedby={errs.carrier ? "ret-carrier-error" : undefined} {...form.register("carrier")} />
+            <input
+              id="ret-carrier"
+              className="field-input py-1"
+              aria-invalid={errs.carrier ? true : undefined}
+              aria-describedby={errs.carrier ? "ret-carrier-error" : undefined}
+              {...form.register("carrier")}
+            />
             {errs.carrier?.message ? (
               <p id="ret-carrier-error" className="field-error">
                 {errs.carrier.message}
@@ -71,7 +81,13 @@ function ReturnPanel({ jobId }: { jobId: string }) {
             <label htmlFor="ret-tracking" className="field-label">
               Tracking number
             </label>
-            <input id="ret-tracking" className="field-input figure py-1" aria-invalid={errs.trackingNumber ? true : undefined} aria-describedby={errs.trackingNumber ? "ret-tracking-error" : undefined} {...form.register("trackingNumber")} />
+            <input
+              id="ret-tracking"
+              className="field-input figure py-1"
+              aria-invalid={errs.trackingNumber ? true : undefined}
+              aria-describedby={errs.trackingNumber ? "ret-tracking-error" : undefined}
+              {...form.register("trackingNumber")}
+            />
             {errs.trackingNumber?.message ? (
               <p id="ret-tracking-error" className="field-error">
                 {errs.trackingNumber.message}
@@ -105,10 +121,15 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
   const [refusal, setRefusal] = useState<{ message: string; reasons: string[] } | null>(null);
   const [result, setResult] = useState<string | null>(null);
   const act = useMutation({
-    mutationFn: (path: "start-bench" | "final-checks" | "back-to-bench" | "complete") => api<{ balanceMinor?: number; currency?: string; exponent?: number }>(`/api/bench/jobs/${jobId}/${path}`, { method: "POST" }),
+    mutationFn: (path: "start-bench" | "final-checks" | "back-to-bench" | "complete") =>
+      api<{ balanceMinor?: number; currency?: string; exponent?: number }>(`/api/bench/jobs/${jobId}/${path}`, { method: "POST" }),
     onSuccess: (res) => {
       setRefusal(null);
-      setResult(res.balanceMinor !== undefined && res.currency ? `Completed. The owner has been asked to pay the balance of ${moneyText(res.balanceMinor, res.currency, res.exponent ?? 2)}.` : null);
+      setResult(
+        res.balanceMinor !== undefined && res.currency
+          ? `Completed. The owner has been asked to pay the balance of ${moneyText(res.balanceMinor, res.currency, res.exponent ?? 2)}.`
+          : null,
+      );
       onChange();
     },
     onError: (e) => {
@@ -193,7 +214,10 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
       {state === "paid_in_full" ? <ReturnPanel jobId={jobId} /> : null}
       {state === "returned" ? (
         <Notice tone="success">
-          Returned {detail.job.returnMethod === "shipped" ? `by ${detail.job.carrier}, tracking ${detail.job.trackingNumber}` : "— picked up at the shop"}
+          Returned{" "}
+          {detail.job.returnMethod === "shipped"
+            ? `by ${detail.job.carrier}, tracking ${detail.job.trackingNumber}`
+            : "— picked up at the shop"}
           {detail.job.returnedAt ? ` on ${new Date(detail.job.returnedAt).toLocaleDateString("en-US")}` : ""}.
         </Notice>
       ) : null}

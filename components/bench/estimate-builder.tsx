@@ -6,17 +6,30 @@ import { useState } from "react";
 import { useFieldArray, useForm, useWatch, type FieldPath } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { formatMinor } from "@/lib/pricing/money";
-import { partCodes } from "@/lib/pricing/parts";
-import type { ShopPolicy } from "@/lib/shop-policy";
-import { CATEGORY_LABEL, DRAFT_CATEGORIES, draftSchema, moneyText, tryPriceDraft, type Draft, type DraftLineInput } from "@/lib/validation/estimate";
-import { api, ApiError, errorText } from "./api-client";
-import { benchKeys } from "./query-keys";
+import { formatMinor } from "@/lib/engine/pricing/money";
+import { partCodes } from "@/lib/engine/pricing/parts";
+import type { ShopPolicy } from "@/lib/engine/shop-policy";
+import {
+  CATEGORY_LABEL,
+  DRAFT_CATEGORIES,
+  draftSchema,
+  moneyText,
+  tryPriceDraft,
+  type Draft,
+  type DraftLineInput,
+} from "@/lib/validation/estimate";
+import { api, ApiError, errorText } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { EstimateViewJson } from "./types";
 
 type FormValues = { lines: DraftLineInput[] };
 
-const STATUS_WORDS: Record<string, string> = { sent: "✎ Sent, awaiting the owner", approved: "✓ Approved", declined: "✕ Declined", superseded: "↺ Replaced by a later revision" };
+const STATUS_WORDS: Record<string, string> = {
+  sent: "✎ Sent, awaiting the owner",
+  approved: "✓ Approved",
+  declined: "✕ Declined",
+  superseded: "↺ Replaced by a later revision",
+};
 
 function fetchEstimate(jobId: string) {
   return api<EstimateViewJson>(`/api/bench/jobs/${jobId}/estimate`);
@@ -40,7 +53,12 @@ function Totals({ policy, lines }: { policy: ShopPolicy; lines: DraftLineInput[]
   }
   const t = result.priced.totals;
   return (
-    <dl role="status" aria-live="polite" aria-label="Estimate totals" className="grid grid-cols-2 gap-x-4 gap-y-0.5 text-sm sm:grid-cols-4 lg:grid-cols-8">
+    <dl
+      role="status"
+      aria-live="polite"
+      aria-label="Estimate totals"
+      className="grid grid-cols-2 gap-x-4 gap-y-0.5 text-sm sm:grid-cols-4 lg:grid-cols-8"
+    >
       {(
         [
           ["Labour", t.labourMinor, `${t.billedMinutes} min billed`],
@@ -95,7 +113,8 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
   const editable = view.editable;
 
   const applyServerFields = (e: unknown) => {
-    if (e instanceof ApiError) for (const [k, msg] of Object.entries(e.fields)) if (k.startsWith("lines.")) setError(k as FieldPath<FormValues>, { message: msg });
+    if (e instanceof ApiError)
+      for (const [k, msg] of Object.entries(e.fields)) if (k.startsWith("lines.")) setError(k as FieldPath<FormValues>, { message: msg });
   };
 
   const save = useMutation({
@@ -119,12 +138,21 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
     mutationFn: async () => {
       let version = baseVersion;
       if (formState.isDirty || !view.saved) {
-        const draft = await new Promise<Draft | null>((resolve) => void handleSubmit((d) => resolve(d), () => resolve(null))());
+        const draft = await new Promise<Draft | null>(
+          (resolve) =>
+            void handleSubmit(
+              (d) => resolve(d),
+              () => resolve(null),
+            )(),
+        );
         if (!draft) throw new ApiError(400, "invalid_input", "Some lines need attention before the estimate can be sent.");
         const res = await save.mutateAsync({ version, draft });
         version = res.version;
       }
-      return api<{ revision: number }>(`/api/bench/jobs/${jobId}/estimate/send`, { method: "POST", body: { version, changeSummary: changeSummary.trim() || undefined } });
+      return api<{ revision: number }>(`/api/bench/jobs/${jobId}/estimate/send`, {
+        method: "POST",
+        body: { version, changeSummary: changeSummary.trim() || undefined },
+      });
     },
     onSuccess: (res) => {
       setChangeSummary("");
@@ -143,7 +171,8 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
   });
 
   const rebuild = useMutation({
-    mutationFn: () => api<{ version: number }>(`/api/bench/jobs/${jobId}/estimate/rebuild`, { method: "POST", body: { version: baseVersion } }),
+    mutationFn: () =>
+      api<{ version: number }>(`/api/bench/jobs/${jobId}/estimate/rebuild`, { method: "POST", body: { version: baseVersion } }),
     onSuccess: async () => {
       await qc.invalidateQueries({ queryKey: benchKeys.estimate(jobId) });
       onReload();
@@ -163,7 +192,20 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
     const n = watched.filter((l) => l.code.startsWith("custom.")).length + 1;
     let code = `custom.${n}`;
     for (let k = n + 1; watched.some((l) => l.code === code); k++) code = `custom.${k}`;
-    lines.append({ key: newKey(), kind: "labour", code, title: "", category: "mechanical", minutes: 15, quantity: 1, reason: "", readings: [], unitCost: "", markupPercent: "", covered: view.isWarranty });
+    lines.append({
+      key: newKey(),
+      kind: "labour",
+      code,
+      title: "",
+      category: "mechanical",
+      minutes: 15,
+      quantity: 1,
+      reason: "",
+      readings: [],
+      unitCost: "",
+      markupPercent: "",
+      covered: view.isWarranty,
+    });
   };
   const addPart = () => {
     const custom = newPart === "other";
@@ -208,7 +250,9 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
           Estimate builder
         </h3>
         <p className="text-xs text-bakelite-muted">
-          {view.saved ? `Draft version ${baseVersion}${view.updatedByName ? `, last saved by ${view.updatedByName}` : ""}` : "Computed from the checklist — not saved yet"}
+          {view.saved
+            ? `Draft version ${baseVersion}${view.updatedByName ? `, last saved by ${view.updatedByName}` : ""}`
+            : "Computed from the checklist — not saved yet"}
           {view.currentRevision ? ` · revision ${view.currentRevision} is the latest sent` : ""}
         </p>
       </div>
@@ -305,7 +349,12 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                     <label htmlFor={`${idp}-cat`} className="sr-only">
                       Line {i + 1} category
                     </label>
-                    <select id={`${idp}-cat`} className="rounded border border-bakelite-muted bg-white px-1 py-0.5 text-sm" disabled={!editable || part} {...register(`lines.${i}.category`)}>
+                    <select
+                      id={`${idp}-cat`}
+                      className="rounded border border-bakelite-muted bg-white px-1 py-0.5 text-sm"
+                      disabled={!editable || part}
+                      {...register(`lines.${i}.category`)}
+                    >
                       {DRAFT_CATEGORIES.map((c) => (
                         <option key={c} value={c}>
                           {CATEGORY_LABEL[c]}
@@ -389,13 +438,31 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                   ) : null}
                   <LineFigures policy={policy} lines={watched} index={i} />
                   <td className="whitespace-nowrap">
-                    <button type="button" className="btn-quiet px-1 py-0" disabled={!editable || i === 0} onClick={() => lines.move(i, i - 1)} aria-label={`Move line ${i + 1} up`}>
+                    <button
+                      type="button"
+                      className="btn-quiet px-1 py-0"
+                      disabled={!editable || i === 0}
+                      onClick={() => lines.move(i, i - 1)}
+                      aria-label={`Move line ${i + 1} up`}
+                    >
                       ↑
                     </button>
-                    <button type="button" className="btn-quiet px-1 py-0" disabled={!editable || i === lines.fields.length - 1} onClick={() => lines.move(i, i + 1)} aria-label={`Move line ${i + 1} down`}>
+                    <button
+                      type="button"
+                      className="btn-quiet px-1 py-0"
+                      disabled={!editable || i === lines.fields.length - 1}
+                      onClick={() => lines.move(i, i + 1)}
+                      aria-label={`Move line ${i + 1} down`}
+                    >
                       ↓
                     </button>
-                    <button type="button" className="btn-quiet px-1 py-0 text-fail" disabled={!editable} onClick={() => lines.remove(i)} aria-label={`Remove line ${i + 1}: ${line.title || line.code}`}>
+                    <button
+                      type="button"
+                      className="btn-quiet px-1 py-0 text-fail"
+                      disabled={!editable}
+                      onClick={() => lines.remove(i)}
+                      aria-label={`Remove line ${i + 1}: ${line.title || line.code}`}
+                    >
                       ✕
                     </button>
                   </td>
@@ -405,7 +472,9 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
           </tbody>
         </table>
       </div>
-      {typeof lineErrors?.root?.message === "string" || typeof lineErrors?.message === "string" ? <p className="field-error">{lineErrors?.root?.message ?? lineErrors?.message}</p> : null}
+      {typeof lineErrors?.root?.message === "string" || typeof lineErrors?.message === "string" ? (
+        <p className="field-error">{lineErrors?.root?.message ?? lineErrors?.message}</p>
+      ) : null}
 
       {editable ? (
         <div className="flex flex-wrap items-end gap-2">
@@ -416,7 +485,12 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
             <label htmlFor="est-new-part" className="field-label text-xs">
               Part to add
             </label>
-            <select id="est-new-part" className="field-input mt-0 py-1 text-sm" value={newPart} onChange={(e) => setNewPart(e.target.value)}>
+            <select
+              id="est-new-part"
+              className="field-input mt-0 py-1 text-sm"
+              value={newPart}
+              onChange={(e) => setNewPart(e.target.value)}
+            >
               {partCodes.map((p) => (
                 <option key={p} value={p}>
                   {policy.parts.catalogue[p].title}
@@ -428,7 +502,12 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
           <button type="button" className="btn-secondary py-1" onClick={addPart}>
             + Part
           </button>
-          <button type="button" className="btn-quiet py-1" onClick={() => rebuild.mutate()} disabled={rebuild.isPending || Boolean(view.profileIssues)}>
+          <button
+            type="button"
+            className="btn-quiet py-1"
+            onClick={() => rebuild.mutate()}
+            disabled={rebuild.isPending || Boolean(view.profileIssues)}
+          >
             Rebuild from the checklist
           </button>
         </div>
@@ -448,12 +527,19 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
             <button type="submit" className="btn-secondary" disabled={save.isPending}>
               {save.isPending ? "Saving…" : "Save draft"}
             </button>
-            <p className="text-xs text-bakelite-muted">Enter in any field saves. {formState.isDirty ? "Unsaved changes." : "No unsaved changes."}</p>
+            <p className="text-xs text-bakelite-muted">
+              Enter in any field saves. {formState.isDirty ? "Unsaved changes." : "No unsaved changes."}
+            </p>
           </div>
           {view.sendable ? (
             <div className="space-y-2">
               {view.revisions.length ? (
-                <Field id="est-summary" label="What changed since the last revision" error={summaryError ?? undefined} hint="The owner reads this in the e-mail; they must approve the new revision.">
+                <Field
+                  id="est-summary"
+                  label="What changed since the last revision"
+                  error={summaryError ?? undefined}
+                  hint="The owner reads this in the e-mail; they must approve the new revision."
+                >
                   <textarea
                     id="est-summary"
                     rows={2}
@@ -465,8 +551,17 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                   />
                 </Field>
               ) : null}
-              <button type="button" className="btn-primary" onClick={() => send.mutate()} disabled={send.isPending || Boolean(view.profileIssues) || watched.length === 0}>
-                {send.isPending ? "Sending…" : view.revisions.length ? `Send revision ${view.revisions.length + 1} to the owner` : "Send estimate to the owner"}
+              <button
+                type="button"
+                className="btn-primary"
+                onClick={() => send.mutate()}
+                disabled={send.isPending || Boolean(view.profileIssues) || watched.length === 0}
+              >
+                {send.isPending
+                  ? "Sending…"
+                  : view.revisions.length
+                    ? `Send revision ${view.revisions.length + 1} to the owner`
+                    : "Send estimate to the owner"}
               </button>
             </div>
           ) : (

@@ -4,16 +4,16 @@ import { useQuery } from "@tanstack/react-query";
 import { useRef, useState, type KeyboardEvent } from "react";
 import { StateBadge } from "@/components/state-badge";
 import { Notice } from "@/components/ui/notice";
-import type { Band } from "@/lib/bands/band";
-import { setKindLabels, setKinds, type SetKind } from "@/lib/checklist/profile";
-import type { JobState } from "@/db/schema/enums";
-import { STATE_LABEL } from "@/lib/jobs/states";
+import type { Band } from "@/lib/engine/bands/band";
+import { setKindLabels, setKinds, type SetKind } from "@/lib/engine/checklist/profile";
+import type { JobState } from "@/lib/engine/jobs/states";
+import { STATE_LABEL } from "@/lib/engine/jobs/states";
 import { AlignmentCalculator } from "./alignment-calculator";
-import { api, errorText } from "./api-client";
+import { api, errorText } from "@/lib/client/bench-api";
 import { BenchSheetPanel } from "./bench-sheet";
 import { CompletionPanel } from "./completion-panel";
 import { EstimatePanel } from "./estimate-builder";
-import { benchKeys } from "./query-keys";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import { TriagePanel } from "./triage-panel";
 import type { JobDetailJson } from "./types";
 
@@ -36,7 +36,14 @@ function tabFor(state: JobState): TabId {
 function profileBands(detail: JobDetailJson): Band[] {
   const bands = (detail.set.profile as { bands?: unknown }).bands;
   if (!Array.isArray(bands)) return [];
-  return bands.filter((b): b is Band => typeof b === "object" && b !== null && typeof (b as Band).lowKHz === "number" && typeof (b as Band).highKHz === "number" && typeof (b as Band).ifKHz === "number");
+  return bands.filter(
+    (b): b is Band =>
+      typeof b === "object" &&
+      b !== null &&
+      typeof (b as Band).lowKHz === "number" &&
+      typeof (b as Band).highKHz === "number" &&
+      typeof (b as Band).ifKHz === "number",
+  );
 }
 
 export function JobWorkspace({ jobId }: { jobId: string }) {
@@ -73,7 +80,8 @@ export function JobWorkspace({ jobId }: { jobId: string }) {
         </h1>
         <StateBadge state={d.job.state} audience="staff" />
         <p className="text-sm">
-          {kind ? setKindLabels[kind] : d.set.kind} · owner {d.customer.name} ({d.customer.email}) · {d.technicianName ? `with ${d.technicianName}` : "unassigned"}
+          {kind ? setKindLabels[kind] : d.set.kind} · owner {d.customer.name} ({d.customer.email}) ·{" "}
+          {d.technicianName ? `with ${d.technicianName}` : "unassigned"}
           {d.job.isWarranty ? " · warranty job" : ""}
         </p>
       </header>

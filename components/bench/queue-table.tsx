@@ -1,17 +1,25 @@
 "use client";
 
 import { keepPreviousData, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
-import { createColumnHelper, rowPaginationFeature, rowSortingFeature, tableFeatures, useTable, type PaginationState, type SortingState } from "@tanstack/react-table";
+import {
+  createColumnHelper,
+  rowPaginationFeature,
+  rowSortingFeature,
+  tableFeatures,
+  useTable,
+  type PaginationState,
+  type SortingState,
+} from "@tanstack/react-table";
 import Link from "next/link";
 import { useEffect, useId, useState } from "react";
 import { StateBadge } from "@/components/state-badge";
 import { Notice } from "@/components/ui/notice";
-import { JOB_STATES, type JobState } from "@/db/schema/enums";
-import { jobNumber, STATE_LABEL } from "@/lib/jobs/states";
+import { JOB_STATES, type JobState } from "@/lib/engine/jobs/states";
+import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
 import type { QueueQueryInput, QueueSort } from "@/lib/validation/bench";
 import { INITIAL_QUEUE_PARAMS } from "@/lib/validation/queue-params";
-import { api, errorText } from "./api-client";
-import { benchKeys } from "./query-keys";
+import { api, errorText } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 
 type QueueRow = {
   id: string;
@@ -37,7 +45,14 @@ const helper = createColumnHelper<typeof features, QueueRow>();
 const emptyRows: QueueRow[] = [];
 
 // Rendered first on the server, so the time is given in UTC (named) and reads the same in every browser.
-const dateFmt = new Intl.DateTimeFormat("en-US", { month: "short", day: "numeric", hour: "2-digit", minute: "2-digit", hourCycle: "h23", timeZone: "UTC" });
+const dateFmt = new Intl.DateTimeFormat("en-US", {
+  month: "short",
+  day: "numeric",
+  hour: "2-digit",
+  minute: "2-digit",
+  hourCycle: "h23",
+  timeZone: "UTC",
+});
 
 function AssignCell({ row, staff }: { row: QueueRow; staff: StaffMember[] }) {
   const qc = useQueryClient();
@@ -152,8 +167,16 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
     }),
     helper.accessor("customerName", { id: "customer", header: "Owner", cell: (info) => info.getValue() }),
     helper.accessor("state", { id: "state", header: "State", cell: (info) => <StateBadge state={info.getValue()} audience="staff" /> }),
-    helper.accessor("technicianName", { id: "technician", header: "Technician", cell: (info) => <AssignCell row={info.row.original} staff={staff} /> }),
-    helper.accessor("updatedAt", { id: "updatedAt", header: "Last change", cell: (info) => <span className="figure">{dateFmt.format(new Date(info.getValue()))} UTC</span> }),
+    helper.accessor("technicianName", {
+      id: "technician",
+      header: "Technician",
+      cell: (info) => <AssignCell row={info.row.original} staff={staff} />,
+    }),
+    helper.accessor("updatedAt", {
+      id: "updatedAt",
+      header: "Last change",
+      cell: (info) => <span className="figure">{dateFmt.format(new Date(info.getValue()))} UTC</span>,
+    }),
   ]);
 
   const table = useTable({
@@ -249,7 +272,11 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
         </p>
       </form>
 
-      {result.isError ? <Notice tone="error" live>{errorText(result.error)}</Notice> : null}
+      {result.isError ? (
+        <Notice tone="error" live>
+          {errorText(result.error)}
+        </Notice>
+      ) : null}
 
       <div className="card overflow-x-auto">
         <table className="dense-table" aria-label="Job queue" aria-busy={result.isFetching}>
@@ -261,7 +288,11 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
                   return (
                     <th key={header.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
                       {header.isPlaceholder ? null : header.column.getCanSort() ? (
-                        <button type="button" className="inline-flex items-center gap-1 font-semibold" onClick={header.column.getToggleSortingHandler()}>
+                        <button
+                          type="button"
+                          className="inline-flex items-center gap-1 font-semibold"
+                          onClick={header.column.getToggleSortingHandler()}
+                        >
                           <table.FlexRender header={header} />
                           <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
                           <span className="sr-only">{sorted ? `, sorted ${sorted === "asc" ? "ascending" : "descending"}` : ", sort"}</span>
@@ -303,13 +334,23 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
         <span className="figure">
           {first}–{last} of {total} · page {pagination.pageIndex + 1} of {pageCount}
         </span>
-        <button type="button" className="btn-secondary py-1" onClick={() => table.nextPage()} disabled={pagination.pageIndex + 1 >= pageCount}>
+        <button
+          type="button"
+          className="btn-secondary py-1"
+          onClick={() => table.nextPage()}
+          disabled={pagination.pageIndex + 1 >= pageCount}
+        >
           Next →
         </button>
         <label htmlFor={sizeId} className="ml-2">
           Rows per page
         </label>
-        <select id={sizeId} className="rounded border border-bakelite-muted bg-white px-1 py-0.5" value={pagination.pageSize} onChange={(e) => table.setPageSize(Number(e.target.value))}>
+        <select
+          id={sizeId}
+          className="rounded border border-bakelite-muted bg-white px-1 py-0.5"
+          value={pagination.pageSize}
+          onChange={(e) => table.setPageSize(Number(e.target.value))}
+        >
           {[10, 25, 50, 100].map((n) => (
             <option key={n} value={n}>
               {n}

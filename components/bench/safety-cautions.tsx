@@ -1,5 +1,5 @@
 import { Notice } from "@/components/ui/notice";
-import type { SetKind } from "@/lib/checklist/profile";
+import type { SetKind } from "@/lib/engine/checklist/profile";
 
 // The cautions that apply to this kind of set, shown on the bench sheet before any reading is taken.
 export function benchCautions({ kind, seleniumRectifier }: { kind: SetKind; seleniumRectifier?: boolean }): { id: string; text: string }[] {
@@ -24,10 +24,16 @@ export function benchCautions({ kind, seleniumRectifier }: { kind: SetKind; sele
       text: "First power-up of a restored set through a current-limiting lamp or a variac, watching for smoke, heat or a lamp that stays bright, so a shorted part cannot overheat or start a fire.",
     });
   } else {
-    out.push({ id: "first-power", text: "Power the set first from a current-limited bench supply at its rated battery voltage, not from fresh cells." });
+    out.push({
+      id: "first-power",
+      text: "Power the set first from a current-limited bench supply at its rated battery voltage, not from fresh cells.",
+    });
   }
   if (seleniumRectifier) {
-    out.push({ id: "selenium", text: "A failing selenium rectifier gives off noxious fumes: do not power the set with the old rectifier in circuit; ventilate the bench if it has overheated." });
+    out.push({
+      id: "selenium",
+      text: "A failing selenium rectifier gives off noxious fumes: do not power the set with the old rectifier in circuit; ventilate the bench if it has overheated.",
+    });
   }
   return out;
 }

@@ -1,8 +1,8 @@
 "use client";
 
 import { CartesianGrid, Legend, Line, LineChart, ReferenceDot, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
-import type { ErrorPoint } from "@/lib/alignment/tracking";
-import { formatNumber } from "@/lib/verdicts";
+import type { ErrorPoint } from "@/lib/engine/alignment/tracking";
+import { formatNumber } from "@/lib/engine/verdicts";
 
 type Props = {
   curve: ErrorPoint[];
@@ -20,7 +20,12 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
   const minimax = minimaxCurve?.map((p) => ({ f: p.kHz / scale, error: p.errorKHz })) ?? null;
   const maxAbs = Math.max(...curve.map((p) => Math.abs(p.errorKHz)), 0);
   return (
-    <figure className="space-y-1" aria-labelledby="tracking-plot-caption" data-points={curve.length} data-tracking-points={trackingPointsKHz.length}>
+    <figure
+      className="space-y-1"
+      aria-labelledby="tracking-plot-caption"
+      data-points={curve.length}
+      data-tracking-points={trackingPointsKHz.length}
+    >
       <div className="h-72 w-full" data-testid="tracking-plot">
         <ResponsiveContainer width="100%" height="100%">
           <LineChart margin={{ top: 10, right: 20, bottom: 24, left: 10 }}>
@@ -33,8 +38,14 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
               tickFormatter={(v: number) => formatNumber(v, 2)}
               label={{ value: `Dial frequency, ${unit}`, position: "insideBottom", offset: -12 }}
             />
-            <YAxis tickFormatter={(v: number) => formatNumber(v, 2)} label={{ value: "Tracking error, kHz", angle: -90, position: "insideLeft", offset: 0 }} />
-            <Tooltip formatter={(v) => `${formatNumber(Number(v), 3)} kHz`} labelFormatter={(v) => `${formatNumber(Number(v), 3)} ${unit}`} />
+            <YAxis
+              tickFormatter={(v: number) => formatNumber(v, 2)}
+              label={{ value: "Tracking error, kHz", angle: -90, position: "insideLeft", offset: 0 }}
+            />
+            <Tooltip
+              formatter={(v) => `${formatNumber(Number(v), 3)} kHz`}
+              labelFormatter={(v) => `${formatNumber(Number(v), 3)} ${unit}`}
+            />
             <Legend verticalAlign="top" height={24} />
             <ReferenceLine y={0} stroke="#6b5f55" />
             <Line
@@ -51,7 +62,17 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
               activeDot={{ r: 4 }}
             />
             {minimax ? (
-              <Line name="Equal-ripple points" type="monotone" data={minimax} dataKey="error" stroke="#2f5d6b" strokeDasharray="5 3" strokeWidth={1.5} dot={false} isAnimationActive={false} />
+              <Line
+                name="Equal-ripple points"
+                type="monotone"
+                data={minimax}
+                dataKey="error"
+                stroke="#2f5d6b"
+                strokeDasharray="5 3"
+                strokeWidth={1.5}
+                dot={false}
+                isAnimationActive={false}
+              />
             ) : null}
             {trackingPointsKHz.map((f, i) => (
               <ReferenceDot
@@ -62,7 +83,16 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
                 ifOverflow="extendDomain"
                 shape={(props: { cx?: number; cy?: number }) => (
                   <g data-tracking-point={i} aria-label={`Tracking point ${i + 1}: ${formatNumber(f / scale, 3)} ${unit}`}>
-                    <rect x={(props.cx ?? 0) - 5} y={(props.cy ?? 0) - 5} width={10} height={10} fill="#ffffff" stroke="#2a2320" strokeWidth={2} transform={`rotate(45 ${props.cx ?? 0} ${props.cy ?? 0})`} />
+                    <rect
+                      x={(props.cx ?? 0) - 5}
+                      y={(props.cy ?? 0) - 5}
+                      width={10}
+                      height={10}
+                      fill="#ffffff"
+                      stroke="#2a2320"
+                      strokeWidth={2}
+                      transform={`rotate(45 ${props.cx ?? 0} ${props.cy ?? 0})`}
+                    />
                   </g>
                 )}
               />
@@ -71,7 +101,8 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
         </ResponsiveContainer>
       </div>
       <figcaption id="tracking-plot-caption" className="text-xs text-bakelite-muted">
-        Tracking error across the band, {curve.length} points; the three tracking points are marked ◆ on the zero line. Largest error {formatNumber(maxAbs, 2)} kHz.
+        Tracking error across the band, {curve.length} points; the three tracking points are marked ◆ on the zero line. Largest error{" "}
+        {formatNumber(maxAbs, 2)} kHz.
       </figcaption>
     </figure>
   );

@@ -3,15 +3,15 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useState } from "react";
-import { useFieldArray, useForm, type FieldPath } from "react-hook-form";
+import { useFieldArray, useForm, useWatch, type FieldPath } from "react-hook-form";
 import { z } from "zod";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { bandKinds } from "@/lib/bands/band";
-import { setKindLabels, setKinds, symptomFlags } from "@/lib/checklist/profile";
+import { bandKinds } from "@/lib/engine/bands/band";
+import { setKindLabels, setKinds, symptomFlags } from "@/lib/engine/checklist/profile";
 import { declineSchema, profileUpdateSchema, questionSchema } from "@/lib/validation/bench";
-import { api, ApiError, errorText, retryLostAnswer } from "./api-client";
-import { benchKeys } from "./query-keys";
+import { api, ApiError, errorText, retryLostAnswer } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { JobDetailJson } from "./types";
 
 type ProfileForm = z.input<typeof profileUpdateSchema>;
@@ -77,10 +77,14 @@ function useStateChange(jobId: string) {
 function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; saved: boolean; setSaved: (v: boolean) => void }) {
   const jobId = detail.job.id;
   const qc = useQueryClient();
-  const form = useForm<ProfileForm, unknown, ProfileOut>({ resolver: zodResolver(profileUpdateSchema), defaultValues: defaultsFrom(detail), mode: "onBlur" });
-  const { register, control, handleSubmit, formState, setError, watch } = form;
+  const form = useForm<ProfileForm, unknown, ProfileOut>({
+    resolver: zodResolver(profileUpdateSchema),
+    defaultValues: defaultsFrom(detail),
+    mode: "onBlur",
+  });
+  const { register, control, handleSubmit, formState, setError } = form;
   const bands = useFieldArray({ control, name: "profile.bands" });
-  const kind = watch("profile.kind");
+  const kind = useWatch({ control, name: "profile.kind" });
   const tube = kind === "tube-acdc" || kind === "tube-transformer";
   const save = useMutation({
     mutationFn: (body: ProfileOut) => api(`/api/bench/jobs/${jobId}/profile`, { method: "PUT", body }),
@@ -140,15 +144,15 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
         </Field>
         {num("year", "Year", undefined, false)}
         <div className="col-span-2">
-        <Field id="tri-kind" label="Kind of set" error={pe?.kind?.message}>
-          <select id="tri-kind" className="field-input py-1" {...register("profile.kind")}>
-            {setKinds.map((k) => (
-              <option key={k} value={k}>
-                {setKindLabels[k]}
-              </option>
-            ))}
-          </select>
-        </Field>
+          <Field id="tri-kind" label="Kind of set" error={pe?.kind?.message}>
+            <select id="tri-kind" className="field-input py-1" {...register("profile.kind")}>
+              {setKinds.map((k) => (
+                <option key={k} value={k}>
+                  {setKindLabels[k]}
+                </option>
+              ))}
+            </select>
+          </Field>
         </div>
       </div>
 
@@ -156,84 +160,105 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
         <legend className="field-label">Bands, as printed on the dial (kHz, FM too: 88–108 MHz is 88000–108000)</legend>
         {pe?.bands?.message ? <p className="field-error">{pe.bands.message}</p> : null}
         <div className="overflow-x-auto">
-        <table className="dense-table">
-          <thead>
-            <tr>
-              <th scope="col">Band</th>
-              <th scope="col">Label</th>
-              <th scope="col">Dial low, kHz</th>
-              <th scope="col">Dial high, kHz</th>
-              <th scope="col">IF, kHz</th>
-              <th scope="col">LO</th>
-              <th scope="col">
-                <span className="sr-only">Remove</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {bands.fields.map((f, i) => {
-              const be = pe?.bands?.[i];
-              const cell = (name: "lowKHz" | "highKHz" | "ifKHz", label: string) => {
-                const id = `tri-band-${i}-${name}`;
-                const message = be?.[name]?.message;
+          <table className="dense-table">
+            <thead>
+              <tr>
+                <th scope="col">Band</th>
+                <th scope="col">Label</th>
+                <th scope="col">Dial low, kHz</th>
+                <th scope="col">Dial high, kHz</th>
+                <th scope="col">IF, kHz</th>
+                <th scope="col">LO</th>
+                <th scope="col">
+                  <span className="sr-only">Remove</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {bands.fields.map((f, i) => {
+                const be = pe?.bands?.[i];
+                const cell = (name: "lowKHz" | "highKHz" | "ifKHz", label: string) => {
+                  const id = `tri-band-${i}-${name}`;
+                  const message = be?.[name]?.message;
+                  return (
+                    <td>
+                      <label htmlFor={id} className="sr-only">
+                        Band {i + 1} {label}
+                      </label>
+                      <input
+                        id={id}
+                        inputMode="decimal"
+                        className="field-input figure mt-0 w-24 py-1"
+                        aria-invalid={message ? true : undefined}
+                        aria-describedby={message ? `${id}-error` : undefined}
+                        {...register(`profile.bands.${i}.${name}`)}
+                      />
+                      {message ? (
+                        <p id={`${id}-error`} className="field-error">
+                          {message}
+                        </p>
+                      ) : null}
+                    </td>
+                  );
+                };
                 return (
-                  <td>
-                    <label htmlFor={id} className="sr-only">
-                      Band {i + 1} {label}
-                    </label>
-                    <input id={id} inputMode="decimal" className="field-input figure mt-0 w-24 py-1" aria-invalid={message ? true : undefined} aria-describedby={message ? `${id}-error` : undefined} {...register(`profile.bands.${i}.${name}`)} />
-                    {message ? (
-                      <p id={`${id}-error`} className="field-error">
-                        {message}
-                      </p>
-                    ) : null}
-                  </td>
+                  <tr key={f.id}>
+                    <td>
+                      <label htmlFor={`tri-band-${i}-kind`} className="sr-only">
+                        Band {i + 1} kind
+                      </label>
+                      <select id={`tri-band-${i}-kind`} className="field-input mt-0 w-20 py-1" {...register(`profile.bands.${i}.kind`)}>
+                        {bandKinds.map((k) => (
+                          <option key={k}>{k}</option>
+                        ))}
+                      </select>
+                    </td>
+                    <td>
+                      <label htmlFor={`tri-band-${i}-label`} className="sr-only">
+                        Band {i + 1} label
+                      </label>
+                      <input id={`tri-band-${i}-label`} className="field-input mt-0 w-24 py-1" {...register(`profile.bands.${i}.label`)} />
+                    </td>
+                    {cell("lowKHz", "dial low")}
+                    {cell("highKHz", "dial high")}
+                    {cell("ifKHz", "IF")}
+                    <td>
+                      <label htmlFor={`tri-band-${i}-inj`} className="sr-only">
+                        Band {i + 1} oscillator side
+                      </label>
+                      <select
+                        id={`tri-band-${i}-inj`}
+                        className="field-input mt-0 w-32 py-1"
+                        {...register(`profile.bands.${i}.injection`, { setValueAs: blankToUndefined })}
+                      >
+                        <option value="">above signal</option>
+                        <option value="low">below signal</option>
+                      </select>
+                    </td>
+                    <td>
+                      <button
+                        type="button"
+                        className="btn-quiet px-1 py-0.5"
+                        onClick={() => bands.remove(i)}
+                        disabled={bands.fields.length === 1}
+                      >
+                        Remove<span className="sr-only"> band {i + 1}</span>
+                      </button>
+                    </td>
+                  </tr>
                 );
-              };
-              return (
-                <tr key={f.id}>
-                  <td>
-                    <label htmlFor={`tri-band-${i}-kind`} className="sr-only">
-                      Band {i + 1} kind
-                    </label>
-                    <select id={`tri-band-${i}-kind`} className="field-input mt-0 w-20 py-1" {...register(`profile.bands.${i}.kind`)}>
-                      {bandKinds.map((k) => (
-                        <option key={k}>{k}</option>
-                      ))}
-                    </select>
-                  </td>
-                  <td>
-                    <label htmlFor={`tri-band-${i}-label`} className="sr-only">
-                      Band {i + 1} label
-                    </label>
-                    <input id={`tri-band-${i}-label`} className="field-input mt-0 w-24 py-1" {...register(`profile.bands.${i}.label`)} />
-                  </td>
-                  {cell("lowKHz", "dial low")}
-                  {cell("highKHz", "dial high")}
-                  {cell("ifKHz", "IF")}
-                  <td>
-                    <label htmlFor={`tri-band-${i}-inj`} className="sr-only">
-                      Band {i + 1} oscillator side
-                    </label>
-                    <select id={`tri-band-${i}-inj`} className="field-input mt-0 w-32 py-1" {...register(`profile.bands.${i}.injection`, { setValueAs: blankToUndefined })}>
-                      <option value="">above signal</option>
-                      <option value="low">below signal</option>
-                    </select>
-                  </td>
-                  <td>
-                    <button type="button" className="btn-quiet px-1 py-0.5" onClick={() => bands.remove(i)} disabled={bands.fields.length === 1}>
-                      Remove<span className="sr-only"> band {i + 1}</span>
-                    </button>
-                  </td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
+              })}
+            </tbody>
+          </table>
         </div>
         <div className="flex flex-wrap gap-2">
           {bandKinds.map((k) => (
-            <button key={k} type="button" className="btn-secondary px-2 py-1" onClick={() => bands.append({ kind: k, label: "", ...BAND_DEFAULTS[k] })}>
+            <button
+              key={k}
+              type="button"
+              className="btn-secondary px-2 py-1"
+              onClick={() => bands.append({ kind: k, label: "", ...BAND_DEFAULTS[k] })}
+            >
               + {k} band
             </button>
           ))}
@@ -307,11 +332,18 @@ const declineText = z.object({ text: declineSchema.shape.reason });
 
 function MessageForm({ jobId, kind }: { jobId: string; kind: "question" | "decline" }) {
   const onChange = useStateChange(jobId);
-  const form = useForm<{ text: string }>({ resolver: zodResolver(kind === "question" ? questionText : declineText), defaultValues: { text: "" } });
+  const form = useForm<{ text: string }>({
+    resolver: zodResolver(kind === "question" ? questionText : declineText),
+    defaultValues: { text: "" },
+  });
   // A question is a message: one key per composed question, kept across its retries, renewed once stored.
   const [idempotencyKey, setIdempotencyKey] = useState(() => crypto.randomUUID());
   const m = useMutation({
-    mutationFn: ({ text, key }: { text: string; key: string }) => api(`/api/bench/jobs/${jobId}/${kind}`, { method: "POST", body: kind === "question" ? { question: text, idempotencyKey: key } : { reason: text } }),
+    mutationFn: ({ text, key }: { text: string; key: string }) =>
+      api(`/api/bench/jobs/${jobId}/${kind}`, {
+        method: "POST",
+        body: kind === "question" ? { question: text, idempotencyKey: key } : { reason: text },
+      }),
     retry: kind === "question" ? retryLostAnswer : false,
     onSuccess: () => {
       form.reset({ text: "" });
@@ -331,18 +363,32 @@ function MessageForm({ jobId, kind }: { jobId: string; kind: "question" | "decli
   });
   const id = `tri-${kind}`;
   const error = form.formState.errors.text?.message;
-  const hint = kind === "question" ? "The owner gets it by e-mail and on their job page; the job waits for their answer." : "The owner sees this reason. The job closes.";
+  const hint =
+    kind === "question"
+      ? "The owner gets it by e-mail and on their job page; the job waits for their answer."
+      : "The owner sees this reason. The job closes.";
   return (
     <form noValidate className="card space-y-2 p-3" onSubmit={form.handleSubmit((v) => m.mutate({ text: v.text, key: idempotencyKey }))}>
       <Field id={id} label={kind === "question" ? "Ask the owner a question" : "Decline the job"} error={error} hint={hint}>
-        <textarea id={id} rows={3} className="field-input" aria-invalid={error ? true : undefined} aria-describedby={describedBy(id, { error, hint })} {...form.register("text")} />
+        <textarea
+          id={id}
+          rows={3}
+          className="field-input"
+          aria-invalid={error ? true : undefined}
+          aria-describedby={describedBy(id, { error, hint })}
+          {...form.register("text")}
+        />
       </Field>
       {m.isError ? (
         <Notice tone="error" live>
           {errorText(m.error)}
         </Notice>
       ) : null}
-      <button type="submit" className={kind === "question" ? "btn-secondary" : "btn-secondary border-fail text-fail"} disabled={m.isPending}>
+      <button
+        type="submit"
+        className={kind === "question" ? "btn-secondary" : "btn-secondary border-fail text-fail"}
+        disabled={m.isPending}
+      >
         {kind === "question" ? "Send question" : "Decline job"}
       </button>
     </form>

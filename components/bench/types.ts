@@ -1,5 +1,5 @@
-import type { BenchSheet, JobDetail } from "@/lib/services/bench";
-import type { EstimateView } from "@/lib/services/estimates";
+import type { BenchSheet, JobDetail } from "@/lib/server/services/bench";
+import type { EstimateView } from "@/lib/server/services/estimates";
 
 // What a value looks like after JSON: dates arrive as strings.
 export type Jsonify<T> = T extends Date

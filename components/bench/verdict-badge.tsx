@@ -1,4 +1,4 @@
-import type { Verdict } from "@/lib/verdicts";
+import type { Verdict } from "@/lib/engine/verdicts";
 
 const LOOK: Record<Verdict | "invalid", { icon: string; word: string; cls: string }> = {
   pass: { icon: "✓", word: "Pass", cls: "border-pass text-pass bg-pass-light" },
@@ -11,7 +11,11 @@ const LOOK: Record<Verdict | "invalid", { icon: string; word: string; cls: strin
 export function VerdictBadge({ verdict, id }: { verdict: Verdict | "invalid"; id?: string }) {
   const l = LOOK[verdict];
   return (
-    <span id={id} data-verdict={verdict} className={`inline-flex items-center gap-1 whitespace-nowrap rounded border px-1.5 py-0.5 text-xs font-semibold ${l.cls}`}>
+    <span
+      id={id}
+      data-verdict={verdict}
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded border px-1.5 py-0.5 text-xs font-semibold ${l.cls}`}
+    >
       <span aria-hidden="true">{l.icon}</span>
       {l.word}
     </span>

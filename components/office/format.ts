@@ -1,4 +1,4 @@
-import { formatMinor } from "@/lib/pricing/money";
+import { formatMinor } from "@/lib/engine/pricing/money";
 
 export type Currency = { code: string; exponent: number };
 
@@ -29,7 +29,13 @@ export function formatDay(value: string | Date | null | undefined): string {
   return Number.isNaN(d.getTime()) ? "—" : d.toISOString().slice(0, 10);
 }
 
-export type Jsonify<T> = T extends Date ? string : T extends (infer U)[] ? Jsonify<U>[] : T extends object ? { [K in keyof T]: Jsonify<T[K]> } : T;
+export type Jsonify<T> = T extends Date
+  ? string
+  : T extends (infer U)[]
+    ? Jsonify<U>[]
+    : T extends object
+      ? { [K in keyof T]: Jsonify<T[K]> }
+      : T;
 
 /** What a value looks like after a trip through JSON (dates become ISO strings), for initial query data. */
 export function jsonify<T>(value: T): Jsonify<T> {

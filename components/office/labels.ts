@@ -1,4 +1,4 @@
-import type { ChecklistCategory, RuleCode } from "@/lib/checklist/rules";
+import type { ChecklistCategory, RuleCode } from "@/lib/engine/checklist/rules";
 
 // Words for the office screens; the checklist's own line titles come from the engine.
 export const RULE_LABEL: Record<RuleCode, { title: string; per?: string }> = {

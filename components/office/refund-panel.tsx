@@ -7,12 +7,12 @@ import { useForm } from "react-hook-form";
 import { describedBy } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import type { getPaymentForOffice } from "@/db/queries/office";
-import { jobNumber } from "@/lib/jobs/states";
+import { jobNumber } from "@/lib/engine/jobs/states";
 import { refundFormSchema, type RefundFormValues } from "@/lib/validation/office";
-import { ApiError, officeFetch } from "./api-client";
+import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatMoney, formatWhen, type Currency, type Jsonify } from "./format";
 import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL, REFUND_STATUS_LABEL } from "./labels";
-import { officeKeys } from "./query-keys";
+import { officeKeys } from "@/lib/client/office-query-keys";
 
 export type PaymentDetail = Jsonify<NonNullable<Awaited<ReturnType<typeof getPaymentForOffice>>>>;
 
@@ -28,7 +28,9 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
     // A requested refund is settled by the processor's webhook; look again until it is.
     refetchInterval: (q) => {
       const refunds = q.state.data?.refunds ?? [];
-      const waiting = refunds.some((r) => r.status === "requested") || (awaiting !== null && !refunds.some((r) => r.id === awaiting && r.status !== "requested"));
+      const waiting =
+        refunds.some((r) => r.status === "requested") ||
+        (awaiting !== null && !refunds.some((r) => r.id === awaiting && r.status !== "requested"));
       return waiting ? 1500 : false;
     },
     refetchIntervalInBackground: true,
@@ -45,17 +47,27 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
 
   const refund = useMutation({
     mutationFn: (values: RefundFormValues) =>
-      officeFetch<{ refundId: string; amountMinor: number }>(`/api/office/payments/${payment.id}/refunds`, { method: "POST", json: values }),
+      officeFetch<{ refundId: string; amountMinor: number }>(`/api/office/payments/${payment.id}/refunds`, {
+        method: "POST",
+        json: values,
+      }),
     onSuccess: (r) => {
       setAwaiting(r.refundId);
-      setOutcome({ tone: "success", text: `Refund of ${formatMoney(r.amountMinor, currency)} sent to the processor. It shows as refunded once the processor confirms it.` });
+      setOutcome({
+        tone: "success",
+        text: `Refund of ${formatMoney(r.amountMinor, currency)} sent to the processor. It shows as refunded once the processor confirms it.`,
+      });
       reset({ amount: "", reason: "" });
     },
     onError: (e) => {
       if (e instanceof ApiError && e.fields) {
-        for (const [field, message] of Object.entries(e.fields)) if (field === "amount" || field === "reason") setError(field, { type: "server", message });
+        for (const [field, message] of Object.entries(e.fields))
+          if (field === "amount" || field === "reason") setError(field, { type: "server", message });
       }
-      setOutcome({ tone: "error", text: e instanceof Error ? e.message : "The refund could not be started. Nothing was refunded; try again." });
+      setOutcome({
+        tone: "error",
+        text: e instanceof Error ? e.message : "The refund could not be started. Nothing was refunded; try again.",
+      });
     },
     onSettled: () => {
       void queryClient.invalidateQueries({ queryKey: key, exact: true });
@@ -208,7 +220,9 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
           </form>
         ) : (
           <p className="mt-2 text-sm text-bakelite-soft">
-            {payment.status !== "paid" ? "Only a received payment can be refunded." : "Everything paid has been refunded or is waiting for the processor."}
+            {payment.status !== "paid"
+              ? "Only a received payment can be refunded."
+              : "Everything paid has been refunded or is waiting for the processor."}
           </p>
         )}
         {outcome ? (

@@ -21,7 +21,13 @@ export function JobsPerStateChart({ data }: { data: { label: string; count: numb
   );
 }
 
-export function MoneyChart({ data, currency }: { data: { month: string; deposits: number; balances: number; refunds: number }[]; currency: string }) {
+export function MoneyChart({
+  data,
+  currency,
+}: {
+  data: { month: string; deposits: number; balances: number; refunds: number }[];
+  currency: string;
+}) {
   return (
     <div aria-hidden="true" className="h-72 w-full">
       <ResponsiveContainer width="100%" height="100%">

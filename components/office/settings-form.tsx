@@ -6,15 +6,15 @@ import { useState } from "react";
 import { get, useForm, useWatch, type FieldErrors, type Path, type UseFormRegister } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { bandKinds } from "@/lib/bands/band";
-import { checklistCategories, ruleCategory } from "@/lib/checklist/rules";
-import type { SettingsSnapshot } from "@/lib/services/settings";
+import { bandKinds } from "@/lib/engine/bands/band";
+import { checklistCategories, ruleCategory } from "@/lib/engine/checklist/rules";
+import type { SettingsSnapshot } from "@/lib/server/services/settings";
 import { coveredWording, exclusionWording, settingsFormSchema, type SettingsFormValues } from "@/lib/validation/office";
-import { coveredWordingKeys, exclusionCodes } from "@/lib/warranty/exclusions";
-import { ApiError, officeFetch } from "./api-client";
+import { coveredWordingKeys, exclusionCodes } from "@/lib/engine/warranty/exclusions";
+import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatWhen } from "./format";
 import { BAND_KIND_LABEL, CATEGORY_LABEL, RULE_LABEL } from "./labels";
-import { officeKeys } from "./query-keys";
+import { officeKeys } from "@/lib/client/office-query-keys";
 
 type Errors = FieldErrors<SettingsFormValues>;
 
@@ -71,18 +71,51 @@ function TextField({
   );
 }
 
-function TextArea({ name, label, hint, register, errors, rows = 3 }: { name: Path<SettingsFormValues>; label: string; hint?: string; register: UseFormRegister<SettingsFormValues>; errors: Errors; rows?: number }) {
+function TextArea({
+  name,
+  label,
+  hint,
+  register,
+  errors,
+  rows = 3,
+}: {
+  name: Path<SettingsFormValues>;
+  label: string;
+  hint?: string;
+  register: UseFormRegister<SettingsFormValues>;
+  errors: Errors;
+  rows?: number;
+}) {
   const id = `f-${name.replaceAll(".", "-")}`;
   const error = errorAt(errors, name);
   return (
     <Field id={id} label={label} error={error} hint={hint}>
-      <textarea id={id} rows={rows} className="field-input" aria-invalid={!!error} aria-describedby={describedBy(id, { error, hint })} {...register(name)} />
+      <textarea
+        id={id}
+        rows={rows}
+        className="field-input"
+        aria-invalid={!!error}
+        aria-describedby={describedBy(id, { error, hint })}
+        {...register(name)}
+      />
     </Field>
   );
 }
 
 // A number cell in a dense table: the label is the row and column, read out by screen readers.
-function CellInput({ name, label, register, errors, step = "any" }: { name: Path<SettingsFormValues>; label: string; register: UseFormRegister<SettingsFormValues>; errors: Errors; step?: string }) {
+function CellInput({
+  name,
+  label,
+  register,
+  errors,
+  step = "any",
+}: {
+  name: Path<SettingsFormValues>;
+  label: string;
+  register: UseFormRegister<SettingsFormValues>;
+  errors: Errors;
+  step?: string;
+}) {
   const id = `f-${name.replaceAll(".", "-")}`;
   const error = errorAt(errors, name);
   return (
@@ -165,7 +198,10 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         setProblem({ kind: "invalid", message: "Some fields need attention; they are marked below." });
         return;
       }
-      setProblem({ kind: "other", message: e instanceof Error ? e.message : "The settings could not be saved. Nothing was lost; try again." });
+      setProblem({
+        kind: "other",
+        message: e instanceof Error ? e.message : "The settings could not be saved. Nothing was lost; try again.",
+      });
     },
   });
 
@@ -189,7 +225,9 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
       const next = await latest();
       reset(next.values);
       setProblem(null);
-      setSaved(`Showing the version saved at ${formatWhen(next.updatedAt)}${next.updatedByName ? ` by ${next.updatedByName}` : ""}. Your edits were set aside.`);
+      setSaved(
+        `Showing the version saved at ${formatWhen(next.updatedAt)}${next.updatedByName ? ` by ${next.updatedByName}` : ""}. Your edits were set aside.`,
+      );
     } catch (e) {
       setProblem({ kind: "other", message: e instanceof Error ? e.message : "Could not load the saved version." });
     }
@@ -241,20 +279,52 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
       <Section id="s-identity" title="Shop identity" intro="Printed on every warranty certificate and in the e-mails to set owners.">
         <div className="grid gap-4 md:grid-cols-2">
           <TextField name="identity.name" label="Shop name" register={register} errors={errors} />
-          <TextArea name="identity.addressText" label="Address" hint="Each address line on its own line, as it should be printed." register={register} errors={errors} rows={4} />
+          <TextArea
+            name="identity.addressText"
+            label="Address"
+            hint="Each address line on its own line, as it should be printed."
+            register={register}
+            errors={errors}
+            rows={4}
+          />
           <TextField name="identity.phone" label="Phone" type="tel" inputMode="tel" register={register} errors={errors} />
           <TextField name="identity.email" label="E-mail" type="email" inputMode="email" register={register} errors={errors} />
         </div>
       </Section>
 
-      <Section id="s-labour" title="Labour and billing" intro={`Amounts in ${currency}, typed as on a price tag (90.00). Labour is billed in whole increments, rounded up.`}>
+      <Section
+        id="s-labour"
+        title="Labour and billing"
+        intro={`Amounts in ${currency}, typed as on a price tag (90.00). Labour is billed in whole increments, rounded up.`}
+      >
         <div className="grid gap-4 md:grid-cols-2">
-          <TextField name="labourRate" label="Labour rate" prefix={currency} suffix="per hour" inputMode="decimal" register={register} errors={errors} />
-          <TextField name="billingIncrementMinutes" label="Billing increment" suffix="minutes" type="number" number register={register} errors={errors} hint="15 bills a 20-minute job as 30 minutes." />
+          <TextField
+            name="labourRate"
+            label="Labour rate"
+            prefix={currency}
+            suffix="per hour"
+            inputMode="decimal"
+            register={register}
+            errors={errors}
+          />
+          <TextField
+            name="billingIncrementMinutes"
+            label="Billing increment"
+            suffix="minutes"
+            type="number"
+            number
+            register={register}
+            errors={errors}
+            hint="15 bills a 20-minute job as 30 minutes."
+          />
         </div>
       </Section>
 
-      <Section id="s-minutes" title="Minutes per checklist rule" intro="Standard minutes for each line the checklist computes from a set's profile. Rules marked “per …” are multiplied by the count.">
+      <Section
+        id="s-minutes"
+        title="Minutes per checklist rule"
+        intro="Standard minutes for each line the checklist computes from a set's profile. Rules marked “per …” are multiplied by the count."
+      >
         <div className="grid gap-6 lg:grid-cols-2">
           {rulesByCategory.map(({ cat, rules }) => (
             <table key={cat} className="dense-table h-fit self-start">
@@ -275,7 +345,13 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
                       {RULE_LABEL[r.code].per ? <span className="text-bakelite-muted"> ({RULE_LABEL[r.code].per})</span> : null}
                     </th>
                     <td className="text-right">
-                      <CellInput name={`minutesPerRule.${r.i}.minutes`} label={`Minutes for ${RULE_LABEL[r.code].title}`} register={register} errors={errors} step="1" />
+                      <CellInput
+                        name={`minutesPerRule.${r.i}.minutes`}
+                        label={`Minutes for ${RULE_LABEL[r.code].title}`}
+                        register={register}
+                        errors={errors}
+                        step="1"
+                      />
                     </td>
                   </tr>
                 ))}
@@ -290,8 +366,20 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         ) : null}
       </Section>
 
-      <Section id="s-parts" title="Parts and markup" intro={`What each part costs the shop (in ${currency}) and the markup on it. Leave a part's markup blank to use the default. Costs are never shown to set owners.`}>
-        <TextField name="parts.defaultMarkupPercent" label="Default markup" suffix="%" inputMode="decimal" register={register} errors={errors} className="max-w-xs" />
+      <Section
+        id="s-parts"
+        title="Parts and markup"
+        intro={`What each part costs the shop (in ${currency}) and the markup on it. Leave a part's markup blank to use the default. Costs are never shown to set owners.`}
+      >
+        <TextField
+          name="parts.defaultMarkupPercent"
+          label="Default markup"
+          suffix="%"
+          inputMode="decimal"
+          register={register}
+          errors={errors}
+          className="max-w-xs"
+        />
         <div className="overflow-x-auto">
           <table className="dense-table">
             <thead>
@@ -305,8 +393,16 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
             <tbody>
               {initial.values.parts.catalogue.map((p, i) => {
                 const base = `parts.catalogue.${i}` as const;
-                const ids = { title: `f-parts-catalogue-${i}-title`, cost: `f-parts-catalogue-${i}-cost`, markup: `f-parts-catalogue-${i}-markupPercent` };
-                const e = { title: errorAt(errors, `${base}.title`), cost: errorAt(errors, `${base}.cost`), markup: errorAt(errors, `${base}.markupPercent`) };
+                const ids = {
+                  title: `f-parts-catalogue-${i}-title`,
+                  cost: `f-parts-catalogue-${i}-cost`,
+                  markup: `f-parts-catalogue-${i}-markupPercent`,
+                };
+                const e = {
+                  title: errorAt(errors, `${base}.title`),
+                  cost: errorAt(errors, `${base}.cost`),
+                  markup: errorAt(errors, `${base}.markupPercent`),
+                };
                 return (
                   <tr key={p.code}>
                     <th scope="row" className="figure bg-transparent font-normal">
@@ -316,22 +412,55 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
                       <label htmlFor={ids.title} className="sr-only">
                         Name of {p.code}
                       </label>
-                      <input id={ids.title} className="w-full min-w-56 rounded-card border border-bakelite-muted bg-white px-2 py-1" aria-invalid={!!e.title} aria-describedby={e.title ? `${ids.title}-error` : undefined} {...register(`${base}.title`)} />
-                      {e.title ? <p id={`${ids.title}-error`} className="field-error" role="alert">{e.title}</p> : null}
+                      <input
+                        id={ids.title}
+                        className="w-full min-w-56 rounded-card border border-bakelite-muted bg-white px-2 py-1"
+                        aria-invalid={!!e.title}
+                        aria-describedby={e.title ? `${ids.title}-error` : undefined}
+                        {...register(`${base}.title`)}
+                      />
+                      {e.title ? (
+                        <p id={`${ids.title}-error`} className="field-error" role="alert">
+                          {e.title}
+                        </p>
+                      ) : null}
                     </td>
                     <td>
                       <label htmlFor={ids.cost} className="sr-only">
                         Cost of {p.title}
                       </label>
-                      <input id={ids.cost} inputMode="decimal" className="figure w-24 rounded-card border border-bakelite-muted bg-white px-2 py-1 text-right" aria-invalid={!!e.cost} aria-describedby={e.cost ? `${ids.cost}-error` : undefined} {...register(`${base}.cost`)} />
-                      {e.cost ? <p id={`${ids.cost}-error`} className="field-error" role="alert">{e.cost}</p> : null}
+                      <input
+                        id={ids.cost}
+                        inputMode="decimal"
+                        className="figure w-24 rounded-card border border-bakelite-muted bg-white px-2 py-1 text-right"
+                        aria-invalid={!!e.cost}
+                        aria-describedby={e.cost ? `${ids.cost}-error` : undefined}
+                        {...register(`${base}.cost`)}
+                      />
+                      {e.cost ? (
+                        <p id={`${ids.cost}-error`} className="field-error" role="alert">
+                          {e.cost}
+                        </p>
+                      ) : null}
                     </td>
                     <td>
                       <label htmlFor={ids.markup} className="sr-only">
                         Markup on {p.title}, blank for the default
                       </label>
-                      <input id={ids.markup} inputMode="decimal" placeholder="default" className="figure w-24 rounded-card border border-bakelite-muted bg-white px-2 py-1 text-right" aria-invalid={!!e.markup} aria-describedby={e.markup ? `${ids.markup}-error` : undefined} {...register(`${base}.markupPercent`)} />
-                      {e.markup ? <p id={`${ids.markup}-error`} className="field-error" role="alert">{e.markup}</p> : null}
+                      <input
+                        id={ids.markup}
+                        inputMode="decimal"
+                        placeholder="default"
+                        className="figure w-24 rounded-card border border-bakelite-muted bg-white px-2 py-1 text-right"
+                        aria-invalid={!!e.markup}
+                        aria-describedby={e.markup ? `${ids.markup}-error` : undefined}
+                        {...register(`${base}.markupPercent`)}
+                      />
+                      {e.markup ? (
+                        <p id={`${ids.markup}-error`} className="field-error" role="alert">
+                          {e.markup}
+                        </p>
+                      ) : null}
                     </td>
                   </tr>
                 );
@@ -341,13 +470,31 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         </div>
       </Section>
 
-      <Section id="s-tax" title="Tax and deposit" intro="Tax rates are percentages with up to two decimals (8.25). The deposit is a share of the total, raised to the parts cost and to the processor's minimum charge if needed, and never above the total.">
+      <Section
+        id="s-tax"
+        title="Tax and deposit"
+        intro="Tax rates are percentages with up to two decimals (8.25). The deposit is a share of the total, raised to the parts cost and to the processor's minimum charge if needed, and never above the total."
+      >
         <div className="grid gap-4 md:grid-cols-3">
           <TextField name="tax.labourPercent" label="Tax on labour" suffix="%" inputMode="decimal" register={register} errors={errors} />
           <TextField name="tax.partsPercent" label="Tax on parts" suffix="%" inputMode="decimal" register={register} errors={errors} />
           <div />
-          <TextField name="deposit.percent" label="Deposit" suffix="% of the total" inputMode="decimal" register={register} errors={errors} />
-          <TextField name="deposit.processorMinimum" label="Processor's minimum charge" prefix={currency} inputMode="decimal" register={register} errors={errors} />
+          <TextField
+            name="deposit.percent"
+            label="Deposit"
+            suffix="% of the total"
+            inputMode="decimal"
+            register={register}
+            errors={errors}
+          />
+          <TextField
+            name="deposit.processorMinimum"
+            label="Processor's minimum charge"
+            prefix={currency}
+            inputMode="decimal"
+            register={register}
+            errors={errors}
+          />
           <div className="flex items-start gap-2 pt-7">
             <input id="f-deposit-atLeastParts" type="checkbox" className="mt-1 h-4 w-4" {...register("deposit.atLeastParts")} />
             <label htmlFor="f-deposit-atLeastParts" className="text-sm">
@@ -357,9 +504,21 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         </div>
       </Section>
 
-      <Section id="s-warranty" title="Warranty" intro="The term starts on the day the set is returned. These words are printed on every certificate; they are the shop's own and should follow local law.">
+      <Section
+        id="s-warranty"
+        title="Warranty"
+        intro="The term starts on the day the set is returned. These words are printed on every certificate; they are the shop's own and should follow local law."
+      >
         <div className="grid gap-4 md:grid-cols-2">
-          <TextField name="warranty.termDays" label="Warranty term" suffix="days" type="number" number register={register} errors={errors} />
+          <TextField
+            name="warranty.termDays"
+            label="Warranty term"
+            suffix="days"
+            type="number"
+            number
+            register={register}
+            errors={errors}
+          />
         </div>
         <fieldset className="space-y-2">
           <legend className="field-label">Designation</legend>
@@ -378,7 +537,10 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         </fieldset>
         {designation === "full" ? (
           <Notice tone="caution" title="Calling it a full warranty is a promise">
-            <p>Where a written warranty may be called “full” only when it meets minimum standards (in the United States, 15 U.S.C. §2304), the terms must at least:</p>
+            <p>
+              Where a written warranty may be called “full” only when it meets minimum standards (in the United States, 15 U.S.C. §2304),
+              the terms must at least:
+            </p>
             <ul className="list-disc pl-5">
               <li>cover everyone who owns the set during the term, not only the first owner;</li>
               <li>put a covered fault right free of charge, within a reasonable time;</li>
@@ -463,7 +625,12 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
           <TextArea name="warrantyTerms.whatWeWillNotDo" label="What the shop will not do or pay for" register={register} errors={errors} />
           <TextArea name="warrantyTerms.disputes" label="If the owner disagrees with a decision" register={register} errors={errors} />
           <TextArea name="warrantyTerms.impliedWarranties" label="Implied warranties" register={register} errors={errors} />
-          <TextArea name="warrantyTerms.consequentialDamages" label="Incidental and consequential damages" register={register} errors={errors} />
+          <TextArea
+            name="warrantyTerms.consequentialDamages"
+            label="Incidental and consequential damages"
+            register={register}
+            errors={errors}
+          />
         </div>
         <fieldset className="space-y-2">
           <legend className="field-label">How to make a claim (printed as numbered steps)</legend>
@@ -477,7 +644,14 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
                     Step {i + 1}
                   </label>
                   <div className="flex-1">
-                    <textarea id={id} rows={2} className="field-input mt-0" aria-invalid={!!error} aria-describedby={error ? `${id}-error` : undefined} {...register(`warrantyTerms.howToClaim.${i}`)} />
+                    <textarea
+                      id={id}
+                      rows={2}
+                      className="field-input mt-0"
+                      aria-invalid={!!error}
+                      aria-describedby={error ? `${id}-error` : undefined}
+                      {...register(`warrantyTerms.howToClaim.${i}`)}
+                    />
                     {error ? (
                       <p id={`${id}-error`} className="field-error" role="alert">
                         {error}
@@ -503,7 +677,11 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         <TextArea name="warrantyTerms.shopWording" label="Anything else to print (optional)" register={register} errors={errors} rows={3} />
       </Section>
 
-      <Section id="s-tolerances" title="Tolerances" intro="A reading passes when it is within the larger of the two figures: an absolute window in kHz or a percentage of the mark. The certificate prints the tolerance applied.">
+      <Section
+        id="s-tolerances"
+        title="Tolerances"
+        intro="A reading passes when it is within the larger of the two figures: an absolute window in kHz or a percentage of the mark. The certificate prints the tolerance applied."
+      >
         <div className="overflow-x-auto">
           <table className="dense-table">
             <thead>
@@ -541,12 +719,38 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
           </table>
         </div>
         <div className="grid gap-4 md:grid-cols-3">
-          <TextField name="tolerances.leakageLimitMA.v120" label="Leakage limit, 120 V two-wire sets" suffix="mA" type="number" number register={register} errors={errors} />
-          <TextField name="tolerances.leakageLimitMA.v230" label="Leakage limit, 230 V two-wire sets" suffix="mA" type="number" number register={register} errors={errors} />
-          <TextField name="tolerances.bPlusPercent" label="B+ against the schematic figure" suffix="± %" type="number" number register={register} errors={errors} />
+          <TextField
+            name="tolerances.leakageLimitMA.v120"
+            label="Leakage limit, 120 V two-wire sets"
+            suffix="mA"
+            type="number"
+            number
+            register={register}
+            errors={errors}
+          />
+          <TextField
+            name="tolerances.leakageLimitMA.v230"
+            label="Leakage limit, 230 V two-wire sets"
+            suffix="mA"
+            type="number"
+            number
+            register={register}
+            errors={errors}
+          />
+          <TextField
+            name="tolerances.bPlusPercent"
+            label="B+ against the schematic figure"
+            suffix="± %"
+            type="number"
+            number
+            register={register}
+            errors={errors}
+          />
         </div>
         <Notice tone="caution" title="Leakage limits protect people">
-          <p>The leakage limit is a safety figure: keep it at or below what local codes and licensed practice require for the supply voltage.</p>
+          <p>
+            The leakage limit is a safety figure: keep it at or below what local codes and licensed practice require for the supply voltage.
+          </p>
         </Notice>
       </Section>
 
@@ -555,7 +759,12 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
           <button type="submit" className="btn-primary" disabled={save.isPending}>
             {save.isPending ? "Saving…" : "Save settings"}
           </button>
-          <button type="button" className="btn-quiet" disabled={!formState.isDirty || save.isPending} onClick={() => reset(snapshot.values)}>
+          <button
+            type="button"
+            className="btn-quiet"
+            disabled={!formState.isDirty || save.isPending}
+            onClick={() => reset(snapshot.values)}
+          >
             Undo my changes
           </button>
           <span className="text-sm text-bakelite-soft">{formState.isDirty ? "You have unsaved changes." : "No unsaved changes."}</span>

@@ -7,7 +7,17 @@ const TONES = {
   error: { box: "border-fail bg-fail-light", icon: "✕", label: "Problem" },
 } as const;
 
-export function Notice({ tone = "info", title, children, live }: { tone?: keyof typeof TONES; title?: string; children: ReactNode; live?: boolean }) {
+export function Notice({
+  tone = "info",
+  title,
+  children,
+  live,
+}: {
+  tone?: keyof typeof TONES;
+  title?: string;
+  children: ReactNode;
+  live?: boolean;
+}) {
   const t = TONES[tone];
   return (
     <div className={`rounded-card border-l-4 px-4 py-3 text-sm ${t.box}`} role={live ? (tone === "error" ? "alert" : "status") : undefined}>

@@ -1,10 +1,16 @@
-import { bandEdgeRows } from "@/lib/pdf/certificate-tables";
-import type { CertificateDocument } from "@/lib/services/certificates";
+import { bandEdgeRows } from "@/lib/engine/certificates/tables";
+import type { CertificateDocument } from "@/lib/engine/certificates/document";
 
 const VERDICT_ICON = { true: "✓", false: "✕", null: "–" } as const;
 
 /** Per band: the printed dial range, the measured edges, the tolerance applied and the verdict in words. */
-export function BandEdgeTable({ document, caption = "Band edges, measured against the dial" }: { document: Pick<CertificateDocument, "bands" | "readings">; caption?: string }) {
+export function BandEdgeTable({
+  document,
+  caption = "Band edges, measured against the dial",
+}: {
+  document: Pick<CertificateDocument, "bands" | "readings">;
+  caption?: string;
+}) {
   const rows = bandEdgeRows(document);
   return (
     <div className="overflow-x-auto">
@@ -30,7 +36,9 @@ export function BandEdgeTable({ document, caption = "Band edges, measured agains
               <td className="figure whitespace-nowrap">{r.low}</td>
               <td className="figure whitespace-nowrap">{r.high}</td>
               <td>{r.tolerance}</td>
-              <td className={`whitespace-nowrap font-semibold ${r.passed === false ? "text-fail" : r.passed ? "text-pass" : "text-bakelite-muted"}`}>
+              <td
+                className={`whitespace-nowrap font-semibold ${r.passed === false ? "text-fail" : r.passed ? "text-pass" : "text-bakelite-muted"}`}
+              >
                 <span aria-hidden="true">{VERDICT_ICON[String(r.passed) as "true" | "false" | "null"]} </span>
                 {r.verdict}
               </td>

@@ -8,23 +8,45 @@ import { useForm } from "react-hook-form";
 import type { z } from "zod";
 import { describedBy, Field } from "@/components/ui/field";
 import { revokeCertificateSchema } from "@/lib/validation/claims";
-import { ApiFailure, postJson } from "./query-keys";
+import { ApiFailure, postJson } from "@/lib/client/warranty-query-keys";
 
 type Reason = z.input<typeof revokeCertificateSchema>;
 
-function ReasonForm({ id, action, label, hint, onDone }: { id: string; action: "revoke" | "reissue"; label: string; hint: string; onDone: () => void }) {
-  const { register, handleSubmit, formState, setError } = useForm<Reason>({ resolver: zodResolver(revokeCertificateSchema), defaultValues: { reason: "" } });
+function ReasonForm({
+  id,
+  action,
+  label,
+  hint,
+  onDone,
+}: {
+  id: string;
+  action: "revoke" | "reissue";
+  label: string;
+  hint: string;
+  onDone: () => void;
+}) {
+  const { register, handleSubmit, formState, setError } = useForm<Reason>({
+    resolver: zodResolver(revokeCertificateSchema),
+    defaultValues: { reason: "" },
+  });
   const fieldId = `${action}-${id}`;
   const mutation = useMutation({
     mutationFn: (v: Reason) => postJson(`/api/certificates/${id}/${action}`, v),
     onSuccess: onDone,
-    onError: (e) => setError("reason", { message: e instanceof ApiFailure ? (e.error.fields?.reason ?? e.error.message) : "That did not work." }),
+    onError: (e) =>
+      setError("reason", { message: e instanceof ApiFailure ? (e.error.fields?.reason ?? e.error.message) : "That did not work." }),
   });
   const error = formState.errors.reason?.message;
   return (
     <form onSubmit={handleSubmit((v) => mutation.mutate(v))} className="mt-2 space-y-2" noValidate>
       <Field id={fieldId} label={label} error={error} hint={hint}>
-        <input id={fieldId} className="field-input" aria-invalid={!!error} aria-describedby={describedBy(fieldId, { error, hint })} {...register("reason")} />
+        <input
+          id={fieldId}
+          className="field-input"
+          aria-invalid={!!error}
+          aria-describedby={describedBy(fieldId, { error, hint })}
+          {...register("reason")}
+        />
       </Field>
       <button type="submit" className={action === "revoke" ? "btn-secondary" : "btn-primary"} disabled={mutation.isPending}>
         {action === "revoke" ? "Revoke the certificate" : "Issue the corrected certificate"}
@@ -45,19 +67,37 @@ export function CertificateActions({ id, canRevoke, canReissue }: { id: string; 
     <div>
       <div className="flex flex-wrap gap-2">
         {canReissue ? (
-          <button type="button" className="btn-quiet" aria-expanded={open === "reissue"} onClick={() => setOpen(open === "reissue" ? null : "reissue")}>
+          <button
+            type="button"
+            className="btn-quiet"
+            aria-expanded={open === "reissue"}
+            onClick={() => setOpen(open === "reissue" ? null : "reissue")}
+          >
             Correct…
           </button>
         ) : null}
         {canRevoke ? (
-          <button type="button" className="btn-quiet" aria-expanded={open === "revoke"} onClick={() => setOpen(open === "revoke" ? null : "revoke")}>
+          <button
+            type="button"
+            className="btn-quiet"
+            aria-expanded={open === "revoke"}
+            onClick={() => setOpen(open === "revoke" ? null : "revoke")}
+          >
             Revoke…
           </button>
         ) : null}
       </div>
-      {open === "revoke" ? <ReasonForm id={id} action="revoke" label="Reason for revoking" hint="Shown on the public verification page." onDone={done} /> : null}
+      {open === "revoke" ? (
+        <ReasonForm id={id} action="revoke" label="Reason for revoking" hint="Shown on the public verification page." onDone={done} />
+      ) : null}
       {open === "reissue" ? (
-        <ReasonForm id={id} action="reissue" label="What is corrected" hint="A new certificate is built from the job's stored readings; this one will say it was superseded." onDone={done} />
+        <ReasonForm
+          id={id}
+          action="reissue"
+          label="What is corrected"
+          hint="A new certificate is built from the job's stored readings; this one will say it was superseded."
+          onDone={done}
+        />
       ) : null}
     </div>
   );

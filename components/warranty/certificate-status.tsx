@@ -1,4 +1,4 @@
-import type { CertificateStatus } from "@/lib/services/certificates";
+import type { CertificateStatus } from "@/lib/engine/certificates/document";
 
 export const CERTIFICATE_STATUS_LABEL: Record<CertificateStatus, { label: string; icon: string; tone: string }> = {
   valid: { label: "Valid", icon: "✓", tone: "border-pass text-pass" },
@@ -12,7 +12,9 @@ export const CERTIFICATE_STATUS_LABEL: Record<CertificateStatus, { label: string
 export function CertificateStatusBadge({ status }: { status: CertificateStatus }) {
   const s = CERTIFICATE_STATUS_LABEL[status];
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${s.tone}`}>
+    <span
+      className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${s.tone}`}
+    >
       <span aria-hidden="true">{s.icon}</span>
       {s.label}
     </span>

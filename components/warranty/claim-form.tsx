@@ -4,12 +4,12 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useCallback, useState } from "react";
-import { PhotoPicker, type PhotoPickerState } from "@/app/(portal)/portal/_components/photo-picker";
+import { PhotoPicker, type PhotoPickerState } from "@/components/photo-picker";
 import { useForm, type Path } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { claimFormSchema, OWNER_STATEMENT_LABEL, ownerStatementCodes, SYMPTOM_OPTIONS, type ClaimFormInput } from "@/lib/validation/claims";
-import { ApiFailure, postJson, warrantyKeys } from "./query-keys";
+import { ApiFailure, postJson, warrantyKeys } from "@/lib/client/warranty-query-keys";
 
 type Values = ClaimFormInput;
 
@@ -35,7 +35,13 @@ export function ClaimForm({ certificateId, setName }: { certificateId?: string; 
     mutationFn: (values: Values) =>
       byCode
         ? postJson<{ claim: { id: string } }>("/api/claims/by-code", values)
-        : postJson<{ claim: { id: string } }>("/api/claims", { symptomCategory: values.symptomCategory, description: values.description, statements: values.statements, photos: values.photos, certificateId }),
+        : postJson<{ claim: { id: string } }>("/api/claims", {
+            symptomCategory: values.symptomCategory,
+            description: values.description,
+            statements: values.statements,
+            photos: values.photos,
+            certificateId,
+          }),
     onSuccess: async ({ claim }) => {
       await queryClient.invalidateQueries({ queryKey: warrantyKeys.myClaims() });
       router.push(`/portal/claims/${claim.id}`);
@@ -51,11 +57,21 @@ export function ClaimForm({ certificateId, setName }: { certificateId?: string; 
   return (
     <form onSubmit={onSubmit} className="card space-y-4 p-5" noValidate>
       <Notice tone="caution" title="Unplug the set first">
-        <p>Until the shop has looked at the fault, keep the set unplugged and take out any batteries. A shock, a tingle, smoke or a hot smell means: do not switch it on again.</p>
+        <p>
+          Until the shop has looked at the fault, keep the set unplugged and take out any batteries. A shock, a tingle, smoke or a hot smell
+          means: do not switch it on again.
+        </p>
       </Notice>
       {byCode ? (
         <Field id="code" label="Certificate code" error={errors.code?.message} hint="As printed under the QR code, e.g. 7K2M-QX4R-…">
-          <input id="code" className="field-input figure" autoComplete="off" aria-invalid={!!errors.code} aria-describedby={describedBy("code", { error: errors.code, hint: true })} {...register("code")} />
+          <input
+            id="code"
+            className="field-input figure"
+            autoComplete="off"
+            aria-invalid={!!errors.code}
+            aria-describedby={describedBy("code", { error: errors.code, hint: true })}
+            {...register("code")}
+          />
         </Field>
       ) : (
         <p>
@@ -63,7 +79,14 @@ export function ClaimForm({ certificateId, setName }: { certificateId?: string; 
         </p>
       )}
       <Field id="symptomCategory" label="What does the set do?" error={errors.symptomCategory?.message}>
-        <select id="symptomCategory" className="field-input" aria-invalid={!!errors.symptomCategory} aria-describedby={describedBy("symptomCategory", { error: errors.symptomCategory })} defaultValue="" {...register("symptomCategory")}>
+        <select
+          id="symptomCategory"
+          className="field-input"
+          aria-invalid={!!errors.symptomCategory}
+          aria-describedby={describedBy("symptomCategory", { error: errors.symptomCategory })}
+          defaultValue=""
+          {...register("symptomCategory")}
+        >
           <option value="" disabled>
             Choose one
           </option>
@@ -74,8 +97,20 @@ export function ClaimForm({ certificateId, setName }: { certificateId?: string; 
           ))}
         </select>
       </Field>
-      <Field id="description" label="Describe the fault" error={errors.description?.message} hint="When it started, what you hear or see, what you tried.">
-        <textarea id="description" rows={5} className="field-input" aria-invalid={!!errors.description} aria-describedby={describedBy("description", { error: errors.description, hint: true })} {...register("description")} />
+      <Field
+        id="description"
+        label="Describe the fault"
+        error={errors.description?.message}
+        hint="When it started, what you hear or see, what you tried."
+      >
+        <textarea
+          id="description"
+          rows={5}
+          className="field-input"
+          aria-invalid={!!errors.description}
+          aria-describedby={describedBy("description", { error: errors.description, hint: true })}
+          {...register("description")}
+        />
       </Field>
       <fieldset className="space-y-1">
         <legend className="field-label">Since the set came back, did any of these happen?</legend>

@@ -8,8 +8,8 @@ import { useForm, type Path } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { decideClaimSchema, type DecideClaimInput } from "@/lib/validation/claims";
-import { exclusionCodes, exclusionWording } from "@/lib/warranty";
-import { ApiFailure, postJson } from "./query-keys";
+import { exclusionCodes, exclusionWording } from "@/lib/engine/warranty";
+import { ApiFailure, postJson } from "@/lib/client/warranty-query-keys";
 
 const DECISIONS = [
   { value: "accept", label: "Accept: open a warranty job, covered lines at no charge" },
@@ -28,7 +28,8 @@ export function DecisionForm({ claimId, canInspect }: { claimId: string; canInsp
     mutationFn: (values: DecideClaimInput) => postJson<{ warrantyJobId: string | null }>(`/api/claims/${claimId}/decision`, values),
     onSuccess: () => router.refresh(),
     onError: (e) => {
-      if (e instanceof ApiFailure && e.error.fields) for (const [f, message] of Object.entries(e.error.fields)) setError(f as Path<DecideClaimInput>, { message });
+      if (e instanceof ApiFailure && e.error.fields)
+        for (const [f, message] of Object.entries(e.error.fields)) setError(f as Path<DecideClaimInput>, { message });
     },
   });
   return (
@@ -56,8 +57,20 @@ export function DecisionForm({ claimId, canInspect }: { claimId: string; canInsp
           </label>
         ))}
       </fieldset>
-      <Field id="reason" label="Message to the owner" error={errors.reason?.message} hint="Required for a rejection; sent in the decision e-mail.">
-        <textarea id="reason" rows={3} className="field-input" aria-invalid={!!errors.reason} aria-describedby={describedBy("reason", { error: errors.reason, hint: true })} {...register("reason")} />
+      <Field
+        id="reason"
+        label="Message to the owner"
+        error={errors.reason?.message}
+        hint="Required for a rejection; sent in the decision e-mail."
+      >
+        <textarea
+          id="reason"
+          rows={3}
+          className="field-input"
+          aria-invalid={!!errors.reason}
+          aria-describedby={describedBy("reason", { error: errors.reason, hint: true })}
+          {...register("reason")}
+        />
       </Field>
       {decide.error ? (
         <Notice tone="error" title="Not saved" live>

@@ -2,8 +2,8 @@
 
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
-import type { ClaimSummary } from "@/lib/services/claims";
-import { warrantyKeys } from "./query-keys";
+import type { ClaimSummary } from "@/lib/server/services/claims";
+import { warrantyKeys } from "@/lib/client/warranty-query-keys";
 
 async function fetchMyClaims(): Promise<ClaimSummary[]> {
   const res = await fetch("/api/claims", { headers: { accept: "application/json" } });

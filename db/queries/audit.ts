@@ -1,7 +1,9 @@
 import { and, desc, eq, gte, isNull, lt, sql, type SQL } from "drizzle-orm";
 import { db } from "@/db";
 import { auditEvents, user } from "@/db/schema";
-import type { AuditFilter } from "@/lib/validation/office";
+
+/** The checked audit-log filter (lib/validation/office.ts parses it from the query string). */
+export type AuditFilter = { actor?: string; entity?: string; action?: string; from?: string; to?: string; page: number };
 
 export const AUDIT_PAGE_SIZE = 40;
 
@@ -65,7 +67,11 @@ export async function auditFilterOptionsForOwner() {
     db.selectDistinct({ action: auditEvents.action }).from(auditEvents).orderBy(auditEvents.action),
   ]);
   return {
-    actors: actors.map((a) => (a.id ? { value: a.id, label: `${a.name ?? "Unknown"} (${a.email ?? a.id})` } : { value: SYSTEM_ACTOR, label: "System (webhooks, worker)" })),
+    actors: actors.map((a) =>
+      a.id
+        ? { value: a.id, label: `${a.name ?? "Unknown"} (${a.email ?? a.id})` }
+        : { value: SYSTEM_ACTOR, label: "System (webhooks, worker)" },
+    ),
     entities: entities.map((e) => e.entity),
     actions: actions.map((a) => a.action),
   };

@@ -3,7 +3,7 @@ import { alias } from "drizzle-orm/pg-core";
 import { db, type Database } from "@/db";
 import { jobs, jobStateHistory, jobTasks, messages, photos, radioSets, readings, user } from "@/db/schema";
 import type { JobState } from "@/db/schema/enums";
-import { parseJobNumber, type QueueQuery } from "@/lib/validation/bench";
+import { parseJobNumber, type QueueQuery } from "@/lib/engine/jobs/queue-query";
 
 const CLOSED: JobState[] = ["returned", "declined_by_owner", "declined_by_shop", "cancelled"];
 const technician = alias(user, "technician");
@@ -114,7 +114,15 @@ export async function getJobDetailForStaff({ jobId }: { jobId: string }, tx: Dat
 
 export async function listMessagesForStaff({ jobId }: { jobId: string }, tx: Database = db) {
   return tx
-    .select({ id: messages.id, body: messages.body, internal: messages.internal, isQuestion: messages.isQuestion, createdAt: messages.createdAt, authorName: user.name, authorRole: user.role })
+    .select({
+      id: messages.id,
+      body: messages.body,
+      internal: messages.internal,
+      isQuestion: messages.isQuestion,
+      createdAt: messages.createdAt,
+      authorName: user.name,
+      authorRole: user.role,
+    })
     .from(messages)
     .innerJoin(user, eq(user.id, messages.authorId))
     .where(eq(messages.jobId, jobId))
@@ -123,7 +131,14 @@ export async function listMessagesForStaff({ jobId }: { jobId: string }, tx: Dat
 
 export async function listPhotosForStaff({ jobId }: { jobId: string }, tx: Database = db) {
   return tx
-    .select({ id: photos.id, url: photos.url, thumbUrl: photos.thumbUrl, displayName: photos.displayName, width: photos.width, height: photos.height })
+    .select({
+      id: photos.id,
+      url: photos.url,
+      thumbUrl: photos.thumbUrl,
+      displayName: photos.displayName,
+      width: photos.width,
+      height: photos.height,
+    })
     .from(photos)
     .where(eq(photos.jobId, jobId))
     .orderBy(asc(photos.createdAt));
@@ -131,7 +146,14 @@ export async function listPhotosForStaff({ jobId }: { jobId: string }, tx: Datab
 
 export async function listHistoryForStaff({ jobId }: { jobId: string }, tx: Database = db) {
   return tx
-    .select({ id: jobStateHistory.id, fromState: jobStateHistory.fromState, toState: jobStateHistory.toState, note: jobStateHistory.note, at: jobStateHistory.at, actorName: user.name })
+    .select({
+      id: jobStateHistory.id,
+      fromState: jobStateHistory.fromState,
+      toState: jobStateHistory.toState,
+      note: jobStateHistory.note,
+      at: jobStateHistory.at,
+      actorName: user.name,
+    })
     .from(jobStateHistory)
     .leftJoin(user, eq(user.id, jobStateHistory.actorId))
     .where(eq(jobStateHistory.jobId, jobId))

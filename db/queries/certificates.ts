@@ -5,9 +5,18 @@ import { certificates, estimateLines, estimateRevisions, jobs, jobTasks, radioSe
 // Everything a certificate is built from: the job, its set, the people, ticked lines, the approved
 // revision's lines and every stored reading. Read inside the issuing transaction.
 export async function loadCertificateSources({ tx = db, jobId }: { tx?: Database; jobId: string }) {
-  const [row] = await tx.select({ job: jobs, set: radioSets }).from(jobs).innerJoin(radioSets, eq(radioSets.id, jobs.setId)).where(eq(jobs.id, jobId)).limit(1);
+  const [row] = await tx
+    .select({ job: jobs, set: radioSets })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .where(eq(jobs.id, jobId))
+    .limit(1);
   if (!row) return null;
-  const [owner] = await tx.select({ id: user.id, name: user.name, email: user.email }).from(user).where(eq(user.id, row.job.customerId)).limit(1);
+  const [owner] = await tx
+    .select({ id: user.id, name: user.name, email: user.email })
+    .from(user)
+    .where(eq(user.id, row.job.customerId))
+    .limit(1);
   const [technician] = row.job.technicianId
     ? await tx.select({ id: user.id, name: user.name }).from(user).where(eq(user.id, row.job.technicianId)).limit(1)
     : [];
@@ -18,9 +27,20 @@ export async function loadCertificateSources({ tx = db, jobId }: { tx?: Database
     .where(and(eq(estimateRevisions.jobId, jobId), eq(estimateRevisions.status, "approved")))
     .orderBy(desc(estimateRevisions.revision))
     .limit(1);
-  const lines = revision ? await tx.select().from(estimateLines).where(eq(estimateLines.revisionId, revision.id)).orderBy(asc(estimateLines.position)) : [];
+  const lines = revision
+    ? await tx.select().from(estimateLines).where(eq(estimateLines.revisionId, revision.id)).orderBy(asc(estimateLines.position))
+    : [];
   const stored = await tx.select().from(readings).where(eq(readings.jobId, jobId)).orderBy(asc(readings.key));
-  return { job: row.job, set: row.set, owner: owner ?? null, technician: technician ?? null, tasks, revision: revision ?? null, lines, readings: stored };
+  return {
+    job: row.job,
+    set: row.set,
+    owner: owner ?? null,
+    technician: technician ?? null,
+    tasks,
+    revision: revision ?? null,
+    lines,
+    readings: stored,
+  };
 }
 
 export async function getUserName({ tx = db, userId }: { tx?: Database; userId: string }) {
@@ -80,7 +100,6 @@ export async function listCertificatesForStaff({ limit = 200 }: { limit?: number
     .orderBy(desc(certificates.issuedAt))
     .limit(limit);
 }
-
 
 // Fixed-window counter per client address in the shared rate_limit table (several app instances agree).
 export async function countVerifyRequest({ ip, windowSeconds }: { ip: string; windowSeconds: number }): Promise<number> {

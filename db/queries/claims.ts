@@ -11,7 +11,12 @@ const claimColumns = {
 
 // A claimant sees only their own claims; anyone else's answers not-found.
 export async function listClaimsForClaimant({ claimantId }: { claimantId: string }) {
-  return db.select(claimColumns).from(claims).innerJoin(certificates, eq(certificates.id, claims.certificateId)).where(eq(claims.claimantId, claimantId)).orderBy(desc(claims.createdAt));
+  return db
+    .select(claimColumns)
+    .from(claims)
+    .innerJoin(certificates, eq(certificates.id, claims.certificateId))
+    .where(eq(claims.claimantId, claimantId))
+    .orderBy(desc(claims.createdAt));
 }
 
 export async function getClaimForClaimant({ claimId, claimantId }: { claimId: string; claimantId: string }) {

@@ -45,7 +45,12 @@ export async function listRevisionsForStaff({ jobId }: { jobId: string }, tx: Da
 
 // The newest revision of a job with its lines, in position order (what the owner saw last).
 export async function getLatestRevisionWithLines({ jobId }: { jobId: string }, tx: Database = db) {
-  const [revision] = await tx.select().from(estimateRevisions).where(eq(estimateRevisions.jobId, jobId)).orderBy(desc(estimateRevisions.revision)).limit(1);
+  const [revision] = await tx
+    .select()
+    .from(estimateRevisions)
+    .where(eq(estimateRevisions.jobId, jobId))
+    .orderBy(desc(estimateRevisions.revision))
+    .limit(1);
   if (!revision) return null;
   const lines = await tx.select().from(estimateLines).where(eq(estimateLines.revisionId, revision.id)).orderBy(asc(estimateLines.position));
   return { revision, lines };

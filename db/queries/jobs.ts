@@ -33,6 +33,11 @@ export async function getJobForCustomer({ jobId, customerId }: { jobId: string; 
 }
 
 export async function getJobForStaff({ jobId }: { jobId: string }) {
-  const [row] = await db.select({ job: jobs, set: radioSets }).from(jobs).innerJoin(radioSets, eq(radioSets.id, jobs.setId)).where(eq(jobs.id, jobId)).limit(1);
+  const [row] = await db
+    .select({ job: jobs, set: radioSets })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .where(eq(jobs.id, jobId))
+    .limit(1);
   return row ?? null;
 }

@@ -26,7 +26,14 @@ export async function updateShopSettingsIfVersion(
     actorId,
   }: {
     expectedVersion: number;
-    values: { name: string; addressLines: string[]; phone: string; email: string; policy: Record<string, unknown>; warrantyTerms: Record<string, unknown> };
+    values: {
+      name: string;
+      addressLines: string[];
+      phone: string;
+      email: string;
+      policy: Record<string, unknown>;
+      warrantyTerms: Record<string, unknown>;
+    };
     actorId: string;
   },
 ) {
@@ -66,7 +73,8 @@ const paymentColumns = {
 export const PAYMENTS_PAGE_SIZE = 30;
 
 export async function listPaymentsForOffice({ page = 1, status }: { page?: number; status?: "paid" | "open" | "all" }) {
-  const where = status === "paid" ? eq(payments.status, "paid") : status === "open" ? sql`${payments.status} in ('open','processing')` : undefined;
+  const where =
+    status === "paid" ? eq(payments.status, "paid") : status === "open" ? sql`${payments.status} in ('open','processing')` : undefined;
   const rows = await db
     .select(paymentColumns)
     .from(payments)
@@ -122,7 +130,10 @@ export async function insertRefund(
   ctx: TxContext,
   values: { id: string; paymentId: string; amountMinor: number; reason: string; idempotencyKey: string; createdBy: string },
 ) {
-  const [row] = await ctx.tx.insert(refunds).values({ ...values, status: "requested" }).returning();
+  const [row] = await ctx.tx
+    .insert(refunds)
+    .values({ ...values, status: "requested" })
+    .returning();
   return row!;
 }
 
@@ -152,14 +163,16 @@ export async function getRefundForOffice({ refundId }: { refundId: string }) {
 // ─── Overview figures ───
 
 export async function officeOverviewFigures() {
-  const [row] = await db.execute<{
-    open_jobs: number;
-    on_bench: number;
-    balance_due: number;
-    technicians: number;
-    refunds_in_flight: number;
-    paid_this_month: number;
-  }>(sql`
+  const [row] = await db
+    .execute<{
+      open_jobs: number;
+      on_bench: number;
+      balance_due: number;
+      technicians: number;
+      refunds_in_flight: number;
+      paid_this_month: number;
+    }>(
+      sql`
     select
       (select count(*) from job where state not in ('returned','declined_by_owner','declined_by_shop','cancelled'))::int as open_jobs,
       (select count(*) from job where state = 'on_bench')::int as on_bench,
@@ -167,6 +180,8 @@ export async function officeOverviewFigures() {
       (select count(*) from "user" where role = 'technician' and coalesce(banned, false) = false)::int as technicians,
       (select count(*) from refund where status = 'requested')::int as refunds_in_flight,
       (select coalesce(sum(amount_minor), 0) from payment where status = 'paid' and paid_at >= date_trunc('month', now()))::int as paid_this_month
-  `).then((r) => r.rows);
+  `,
+    )
+    .then((r) => r.rows);
   return row!;
 }

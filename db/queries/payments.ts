@@ -76,11 +76,16 @@ export async function listLiveCheckouts(tx: Database, { revisionId, purpose }: {
   return tx
     .select()
     .from(payments)
-    .where(and(eq(payments.revisionId, revisionId), eq(payments.purpose, purpose), inArray(payments.status, ["open", "processing", "paid"])))
+    .where(
+      and(eq(payments.revisionId, revisionId), eq(payments.purpose, purpose), inArray(payments.status, ["open", "processing", "paid"])),
+    )
     .orderBy(desc(payments.createdAt));
 }
 
-export async function countCheckouts(tx: Database, { revisionId, purpose }: { revisionId: string; purpose: "deposit" | "balance" }): Promise<number> {
+export async function countCheckouts(
+  tx: Database,
+  { revisionId, purpose }: { revisionId: string; purpose: "deposit" | "balance" },
+): Promise<number> {
   const [row] = await tx
     .select({ n: sql<string>`count(*)` })
     .from(payments)

@@ -22,7 +22,14 @@ export async function getPortalJobForCustomer({ jobId, customerId }: { jobId: st
       trackingNumber: jobs.trackingNumber,
       createdAt: jobs.createdAt,
       updatedAt: jobs.updatedAt,
-      set: { maker: radioSets.maker, model: radioSets.model, year: radioSets.year, serial: radioSets.serial, kind: radioSets.kind, profile: radioSets.profile },
+      set: {
+        maker: radioSets.maker,
+        model: radioSets.model,
+        year: radioSets.year,
+        serial: radioSets.serial,
+        kind: radioSets.kind,
+        profile: radioSets.profile,
+      },
     })
     .from(jobs)
     .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
@@ -96,7 +103,12 @@ export async function listRevisionsForCustomer({ jobId, customerId }: { jobId: s
       coveredByWarranty: estimateLines.coveredByWarranty,
     })
     .from(estimateLines)
-    .where(inArray(estimateLines.revisionId, revisions.map((r) => r.id)))
+    .where(
+      inArray(
+        estimateLines.revisionId,
+        revisions.map((r) => r.id),
+      ),
+    )
     .orderBy(asc(estimateLines.position));
   return revisions.map((r) => ({ ...r, lines: lines.filter((l) => l.revisionId === r.id) }));
 }

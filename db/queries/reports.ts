@@ -132,7 +132,11 @@ export function resolveMonthRange({ from, to }: { from?: string; to?: string }, 
 }
 
 export async function reportsForOwner(range: MonthRange) {
-  const [jobsPerState, turnaround, money] = await Promise.all([jobsPerStateForOwner(range), turnaroundForOwner(range), moneyPerMonthForOwner(range)]);
+  const [jobsPerState, turnaround, money] = await Promise.all([
+    jobsPerStateForOwner(range),
+    turnaroundForOwner(range),
+    moneyPerMonthForOwner(range),
+  ]);
   return { range, jobsPerState, turnaround, money };
 }
 export type Reports = Awaited<ReturnType<typeof reportsForOwner>>;

@@ -13,7 +13,11 @@ export async function listStaff() {
 }
 
 export async function listTechnicians() {
-  return db.select({ id: user.id, name: user.name }).from(user).where(inArray(user.role, ["technician", "owner"])).orderBy(asc(user.name));
+  return db
+    .select({ id: user.id, name: user.name })
+    .from(user)
+    .where(inArray(user.role, ["technician", "owner"]))
+    .orderBy(asc(user.name));
 }
 
 export async function getUserById(ctx: TxContext, { userId }: { userId: string }) {

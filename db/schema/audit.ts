@@ -13,7 +13,9 @@ export const auditEvents = pgTable(
     entityId: text("entity_id").notNull(),
     before: jsonb("before").$type<Record<string, unknown> | null>(),
     after: jsonb("after").$type<Record<string, unknown> | null>(),
-    at: timestamp("at", { withTimezone: true }).notNull().default(sql`clock_timestamp()`),
+    at: timestamp("at", { withTimezone: true })
+      .notNull()
+      .default(sql`clock_timestamp()`),
   },
   (t) => [index("audit_event_entity_idx").on(t.entity, t.entityId), index("audit_event_at_idx").on(t.at)],
 );

@@ -1,25 +1,8 @@
 import { pgEnum } from "drizzle-orm/pg-core";
+import { JOB_STATES } from "@/lib/engine/jobs/states";
 
-export const ROLES = ["customer", "technician", "owner"] as const;
-export type Role = (typeof ROLES)[number];
-
-export const JOB_STATES = [
-  "requested",
-  "in_triage",
-  "awaiting_owner",
-  "estimate_sent",
-  "approved",
-  "deposit_paid",
-  "on_bench",
-  "final_checks",
-  "balance_due",
-  "paid_in_full",
-  "returned",
-  "declined_by_owner",
-  "declined_by_shop",
-  "cancelled",
-] as const;
-export type JobState = (typeof JOB_STATES)[number];
+export { JOB_STATES, type JobState } from "@/lib/engine/jobs/states";
+export { ROLES, type Role } from "@/lib/engine/permissions";
 
 export const jobState = pgEnum("job_state", JOB_STATES);
 export const setKind = pgEnum("set_kind", ["tube-acdc", "tube-transformer", "transistor-battery", "transistor-mains"]);

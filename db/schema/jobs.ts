@@ -1,16 +1,5 @@
 import { sql } from "drizzle-orm";
-import {
-  boolean,
-  index,
-  integer,
-  jsonb,
-  pgTable,
-  serial,
-  text,
-  timestamp,
-  uniqueIndex,
-  uuid,
-} from "drizzle-orm/pg-core";
+import { boolean, index, integer, jsonb, pgTable, serial, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { user } from "./auth";
 import { deliveryMethod, jobState, returnMethod, setKind } from "./enums";
 
@@ -72,7 +61,9 @@ export const jobs = pgTable(
     index("job_customer_idx").on(t.customerId),
     index("job_state_idx").on(t.state),
     index("job_technician_idx").on(t.technicianId),
-    uniqueIndex("job_idempotency_key_idx").on(t.customerId, t.idempotencyKey).where(sql`${t.idempotencyKey} is not null`),
+    uniqueIndex("job_idempotency_key_idx")
+      .on(t.customerId, t.idempotencyKey)
+      .where(sql`${t.idempotencyKey} is not null`),
   ],
 );
 
@@ -87,7 +78,9 @@ export const jobStateHistory = pgTable(
     toState: jobState("to_state").notNull(),
     actorId: text("actor_id").references(() => user.id),
     note: text("note"),
-    at: timestamp("at", { withTimezone: true }).notNull().default(sql`clock_timestamp()`), // several moves in one transaction keep their order
+    at: timestamp("at", { withTimezone: true })
+      .notNull()
+      .default(sql`clock_timestamp()`), // several moves in one transaction keep their order
   },
   (t) => [index("job_state_history_job_idx").on(t.jobId, t.at)],
 );
@@ -136,7 +129,9 @@ export const messages = pgTable(
   },
   (t) => [
     index("message_job_idx").on(t.jobId, t.createdAt),
-    uniqueIndex("message_idempotency_key_idx").on(t.authorId, t.jobId, t.idempotencyKey).where(sql`${t.idempotencyKey} is not null`),
+    uniqueIndex("message_idempotency_key_idx")
+      .on(t.authorId, t.jobId, t.idempotencyKey)
+      .where(sql`${t.idempotencyKey} is not null`),
   ],
 );
 

@@ -13,7 +13,9 @@ export function MailLayout({ preview, children }: { preview: string; children: R
           <Text style={{ fontSize: 13, letterSpacing: 2, textTransform: "uppercase", color: colors.accent, margin: 0 }}>
             Kestrel Lane Wireless · Bandedge
           </Text>
-          <Section style={{ backgroundColor: "#ffffff", border: `1px solid ${colors.rule}`, borderRadius: 6, padding: "20px 24px", marginTop: 12 }}>
+          <Section
+            style={{ backgroundColor: "#ffffff", border: `1px solid ${colors.rule}`, borderRadius: 6, padding: "20px 24px", marginTop: 12 }}
+          >
             {children}
           </Section>
           <Hr style={{ borderColor: colors.rule, marginTop: 24 }} />

@@ -2,10 +2,7 @@ import { z } from "zod";
 
 export const emailSchema = z.string().trim().toLowerCase().email("Enter a valid e-mail address.").max(254);
 // Verified exactly as typed: no trimming or case folding of passwords.
-export const passwordSchema = z
-  .string()
-  .min(8, "Use at least 8 characters.")
-  .max(128, "Use at most 128 characters.");
+export const passwordSchema = z.string().min(8, "Use at least 8 characters.").max(128, "Use at most 128 characters.");
 
 export const signUpSchema = z.object({
   name: z.string().trim().min(1, "Tell us your name.").max(120),

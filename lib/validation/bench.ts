@@ -1,12 +1,12 @@
 import { z } from "zod";
-import { JOB_STATES } from "@/db/schema/enums";
-import { setProfileSchema } from "@/lib/checklist/profile";
+import { QUEUE_SORTS, type QueueQuery } from "@/lib/engine/jobs/queue-query";
+import { JOB_STATES } from "@/lib/engine/jobs/states";
+import { setProfileSchema } from "@/lib/engine/checklist/profile";
 import { messageKeySchema } from "@/lib/validation/messages";
 
 // Shared by the bench forms and the bench JSON routes.
 
-export const QUEUE_SORTS = ["number", "updatedAt", "createdAt", "state", "customer", "set", "technician"] as const;
-export type QueueSort = (typeof QUEUE_SORTS)[number];
+export { QUEUE_SORTS, parseJobNumber, type QueueSort } from "@/lib/engine/jobs/queue-query";
 
 export const queueQuerySchema = z.object({
   page: z.coerce.number().int().min(1).max(10_000).default(1),
@@ -18,7 +18,12 @@ export const queueQuerySchema = z.object({
     .string()
     .max(400)
     .default("")
-    .transform((s) => s.split(",").map((x) => x.trim()).filter(Boolean))
+    .transform((s) =>
+      s
+        .split(",")
+        .map((x) => x.trim())
+        .filter(Boolean),
+    )
     .pipe(z.array(z.enum(JOB_STATES, { error: "Unknown state in the filter." }))),
   // "me", "none", a technician's id, or empty for everyone.
   technician: z.string().max(80).default(""),
@@ -27,15 +32,9 @@ export const queueQuerySchema = z.object({
     .enum(["0", "1"])
     .default("0")
     .transform((v) => v === "1"),
-});
-export type QueueQuery = z.infer<typeof queueQuerySchema>;
+}) satisfies z.ZodType<QueueQuery, unknown>;
+export type { QueueQuery };
 export type QueueQueryInput = z.input<typeof queueQuerySchema>;
-
-/** "KL-0042", "kl42", "42" → 42; anything else → null. */
-export function parseJobNumber(q: string): number | null {
-  const m = /^(?:KL-?)?0*(\d{1,7})$/i.exec(q.trim());
-  return m ? Number(m[1]) : null;
-}
 
 export const assignSchema = z.object({ technicianId: z.string().min(1).max(80).nullable() });
 
@@ -53,12 +52,20 @@ export type ProfileUpdate = z.infer<typeof profileUpdateSchema>;
 export type ProfileUpdateInput = z.input<typeof profileUpdateSchema>;
 
 export const questionSchema = z.object({
-  question: z.string().trim().min(5, "Write the question for the owner (at least 5 characters).").max(2000, "Keep it under 2000 characters."),
+  question: z
+    .string()
+    .trim()
+    .min(5, "Write the question for the owner (at least 5 characters).")
+    .max(2000, "Keep it under 2000 characters."),
   idempotencyKey: messageKeySchema,
 });
 
 export const declineSchema = z.object({
-  reason: z.string().trim().min(5, "Say why the shop cannot take the job (at least 5 characters).").max(1000, "Keep it under 1000 characters."),
+  reason: z
+    .string()
+    .trim()
+    .min(5, "Say why the shop cannot take the job (at least 5 characters).")
+    .max(1000, "Keep it under 1000 characters."),
 });
 
 export const readingInputSchema = z.object({

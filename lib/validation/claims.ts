@@ -1,8 +1,13 @@
 import { z } from "zod";
-import { claimSymptoms, exclusionCodes, type ClaimSymptom, type ExclusionCode } from "@/lib/warranty";
+import { claimSymptoms, exclusionCodes, type ClaimSymptom, type ExclusionCode } from "@/lib/engine/warranty";
 
 /** What the owner may say happened since the set came back (each is an exclusion the shop can name). */
-export const ownerStatementCodes = ["excl.physical-damage", "excl.opened-by-others", "excl.battery-leakage", "excl.wrong-supply"] as const satisfies readonly ExclusionCode[];
+export const ownerStatementCodes = [
+  "excl.physical-damage",
+  "excl.opened-by-others",
+  "excl.battery-leakage",
+  "excl.wrong-supply",
+] as const satisfies readonly ExclusionCode[];
 export const ownerStatementSchema = z.enum(ownerStatementCodes);
 
 export const OWNER_STATEMENT_LABEL: Record<(typeof ownerStatementCodes)[number], string> = {
@@ -41,7 +46,7 @@ const claimFields = {
   symptomCategory: z.enum(claimSymptoms, { error: "Choose what the set does." }),
   description,
   statements: z.array(ownerStatementSchema).max(ownerStatementCodes.length).default([]),
-  /** Upload tickets from the shared photo upload path (lib/uploads), attached with the claim. */
+  /** Upload tickets from the shared photo upload path (lib/server/uploads), attached with the claim. */
   photos: z.array(z.string().min(1).max(4000)).max(MAX_CLAIM_PHOTOS, `Attach at most ${MAX_CLAIM_PHOTOS} photos.`).default([]),
 };
 
@@ -50,7 +55,10 @@ export const openClaimSchema = z.object({ certificateId: z.string().uuid("Choose
 export type OpenClaimInput = z.input<typeof openClaimSchema>;
 
 /** Anyone signed in as a set owner opens a claim with the code printed on the certificate. */
-export const openClaimByCodeSchema = z.object({ code: z.string().trim().min(1, "Enter the certificate code.").max(64, "That is not a certificate code."), ...claimFields });
+export const openClaimByCodeSchema = z.object({
+  code: z.string().trim().min(1, "Enter the certificate code.").max(64, "That is not a certificate code."),
+  ...claimFields,
+});
 export type OpenClaimByCodeInput = z.input<typeof openClaimByCodeSchema>;
 
 /** The claim form: the same fields; the code is required by the server on the code path only. */

@@ -1,9 +1,9 @@
 import { z } from "zod";
-import { EngineError } from "@/lib/engine-error";
-import { toMinor } from "@/lib/pricing/money";
-import { partCodeSchema } from "@/lib/pricing/parts";
-import { priceEstimate, type EstimateLineInput, type PricedEstimate } from "@/lib/pricing/price-estimate";
-import type { ShopPolicy } from "@/lib/shop-policy";
+import { EngineError } from "@/lib/engine/engine-error";
+import { toMinor } from "@/lib/engine/pricing/money";
+import { partCodeSchema } from "@/lib/engine/pricing/parts";
+import { priceEstimate, type EstimateLineInput, type PricedEstimate } from "@/lib/engine/pricing/price-estimate";
+import type { ShopPolicy } from "@/lib/engine/shop-policy";
 
 // The estimate builder's working draft, shared by the form (react-hook-form + zod resolver) and the server.
 // Lines are flat: labour lines come from the checklist (or are added by hand); part lines carry a cost and a
@@ -73,23 +73,42 @@ export type Draft = z.infer<typeof draftSchema>;
 
 export const saveEstimateSchema = draftSchema.extend({
   // The version the editor started from; a stale one is refused with 409.
-  version: z.number().int().min(0).max(2 ** 31 - 1),
+  version: z
+    .number()
+    .int()
+    .min(0)
+    .max(2 ** 31 - 1),
 });
 export type SaveEstimateInput = z.infer<typeof saveEstimateSchema>;
 
 export const sendEstimateSchema = z.object({
-  version: z.number().int().min(1, "Save the estimate before sending it.").max(2 ** 31 - 1),
+  version: z
+    .number()
+    .int()
+    .min(1, "Save the estimate before sending it.")
+    .max(2 ** 31 - 1),
   changeSummary: z.string().trim().max(1000, "Keep the summary under 1000 characters.").optional(),
 });
 export type SendEstimateInput = z.infer<typeof sendEstimateSchema>;
 
-export const rebuildEstimateSchema = z.object({ version: z.number().int().min(0).max(2 ** 31 - 1) });
+export const rebuildEstimateSchema = z.object({
+  version: z
+    .number()
+    .int()
+    .min(0)
+    .max(2 ** 31 - 1),
+});
 
 /** "$1,234.56" from minor units; used on the bench, in e-mails and on the portal. */
 export function moneyText(amountMinor: number, currency: string, exponent: number): string {
   const value = amountMinor / 10 ** exponent;
   try {
-    return new Intl.NumberFormat("en-US", { style: "currency", currency, minimumFractionDigits: exponent, maximumFractionDigits: exponent }).format(value);
+    return new Intl.NumberFormat("en-US", {
+      style: "currency",
+      currency,
+      minimumFractionDigits: exponent,
+      maximumFractionDigits: exponent,
+    }).format(value);
   } catch {
     return `${value.toFixed(exponent)} ${currency}`;
   }

@@ -1,16 +1,27 @@
 import { z } from "zod";
-import { ruleCodes, ruleCodeSchema } from "@/lib/checklist/rules";
-import { formatMinor, toMinor } from "@/lib/pricing/money";
-import { partCodes, partCodeSchema } from "@/lib/pricing/parts";
-import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/shop-policy";
-import { toleranceSettingsSchema } from "@/lib/verdicts/tolerances";
-import { coveredWording, coveredWordingKeys, coveredWordingKeySchema, exclusionCodes, exclusionCodeSchema, exclusionWording } from "@/lib/warranty/exclusions";
+import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
+import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
+import { partCodes, partCodeSchema } from "@/lib/engine/pricing/parts";
+import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
+import { toleranceSettingsSchema } from "@/lib/engine/verdicts/tolerances";
+import {
+  coveredWording,
+  coveredWordingKeys,
+  coveredWordingKeySchema,
+  exclusionCodes,
+  exclusionCodeSchema,
+  exclusionWording,
+} from "@/lib/engine/warranty/exclusions";
 
 // ─── Warranty terms (free text kept in shop_settings.warranty_terms, printed on certificates) ───
-// Field names are the ones the certificate reads (lib/services/certificates.ts reads them field by field).
+// Field names are the ones the certificate reads (lib/engine/certificates/document.ts reads them field by field).
 
 const termsText = (label: string, max: number) =>
-  z.string().trim().min(1, `${label} cannot be empty.`).max(max, `Keep this under ${max.toLocaleString("en-US")} characters.`);
+  z
+    .string()
+    .trim()
+    .min(1, `${label} cannot be empty.`)
+    .max(max, `Keep this under ${max.toLocaleString("en-US")} characters.`);
 
 export const warrantyTermsSchema = z.object({
   /** Whether a later owner of the set (a buyer, an heir) keeps the coverage for the rest of the term. */
@@ -40,8 +51,7 @@ export const defaultWarrantyTerms: WarrantyTerms = {
     "The owner of the set during the term. If the set is sold or given away, the new owner is covered for the rest of the term on showing this certificate's code.",
   whatWeWillDo:
     "If a fault comes from the work or parts listed on this certificate, we will repair it again at no charge for labour or parts; if we cannot, we will refund the price of the affected work.",
-  whatWeWillNotDo:
-    "We do not pay for shipping the set to us, for faults outside the work and parts listed, or for the exclusions below.",
+  whatWeWillNotDo: "We do not pay for shipping the set to us, for faults outside the work and parts listed, or for the exclusions below.",
   howToClaim: [
     "Unplug the set (and take out any batteries) and do not use it until we have looked at the fault.",
     "Open a claim in the Bandedge portal under Warranty claims, or with this certificate's code, and describe the symptom; add photos if you can.",
@@ -89,13 +99,24 @@ const wholeNumber = (label: string, min: number, max: number) =>
     .min(min, `${label}: at least ${min}.`)
     .max(max, `${label}: at most ${max}.`);
 
-const emailOrBlank = z.union([z.literal(""), z.string().trim().toLowerCase().email("Enter a valid e-mail address or leave it blank.").max(254)]);
+const emailOrBlank = z.union([
+  z.literal(""),
+  z.string().trim().toLowerCase().email("Enter a valid e-mail address or leave it blank.").max(254),
+]);
 
 export const settingsFormSchema = z
   .object({
-    version: z.number().int().min(0).max(2 ** 31 - 1),
+    version: z
+      .number()
+      .int()
+      .min(0)
+      .max(2 ** 31 - 1),
     identity: z.object({
-      name: z.string().trim().min(1, "The shop needs a name; it is printed on every certificate.").max(120, "Keep the name under 120 characters."),
+      name: z
+        .string()
+        .trim()
+        .min(1, "The shop needs a name; it is printed on every certificate.")
+        .max(120, "Keep the name under 120 characters."),
       /** One address line per line of the text box. */
       addressText: z
         .string()
@@ -141,10 +162,16 @@ export const settingsFormSchema = z
       const m = /^(\d+)(?:\.(\d+))?$/.exec(value.trim());
       if (!m) return;
       if ((m[2] ?? "").length > exp) {
-        ctx.addIssue({ code: "custom", path, message: exp === 0 ? `${label}: ${v.currency.code} has no decimal places.` : `${label}: ${v.currency.code} has ${exp} decimal places.` });
+        ctx.addIssue({
+          code: "custom",
+          path,
+          message:
+            exp === 0 ? `${label}: ${v.currency.code} has no decimal places.` : `${label}: ${v.currency.code} has ${exp} decimal places.`,
+        });
         return;
       }
-      if (Number(m[1] + (m[2] ?? "").padEnd(exp, "0")) > MAX_AMOUNT_MINOR) ctx.addIssue({ code: "custom", path, message: `${label}: that is above what the payment processor accepts.` });
+      if (Number(m[1] + (m[2] ?? "").padEnd(exp, "0")) > MAX_AMOUNT_MINOR)
+        ctx.addIssue({ code: "custom", path, message: `${label}: that is above what the payment processor accepts.` });
     };
     const percent = (value: string, path: (string | number)[], label: string, max: number) => {
       if (!/^\d{1,4}(\.\d{1,2})?$/.test(value.trim())) return;
@@ -173,7 +200,11 @@ export const settingsFormSchema = z
       ctx.addIssue({ code: "custom", path: ["warranty", "coveredKeys"], message: "Each covered item once." });
     }
     if (v.warranty.coveredKeys.length === 0) {
-      ctx.addIssue({ code: "custom", path: ["warranty", "coveredKeys"], message: "A warranty has to cover something: tick at least one item." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["warranty", "coveredKeys"],
+        message: "A warranty has to cover something: tick at least one item.",
+      });
     }
     if (new Set(v.warranty.excludedKeys).size !== v.warranty.excludedKeys.length) {
       ctx.addIssue({ code: "custom", path: ["warranty", "excludedKeys"], message: "Each exclusion once." });
@@ -212,7 +243,15 @@ const pct = (bp: number) => formatMinor(bp, 2);
 const bpOf = (percent: string, field: string) => toMinor(percent, 2, field);
 
 /** The stored settings as the form shows them: money in major units, basis points as percentages. */
-export function settingsToForm(shop: { name: string; addressLines: string[]; phone: string; email: string; policy: ShopPolicy; warrantyTerms: unknown; version: number }): SettingsFormValues {
+export function settingsToForm(shop: {
+  name: string;
+  addressLines: string[];
+  phone: string;
+  email: string;
+  policy: ShopPolicy;
+  warrantyTerms: unknown;
+  version: number;
+}): SettingsFormValues {
   const p = shop.policy;
   const exp = p.currency.exponent;
   return {
@@ -226,11 +265,20 @@ export function settingsToForm(shop: { name: string; addressLines: string[]; pho
       defaultMarkupPercent: pct(p.parts.defaultMarkupBp),
       catalogue: partCodes.map((code) => {
         const e = p.parts.catalogue[code];
-        return { code, title: e?.title ?? code, cost: formatMinor(e?.costMinor ?? 0, exp), markupPercent: e?.markupBp === undefined ? "" : pct(e.markupBp) };
+        return {
+          code,
+          title: e?.title ?? code,
+          cost: formatMinor(e?.costMinor ?? 0, exp),
+          markupPercent: e?.markupBp === undefined ? "" : pct(e.markupBp),
+        };
       }),
     },
     tax: { labourPercent: pct(p.tax.labourBp), partsPercent: pct(p.tax.partsBp) },
-    deposit: { percent: pct(p.deposit.percentBp), atLeastParts: p.deposit.atLeastParts, processorMinimum: formatMinor(p.deposit.processorMinimumMinor, exp) },
+    deposit: {
+      percent: pct(p.deposit.percentBp),
+      atLeastParts: p.deposit.atLeastParts,
+      processorMinimum: formatMinor(p.deposit.processorMinimumMinor, exp),
+    },
     warranty: {
       termDays: p.warranty.termDays,
       designation: p.warranty.designation,
@@ -280,7 +328,12 @@ export function settingsFromForm(v: SettingsFormValues): { identity: ShopIdentit
     tolerances: structuredClone(v.tolerances),
   };
   return {
-    identity: { name: v.identity.name.trim(), addressLines: addressLines(v.identity.addressText), phone: v.identity.phone.trim(), email: v.identity.email.trim() },
+    identity: {
+      name: v.identity.name.trim(),
+      addressLines: addressLines(v.identity.addressText),
+      phone: v.identity.phone.trim(),
+      email: v.identity.email.trim(),
+    },
     policy: shopPolicySchema.parse(policy),
     warrantyTerms: warrantyTermsSchema.parse(v.warrantyTerms),
   };
@@ -293,7 +346,11 @@ export { coveredWording, exclusionWording };
 export const refundFormSchema = z.object({
   /** Typed in the major unit; the server converts with the payment's currency and checks what is left. */
   amount: moneyText.refine((s) => Number(s) > 0, "A refund must be more than zero."),
-  reason: z.string().trim().min(3, "Say why the money goes back; the reason is kept in the audit log.").max(500, "Keep the reason under 500 characters."),
+  reason: z
+    .string()
+    .trim()
+    .min(3, "Say why the money goes back; the reason is kept in the audit log.")
+    .max(500, "Keep the reason under 500 characters."),
 });
 export type RefundFormValues = z.infer<typeof refundFormSchema>;
 

@@ -11,7 +11,10 @@ export const DELIVERY = ["mail-in", "drop-off"] as const;
 export const CONTACT = ["email", "phone"] as const;
 
 export const SET_KIND_HELP: Record<(typeof SET_KINDS)[number], { label: string; hint: string }> = {
-  "tube-acdc": { label: "Tube set without a mains transformer (AC/DC)", hint: "Small table sets, often five tubes; the chassis can be live." },
+  "tube-acdc": {
+    label: "Tube set without a mains transformer (AC/DC)",
+    hint: "Small table sets, often five tubes; the chassis can be live.",
+  },
   "tube-transformer": { label: "Tube set with a mains transformer", hint: "Heavier sets and consoles; a transformer sits on the chassis." },
   "transistor-battery": { label: "Transistor set on batteries", hint: "Portables and pocket sets." },
   "transistor-mains": { label: "Transistor set on mains power", hint: "Plugs into the wall, sometimes with batteries too." },
@@ -53,7 +56,11 @@ const yearSchema = z.preprocess(
 export const quoteRequestSchema = z
   .object({
     maker: z.string().trim().min(1, "Write the maker as printed on the set.").max(80, "Keep the maker under 80 characters."),
-    model: z.string().trim().min(1, "Write the model as printed, e.g. on the back or the label.").max(80, "Keep the model under 80 characters."),
+    model: z
+      .string()
+      .trim()
+      .min(1, "Write the model as printed, e.g. on the back or the label.")
+      .max(80, "Keep the model under 80 characters."),
     year: yearSchema,
     serial: optionalText(60, "Keep the serial number under 60 characters."),
     kind: z.enum(SET_KINDS, { error: "Choose the kind of set." }),

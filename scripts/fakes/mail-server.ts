@@ -5,7 +5,16 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import { createServer, type IncomingMessage, type ServerResponse } from "node:http";
 import { dirname } from "node:path";
 
-type Stored = { id: string; from: string; to: string[]; subject: string; html: string; text: string; createdAt: string; idempotencyKey?: string };
+type Stored = {
+  id: string;
+  from: string;
+  to: string[];
+  subject: string;
+  html: string;
+  text: string;
+  createdAt: string;
+  idempotencyKey?: string;
+};
 
 const port = Number(process.env.MAIL_STANDIN_PORT ?? 4010);
 const file = process.env.MAIL_STANDIN_FILE;
@@ -68,7 +77,8 @@ const server = createServer(async (req, res) => {
   try {
     const url = new URL(req.url ?? "/", `http://127.0.0.1:${port}`);
     if (url.pathname.startsWith("/emails")) {
-      if (apiKey && req.headers.authorization !== `Bearer ${apiKey}`) return send(res, 401, { name: "validation_error", message: "API key is invalid", statusCode: 401 });
+      if (apiKey && req.headers.authorization !== `Bearer ${apiKey}`)
+        return send(res, 401, { name: "validation_error", message: "API key is invalid", statusCode: 401 });
       if (failNext > 0) {
         failNext--;
         return send(res, 500, { name: "internal_server_error", message: "stand-in asked to fail", statusCode: 500 });
@@ -76,7 +86,8 @@ const server = createServer(async (req, res) => {
       const key = typeof req.headers["idempotency-key"] === "string" ? req.headers["idempotency-key"] : undefined;
       if (req.method === "POST" && url.pathname === "/emails") {
         const body = (await readBody(req)) as Record<string, unknown>;
-        if (!body.to || !body.subject) return send(res, 422, { name: "validation_error", message: "to and subject are required", statusCode: 422 });
+        if (!body.to || !body.subject)
+          return send(res, 422, { name: "validation_error", message: "to and subject are required", statusCode: 422 });
         return send(res, 200, { id: accept(body, key).id });
       }
       if (req.method === "POST" && url.pathname === "/emails/batch") {

@@ -37,7 +37,15 @@ type Session = Obj & {
   metadata: Obj;
 };
 type Delivery = { at: string; status: number | null; error?: string };
-type StoredEvent = { id: string; type: string; payload: string; sessionId: string | null; held: boolean; deliveries: Delivery[]; delivered: boolean };
+type StoredEvent = {
+  id: string;
+  type: string;
+  payload: string;
+  sessionId: string | null;
+  held: boolean;
+  deliveries: Delivery[];
+  delivered: boolean;
+};
 type State = {
   sessions: Record<string, Session>;
   intents: Record<string, Obj>;
@@ -154,7 +162,11 @@ async function deliver(ev: StoredEvent, attempt: number): Promise<void> {
   try {
     const res = await fetch(webhookUrl, {
       method: "POST",
-      headers: { "content-type": "application/json; charset=utf-8", "stripe-signature": header, "user-agent": "Stripe/1.0 (+https://stripe.com/docs/webhooks)" },
+      headers: {
+        "content-type": "application/json; charset=utf-8",
+        "stripe-signature": header,
+        "user-agent": "Stripe/1.0 (+https://stripe.com/docs/webhooks)",
+      },
       body: ev.payload,
       signal: AbortSignal.timeout(15_000),
     });
@@ -182,7 +194,8 @@ async function deliver(ev: StoredEvent, attempt: number): Promise<void> {
 
 function createSession(params: Obj): { status: number; body: Json } {
   const items = list(params.line_items);
-  if (!items.length) return { status: 400, body: { error: { type: "invalid_request_error", message: "line_items is required", param: "line_items" } } };
+  if (!items.length)
+    return { status: 400, body: { error: { type: "invalid_request_error", message: "line_items is required", param: "line_items" } } };
   let amount = 0;
   let currency: string | undefined;
   const names: string[] = [];
@@ -195,15 +208,21 @@ function createSession(params: Obj): { status: number; body: Json } {
     if (!Number.isInteger(unit) || unit < 1 || !Number.isInteger(qty) || qty < 1 || !cur) {
       return { status: 400, body: { error: { type: "invalid_request_error", message: "Invalid price_data", param: "line_items" } } };
     }
-    if (currency && currency !== cur) return { status: 400, body: { error: { type: "invalid_request_error", message: "Currencies differ", param: "line_items" } } };
+    if (currency && currency !== cur)
+      return { status: 400, body: { error: { type: "invalid_request_error", message: "Currencies differ", param: "line_items" } } };
     currency = cur;
     amount += unit * qty;
     names.push(str(obj(pd.product_data).name) ?? "Item");
   }
   const successUrl = str(params.success_url);
   const cancelUrl = str(params.cancel_url);
-  if (!successUrl) return { status: 400, body: { error: { type: "invalid_request_error", message: "success_url is required", param: "success_url" } } };
-  if (str(params.mode) !== "payment") return { status: 400, body: { error: { type: "invalid_request_error", message: "Only mode=payment is supported here", param: "mode" } } };
+  if (!successUrl)
+    return { status: 400, body: { error: { type: "invalid_request_error", message: "success_url is required", param: "success_url" } } };
+  if (str(params.mode) !== "payment")
+    return {
+      status: 400,
+      body: { error: { type: "invalid_request_error", message: "Only mode=payment is supported here", param: "mode" } },
+    };
   const sessionId = id("cs");
   const expiresAt = Number(str(params.expires_at) ?? now() + 24 * 3600);
   const session: Session = {
@@ -328,14 +347,26 @@ function expire(session: Session, held = false): void {
 function createRefund(params: Obj): { status: number; body: Json } {
   const piId = str(params.payment_intent);
   const intent = piId ? state.intents[piId] : undefined;
-  if (!intent) return { status: 400, body: { error: { type: "invalid_request_error", message: "No such payment_intent", param: "payment_intent" } } };
+  if (!intent)
+    return { status: 400, body: { error: { type: "invalid_request_error", message: "No such payment_intent", param: "payment_intent" } } };
   const charge = state.charges[String(intent.latest_charge)]!;
-  if (intent.status !== "succeeded") return { status: 400, body: { error: { type: "invalid_request_error", message: "This payment has not succeeded" } } };
+  if (intent.status !== "succeeded")
+    return { status: 400, body: { error: { type: "invalid_request_error", message: "This payment has not succeeded" } } };
   const already = Number(charge.amount_refunded);
   const remaining = Number(charge.amount) - already;
   const amount = str(params.amount) ? Number(str(params.amount)) : remaining;
   if (!Number.isInteger(amount) || amount < 1 || amount > remaining) {
-    return { status: 400, body: { error: { type: "invalid_request_error", message: `Refund amount must be between 1 and ${remaining}`, param: "amount", code: "amount_too_large" } } };
+    return {
+      status: 400,
+      body: {
+        error: {
+          type: "invalid_request_error",
+          message: `Refund amount must be between 1 and ${remaining}`,
+          param: "amount",
+          code: "amount_too_large",
+        },
+      },
+    };
   }
   const refund: Obj = {
     id: id("re"),
@@ -393,7 +424,10 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL) {
   };
   if (key && req.method === "POST" && state.idempotency[key]) {
     const seen = state.idempotency[key]!;
-    const fresh = seen.body && typeof seen.body === "object" && !Array.isArray(seen.body) && typeof seen.body.id === "string" ? state.sessions[seen.body.id] ?? state.refunds[seen.body.id] : undefined;
+    const fresh =
+      seen.body && typeof seen.body === "object" && !Array.isArray(seen.body) && typeof seen.body.id === "string"
+        ? (state.sessions[seen.body.id] ?? state.refunds[seen.body.id])
+        : undefined;
     return send(res, seen.status, fresh ?? seen.body, { "idempotent-replayed": "true" });
   }
 

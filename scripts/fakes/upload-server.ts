@@ -15,7 +15,10 @@ import { join } from "node:path";
 
 const port = Number(process.env.UPLOAD_STANDIN_PORT ?? 4030);
 const dir = join(process.env.UPLOAD_DIR ?? join(process.cwd(), ".bandedge", "uploads"), "ingest");
-const token = JSON.parse(Buffer.from(process.env.UPLOADTHING_TOKEN ?? "", "base64").toString("utf8") || "{}") as { apiKey?: string; appId?: string };
+const token = JSON.parse(Buffer.from(process.env.UPLOADTHING_TOKEN ?? "", "base64").toString("utf8") || "{}") as {
+  apiKey?: string;
+  appId?: string;
+};
 const apiKey = token.apiKey ?? "";
 const appId = token.appId ?? "local";
 const ufsHost = process.env.UPLOADTHING_UFS_HOST ?? `localhost:${port}`;
@@ -72,7 +75,11 @@ function verifyPresigned(url: URL): { ok: true; params: URLSearchParams } | { ok
 const keyPath = (key: string) => join(dir, key.replace(/[^A-Za-z0-9_-]/g, ""));
 
 function fileUrls(key: string) {
-  return { url: `http://${ufsHost}/f/${key}`, appUrl: `http://${ufsHost}/a/${appId}/${key}`, ufsUrl: `http://${ufsHost}/a/${appId}/${key}` };
+  return {
+    url: `http://${ufsHost}/f/${key}`,
+    appUrl: `http://${ufsHost}/a/${appId}/${key}`,
+    ufsUrl: `http://${ufsHost}/a/${appId}/${key}`,
+  };
 }
 
 async function handlePut(req: IncomingMessage, res: ServerResponse, url: URL, key: string) {
@@ -81,7 +88,9 @@ async function handlePut(req: IncomingMessage, res: ServerResponse, url: URL, ke
   const reg = registrations.get(key);
   if (!reg) return send(res, 404, { error: "This upload was not registered." });
   const raw = await readBody(req);
-  const form = await new Response(new Uint8Array(raw), { headers: { "content-type": String(req.headers["content-type"] ?? "") } }).formData();
+  const form = await new Response(new Uint8Array(raw), {
+    headers: { "content-type": String(req.headers["content-type"] ?? "") },
+  }).formData();
   const file = form.get("file");
   if (!file || typeof file === "string") return send(res, 400, { error: "No file in the upload." });
   const bytes = Buffer.from(await file.arrayBuffer());
@@ -109,7 +118,11 @@ async function handlePut(req: IncomingMessage, res: ServerResponse, url: URL, ke
   try {
     const r = await fetch(callback, {
       method: "POST",
-      headers: { "content-type": "application/json", "uploadthing-hook": "callback", "x-uploadthing-signature": `hmac-sha256=${hmacHex(payload)}` },
+      headers: {
+        "content-type": "application/json",
+        "uploadthing-hook": "callback",
+        "x-uploadthing-signature": `hmac-sha256=${hmacHex(payload)}`,
+      },
       body: payload,
       signal: AbortSignal.timeout(60_000),
     });
@@ -125,7 +138,8 @@ async function handlePut(req: IncomingMessage, res: ServerResponse, url: URL, ke
   const serverData = reg.awaitServerData ? await result : null;
   waiting.delete(key);
   registrations.delete(key);
-  if (reg.awaitServerData && serverData === undefined) return send(res, 200, { error: "The shop's server did not confirm this upload. Please try again." });
+  if (reg.awaitServerData && serverData === undefined)
+    return send(res, 200, { error: "The shop's server did not confirm this upload. Please try again." });
   send(res, 200, { ...urls, fileHash, serverData: serverData ?? null });
 }
 
@@ -141,11 +155,15 @@ const server = createServer(async (req, res) => {
     }
     if (path === "/health") return send(res, 200, { ok: true });
 
-    if (req.method === "POST" && (path === "/route-metadata" || path === "/callback-result" || path.startsWith("/v6/") || path.startsWith("/v7/"))) {
+    if (
+      req.method === "POST" &&
+      (path === "/route-metadata" || path === "/callback-result" || path.startsWith("/v6/") || path.startsWith("/v7/"))
+    ) {
       if (req.headers["x-uploadthing-api-key"] !== apiKey) return send(res, 401, { error: "Invalid API key" });
       const body = JSON.parse((await readBody(req)).toString("utf8") || "{}") as Record<string, unknown>;
       if (path === "/route-metadata") {
-        if (body.isDev) return send(res, 400, { error: "This stand-in speaks the production protocol only (set UPLOADTHING_IS_DEV=false)." });
+        if (body.isDev)
+          return send(res, 400, { error: "This stand-in speaks the production protocol only (set UPLOADTHING_IS_DEV=false)." });
         for (const key of (body.fileKeys as string[]) ?? []) {
           registrations.set(key, {
             metadata: body.metadata ?? {},

@@ -24,7 +24,15 @@ import {
 // durable: keep PostgreSQL's fsync, synchronous_commit and full_page_writes on (the fault test needs them).
 // The answer also carries the cluster (stop(mode) / start()) and startApp(port), which starts one more
 // `next start` of the same build (added to children, so stop() ends it too).
-export async function bootScratchStack({ distDir = ".next-test", build = true, chromium = false, quiet = true, extraEnv = {}, durable = false, appLog } = {}) {
+export async function bootScratchStack({
+  distDir = ".next-test",
+  build = true,
+  chromium = false,
+  quiet = true,
+  extraEnv = {},
+  durable = false,
+  appLog,
+} = {}) {
   ensureDependencies();
   const pgBin = ensurePostgres();
   const chromiumPath = chromium ? ensureChromium() : undefined;
@@ -38,7 +46,13 @@ export async function bootScratchStack({ distDir = ".next-test", build = true, c
     if (!process.env.BANDEDGE_KEEP_TEST_STATE) rmSync(scratch, { recursive: true, force: true });
   };
   try {
-    const [pgPort, appPort, mailPort, stripePort, uploadPort] = await Promise.all([freePort(), freePort(), freePort(), freePort(), freePort()]);
+    const [pgPort, appPort, mailPort, stripePort, uploadPort] = await Promise.all([
+      freePort(),
+      freePort(),
+      freePort(),
+      freePort(),
+      freePort(),
+    ]);
     const secrets = generateSecrets();
     cluster = startCluster({
       bin: pgBin,
@@ -79,10 +93,14 @@ export async function bootScratchStack({ distDir = ".next-test", build = true, c
     }
     children.push(spawnService("mail", bin("tsx"), ["scripts/fakes/mail-server.ts"], env, { quiet }));
     for (const fake of ["stripe-server.ts", "upload-server.ts"]) {
-      if (existsSync(join(ROOT, "scripts", "fakes", fake))) children.push(spawnService(fake, bin("tsx"), [join("scripts", "fakes", fake)], env, { quiet }));
+      if (existsSync(join(ROOT, "scripts", "fakes", fake)))
+        children.push(spawnService(fake, bin("tsx"), [join("scripts", "fakes", fake)], env, { quiet }));
     }
     const startApp = (port = appPort, { name = "app" } = {}) => {
-      const child = spawnService(name, bin("next"), ["start", "--hostname", "127.0.0.1", "--port", String(port)], env, { quiet, logFile: appLog });
+      const child = spawnService(name, bin("next"), ["start", "--hostname", "127.0.0.1", "--port", String(port)], env, {
+        quiet,
+        logFile: appLog,
+      });
       children.push(child);
       return child;
     };

@@ -96,7 +96,17 @@ export function startCluster({ bin, dataDir, socketDir, logFile, port, password,
     const pwfile = join(socketDir, ".pw");
     writeFileSync(pwfile, password + "\n", { mode: 0o600 });
     ownByPostgres(pwfile);
-    const r = asPg(join(bin, "initdb"), ["-D", dataDir, "-U", "postgres", "--auth=scram-sha-256", `--pwfile=${pwfile}`, "-E", "UTF8", "--locale=C"]);
+    const r = asPg(join(bin, "initdb"), [
+      "-D",
+      dataDir,
+      "-U",
+      "postgres",
+      "--auth=scram-sha-256",
+      `--pwfile=${pwfile}`,
+      "-E",
+      "UTF8",
+      "--locale=C",
+    ]);
     if (r.status !== 0) throw new Error(`initdb failed: ${r.stderr || r.stdout}`);
   }
   if (!existsSync(logFile)) writeFileSync(logFile, "");
@@ -121,10 +131,14 @@ export function startCluster({ bin, dataDir, socketDir, logFile, port, password,
     start,
     /** The server's current settings, e.g. setting("fsync") → "on". */
     setting(name) {
-      const r = spawnSync(join(bin, "psql"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-d", "postgres", "-tAc", `show ${name}`], {
-        encoding: "utf8",
-        env: { ...process.env, PGPASSWORD: password },
-      });
+      const r = spawnSync(
+        join(bin, "psql"),
+        ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-d", "postgres", "-tAc", `show ${name}`],
+        {
+          encoding: "utf8",
+          env: { ...process.env, PGPASSWORD: password },
+        },
+      );
       if (r.status !== 0) throw new Error(`psql failed: ${r.stderr}`);
       return r.stdout.trim();
     },
@@ -133,7 +147,22 @@ export function startCluster({ bin, dataDir, socketDir, logFile, port, password,
 
 export function ensureDatabase({ bin, port, password, name }) {
   const env = { ...process.env, PGPASSWORD: password };
-  const q = spawnSync(join(bin, "psql"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", "-d", "postgres", "-tAc", `select 1 from pg_database where datname='${name}'`], { encoding: "utf8", env });
+  const q = spawnSync(
+    join(bin, "psql"),
+    [
+      "-h",
+      "127.0.0.1",
+      "-p",
+      String(port),
+      "-U",
+      "postgres",
+      "-d",
+      "postgres",
+      "-tAc",
+      `select 1 from pg_database where datname='${name}'`,
+    ],
+    { encoding: "utf8", env },
+  );
   if (q.status !== 0) throw new Error(`psql failed: ${q.stderr}`);
   if (q.stdout.trim() !== "1") {
     const c = spawnSync(join(bin, "createdb"), ["-h", "127.0.0.1", "-p", String(port), "-U", "postgres", name], { encoding: "utf8", env });
@@ -188,7 +217,9 @@ export function writeEnvFile(file, values) {
 // The environment handed to every process: app, stand-ins, migrations and seed.
 export function serviceEnv({ secrets, pgPort, appPort, mailPort, stripePort, uploadPort, stateDir, nodeEnv = "production", extra = {} }) {
   const appUrl = `http://127.0.0.1:${appPort}`;
-  const utToken = Buffer.from(JSON.stringify({ apiKey: secrets.UPLOADTHING_API_KEY, appId: "bandedge-local", regions: ["local"] })).toString("base64");
+  const utToken = Buffer.from(
+    JSON.stringify({ apiKey: secrets.UPLOADTHING_API_KEY, appId: "bandedge-local", regions: ["local"] }),
+  ).toString("base64");
   return {
     ...process.env,
     NODE_ENV: nodeEnv,

@@ -14,7 +14,13 @@ afterAll(async () => {
 });
 
 // Every page in its main state, per audience. Pages with ids are reached by following the first link of a list.
-const AUDIENCES: { who: string; login?: { email: string; password: string }; pages: string[]; follow?: { from: string; link: RegExp }[]; certificatePage?: boolean }[] = [
+const AUDIENCES: {
+  who: string;
+  login?: { email: string; password: string };
+  pages: string[];
+  follow?: { from: string; link: RegExp }[];
+  certificatePage?: boolean;
+}[] = [
   { who: "anonymous", pages: ["/", "/sign-in", "/sign-up", "/reset-password", "/verify", "/mailbox"], certificatePage: true },
   {
     who: "set owner",

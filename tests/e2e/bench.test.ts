@@ -1,7 +1,7 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runAlignmentTool } from "@/lib/tools/alignment-request";
-import { formatNumber } from "@/lib/verdicts";
+import { runAlignmentTool } from "@/lib/engine/requests/alignment-request";
+import { formatNumber } from "@/lib/engine/verdicts";
 import { DEMO } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
 import { closeTestPool, sql } from "../support/db";
@@ -51,7 +51,10 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     await page.getByRole("button", { name: "Save profile" }).click();
     await expect.poll(() => page.getByText("Profile saved.").count()).toBe(1);
     await snap(page, "bench-02-triage");
-    const [set] = await sql<{ profile: { electrolytics: number; lineCordWorn: boolean } }>("select s.profile from radio_set s join job j on j.set_id = s.id where j.id = $1", [jobId]);
+    const [set] = await sql<{ profile: { electrolytics: number; lineCordWorn: boolean } }>(
+      "select s.profile from radio_set s join job j on j.set_id = s.id where j.id = $1",
+      [jobId],
+    );
     expect(set!.profile).toMatchObject({ electrolytics: 3, lineCordWorn: true });
 
     // Estimate: the lines come from the checklist with their reasons; edits reprice live.
@@ -72,9 +75,17 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     await page.getByRole("button", { name: "Send estimate to the owner" }).click();
     await expect.poll(() => page.getByText("Revision 1 sent to the owner.").count()).toBe(1);
     await expect.poll(() => stateBadge(page)).toContain("Estimate out");
-    const [rev] = await sql<{ total_minor: number; currency: string }>("select total_minor, currency from estimate_revision where job_id = $1 and revision = 1", [jobId]);
-    expect(shownTotal.split("\n")[0]).toBe(new Intl.NumberFormat("en-US", { style: "currency", currency: rev!.currency }).format(rev!.total_minor / 100));
-    const sentLines = await sql<{ code: string; minutes: number }>("select code, minutes from estimate_line l join estimate_revision r on r.id = l.revision_id where r.job_id = $1", [jobId]);
+    const [rev] = await sql<{ total_minor: number; currency: string }>(
+      "select total_minor, currency from estimate_revision where job_id = $1 and revision = 1",
+      [jobId],
+    );
+    expect(shownTotal.split("\n")[0]).toBe(
+      new Intl.NumberFormat("en-US", { style: "currency", currency: rev!.currency }).format(rev!.total_minor / 100),
+    );
+    const sentLines = await sql<{ code: string; minutes: number }>(
+      "select code, minutes from estimate_line l join estimate_revision r on r.id = l.revision_id where r.job_id = $1",
+      [jobId],
+    );
     expect(sentLines.find((l) => l.code === "inspect.intake")!.minutes).toBe(50);
     expect(sentLines.map((l) => l.code)).toContain("part.cord.dial");
     expect(sentLines.map((l) => l.code)).not.toContain("test.burn-in");
@@ -103,15 +114,21 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     await snap(page, "bench-04-live-verdict");
 
     const sheetRes = await page.request.get(`/api/bench/jobs/${jobId}/sheet`);
-    const sheet = (await sheetRes.json()) as { requirements: { key: string; unit: string; nominal: number | null }[]; tasks: { code: string }[] };
+    const sheet = (await sheetRes.json()) as {
+      requirements: { key: string; unit: string; nominal: number | null }[];
+      tasks: { code: string }[];
+    };
     const keys = sheet.requirements.map((r) => r.key);
     for (const [i, r] of sheet.requirements.entries()) {
       const input = page.locator(`tr[data-reading="${r.key}"] input`);
       if (r.key !== "leakage.plug-a") await input.fill(String(r.unit === "mA" ? 0.12 : (r.nominal ?? 118)));
-      const saved = page.waitForResponse((res) => res.url().endsWith(`/api/bench/jobs/${jobId}/readings`) && res.request().method() === "POST");
+      const saved = page.waitForResponse(
+        (res) => res.url().endsWith(`/api/bench/jobs/${jobId}/readings`) && res.request().method() === "POST",
+      );
       await input.press("Enter");
       expect((await saved).status()).toBe(200);
-      if (i + 1 < keys.length) await expect.poll(() => page.evaluate(() => document.activeElement?.closest("tr")?.getAttribute("data-reading"))).toBe(keys[i + 1]);
+      if (i + 1 < keys.length)
+        await expect.poll(() => page.evaluate(() => document.activeElement?.closest("tr")?.getAttribute("data-reading"))).toBe(keys[i + 1]);
     }
     await expect.poll(async () => (await sql("select id from reading where job_id = $1", [jobId])).length).toBe(keys.length);
     const [failing] = await sql<{ verdict: string }>("select verdict from reading where job_id = $1 and key = 'leakage.plug-a'", [jobId]);
@@ -121,7 +138,9 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
       const box = page.locator(`li[data-task="${t.code}"] input[type=checkbox]`);
       await box.check();
     }
-    await expect.poll(async () => (await sql("select id from job_task where job_id = $1 and done_at is not null", [jobId])).length).toBe(sheet.tasks.length);
+    await expect
+      .poll(async () => (await sql("select id from job_task where job_id = $1 and done_at is not null", [jobId])).length)
+      .toBe(sheet.tasks.length);
     await expect.poll(() => page.locator("li[data-task]").filter({ hasText: "Done by Tomas" }).count()).toBe(sheet.tasks.length);
 
     // Completion: refused while the leakage reading fails.
@@ -177,13 +196,19 @@ describe("two technicians editing one estimate", () => {
     await expect.poll(() => b.getByRole("alert").filter({ hasText: "Nothing was overwritten" }).count()).toBe(1);
     expect(await b.locator('tr[data-line="test.burn-in"] input[id$="-num"]').inputValue()).toBe("90");
     await snap(b, "bench-09-estimate-stale");
-    const [kept] = await sql<{ version: number; draft: { lines: { code: string; minutes: number }[] } }>("select version, draft from estimate where job_id = $1", [jobId]);
+    const [kept] = await sql<{ version: number; draft: { lines: { code: string; minutes: number }[] } }>(
+      "select version, draft from estimate where job_id = $1",
+      [jobId],
+    );
     expect(kept!.version).toBe(1);
     expect(kept!.draft.lines.find((l) => l.code === "test.burn-in")!.minutes).toBe(30);
 
     await b.getByRole("button", { name: "Save mine over it" }).click();
     await expect.poll(() => b.getByText("Saved (version 2).").count()).toBe(1);
-    const [after] = await sql<{ version: number; draft: { lines: { code: string; minutes: number }[] } }>("select version, draft from estimate where job_id = $1", [jobId]);
+    const [after] = await sql<{ version: number; draft: { lines: { code: string; minutes: number }[] } }>(
+      "select version, draft from estimate where job_id = $1",
+      [jobId],
+    );
     expect(after!.draft.lines.find((l) => l.code === "test.burn-in")!.minutes).toBe(90);
     await ctxA.close();
     await ctxB.close();
@@ -244,7 +269,16 @@ describe("the alignment calculator", () => {
   });
 
   it("appears on the job page with the set's own bands", async () => {
-    const { jobId } = await createJob({ state: "on_bench", profile: { ...AURELIAN_PROFILE, bands: [{ kind: "MW", lowKHz: 540, highKHz: 1600, ifKHz: 455 }, { kind: "SW", lowKHz: 5900, highKHz: 18000, ifKHz: 455, label: "Shortwave" }] } });
+    const { jobId } = await createJob({
+      state: "on_bench",
+      profile: {
+        ...AURELIAN_PROFILE,
+        bands: [
+          { kind: "MW", lowKHz: 540, highKHz: 1600, ifKHz: 455 },
+          { kind: "SW", lowKHz: 5900, highKHz: 18000, ifKHz: 455, label: "Shortwave" },
+        ],
+      },
+    });
     const context = await newContext(browser);
     const page = await context.newPage();
     await signInPage(page, DEMO.tech.email, DEMO.tech.password);

@@ -17,8 +17,15 @@ afterAll(async () => {
 
 // Photos large enough that each upload's progress bar is on screen for a moment.
 async function photo(color: string): Promise<Buffer> {
-  const noise = await sharp({ create: { width: 1600, height: 1200, channels: 3, background: "#000000", noise: { type: "gaussian", mean: 128, sigma: 60 } } }).png().toBuffer();
-  return sharp({ create: { width: 1600, height: 1200, channels: 3, background: color } }).composite([{ input: noise, blend: "overlay" }]).jpeg({ quality: 95 }).toBuffer();
+  const noise = await sharp({
+    create: { width: 1600, height: 1200, channels: 3, background: "#000000", noise: { type: "gaussian", mean: 128, sigma: 60 } },
+  })
+    .png()
+    .toBuffer();
+  return sharp({ create: { width: 1600, height: 1200, channels: 3, background: color } })
+    .composite([{ input: noise, blend: "overlay" }])
+    .jpeg({ quality: 95 })
+    .toBuffer();
 }
 
 async function text(page: Page, testId: string): Promise<string> {
@@ -74,7 +81,11 @@ describe("a set owner's journey", () => {
     await expect.poll(() => page.getByRole("img", { name: /Photo: / }).count()).toBe(3);
     // The thumbnails are served (re-encoded) to their owner.
     await expect
-      .poll(() => page.locator('img[alt^="Photo: "]').evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)))
+      .poll(() =>
+        page
+          .locator('img[alt^="Photo: "]')
+          .evaluateAll((imgs) => imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)),
+      )
       .toBe(true);
     await snap(page, "journey-05-request-sent");
     await waitForMail(email, "We received your quote request");
@@ -88,13 +99,24 @@ describe("a set owner's journey", () => {
         maker: "Aurelian",
         model: "5T-48",
         year: 1948,
-        profile: { kind: "tube-acdc", bands: [{ kind: "MW", lowKHz: 540, highKHz: 1600, ifKHz: 455 }], electrolytics: 3, paperCapacitors: 9, tubes: 5, mainsVolts: 120, lineCordWorn: true },
+        profile: {
+          kind: "tube-acdc",
+          bands: [{ kind: "MW", lowKHz: 540, highKHz: 1600, ifKHz: 455 }],
+          electrolytics: 3,
+          paperCapacitors: 9,
+          tubes: 5,
+          mainsVolts: 120,
+          lineCordWorn: true,
+        },
       },
     });
     expect(profile.status).toBe(200);
     const draft = (await (await tech.get(`/api/bench/jobs/${jobId}/estimate`)).json()) as { version: number; lines: unknown[] };
     expect(draft.lines.length).toBeGreaterThan(0);
-    const saved = await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: draft.version, lines: draft.lines } });
+    const saved = await tech.request(`/api/bench/jobs/${jobId}/estimate`, {
+      method: "PUT",
+      json: { version: draft.version, lines: draft.lines },
+    });
     expect(saved.status).toBe(200);
     const { version } = (await saved.json()) as { version: number };
     expect((await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version })).status).toBe(200);
@@ -138,7 +160,10 @@ describe("a set owner's journey", () => {
     await expect.poll(() => page.getByText(/Deposit received for KL-/).count()).toBeGreaterThan(0);
     await snap(page, "journey-13-mailbox-receipt");
 
-    const [row] = await sql<{ state: string; paid: string }>("select j.state, (select count(*) from payment p where p.job_id = j.id and p.status = 'paid') as paid from job j where j.id = $1", [jobId]);
+    const [row] = await sql<{ state: string; paid: string }>(
+      "select j.state, (select count(*) from payment p where p.job_id = j.id and p.status = 'paid') as paid from job j where j.id = $1",
+      [jobId],
+    );
     expect(row).toEqual({ state: "deposit_paid", paid: "1" });
     await context.close();
   });

@@ -1,4 +1,4 @@
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { sql } from "../support/db";
 import { launchBrowser, newContext, snap } from "../support/browser";
@@ -25,7 +25,9 @@ describe("keyboard alone", () => {
     await tabTo(page, (f) => f.tag === "BUTTON" && f.text.startsWith("Approve this estimate"), "the approve button");
     await page.keyboard.press("Enter");
     await expect
-      .poll(async () => (await sql<{ state: string }>("select state from job where idempotency_key = 'demo-estimate'"))[0]!.state, { timeout: 15_000 })
+      .poll(async () => (await sql<{ state: string }>("select state from job where idempotency_key = 'demo-estimate'"))[0]!.state, {
+        timeout: 15_000,
+      })
       .toBe("approved");
     await snap(page, "keyboard-01-estimate-approved");
     await ctx.close();
@@ -53,7 +55,9 @@ describe("keyboard alone", () => {
     await expect.poll(async () => (await focused(page)).id).not.toBe(first);
     expect((await focused(page)).id.startsWith("rd-")).toBe(true);
     await expect
-      .poll(async () => (await sql<{ n: number }>("select count(*)::int as n from reading where job_id = $1", [job!.id]))[0]!.n, { timeout: 15_000 })
+      .poll(async () => (await sql<{ n: number }>("select count(*)::int as n from reading where job_id = $1", [job!.id]))[0]!.n, {
+        timeout: 15_000,
+      })
       .toBeGreaterThan(0);
     await snap(page, "keyboard-02-bench-sheet");
     await ctx.close();

@@ -90,7 +90,9 @@ describe("a message whose answer was lost", () => {
     const question = "Does the tuning pointer move across the whole dial?";
     await page.getByLabel("Ask the owner a question").fill(question);
     await page.getByRole("button", { name: "Send question" }).click();
-    await expect.poll(async () => (await sql<{ state: string }>("select state from job where id = $1", [jobId]))[0]!.state, { timeout: 15_000 }).toBe("awaiting_owner");
+    await expect
+      .poll(async () => (await sql<{ state: string }>("select state from job where id = $1", [jobId]))[0]!.state, { timeout: 15_000 })
+      .toBe("awaiting_owner");
     await expect.poll(() => sent.length, { timeout: 15_000 }).toBe(2);
     expect(sent.map((s) => s.status)).toEqual(["lost", 200]);
     expect(sent[1]!.key).toBe(sent[0]!.key);
@@ -99,7 +101,9 @@ describe("a message whose answer was lost", () => {
 
     const rows = await sql<{ id: string }>("select id from message where job_id = $1 and is_question", [jobId]);
     expect(rows).toHaveLength(1);
-    const mails = await sql<{ n: number }>("select count(*)::int as n from email_outbox where dedupe_key = 'shop-question:' || $1", [rows[0]!.id]);
+    const mails = await sql<{ n: number }>("select count(*)::int as n from email_outbox where dedupe_key = 'shop-question:' || $1", [
+      rows[0]!.id,
+    ]);
     expect(mails[0]!.n).toBe(1);
     await ctx.close();
   });
@@ -128,7 +132,9 @@ describe("a message whose answer was lost", () => {
     const edited = "Can you keep the old capacitors and the dial cord for me?";
     await box.fill(edited);
     await page.getByRole("button", { name: "Send message" }).click();
-    await expect.poll(() => page.getByText("An earlier version of this message already reached the shop").count(), { timeout: 15_000 }).toBe(1);
+    await expect
+      .poll(() => page.getByText("An earlier version of this message already reached the shop").count(), { timeout: 15_000 })
+      .toBe(1);
     expect(sent[3]).toMatchObject({ key: sent[0]!.key, body: edited, status: 409 });
     await expect.poll(() => page.locator("ol li", { hasText: first }).count()).toBe(1);
     expect(await box.inputValue()).toBe(edited);

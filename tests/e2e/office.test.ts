@@ -64,7 +64,9 @@ describe("the shop owner runs the office", () => {
     await page.getByLabel(/Limited warranty/).check();
     await page.getByRole("button", { name: "Save settings" }).click();
     await expect.poll(() => page.getByText(/^Saved at/).count()).toBe(1);
-    const [row] = await sql<{ phone: string; designation: string }>(`select phone, policy->'warranty'->>'designation' as designation from shop_settings where id = 'shop'`);
+    const [row] = await sql<{ phone: string; designation: string }>(
+      `select phone, policy->'warranty'->>'designation' as designation from shop_settings where id = 'shop'`,
+    );
     expect(row).toEqual({ phone: "+1 555 0177", designation: "limited" });
 
     // A second tab saves first; the first tab's save is refused and its edits stay in the form.
@@ -82,7 +84,9 @@ describe("the shop owner runs the office", () => {
     await page.screenshot({ path: join(testEnv.artifacts, "screenshots", "office-03b-stale-notice.png") });
     await page.getByRole("button", { name: "Save my version over theirs" }).click();
     await expect.poll(() => page.getByText(/^Saved at/).count()).toBe(1);
-    const [after] = await sql<{ rate: number; phone: string }>(`select (policy->>'labourRateMinorPerHour')::int as rate, phone from shop_settings where id = 'shop'`);
+    const [after] = await sql<{ rate: number; phone: string }>(
+      `select (policy->>'labourRateMinorPerHour')::int as rate, phone from shop_settings where id = 'shop'`,
+    );
     expect(after).toEqual({ rate: 9250, phone: "+1 555 0177" });
     await ctx.close();
   });

@@ -113,7 +113,9 @@ describe("the quote request by keyboard alone", () => {
     await page.keyboard.press("Enter");
     await expect.poll(() => page.locator("li[data-status]").count()).toBe(2);
     await expect.poll(() => liveRegionText(page)).toContain("notes.txt removed.");
-    await expect.poll(async () => (await focused(page)).text, { message: "focus moves to a neighbouring control, not the page" }).toBe("Remove back.jpg");
+    await expect
+      .poll(async () => (await focused(page)).text, { message: "focus moves to a neighbouring control, not the page" })
+      .toBe("Remove back.jpg");
     await page.keyboard.press("Shift+Tab");
     expect((await focused(page)).text).toBe("Remove front.jpg");
     await page.keyboard.press("Space");
@@ -137,11 +139,27 @@ describe("the quote request by keyboard alone", () => {
     const jobId = /\/portal\/jobs\/([0-9a-f-]{36})/.exec(page.url())![1]!;
     await expect.poll(() => page.getByText("Your request is with the shop").count()).toBe(1);
     await expect
-      .poll(() => page.locator('img[alt^="Photo: "]').evaluateAll((imgs) => imgs.length === 1 && imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0)))
+      .poll(() =>
+        page
+          .locator('img[alt^="Photo: "]')
+          .evaluateAll(
+            (imgs) => imgs.length === 1 && imgs.every((i) => (i as HTMLImageElement).complete && (i as HTMLImageElement).naturalWidth > 0),
+          ),
+      )
       .toBe(true);
     await snap(page, "quote-keyboard-05-request-sent");
 
-    const [job] = await sql<{ state: string; delivery: string; poweredRecently: string; maker: string; model: string; year: number; kind: string; photos: number; names: string[] }>(
+    const [job] = await sql<{
+      state: string;
+      delivery: string;
+      poweredRecently: string;
+      maker: string;
+      model: string;
+      year: number;
+      kind: string;
+      photos: number;
+      names: string[];
+    }>(
       `select j.state, j.delivery, j.powered_recently as "poweredRecently", s.maker, s.model, s.year, s.kind,
               (select count(*)::int from photo p where p.job_id = j.id) as photos,
               (select array_agg(p.display_name order by p.display_name) from photo p where p.job_id = j.id) as names
@@ -149,8 +167,21 @@ describe("the quote request by keyboard alone", () => {
         where j.id = $1 and u.email = $2`,
       [jobId, owner.email],
     );
-    expect(job).toEqual({ state: "requested", delivery: "drop-off", poweredRecently: "no", maker: "Corvane", model: "Skylark Seven", year: 1963, kind: "transistor-battery", photos: 1, names: ["back.jpg"] });
-    const [bands] = await sql<{ bands: string[] }>("select s.profile->'ownerReport'->'bands' as bands from job j join radio_set s on s.id = j.set_id where j.id = $1", [jobId]);
+    expect(job).toEqual({
+      state: "requested",
+      delivery: "drop-off",
+      poweredRecently: "no",
+      maker: "Corvane",
+      model: "Skylark Seven",
+      year: 1963,
+      kind: "transistor-battery",
+      photos: 1,
+      names: ["back.jpg"],
+    });
+    const [bands] = await sql<{ bands: string[] }>(
+      "select s.profile->'ownerReport'->'bands' as bands from job j join radio_set s on s.id = j.set_id where j.id = $1",
+      [jobId],
+    );
     expect(bands!.bands).toEqual(["MW", "SW"]);
 
     // The new job is listed on the owner's page and reachable from it by keyboard too.

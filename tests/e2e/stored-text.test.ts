@@ -245,7 +245,14 @@ describe("stored text is shown literally", () => {
     state.customerId = u!.id;
 
     const ticket = await ticketFor(state.customer, { name: P.photo, type: "image/jpeg", bytes: await jpeg({ width: 400, height: 300 }) });
-    const body = quoteBody([ticket], { maker: P.maker, model: P.model, serial: P.serial, dialMarkings: P.dialMarkings, symptoms: P.symptoms, priorWork: P.priorWork });
+    const body = quoteBody([ticket], {
+      maker: P.maker,
+      model: P.model,
+      serial: P.serial,
+      dialMarkings: P.dialMarkings,
+      symptoms: P.symptoms,
+      priorWork: P.priorWork,
+    });
     const created = (await ok(await state.customer.post("/api/portal/jobs", body), "quote request")) as { jobId: string };
     state.jobId = created.jobId;
     const received = await waitForMail(state.email, "We received your quote request");
@@ -259,7 +266,10 @@ describe("stored text is shown literally", () => {
     const question = await waitForMail(state.email, "A question about your");
     const mailPage = await newPage();
     await expectMailInert(mailPage, question, ["question", "maker", "model"]);
-    await ok(await state.customer.post(`/api/portal/jobs/${state.jobId}/messages`, { body: P.message, idempotencyKey: randomUUID() }), "answer");
+    await ok(
+      await state.customer.post(`/api/portal/jobs/${state.jobId}/messages`, { body: P.message, idempotencyKey: randomUUID() }),
+      "answer",
+    );
     await ok(await state.tech.post(`${job}/notes`, { body: P.note, idempotencyKey: randomUUID() }), "bench note");
 
     const line = (over: Record<string, unknown>) => ({
@@ -277,15 +287,32 @@ describe("stored text is shown literally", () => {
     });
     const lines = [
       line({ code: "inspect.literal", title: P.lineTitle, reason: P.lineReason }),
-      line({ code: "part.literal", kind: "part", category: "parts", minutes: 0, title: P.partTitle, unitCost: "4.50", markupPercent: "35" }),
+      line({
+        code: "part.literal",
+        kind: "part",
+        category: "parts",
+        minutes: 0,
+        title: P.partTitle,
+        unitCost: "4.50",
+        markupPercent: "35",
+      }),
     ];
     const draft = (await ok(await state.tech.get(`${job}/estimate`), "estimate")) as { version: number };
-    const saved = (await ok(await state.tech.request(`${job}/estimate`, { method: "PUT", json: { version: draft.version, lines } }), "save estimate")) as { version: number };
+    const saved = (await ok(
+      await state.tech.request(`${job}/estimate`, { method: "PUT", json: { version: draft.version, lines } }),
+      "save estimate",
+    )) as { version: number };
     await ok(await state.tech.post(`${job}/estimate/send`, { version: saved.version }), "send estimate");
     const ready = await waitForMail(state.email, "is ready");
     await expectMailInert(mailPage, ready, ["name", "maker", "model"]);
     const again = (await ok(
-      await state.tech.request(`${job}/estimate`, { method: "PUT", json: { version: saved.version, lines: [...lines, line({ code: "test.literal", category: "test", title: "Burn-in for two hours" })] } }),
+      await state.tech.request(`${job}/estimate`, {
+        method: "PUT",
+        json: {
+          version: saved.version,
+          lines: [...lines, line({ code: "test.literal", category: "test", title: "Burn-in for two hours" })],
+        },
+      }),
       "save revision 2",
     )) as { version: number };
     await ok(await state.tech.post(`${job}/estimate/send`, { version: again.version, changeSummary: P.changeSummary }), "send revision 2");
@@ -295,7 +322,12 @@ describe("stored text is shown literally", () => {
 
   it("the owner's job page and the bench job page show every one of them as text", async () => {
     const portal = await newPage({ email: state.email, password: state.password });
-    await expectLiteral(portal, `/portal/jobs/${state.jobId}`, ["maker", "model", "serial", "symptoms", "priorWork", "message", "question", "lineTitle", "partTitle", "changeSummary"], "portal-job");
+    await expectLiteral(
+      portal,
+      `/portal/jobs/${state.jobId}`,
+      ["maker", "model", "serial", "symptoms", "priorWork", "message", "question", "lineTitle", "partTitle", "changeSummary"],
+      "portal-job",
+    );
     await expectLiteral(portal, "/portal", ["maker", "model"], "portal-list");
 
     const bench = await newPage(DEMO.tech);
@@ -308,14 +340,22 @@ describe("stored text is shown literally", () => {
     );
     await expectLiteral(bench, "/bench", ["name", "maker", "model"], "bench-queue-all");
     // The dial markings the owner typed are kept with the set as typed (no page shows them yet).
-    const detail = (await ok(await state.tech.get(`/api/bench/jobs/${state.jobId}`), "bench job")) as { set: { profile: { ownerReport?: { dialMarkings?: string } } } };
+    const detail = (await ok(await state.tech.get(`/api/bench/jobs/${state.jobId}`), "bench job")) as {
+      set: { profile: { ownerReport?: { dialMarkings?: string } } };
+    };
     expect(detail.set.profile.ownerReport?.dialMarkings).toBe(P.dialMarkings);
   });
 
   it("decline reasons from the owner and from the shop", async () => {
     const seeded = await seedJobWithEstimate({ email: state.email });
     state.declinedByOwnerJob = seeded.jobId;
-    await ok(await state.customer.post(`/api/portal/jobs/${seeded.jobId}/estimate/decline`, { revisionId: seeded.revisionId, reason: P.ownerDecline }), "owner declines");
+    await ok(
+      await state.customer.post(`/api/portal/jobs/${seeded.jobId}/estimate/decline`, {
+        revisionId: seeded.revisionId,
+        reason: P.ownerDecline,
+      }),
+      "owner declines",
+    );
     const triaged = await createJob({ customerEmail: state.email, state: "in_triage", technicianEmail: DEMO.tech.email });
     state.declinedByShopJob = triaged.jobId;
     await ok(await state.tech.post(`/api/bench/jobs/${triaged.jobId}/decline`, { reason: P.shopDecline }), "shop declines");
@@ -329,17 +369,32 @@ describe("stored text is shown literally", () => {
   });
 
   it("a reading note: kept as typed, and the bench sheet that carries it runs nothing", async () => {
-    const onBench = await createJob({ customerEmail: state.email, maker: P.maker, model: P.model, state: "on_bench", profile: { ...AURELIAN_PROFILE }, technicianEmail: DEMO.tech.email });
+    const onBench = await createJob({
+      customerEmail: state.email,
+      maker: P.maker,
+      model: P.model,
+      state: "on_bench",
+      profile: { ...AURELIAN_PROFILE },
+      technicianEmail: DEMO.tech.email,
+    });
     state.benchJob = onBench.jobId;
-    await ok(await state.tech.post(`/api/bench/jobs/${onBench.jobId}/readings`, { key: "leakage.plug-b", value: 0.12, note: P.readingNote }), "reading");
-    const sheet = (await ok(await state.tech.get(`/api/bench/jobs/${onBench.jobId}/sheet`), "sheet")) as { requirements: { key: string; note: string | null }[] };
+    await ok(
+      await state.tech.post(`/api/bench/jobs/${onBench.jobId}/readings`, { key: "leakage.plug-b", value: 0.12, note: P.readingNote }),
+      "reading",
+    );
+    const sheet = (await ok(await state.tech.get(`/api/bench/jobs/${onBench.jobId}/sheet`), "sheet")) as {
+      requirements: { key: string; note: string | null }[];
+    };
     expect(sheet.requirements.find((r) => r.key === "leakage.plug-b")?.note).toBe(P.readingNote);
     const bench = await newPage(DEMO.tech);
     await expectLiteral(bench, `/bench/jobs/${onBench.jobId}`, ["maker", "model"], "bench-sheet", { tabs: true });
   });
 
   it("the office's shop name, address, part names and warranty wording, and the certificate made with them", async () => {
-    const current = (await ok(await state.owner.get("/api/office/settings"), "settings")) as { values: Record<string, unknown>; version: number };
+    const current = (await ok(await state.owner.get("/api/office/settings"), "settings")) as {
+      values: Record<string, unknown>;
+      version: number;
+    };
     originalSettings = structuredClone(current.values);
     try {
       const v = structuredClone(current.values) as {
@@ -352,7 +407,10 @@ describe("stored text is shown literally", () => {
       v.parts.catalogue[0]!.title = P.catalogueTitle;
       v.warrantyTerms.whoIsCovered = P.terms;
       v.warrantyTerms.shopWording = P.terms;
-      await ok(await state.owner.request("/api/office/settings", { method: "PUT", json: { ...v, version: current.version } }), "save settings");
+      await ok(
+        await state.owner.request("/api/office/settings", { method: "PUT", json: { ...v, version: current.version } }),
+        "save settings",
+      );
 
       const office = await newPage(DEMO.owner);
       await expectLiteral(office, "/office/settings", ["shopName", "address", "catalogueTitle", "terms"], "office-settings");
@@ -373,7 +431,8 @@ describe("stored text is shown literally", () => {
     mkdirSync(testEnv.artifacts, { recursive: true });
     writeFileSync(join(testEnv.artifacts, "stored-text-certificate.txt"), raw);
     const text = squash(raw);
-    for (const f of ["shopName", "address", "terms", "maker", "model", "name"] as const) expect(text, `certificate PDF: "${f}"`).toContain(squash(P[f]));
+    for (const f of ["shopName", "address", "terms", "maker", "model", "name"] as const)
+      expect(text, `certificate PDF: "${f}"`).toContain(squash(P[f]));
 
     const visitor = await newPage();
     await expectLiteral(visitor, `/verify/${state.certificateCode}`, ["shopName", "maker", "model"], "verify-valid");
@@ -381,7 +440,13 @@ describe("stored text is shown literally", () => {
 
   it("a claim description and the decision reason", async () => {
     const opened = (await ok(
-      await state.customer.post("/api/claims", { certificateId: state.certificateId, symptomCategory: "hum", description: P.claim, statements: [], photos: [] }),
+      await state.customer.post("/api/claims", {
+        certificateId: state.certificateId,
+        symptomCategory: "hum",
+        description: P.claim,
+        statements: [],
+        photos: [],
+      }),
       "claim",
     )) as { claim: { id: string } };
     state.claimId = opened.claim.id;
@@ -389,7 +454,14 @@ describe("stored text is shown literally", () => {
     await expectLiteral(bench, "/bench/claims", ["maker", "model"], "bench-claims");
     await expectLiteral(bench, `/bench/claims/${state.claimId}`, ["claim", "maker", "model"], "bench-claim");
 
-    await ok(await state.tech.post(`/api/claims/${state.claimId}/decision`, { decision: "reject", reason: P.claimReason, findings: ["excl.physical-damage"] }), "decision");
+    await ok(
+      await state.tech.post(`/api/claims/${state.claimId}/decision`, {
+        decision: "reject",
+        reason: P.claimReason,
+        findings: ["excl.physical-damage"],
+      }),
+      "decision",
+    );
     const decided = await waitForMail(state.email, "Warranty claim not covered");
     const mailPage = await newPage();
     await expectMailInert(mailPage, decided, ["claimReason", "maker", "model"]);

@@ -7,7 +7,9 @@ import { closeTestPool, sql } from "../support/db";
 import { createCertificate, stopQueue } from "../integration/certificates-fixtures";
 
 async function photo(): Promise<Buffer> {
-  return sharp({ create: { width: 800, height: 600, channels: 3, background: "#5b3a29" } }).jpeg({ quality: 90 }).toBuffer();
+  return sharp({ create: { width: 800, height: 600, channels: 3, background: "#5b3a29" } })
+    .jpeg({ quality: 90 })
+    .toBuffer();
 }
 
 let browser: Browser;
@@ -69,7 +71,9 @@ describe("a certificate from issue to claim", () => {
     await tech.goto(`/bench/claims/${claim!.id}`);
     await expect.poll(() => tech.getByText(/Likely covered/).count()).toBeGreaterThan(0);
     await expect.poll(() => tech.getByRole("img", { name: "filter-section.jpg" }).count()).toBe(1);
-    expect(await tech.getByRole("img", { name: "filter-section.jpg" }).evaluate((img: HTMLImageElement) => img.naturalWidth)).toBeGreaterThan(0);
+    expect(
+      await tech.getByRole("img", { name: "filter-section.jpg" }).evaluate((img: HTMLImageElement) => img.naturalWidth),
+    ).toBeGreaterThan(0);
     await tech.getByLabel(/Accept: open a warranty job/).check();
     await tech.getByLabel("Message to the owner").fill("The filter capacitor we fitted has failed; we will replace it at no charge.");
     await snap(tech, "warranty-06-bench-claim-advice");

@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { beforeAll, describe, expect, it } from "vitest";
-import { PERMISSIONS } from "@/lib/permissions";
+import { PERMISSIONS } from "@/lib/engine/permissions";
 import { DEMO } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
@@ -47,7 +47,10 @@ describe("the access matrix covers the whole app", () => {
       .filter((k) => !listed.has(k));
     expect(missing, "routes missing from tests/integration/access/matrix.ts").toEqual([]);
     const present = new Set(routeInventory().map((r) => `${r.method} ${r.route}`));
-    expect(ROUTES.map((r) => `${r.method} ${r.route}`).filter((k) => !present.has(k)), "matrix entries with no route").toEqual([]);
+    expect(
+      ROUTES.map((r) => `${r.method} ${r.route}`).filter((k) => !present.has(k)),
+      "matrix entries with no route",
+    ).toEqual([]);
   });
 
   it("lists every server action, wrapped with the permission the matrix names", () => {
@@ -58,7 +61,10 @@ describe("the access matrix covers the whole app", () => {
       expect(a.wrappedWith, `${a.name} must be wrapped with action(permission, …)`).toBe(entry!.permission);
     }
     for (const entry of ACTIONS) {
-      expect(found.some((a) => a.file === entry.file && a.name === entry.name), `${entry.name} no longer exists`).toBe(true);
+      expect(
+        found.some((a) => a.file === entry.file && a.name === entry.name),
+        `${entry.name} no longer exists`,
+      ).toBe(true);
       const granted = (PERMISSIONS as Record<string, readonly string[]>)[entry.permission] ?? [];
       expect([...granted].sort()).toEqual(entry.roles.filter((r) => r !== "anonymous").sort());
     }
@@ -67,7 +73,10 @@ describe("the access matrix covers the whole app", () => {
 
 for (const variant of [
   { name: "plain requests", headers: {} as Record<string, string> },
-  { name: "with a client-sent x-middleware-subrequest header", headers: { "x-middleware-subrequest": "middleware:middleware:middleware:middleware:middleware" } },
+  {
+    name: "with a client-sent x-middleware-subrequest header",
+    headers: { "x-middleware-subrequest": "middleware:middleware:middleware:middleware:middleware" },
+  },
 ]) {
   describe(`role × route × ownership (${variant.name})`, () => {
     let byRole: Record<Role, TestClient>;
@@ -86,8 +95,10 @@ for (const variant of [
           const want = expected(entry, role);
           if (res.status >= 500) problems.push(`${role}: ${res.status} ${text.slice(0, 200)}`);
           if (/at .+\(.+:\d+:\d+\)/.test(text)) problems.push(`${role}: answer contains a stack trace`);
-          if (want === "allow" && [401, 403, 404].includes(res.status)) problems.push(`${role}: expected to get past authorization, got ${res.status} ${text.slice(0, 120)}`);
-          if (want === "deny" && res.status !== (role === "anonymous" ? 401 : 404)) problems.push(`${role}: expected ${role === "anonymous" ? 401 : 404}, got ${res.status}`);
+          if (want === "allow" && [401, 403, 404].includes(res.status))
+            problems.push(`${role}: expected to get past authorization, got ${res.status} ${text.slice(0, 120)}`);
+          if (want === "deny" && res.status !== (role === "anonymous" ? 401 : 404))
+            problems.push(`${role}: expected ${role === "anonymous" ? 401 : 404}, got ${res.status}`);
         }
         expect(problems).toEqual([]);
       });
@@ -97,7 +108,10 @@ for (const variant of [
 
 describe("field-level access", () => {
   it("never sends a customer cost prices, markups or internal notes", async () => {
-    await sql("insert into message (job_id, author_id, body, internal) values ($1, 'demo-tech-tomas', 'Internal: bought the caps from the cheap supplier', true)", [fixtures.jobA]);
+    await sql(
+      "insert into message (job_id, author_id, body, internal) values ($1, 'demo-tech-tomas', 'Internal: bought the caps from the cheap supplier', true)",
+      [fixtures.jobA],
+    );
     const a = new TestClient();
     await a.signIn(DEMO.customer.email, DEMO.customer.password);
     for (const path of [`/api/portal/jobs/${fixtures.jobA}`, `/api/portal/jobs/${fixtures.jobA}/messages`]) {
@@ -110,9 +124,17 @@ describe("field-level access", () => {
   it("ignores fields a customer should not set", async () => {
     const a = new TestClient();
     await a.signIn(DEMO.customer.email, DEMO.customer.password);
-    const res = await a.post(`/api/portal/jobs/${fixtures.jobOpenA}/messages`, { body: "When will it be ready?", idempotencyKey: randomUUID(), internal: true, authorId: "demo-owner-odile", jobId: fixtures.jobA });
+    const res = await a.post(`/api/portal/jobs/${fixtures.jobOpenA}/messages`, {
+      body: "When will it be ready?",
+      idempotencyKey: randomUUID(),
+      internal: true,
+      authorId: "demo-owner-odile",
+      jobId: fixtures.jobA,
+    });
     expect(res.status).toBeLessThan(300);
-    const [row] = await sql<{ author_id: string; internal: boolean; job_id: string }>("select author_id, internal, job_id from message where body = 'When will it be ready?' order by created_at desc limit 1");
+    const [row] = await sql<{ author_id: string; internal: boolean; job_id: string }>(
+      "select author_id, internal, job_id from message where body = 'When will it be ready?' order by created_at desc limit 1",
+    );
     expect(row).toEqual({ author_id: "demo-cust-mira", internal: false, job_id: fixtures.jobOpenA });
     const [state] = await sql<{ state: string }>("select state from job where id = $1", [fixtures.jobOpenA]);
     expect(state!.state).toBe("final_checks");

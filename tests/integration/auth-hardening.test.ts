@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { describe, expect, it } from "vitest";
-import { SESSION_ABSOLUTE_SECONDS } from "@/lib/auth";
+import { SESSION_ABSOLUTE_SECONDS } from "@/lib/server/auth";
 import { DEMO, newCustomer } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
@@ -58,7 +58,10 @@ function sessionTokenOf(client: TestClient): string {
 
 /** Makes a session look `seconds` old while its sliding expiry stays days away (as for a session in daily use). */
 async function ageSession(token: string, seconds: number): Promise<void> {
-  const rows = await sql("update session set created_at = now() - make_interval(secs => $2), expires_at = now() + interval '6 days' where token = $1 returning id", [token, seconds]);
+  const rows = await sql(
+    "update session set created_at = now() - make_interval(secs => $2), expires_at = now() + interval '6 days' where token = $1 returning id",
+    [token, seconds],
+  );
   expect(rows, "session row to age").toHaveLength(1);
 }
 
@@ -142,7 +145,11 @@ describe("answers that do not reveal which e-mails have accounts", () => {
     const answers = [];
     for (const a of attempts) {
       const res = await new TestClient().post("/api/auth/sign-in/email", a);
-      answers.push({ status: res.status, body: await res.json(), cookie: res.headers.getSetCookie().some((c) => c.includes("session_token=") && !/max-age=0/i.test(c)) });
+      answers.push({
+        status: res.status,
+        body: await res.json(),
+        cookie: res.headers.getSetCookie().some((c) => c.includes("session_token=") && !/max-age=0/i.test(c)),
+      });
     }
     expect(answers[0]!.status).toBe(401);
     expect(answers[0]!.cookie).toBe(false);
@@ -167,7 +174,10 @@ describe("answers that do not reveal which e-mails have accounts", () => {
     const fresh = await new TestClient().signUp("Someone", `fresh-${randomUUID().slice(0, 8)}@example.com`, "superhet-stage-4422");
     const dup = await new TestClient().signUp("Someone", email, "superhet-stage-4422");
     expect(dup.status).toBe(fresh.status);
-    const shape = (b: { token?: unknown; user?: Record<string, unknown> }) => ({ token: b.token, userKeys: Object.keys(b.user ?? {}).sort() });
+    const shape = (b: { token?: unknown; user?: Record<string, unknown> }) => ({
+      token: b.token,
+      userKeys: Object.keys(b.user ?? {}).sort(),
+    });
     expect(shape((await dup.json()) as never)).toEqual(shape((await fresh.json()) as never));
     expect(await passwordHashOf(email)).toBe(before);
     expect((await new TestClient().post("/api/auth/sign-in/email", { email, password })).status).toBe(200);
@@ -287,7 +297,9 @@ describe("the sign-in limiter", () => {
   const ipB = `198.51.100.${120 + Math.floor(Math.random() * 100)}`;
 
   async function counter(ip: string, path = "/sign-in/email") {
-    const rows = await sql<{ count: number; last_request: string }>("select count, last_request from rate_limit where key = $1", [`${ip}|${path}`]);
+    const rows = await sql<{ count: number; last_request: string }>("select count, last_request from rate_limit where key = $1", [
+      `${ip}|${path}`,
+    ]);
     return rows[0] ? { count: rows[0].count, lastRequest: Number(rows[0].last_request) } : null;
   }
 
@@ -295,10 +307,16 @@ describe("the sign-in limiter", () => {
     await sql("delete from rate_limit where key in ($1, $2)", [`${ipA}|/sign-in/email`, `${ipB}|/sign-in/email`]);
     const before = Date.now();
     for (let i = 0; i < 3; i++) {
-      const res = await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", { email: DEMO.customer.email, password: `wrong-${i}-password` });
+      const res = await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", {
+        email: DEMO.customer.email,
+        password: `wrong-${i}-password`,
+      });
       expect(res.status).toBe(401);
     }
-    const res = await new TestClient({ ip: ipB }).post("/api/auth/sign-in/email", { email: DEMO.customer.email, password: "wrong-b-password" });
+    const res = await new TestClient({ ip: ipB }).post("/api/auth/sign-in/email", {
+      email: DEMO.customer.email,
+      password: "wrong-b-password",
+    });
     expect(res.status).toBe(401);
     const a = await counter(ipA);
     const b = await counter(ipB);
@@ -310,7 +328,10 @@ describe("the sign-in limiter", () => {
   it("counts two values of the trusted header separately: one address is refused, the other is not", async () => {
     let refusedAt = -1;
     for (let i = 0; i < 10 && refusedAt < 0; i++) {
-      const res = await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", { email: DEMO.customer.email, password: `wrong-more-${i}` });
+      const res = await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", {
+        email: DEMO.customer.email,
+        password: `wrong-more-${i}`,
+      });
       if (res.status === 429) refusedAt = i;
       else expect(res.status).toBe(401);
     }
@@ -326,7 +347,11 @@ describe("the sign-in limiter", () => {
     const ip = `192.0.2.${1 + Math.floor(Math.random() * 250)}`;
     await sql("delete from rate_limit where key = $1", [`${ip}|/sign-in/email`]);
     // What another app instance would have written after a burst from this address.
-    await sql("insert into rate_limit (id, key, count, last_request) values ($1, $2, 1000, $3)", [randomUUID(), `${ip}|/sign-in/email`, Date.now()]);
+    await sql("insert into rate_limit (id, key, count, last_request) values ($1, $2, 1000, $3)", [
+      randomUUID(),
+      `${ip}|/sign-in/email`,
+      Date.now(),
+    ]);
     expect((await new TestClient({ ip }).post("/api/auth/sign-in/email", DEMO.customer)).status).toBe(429);
     // An old counter (outside the window) does not hold anyone back.
     await sql("update rate_limit set last_request = $2 where key = $1", [`${ip}|/sign-in/email`, Date.now() - 3_600_000]);
@@ -338,7 +363,10 @@ describe("the sign-in limiter", () => {
     const ip = `192.0.2.${1 + Math.floor(Math.random() * 250)}`;
     const statuses: number[] = [];
     for (let i = 0; i < 8; i++) {
-      const res = await new TestClient({ ip }).post("/api/auth/request-password-reset", { email: `nobody-${i}-${randomUUID().slice(0, 6)}@example.com`, redirectTo: "/reset-password" });
+      const res = await new TestClient({ ip }).post("/api/auth/request-password-reset", {
+        email: `nobody-${i}-${randomUUID().slice(0, 6)}@example.com`,
+        redirectTo: "/reset-password",
+      });
       statuses.push(res.status);
     }
     expect(statuses[0]).toBe(200);
@@ -388,7 +416,10 @@ describe("the session check on every request", () => {
     // Last extended two days ago (the refresh is due once a day): the next request extends it by the full week.
     await sql("update session set expires_at = now() + interval '5 days' where token = $1", [token]);
     expect((await client.get("/api/portal/jobs")).status).toBe(200);
-    const [row] = await sql<{ days: string }>("select extract(epoch from expires_at - now()) / 86400 as days from session where token = $1", [token]);
+    const [row] = await sql<{ days: string }>(
+      "select extract(epoch from expires_at - now()) / 86400 as days from session where token = $1",
+      [token],
+    );
     expect(Number(row!.days)).toBeGreaterThan(6.9);
     // A request well inside the day after a refresh leaves the expiry alone.
     const [before] = await sql<{ e: Date }>("select expires_at as e from session where token = $1", [token]);

@@ -12,7 +12,9 @@ async function fingerprint(url: string) {
   const client = new pg.Client({ connectionString: url });
   await client.connect();
   const tables = (
-    await client.query<{ t: string }>("select table_name as t from information_schema.tables where table_schema = 'public' and table_type = 'BASE TABLE' order by 1")
+    await client.query<{ t: string }>(
+      "select table_name as t from information_schema.tables where table_schema = 'public' and table_type = 'BASE TABLE' order by 1",
+    )
   ).rows.map((r) => r.t);
   const out: Record<string, { rows: number; md5: string }> = {};
   for (const t of tables) {

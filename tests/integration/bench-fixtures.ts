@@ -25,7 +25,7 @@ export const CORVANE_PROFILE = {
 } as const;
 
 export async function userId(email: string): Promise<string> {
-  const [row] = await sql<{ id: string }>("select id from \"user\" where email = $1", [email]);
+  const [row] = await sql<{ id: string }>('select id from "user" where email = $1', [email]);
   if (!row) throw new Error(`no user ${email}`);
   return row.id;
 }

@@ -6,10 +6,22 @@ import { TestClient } from "../support/http";
 import { waitForMail } from "../support/mail";
 import { approveAndPayDeposit, AURELIAN_PROFILE, CORVANE_PROFILE, createJob, historyAndAudit, userId } from "./bench-fixtures";
 
-type QueueRow = { id: string; number: number; state: string; maker: string; model: string; customerName: string; technicianId: string | null };
+type QueueRow = {
+  id: string;
+  number: number;
+  state: string;
+  maker: string;
+  model: string;
+  customerName: string;
+  technicianId: string | null;
+};
 type QueuePage = { rows: QueueRow[]; total: number; pageCount: number };
 type SheetReq = { key: string; lineCode: string; unit: string; nominal: number | null; verdict: string; value: number | null };
-type Sheet = { requirements: SheetReq[]; tasks: { code: string; doneAt: string | null }[]; reasons: { kind: string; key: string; text: string }[] };
+type Sheet = {
+  requirements: SheetReq[];
+  tasks: { code: string; doneAt: string | null }[];
+  reasons: { kind: string; key: string; text: string }[];
+};
 
 let tech: TestClient;
 let techId: string;
@@ -38,14 +50,22 @@ async function sheet(jobId: string): Promise<Sheet> {
 
 async function sendFirstEstimate(jobId: string) {
   const v = (await (await tech.get(`/api/bench/jobs/${jobId}/estimate`)).json()) as { lines: unknown[] };
-  expect((await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: v.lines } })).status).toBe(200);
+  expect((await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: v.lines } })).status).toBe(
+    200,
+  );
   expect((await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version: 1 })).status).toBe(200);
 }
 
 describe("the queue", () => {
   it("searches by job number, maker, model and owner, filters by state and technician, sorts and pages", async () => {
     const model = `Q-${Date.now().toString(36)}`;
-    const a = await createJob({ maker: "Corvane", model, profile: CORVANE_PROFILE as unknown as Record<string, unknown>, state: "in_triage", technicianEmail: DEMO.tech.email });
+    const a = await createJob({
+      maker: "Corvane",
+      model,
+      profile: CORVANE_PROFILE as unknown as Record<string, unknown>,
+      state: "in_triage",
+      technicianEmail: DEMO.tech.email,
+    });
     const b = await createJob({ maker: "Haldane", model, state: "requested", customerEmail: DEMO.customer2.email });
 
     const byNumber = await queue(tech, { q: jobNo(a.number) });
@@ -123,7 +143,12 @@ describe("triage", () => {
 
     const badProfile = await tech.request(`/api/bench/jobs/${jobId}/profile`, {
       method: "PUT",
-      json: { maker: "Aurelian", model: "5T-48", year: 1948, profile: { ...AURELIAN_PROFILE, bands: [{ kind: "MW", lowKHz: 1600, highKHz: 540, ifKHz: 455 }] } },
+      json: {
+        maker: "Aurelian",
+        model: "5T-48",
+        year: 1948,
+        profile: { ...AURELIAN_PROFILE, bands: [{ kind: "MW", lowKHz: 1600, highKHz: 540, ifKHz: 455 }] },
+      },
     });
     expect(badProfile.status).toBe(400);
     const fields = ((await badProfile.json()) as { error: { fields: Record<string, string> } }).error.fields;
@@ -134,7 +159,10 @@ describe("triage", () => {
       json: { maker: "Aurelian", model: "5T-48", year: 1948, profile: { ...AURELIAN_PROFILE, seleniumRectifier: true, electrolytics: 3 } },
     });
     expect(good.status).toBe(200);
-    const [set] = await sql<{ profile: { seleniumRectifier: boolean; electrolytics: number }; model: string }>("select s.profile, s.model from radio_set s join job j on j.set_id = s.id where j.id = $1", [jobId]);
+    const [set] = await sql<{ profile: { seleniumRectifier: boolean; electrolytics: number }; model: string }>(
+      "select s.profile, s.model from radio_set s join job j on j.set_id = s.id where j.id = $1",
+      [jobId],
+    );
     expect(set!.model).toBe("5T-48");
     expect(set!.profile.seleniumRectifier).toBe(true);
     expect(set!.profile.electrolytics).toBe(3);
@@ -146,17 +174,29 @@ describe("triage", () => {
     const short = await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "Hm?", idempotencyKey: randomUUID() });
     expect(short.status).toBe(400);
     const started = Date.now();
-    const ask = await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "Is the original line cord still fitted, or has it been replaced?", idempotencyKey: randomUUID() });
+    const ask = await tech.post(`/api/bench/jobs/${jobId}/question`, {
+      question: "Is the original line cord still fitted, or has it been replaced?",
+      idempotencyKey: randomUUID(),
+    });
     expect(ask.status).toBe(200);
     const [after] = await sql<{ state: string }>("select state from job where id = $1", [jobId]);
     expect(after!.state).toBe("awaiting_owner");
-    const msgs = await sql<{ body: string; is_question: boolean; internal: boolean }>("select body, is_question, internal from message where job_id = $1", [jobId]);
-    expect(msgs).toContainEqual({ body: "Is the original line cord still fitted, or has it been replaced?", is_question: true, internal: false });
+    const msgs = await sql<{ body: string; is_question: boolean; internal: boolean }>(
+      "select body, is_question, internal from message where job_id = $1",
+      [jobId],
+    );
+    expect(msgs).toContainEqual({
+      body: "Is the original line cord still fitted, or has it been replaced?",
+      is_question: true,
+      internal: false,
+    });
     const mail = await waitForMail(DEMO.customer.email, `(${jobNo(number)})`, { after: started - 1000 });
     expect(mail.subject).toMatch(/question/i);
     expect(mail.text).toContain("original line cord");
     // A second question while waiting is refused.
-    expect((await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "And the dial glass?", idempotencyKey: randomUUID() })).status).toBe(409);
+    expect(
+      (await tech.post(`/api/bench/jobs/${jobId}/question`, { question: "And the dial glass?", idempotencyKey: randomUUID() })).status,
+    ).toBe(409);
   });
 
   it("declines a job with a reason the owner can read", async () => {
@@ -184,7 +224,21 @@ describe("bench sheet, completion and return", () => {
 
     const s0 = await sheet(jobId);
     const keys = s0.requirements.map((r) => r.key);
-    expect(keys).toEqual(expect.arrayContaining(["if.peak.455", "band.0.lo.low", "band.0.lo.high", "band.0.track.0", "band.0.track.1", "band.0.track.2", "band.0.edge.low", "band.0.edge.high", "bplus", "leakage.plug-a", "leakage.plug-b"]));
+    expect(keys).toEqual(
+      expect.arrayContaining([
+        "if.peak.455",
+        "band.0.lo.low",
+        "band.0.lo.high",
+        "band.0.track.0",
+        "band.0.track.1",
+        "band.0.track.2",
+        "band.0.edge.low",
+        "band.0.edge.high",
+        "bplus",
+        "leakage.plug-a",
+        "leakage.plug-b",
+      ]),
+    );
     expect(s0.requirements.every((r) => r.verdict === "missing")).toBe(true);
 
     const unknown = await tech.post(`/api/bench/jobs/${jobId}/readings`, { key: "band.7.edge.low", value: 500 });
@@ -199,14 +253,20 @@ describe("bench sheet, completion and return", () => {
     expect(((await edge.json()) as { verdict: string }).verdict).toBe("pass");
     const edgeFar = await tech.post(`/api/bench/jobs/${jobId}/readings`, { key: "band.0.edge.high", value: 1640 });
     expect(((await edgeFar.json()) as { verdict: string }).verdict).toBe("fail");
-    const [stored] = await sql<{ verdict: string; tolerance_text: string; recorded_by: string }>("select verdict, tolerance_text, recorded_by from reading where job_id = $1 and key = 'leakage.plug-a'", [jobId]);
+    const [stored] = await sql<{ verdict: string; tolerance_text: string; recorded_by: string }>(
+      "select verdict, tolerance_text, recorded_by from reading where job_id = $1 and key = 'leakage.plug-a'",
+      [jobId],
+    );
     expect(stored).toEqual({ verdict: "fail", tolerance_text: "at most 0.5 mA", recorded_by: techId });
 
     // Final checks wait for every line.
     const early = await tech.post(`/api/bench/jobs/${jobId}/final-checks`);
     expect(early.status).toBe(409);
     for (const t of s0.tasks) expect((await tech.post(`/api/bench/jobs/${jobId}/tasks`, { code: t.code, done: true })).status).toBe(200);
-    const ticked = await sql<{ done_by: string | null; done_at: string | null }>("select done_by, done_at from job_task where job_id = $1", [jobId]);
+    const ticked = await sql<{ done_by: string | null; done_at: string | null }>(
+      "select done_by, done_at from job_task where job_id = $1",
+      [jobId],
+    );
     expect(ticked.every((t) => t.done_by === techId && t.done_at !== null)).toBe(true);
     expect((await tech.post(`/api/bench/jobs/${jobId}/final-checks`)).status).toBe(200);
 
@@ -240,16 +300,32 @@ describe("bench sheet, completion and return", () => {
 
     // The balance is paid (the processor's webhook), then the set goes back.
     await sql("update job set state = 'paid_in_full' where id = $1", [jobId]);
-    const noTracking = await tech.post(`/api/bench/jobs/${jobId}/return`, { method: "shipped", carrier: "Port Alder Parcel", trackingNumber: "" });
+    const noTracking = await tech.post(`/api/bench/jobs/${jobId}/return`, {
+      method: "shipped",
+      carrier: "Port Alder Parcel",
+      trackingNumber: "",
+    });
     expect(noTracking.status).toBe(400);
     expect(((await noTracking.json()) as { error: { fields: Record<string, string> } }).error.fields.trackingNumber).toBeTruthy();
-    const ret = await tech.post(`/api/bench/jobs/${jobId}/return`, { method: "shipped", carrier: "Port Alder Parcel", trackingNumber: "PAP 4471 0092" });
+    const ret = await tech.post(`/api/bench/jobs/${jobId}/return`, {
+      method: "shipped",
+      carrier: "Port Alder Parcel",
+      trackingNumber: "PAP 4471 0092",
+    });
     expect(ret.status).toBe(200);
-    const [returned] = await sql<{ state: string; return_method: string; carrier: string; tracking_number: string; returned_at: string | null }>(
-      "select state, return_method, carrier, tracking_number, returned_at from job where id = $1",
-      [jobId],
-    );
-    expect(returned).toMatchObject({ state: "returned", return_method: "shipped", carrier: "Port Alder Parcel", tracking_number: "PAP 4471 0092" });
+    const [returned] = await sql<{
+      state: string;
+      return_method: string;
+      carrier: string;
+      tracking_number: string;
+      returned_at: string | null;
+    }>("select state, return_method, carrier, tracking_number, returned_at from job where id = $1", [jobId]);
+    expect(returned).toMatchObject({
+      state: "returned",
+      return_method: "shipped",
+      carrier: "Port Alder Parcel",
+      tracking_number: "PAP 4471 0092",
+    });
     const certs = await sql("select id from certificate where job_id = $1", [jobId]);
     expect(certs).toHaveLength(1);
     await waitForMail(DEMO.customer.email, new RegExp(jobNo(number)), { after: started - 1000 });
@@ -258,15 +334,21 @@ describe("bench sheet, completion and return", () => {
     const { history, audits } = await historyAndAudit(jobId);
     const moves = (rows: { from: string; to: string }[]) => rows.map((r) => `${r.from}>${r.to}`).sort();
     expect(history.length).toBe(audits.length);
-    expect(moves(audits.map((a) => ({ from: a.before.state, to: a.after.state })))).toEqual(moves(history.map((h) => ({ from: h.from_state, to: h.to_state }))));
-    expect(history.map((h) => h.to_state)).toEqual(expect.arrayContaining(["estimate_sent", "on_bench", "final_checks", "balance_due", "returned"]));
+    expect(moves(audits.map((a) => ({ from: a.before.state, to: a.after.state })))).toEqual(
+      moves(history.map((h) => ({ from: h.from_state, to: h.to_state }))),
+    );
+    expect(history.map((h) => h.to_state)).toEqual(
+      expect.arrayContaining(["estimate_sent", "on_bench", "final_checks", "balance_due", "returned"]),
+    );
   });
 
   it("requires the leakage test on a mains set even when the estimate leaves it out", async () => {
     const { jobId } = await createJob({ state: "in_triage", technicianEmail: DEMO.tech.email });
     const v = (await (await tech.get(`/api/bench/jobs/${jobId}/estimate`)).json()) as { lines: { code: string }[] };
     const withoutLeakage = v.lines.filter((l) => l.code !== "test.leakage");
-    expect((await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: withoutLeakage } })).status).toBe(200);
+    expect(
+      (await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: withoutLeakage } })).status,
+    ).toBe(200);
     expect((await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version: 1 })).status).toBe(200);
     await approveAndPayDeposit(jobId);
     expect((await tech.post(`/api/bench/jobs/${jobId}/start-bench`)).status).toBe(200);
@@ -276,7 +358,11 @@ describe("bench sheet, completion and return", () => {
   });
 
   it("asks no leakage reading of a battery set", async () => {
-    const { jobId } = await createJob({ maker: "Corvane", profile: CORVANE_PROFILE as unknown as Record<string, unknown>, state: "on_bench" });
+    const { jobId } = await createJob({
+      maker: "Corvane",
+      profile: CORVANE_PROFILE as unknown as Record<string, unknown>,
+      state: "on_bench",
+    });
     const s = await sheet(jobId);
     expect(s.requirements.some((r) => r.key.startsWith("leakage."))).toBe(false);
     expect(s.requirements.some((r) => r.key === "bplus")).toBe(false);

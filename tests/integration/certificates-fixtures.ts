@@ -1,11 +1,11 @@
 import { randomInt } from "node:crypto";
 import { transaction } from "@/db/transaction";
-import { computeChecklist } from "@/lib/checklist";
-import type { SetProfile } from "@/lib/checklist/profile";
-import { getBoss } from "@/lib/queue";
-import { issueCertificate } from "@/lib/services/certificates";
-import { defaultShopPolicy } from "@/lib/shop-policy";
-import { judgeReading, listRequiredReadings } from "@/lib/verdicts";
+import { computeChecklist } from "@/lib/engine/checklist";
+import type { SetProfile } from "@/lib/engine/checklist/profile";
+import { getBoss } from "@/lib/server/queue";
+import { issueCertificate } from "@/lib/server/services/certificates";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { judgeReading, listRequiredReadings } from "@/lib/engine/verdicts";
 import { sql } from "../support/db";
 import { aurelianTableSet, haldaneConsole } from "../unit/support/demo-sets";
 
@@ -33,7 +33,14 @@ export async function createReturnedJob({
   model = "Model 5T",
   serial = `AU-52-${randomInt(1000, 9999)}`,
   returnedDaysAgo = 0,
-}: { customerId?: string; profile?: SetProfile; maker?: string; model?: string; serial?: string; returnedDaysAgo?: number } = {}): Promise<CompletedJob> {
+}: {
+  customerId?: string;
+  profile?: SetProfile;
+  maker?: string;
+  model?: string;
+  serial?: string;
+  returnedDaysAgo?: number;
+} = {}): Promise<CompletedJob> {
   const returnedAt = new Date(Date.now() - returnedDaysAgo * DAY);
   const [set] = await sql<{ id: string }>(
     "insert into radio_set (owner_id, maker, model, year, serial, kind, profile) values ($1, $2, $3, 1952, $4, $5, $6) returning id",
@@ -48,9 +55,18 @@ export async function createReturnedJob({
   const lines = computeChecklist(profile, defaultShopPolicy);
   const tasks = lines.map((l) => ({ code: l.code, title: l.title }));
   for (const t of tasks) {
-    await sql("insert into job_task (job_id, code, title, done_by, done_at) values ($1, $2, $3, $4, $5)", [jobId, t.code, t.title, IDS.tomas, returnedAt]);
+    await sql("insert into job_task (job_id, code, title, done_by, done_at) values ($1, $2, $3, $4, $5)", [
+      jobId,
+      t.code,
+      t.title,
+      IDS.tomas,
+      returnedAt,
+    ]);
   }
-  const [estimate] = await sql<{ id: string }>("insert into estimate (job_id, draft, current_revision) values ($1, '{\"lines\":[]}', 1) returning id", [jobId]);
+  const [estimate] = await sql<{ id: string }>(
+    "insert into estimate (job_id, draft, current_revision) values ($1, '{\"lines\":[]}', 1) returning id",
+    [jobId],
+  );
   const [rev] = await sql<{ id: string }>(
     `insert into estimate_revision (estimate_id, job_id, revision, status, currency, labour_minor, parts_minor, tax_minor, total_minor, deposit_minor, pricing, sent_by)
      values ($1, $2, 1, 'approved', 'USD', 40000, 6000, 480, 46480, 13944, '{}', $3) returning id`,

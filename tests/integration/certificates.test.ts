@@ -1,9 +1,10 @@
 import fc from "fast-check";
 import { PDFParse } from "pdf-parse";
 import { afterAll, describe, expect, it } from "vitest";
-import { canonicalJson, CODE_LENGTH } from "@/lib/certificates";
-import { formatReading } from "@/lib/pdf/certificate-tables";
-import { verifyStoredCertificate, type CertificateDocument } from "@/lib/services/certificates";
+import { canonicalJson, CODE_LENGTH } from "@/lib/engine/certificates";
+import { formatReading } from "@/lib/engine/certificates/tables";
+import { verifyStoredCertificate } from "@/lib/server/services/certificates";
+import { type CertificateDocument } from "@/lib/engine/certificates/document";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
 import { TestClient } from "../support/http";
@@ -15,10 +16,20 @@ afterAll(async () => {
   await closeTestPool();
 });
 
-type Row = { id: string; code: string; content: CertificateDocument; signature: string; key_id: string; term_ends_at: Date; customer_id: string };
+type Row = {
+  id: string;
+  code: string;
+  content: CertificateDocument;
+  signature: string;
+  key_id: string;
+  term_ends_at: Date;
+  customer_id: string;
+};
 
 async function loadRow(id: string): Promise<Row> {
-  const [row] = await sql<Row>("select id, code, content, signature, key_id, term_ends_at, customer_id from certificate where id = $1", [id]);
+  const [row] = await sql<Row>("select id, code, content, signature, key_id, term_ends_at, customer_id from certificate where id = $1", [
+    id,
+  ]);
   return row!;
 }
 
@@ -72,7 +83,9 @@ describe("issuing a certificate when a set is returned", () => {
     expect(new Date(row.term_ends_at).toISOString().slice(0, 10)).toBe(d.warranty.endsOn);
     expect(verifyStoredCertificate(row)).toBe(true);
 
-    const audit = await sql("select 1 from audit_event where entity = 'certificate' and entity_id = $1 and action = 'certificate.issue'", [certificateId]);
+    const audit = await sql("select 1 from audit_event where entity = 'certificate' and entity_id = $1 and action = 'certificate.issue'", [
+      certificateId,
+    ]);
     expect(audit).toHaveLength(1);
 
     // Issuing again (a retried return) hands back the same certificate.
@@ -186,7 +199,9 @@ describe("the public verification page", () => {
     const owner = await signedIn(DEMO.owner);
     const customer = await signedIn(DEMO.customer);
     const r = await createCertificate();
-    expect((await customer.post(`/api/certificates/${r.certificateId}/revoke`, { reason: "Set returned under a false name" })).status).toBe(404);
+    expect((await customer.post(`/api/certificates/${r.certificateId}/revoke`, { reason: "Set returned under a false name" })).status).toBe(
+      404,
+    );
     const bad = await owner.post(`/api/certificates/${r.certificateId}/revoke`, { reason: "" });
     expect(bad.status).toBe(400);
     expect((await bad.json()).error.fields.reason).toBeTruthy();

@@ -1,5 +1,5 @@
 import { afterAll, describe, expect, it } from "vitest";
-import type { StoredAdvice } from "@/lib/services/claims";
+import type { StoredAdvice } from "@/lib/server/services/claims";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
 import { TestClient } from "../support/http";
@@ -32,14 +32,18 @@ describe("coverage advice on a new claim", () => {
     expect(advice.insideTerm).toBe(true);
     expect(advice.matchedWork).toContain("recap.electrolytic");
     expect(advice.reasons.join(" ")).toMatch(/inside the term/);
-    const [row] = await sql<{ status: string; claimant_id: string }>("select status, claimant_id from claim where certificate_id = $1", [c.certificateId]);
+    const [row] = await sql<{ status: string; claimant_id: string }>("select status, claimant_id from claim where certificate_id = $1", [
+      c.certificateId,
+    ]);
     expect(row).toEqual({ status: "open", claimant_id: IDS.mira });
   });
 
   it("one day after the term: not covered, outside the term", async () => {
     // A 90-day term starting 90 days ago ended yesterday.
     const c = await createCertificate({ returnedDaysAgo: 90 });
-    const [{ content }] = (await sql<{ content: { warranty: { endsOn: string } } }>("select content from certificate where id = $1", [c.certificateId])) as [{ content: { warranty: { endsOn: string } } }];
+    const [{ content }] = (await sql<{ content: { warranty: { endsOn: string } } }>("select content from certificate where id = $1", [
+      c.certificateId,
+    ])) as [{ content: { warranty: { endsOn: string } } }];
     expect(content.warranty.endsOn).toBe(new Date(Date.now() - 86_400_000).toISOString().slice(0, 10));
     const owner = await signedIn(DEMO.customer);
     const res = await owner.post("/api/claims", { ...hum, certificateId: c.certificateId });
@@ -64,7 +68,12 @@ describe("coverage advice on a new claim", () => {
   it("refuses bad input field by field and keeps nothing", async () => {
     const c = await createCertificate();
     const owner = await signedIn(DEMO.customer);
-    const res = await owner.post("/api/claims", { certificateId: c.certificateId, symptomCategory: "exploded", description: "short", statements: ["excl.made-up"] });
+    const res = await owner.post("/api/claims", {
+      certificateId: c.certificateId,
+      symptomCategory: "exploded",
+      description: "short",
+      statements: ["excl.made-up"],
+    });
     expect(res.status).toBe(400);
     const { error } = (await res.json()) as { error: { fields: Record<string, string> } };
     expect(Object.keys(error.fields)).toEqual(expect.arrayContaining(["symptomCategory", "description"]));
@@ -76,7 +85,9 @@ describe("one open claim per certificate", () => {
   it("20 concurrent submissions leave exactly one open claim; the rest get a clear 409", async () => {
     const c = await createCertificate();
     const owner = await signedIn(DEMO.customer);
-    const results = await Promise.all(Array.from({ length: 20 }, () => owner.post("/api/claims", { ...hum, certificateId: c.certificateId })));
+    const results = await Promise.all(
+      Array.from({ length: 20 }, () => owner.post("/api/claims", { ...hum, certificateId: c.certificateId })),
+    );
     const statuses = results.map((r) => r.status).sort();
     expect(statuses.filter((s) => s === 201)).toHaveLength(1);
     expect(statuses.filter((s) => s === 409)).toHaveLength(19);
@@ -135,7 +146,9 @@ describe("staff decide", () => {
   it("accepting opens a linked warranty job with covered lines at no charge and e-mails the claimant", async () => {
     const c = await createCertificate();
     const mira = await signedIn(DEMO.customer);
-    const { claim } = (await (await mira.post("/api/claims", { ...hum, certificateId: c.certificateId })).json()) as { claim: { id: string } };
+    const { claim } = (await (await mira.post("/api/claims", { ...hum, certificateId: c.certificateId })).json()) as {
+      claim: { id: string };
+    };
     expect((await mira.post(`/api/claims/${claim.id}/decision`, { decision: "accept" })).status).toBe(404);
 
     const tech = await signedIn(DEMO.tech);
@@ -143,19 +156,32 @@ describe("staff decide", () => {
     const page = await (await tech.get(`/bench/claims/${claim.id}`)).text();
     expect(page).toContain("Likely covered");
     const t0 = Date.now() - 50;
-    const res = await tech.post(`/api/claims/${claim.id}/decision`, { decision: "accept", reason: "The filter capacitor we fitted has failed." });
+    const res = await tech.post(`/api/claims/${claim.id}/decision`, {
+      decision: "accept",
+      reason: "The filter capacitor we fitted has failed.",
+    });
     expect(res.status).toBe(200);
     const { warrantyJobId } = (await res.json()) as { warrantyJobId: string };
     const [job] = await sql<{ is_warranty: boolean; certificate_id: string; claim_id: string; customer_id: string; state: string }>(
       "select is_warranty, certificate_id, claim_id, customer_id, state from job where id = $1",
       [warrantyJobId],
     );
-    expect(job).toEqual({ is_warranty: true, certificate_id: c.certificateId, claim_id: claim.id, customer_id: IDS.mira, state: "in_triage" });
-    const [est] = await sql<{ draft: { lines: { code: string; covered: boolean }[] } }>("select draft from estimate where job_id = $1", [warrantyJobId]);
+    expect(job).toEqual({
+      is_warranty: true,
+      certificate_id: c.certificateId,
+      claim_id: claim.id,
+      customer_id: IDS.mira,
+      state: "in_triage",
+    });
+    const [est] = await sql<{ draft: { lines: { code: string; covered: boolean }[] } }>("select draft from estimate where job_id = $1", [
+      warrantyJobId,
+    ]);
     expect(est!.draft.lines.length).toBeGreaterThan(0);
     expect(est!.draft.lines.every((l) => l.covered)).toBe(true);
     expect(est!.draft.lines.map((l) => l.code)).toContain("recap.electrolytic");
-    const [decided] = await sql<{ status: string; warranty_job_id: string }>("select status, warranty_job_id from claim where id = $1", [claim.id]);
+    const [decided] = await sql<{ status: string; warranty_job_id: string }>("select status, warranty_job_id from claim where id = $1", [
+      claim.id,
+    ]);
     expect(decided).toEqual({ status: "accepted", warranty_job_id: warrantyJobId });
     await waitForMail(DEMO.customer.email, /Warranty claim accepted: Aurelian Model 5T/, { after: t0 });
     // Decided once: a second decision is refused.
@@ -167,10 +193,15 @@ describe("staff decide", () => {
   it("rejecting needs a reason, which the claimant receives; inspecting first keeps the claim open", async () => {
     const c = await createCertificate();
     const mira = await signedIn(DEMO.customer);
-    const { claim } = (await (await mira.post("/api/claims", { ...hum, certificateId: c.certificateId })).json()) as { claim: { id: string } };
+    const { claim } = (await (await mira.post("/api/claims", { ...hum, certificateId: c.certificateId })).json()) as {
+      claim: { id: string };
+    };
     const tech = await signedIn(DEMO.tech2);
     const t0 = Date.now() - 50;
-    const inspect = await tech.post(`/api/claims/${claim.id}/decision`, { decision: "inspect", reason: "Please send the set so we can look at the filter section." });
+    const inspect = await tech.post(`/api/claims/${claim.id}/decision`, {
+      decision: "inspect",
+      reason: "Please send the set so we can look at the filter section.",
+    });
     expect(inspect.status).toBe(200);
     await waitForMail(DEMO.customer.email, /we would like to inspect your Aurelian Model 5T/, { after: t0 });
     expect((await mira.post("/api/claims", { ...hum, certificateId: c.certificateId })).status).toBe(409);
@@ -178,7 +209,11 @@ describe("staff decide", () => {
     const noReason = await tech.post(`/api/claims/${claim.id}/decision`, { decision: "reject", reason: "" });
     expect(noReason.status).toBe(400);
     expect(((await noReason.json()) as { error: { fields: Record<string, string> } }).error.fields.reason).toBeTruthy();
-    const reject = await tech.post(`/api/claims/${claim.id}/decision`, { decision: "reject", reason: "The cabinet was cracked by a fall.", findings: ["excl.physical-damage"] });
+    const reject = await tech.post(`/api/claims/${claim.id}/decision`, {
+      decision: "reject",
+      reason: "The cabinet was cracked by a fall.",
+      findings: ["excl.physical-damage"],
+    });
     expect(reject.status).toBe(200);
     const mail = await waitForMail(DEMO.customer.email, /Warranty claim not covered: Aurelian Model 5T/, { after: t0 });
     expect(mail.text).toContain("The cabinet was cracked by a fall.");

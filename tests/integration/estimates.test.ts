@@ -5,8 +5,27 @@ import { TestClient } from "../support/http";
 import { waitForMail } from "../support/mail";
 import { createJob } from "./bench-fixtures";
 
-type DraftLine = { key: string; kind: "labour" | "part"; code: string; title: string; minutes: number; quantity: number; unitCost: string; markupPercent: string; covered: boolean; reason: string; readings: string[]; category: string };
-type EstimateView = { version: number; saved: boolean; lines: DraftLine[]; priced: { totals: { totalMinor: number; depositMinor: number; labourMinor: number; partsMinor: number; taxMinor: number } } | null; revisions: { revision: number; status: string }[] };
+type DraftLine = {
+  key: string;
+  kind: "labour" | "part";
+  code: string;
+  title: string;
+  minutes: number;
+  quantity: number;
+  unitCost: string;
+  markupPercent: string;
+  covered: boolean;
+  reason: string;
+  readings: string[];
+  category: string;
+};
+type EstimateView = {
+  version: number;
+  saved: boolean;
+  lines: DraftLine[];
+  priced: { totals: { totalMinor: number; depositMinor: number; labourMinor: number; partsMinor: number; taxMinor: number } } | null;
+  revisions: { revision: number; status: string }[];
+};
 
 let tech: TestClient;
 let tech2: TestClient;
@@ -26,7 +45,9 @@ async function view(client: TestClient, jobId: string): Promise<EstimateView> {
 }
 
 async function storedDraft(jobId: string): Promise<{ version: number; lines: DraftLine[] }> {
-  const [row] = await sql<{ version: number; draft: { lines: DraftLine[] } }>("select version, draft from estimate where job_id = $1", [jobId]);
+  const [row] = await sql<{ version: number; draft: { lines: DraftLine[] } }>("select version, draft from estimate where job_id = $1", [
+    jobId,
+  ]);
   return { version: row!.version, lines: row!.draft.lines };
 }
 
@@ -42,10 +63,15 @@ describe("estimate drafts and optimistic concurrency", () => {
     expect(codes).toContain("part.cap.y2");
     expect(v.lines.find((l) => l.code === "safety.y-capacitor")!.reason).toMatch(/Y-class/);
     // Unedited, the draft is priced exactly like the engine's own estimate of the profile.
-    const [{ profile }] = (await sql<{ profile: Record<string, unknown> }>("select s.profile from radio_set s join job j on j.set_id = s.id where j.id = $1", [jobId])) as [{ profile: Record<string, unknown> }];
+    const [{ profile }] = (await sql<{ profile: Record<string, unknown> }>(
+      "select s.profile from radio_set s join job j on j.set_id = s.id where j.id = $1",
+      [jobId],
+    )) as [{ profile: Record<string, unknown> }];
     const tool = await tech.post("/api/tools/estimate", { profile });
     expect(tool.status).toBe(200);
-    const engine = (await tool.json()) as { totals: { totalMinor: number; depositMinor: number; labourMinor: number; partsMinor: number; taxMinor: number } };
+    const engine = (await tool.json()) as {
+      totals: { totalMinor: number; depositMinor: number; labourMinor: number; partsMinor: number; taxMinor: number };
+    };
     expect(v.priced!.totals.totalMinor).toBe(engine.totals.totalMinor);
     expect(v.priced!.totals.depositMinor).toBe(engine.totals.depositMinor);
     expect(v.priced!.totals.labourMinor).toBe(engine.totals.labourMinor);
@@ -82,7 +108,10 @@ describe("estimate drafts and optimistic concurrency", () => {
     expect(afterRace.lines.map((l) => [l.code, l.minutes])).toEqual(winnerLines.map((l) => [l.code, l.minutes]));
 
     // The loser still has their edits and can save them over the new version.
-    const retry = await (a.status === 409 ? tech : tech2).request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 2, lines: loserLines } });
+    const retry = await (a.status === 409 ? tech : tech2).request(`/api/bench/jobs/${jobId}/estimate`, {
+      method: "PUT",
+      json: { version: 2, lines: loserLines },
+    });
     expect(retry.status).toBe(200);
     const final = await storedDraft(jobId);
     expect(final.version).toBe(3);
@@ -118,7 +147,9 @@ describe("estimate drafts and optimistic concurrency", () => {
     const { jobId } = await createJob({ state: "in_triage" });
     const customer = await signedIn(DEMO.customer);
     expect((await customer.get(`/api/bench/jobs/${jobId}/estimate`)).status).toBe(404);
-    expect((await customer.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: [] } })).status).toBe(404);
+    expect((await customer.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: [] } })).status).toBe(
+      404,
+    );
     expect((await new TestClient().get(`/api/bench/jobs/${jobId}/estimate`)).status).toBe(401);
   });
 });
@@ -136,7 +167,15 @@ describe("sending revisions", () => {
 
     const [job] = await sql<{ state: string }>("select state from job where id = $1", [jobId]);
     expect(job!.state).toBe("estimate_sent");
-    const [rev1] = await sql<{ id: string; status: string; total_minor: number; deposit_minor: number; labour_minor: number; parts_minor: number; tax_minor: number }>(
+    const [rev1] = await sql<{
+      id: string;
+      status: string;
+      total_minor: number;
+      deposit_minor: number;
+      labour_minor: number;
+      parts_minor: number;
+      tax_minor: number;
+    }>(
       "select id, status, total_minor, deposit_minor, labour_minor, parts_minor, tax_minor from estimate_revision where job_id = $1 and revision = 1",
       [jobId],
     );
@@ -144,13 +183,21 @@ describe("sending revisions", () => {
     expect(rev1!.total_minor).toBe(v.priced!.totals.totalMinor);
     expect(rev1!.deposit_minor).toBe(v.priced!.totals.depositMinor);
     expect(rev1!.labour_minor + rev1!.parts_minor + rev1!.tax_minor).toBe(rev1!.total_minor);
-    const lines = await sql<{ code: string; position: number; labour_minor: number; parts_minor: number }>("select code, position, labour_minor, parts_minor from estimate_line where revision_id = $1 order by position", [rev1!.id]);
+    const lines = await sql<{ code: string; position: number; labour_minor: number; parts_minor: number }>(
+      "select code, position, labour_minor, parts_minor from estimate_line where revision_id = $1 order by position",
+      [rev1!.id],
+    );
     expect(lines.map((l) => l.code)).toEqual(v.lines.map((l) => l.code));
     expect(lines.reduce((s, l) => s + l.labour_minor, 0)).toBe(rev1!.labour_minor);
     expect(lines.reduce((s, l) => s + l.parts_minor, 0)).toBe(rev1!.parts_minor);
     // The labour lines become the checklist to tick at the bench.
     const tasks = await sql<{ code: string }>("select code from job_task where job_id = $1", [jobId]);
-    expect(tasks.map((t) => t.code).sort()).toEqual(v.lines.filter((l) => l.kind === "labour").map((l) => l.code).sort());
+    expect(tasks.map((t) => t.code).sort()).toEqual(
+      v.lines
+        .filter((l) => l.kind === "labour")
+        .map((l) => l.code)
+        .sort(),
+    );
 
     const jobNo = `KL-${String(number).padStart(4, "0")}`;
     const mail1 = await waitForMail(DEMO.customer.email, new RegExp(`estimate for .* is ready \\(${jobNo}\\)`), { after: started - 1000 });
@@ -163,11 +210,20 @@ describe("sending revisions", () => {
     const noSummary = await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version: 2 });
     expect(noSummary.status).toBe(400);
     expect(((await noSummary.json()) as { error: { fields: Record<string, string> } }).error.fields.changeSummary).toMatch(/what changed/i);
-    const stale = await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version: 1, changeSummary: "Controls were cleaned by the owner." });
+    const stale = await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, {
+      version: 1,
+      changeSummary: "Controls were cleaned by the owner.",
+    });
     expect(stale.status).toBe(409);
-    const send2 = await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version: 2, changeSummary: "Controls were already cleaned by the owner." });
+    const send2 = await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, {
+      version: 2,
+      changeSummary: "Controls were already cleaned by the owner.",
+    });
     expect(send2.status).toBe(200);
-    const revs = await sql<{ revision: number; status: string; change_summary: string | null }>("select revision, status, change_summary from estimate_revision where job_id = $1 order by revision", [jobId]);
+    const revs = await sql<{ revision: number; status: string; change_summary: string | null }>(
+      "select revision, status, change_summary from estimate_revision where job_id = $1 order by revision",
+      [jobId],
+    );
     expect(revs).toEqual([
       { revision: 1, status: "superseded", change_summary: null },
       { revision: 2, status: "sent", change_summary: "Controls were already cleaned by the owner." },
@@ -176,7 +232,10 @@ describe("sending revisions", () => {
     expect(tasks2.map((t) => t.code)).not.toContain("mech.clean-controls");
     const mail2 = await waitForMail(DEMO.customer.email, new RegExp(`Revised estimate .*\\(${jobNo}\\)`), { after: started - 1000 });
     expect(mail2.text).toContain("Controls were already cleaned by the owner.");
-    const history = await sql<{ from_state: string; to_state: string }>("select from_state, to_state from job_state_history where job_id = $1 order by at", [jobId]);
+    const history = await sql<{ from_state: string; to_state: string }>(
+      "select from_state, to_state from job_state_history where job_id = $1 order by at",
+      [jobId],
+    );
     expect(history.map((h) => `${h.from_state}>${h.to_state}`)).toEqual(["in_triage>estimate_sent", "estimate_sent>estimate_sent"]);
   });
 

@@ -51,7 +51,12 @@ describe("durability under faults", () => {
     expect(summary.operations).toBeGreaterThanOrEqual(2000);
     expect(summary.acknowledged).toBe(summary.operations);
     expect(summary.retried).toBeGreaterThan(0);
-    expect({ kills: summary.kills, appRestarts: summary.appRestarts, pgRestarts: summary.pgRestarts, appCrashes: summary.appCrashes }).toEqual({
+    expect({
+      kills: summary.kills,
+      appRestarts: summary.appRestarts,
+      pgRestarts: summary.pgRestarts,
+      appCrashes: summary.appCrashes,
+    }).toEqual({
       kills: 2,
       appRestarts: 2,
       pgRestarts: 1,

@@ -17,7 +17,15 @@ import { ROUTES, type Fixtures, type Role, type RouteEntry } from "./access/matr
 
 const RUNS = 30;
 const STACK = /(?:\n\s+at\s|\bat .+\(.+:\d+:\d+\)|node_modules[\\/]|\.next[^/]*[\\/]server)/;
-const POLLUTION = { polluted: "fuzz-polluted", pageSize: "7", page: "3", role: "owner", internal: true, isAdmin: true, emailVerified: true };
+const POLLUTION = {
+  polluted: "fuzz-polluted",
+  pageSize: "7",
+  page: "3",
+  role: "owner",
+  internal: true,
+  isAdmin: true,
+  emailVerified: true,
+};
 
 const UNSTORABLE: unknown[] = ["before\u0000after", 2 ** 31, -(2 ** 31) - 1, 2 ** 53 + 2, 1e308];
 
@@ -55,7 +63,11 @@ const STATE_FOR: Record<string, string> = {
   "POST /api/bench/jobs/[id]/return": "paid_in_full",
   "POST /api/portal/jobs/[id]/messages": "awaiting_owner",
 };
-const ESTIMATE_ROUTES = new Set(["POST /api/portal/jobs/[id]/estimate/approve", "POST /api/portal/jobs/[id]/estimate/decline", "POST /api/payments/checkout"]);
+const ESTIMATE_ROUTES = new Set([
+  "POST /api/portal/jobs/[id]/estimate/approve",
+  "POST /api/portal/jobs/[id]/estimate/decline",
+  "POST /api/payments/checkout",
+]);
 
 async function ownRows(): Promise<OwnRows> {
   const byRoute = new Map<string, Fixtures>();
@@ -63,7 +75,9 @@ async function ownRows(): Promise<OwnRows> {
   const shared = await createJob({ customerEmail: customer.email, state: "on_bench", technicianEmail: DEMO.tech.email });
   const photoA = await storePhoto({ uploaderId: customer.id, jobId: shared.jobId });
   const sessionA = `cs_fuzz_${randomUUID().replaceAll("-", "")}`;
-  const [rev] = await sql<{ id: string }>("select id from estimate_revision where job_id = $1 order by revision desc limit 1", [cert.jobId]);
+  const [rev] = await sql<{ id: string }>("select id from estimate_revision where job_id = $1 order by revision desc limit 1", [
+    cert.jobId,
+  ]);
   const [pay] = await sql<{ id: string }>(
     `insert into payment (job_id, revision_id, purpose, amount_minor, currency, status, checkout_session_id, idempotency_key, paid_at)
      values ($1, $2, 'deposit', 5000, 'USD', 'paid', $3, $4, now()) returning id`,
@@ -94,7 +108,12 @@ async function ownRows(): Promise<OwnRows> {
       const seeded = await seedJobWithEstimate({ email: customer.email });
       byRoute.set(k, { ...fallback, jobA: seeded.jobId, jobOpenA: seeded.jobId, revisionA: seeded.revisionId });
     } else if (STATE_FOR[k]) {
-      const job = await createJob({ customerEmail: customer.email, state: STATE_FOR[k]!, profile: { ...AURELIAN_PROFILE }, technicianEmail: DEMO.tech.email });
+      const job = await createJob({
+        customerEmail: customer.email,
+        state: STATE_FOR[k]!,
+        profile: { ...AURELIAN_PROFILE },
+        technicianEmail: DEMO.tech.email,
+      });
       for (const [code, title] of [
         ["inspect.first", "Inspection and first measurements"],
         ["recap.electrolytics", "Replace the electrolytic capacitors"],
@@ -221,10 +240,33 @@ const DRAFT_LINE = {
 };
 
 const SHAPES: Record<string, Shape> = {
-  "POST /api/webhooks/stripe": { fields: ["id", "type", "object", "data", "created", "livemode", "api_version"], base: () => ({ id: "evt_fuzz", object: "event", type: "checkout.session.completed", data: { object: {} } }) },
-  "POST /api/uploadthing": { fields: ["files", "input"], base: () => ({ files: [{ name: "front.jpg", size: 2048, type: "image/jpeg", lastModified: 0 }], input: null }) },
+  "POST /api/webhooks/stripe": {
+    fields: ["id", "type", "object", "data", "created", "livemode", "api_version"],
+    base: () => ({ id: "evt_fuzz", object: "event", type: "checkout.session.completed", data: { object: {} } }),
+  },
+  "POST /api/uploadthing": {
+    fields: ["files", "input"],
+    base: () => ({ files: [{ name: "front.jpg", size: 2048, type: "image/jpeg", lastModified: 0 }], input: null }),
+  },
   "POST /api/portal/jobs": {
-    fields: ["maker", "model", "year", "serial", "kind", "bands", "dialMarkings", "symptoms", "priorWork", "poweredRecently", "delivery", "contactPreference", "phone", "cautionsAcknowledged", "photos", "idempotencyKey"],
+    fields: [
+      "maker",
+      "model",
+      "year",
+      "serial",
+      "kind",
+      "bands",
+      "dialMarkings",
+      "symptoms",
+      "priorWork",
+      "poweredRecently",
+      "delivery",
+      "contactPreference",
+      "phone",
+      "cautionsAcknowledged",
+      "photos",
+      "idempotencyKey",
+    ],
     base: () => ({
       maker: "Aurelian",
       model: "5T-48",
@@ -240,45 +282,104 @@ const SHAPES: Record<string, Shape> = {
       idempotencyKey: randomUUID(),
     }),
   },
-  "POST /api/portal/jobs/[id]/messages": { fields: ["body", "idempotencyKey", "internal", "authorId", "jobId"], base: () => ({ body: "Is the set on the bench yet?", idempotencyKey: randomUUID() }) },
+  "POST /api/portal/jobs/[id]/messages": {
+    fields: ["body", "idempotencyKey", "internal", "authorId", "jobId"],
+    base: () => ({ body: "Is the set on the bench yet?", idempotencyKey: randomUUID() }),
+  },
   "POST /api/portal/jobs/[id]/estimate/approve": { fields: ["revisionId"], base: (f) => ({ revisionId: f.revisionA }) },
-  "POST /api/portal/jobs/[id]/estimate/decline": { fields: ["revisionId", "reason"], base: (f) => ({ revisionId: f.revisionA, reason: "More than I can spend this year." }) },
-  "POST /api/payments/checkout": { fields: ["jobId", "purpose", "amount", "amountMinor", "currency"], base: (f) => ({ jobId: f.jobA, purpose: "deposit" }) },
+  "POST /api/portal/jobs/[id]/estimate/decline": {
+    fields: ["revisionId", "reason"],
+    base: (f) => ({ revisionId: f.revisionA, reason: "More than I can spend this year." }),
+  },
+  "POST /api/payments/checkout": {
+    fields: ["jobId", "purpose", "amount", "amountMinor", "currency"],
+    base: (f) => ({ jobId: f.jobA, purpose: "deposit" }),
+  },
   "POST /api/certificates/[id]/revoke": { fields: ["reason"], base: () => ({ reason: "Issued against the wrong serial number." }) },
   "POST /api/certificates/[id]/reissue": { fields: ["reason"], base: () => ({ reason: "Serial number corrected." }) },
   "POST /api/claims": {
     fields: ["certificateId", "symptomCategory", "description", "statements", "photos"],
-    base: (f) => ({ certificateId: f.certificateA, symptomCategory: "hum", description: "The hum came back after an hour.", statements: [], photos: [] }),
+    base: (f) => ({
+      certificateId: f.certificateA,
+      symptomCategory: "hum",
+      description: "The hum came back after an hour.",
+      statements: [],
+      photos: [],
+    }),
   },
   "POST /api/claims/by-code": {
     fields: ["code", "symptomCategory", "description", "statements", "photos"],
-    base: () => ({ code: own.certificateCode, symptomCategory: "no-sound", description: "Lights up but no sound at all.", statements: [], photos: [] }),
+    base: () => ({
+      code: own.certificateCode,
+      symptomCategory: "no-sound",
+      description: "Lights up but no sound at all.",
+      statements: [],
+      photos: [],
+    }),
   },
-  "POST /api/claims/[id]/decision": { fields: ["decision", "reason", "findings"], base: () => ({ decision: "inspect", reason: "", findings: [] }) },
+  "POST /api/claims/[id]/decision": {
+    fields: ["decision", "reason", "findings"],
+    base: () => ({ decision: "inspect", reason: "", findings: [] }),
+  },
   "POST /api/bench/jobs/[id]/assign": { fields: ["technicianId"], base: () => ({ technicianId: "demo-tech-priya" }) },
   "POST /api/bench/jobs/[id]/triage": { fields: ["state", "technicianId"] },
-  "PUT /api/bench/jobs/[id]/profile": { fields: ["maker", "model", "year", "profile"], base: () => ({ maker: "Aurelian", model: "5T-48", year: 1948, profile: { ...AURELIAN_PROFILE } }) },
-  "POST /api/bench/jobs/[id]/question": { fields: ["question", "idempotencyKey"], base: () => ({ question: "Does the dial lamp light when you switch it on?", idempotencyKey: randomUUID() }) },
+  "PUT /api/bench/jobs/[id]/profile": {
+    fields: ["maker", "model", "year", "profile"],
+    base: () => ({ maker: "Aurelian", model: "5T-48", year: 1948, profile: { ...AURELIAN_PROFILE } }),
+  },
+  "POST /api/bench/jobs/[id]/question": {
+    fields: ["question", "idempotencyKey"],
+    base: () => ({ question: "Does the dial lamp light when you switch it on?", idempotencyKey: randomUUID() }),
+  },
   "POST /api/bench/jobs/[id]/decline": { fields: ["reason"], base: () => ({ reason: "The chassis is too far gone to restore safely." }) },
   "PUT /api/bench/jobs/[id]/estimate": { fields: ["version", "lines"], base: () => ({ version: 0, lines: [{ ...DRAFT_LINE }] }) },
   "POST /api/bench/jobs/[id]/estimate/rebuild": { fields: ["version"], base: () => ({ version: 0 }) },
-  "POST /api/bench/jobs/[id]/estimate/send": { fields: ["version", "changeSummary"], base: () => ({ version: 1, changeSummary: "First estimate." }) },
+  "POST /api/bench/jobs/[id]/estimate/send": {
+    fields: ["version", "changeSummary"],
+    base: () => ({ version: 1, changeSummary: "First estimate." }),
+  },
   "POST /api/bench/jobs/[id]/start-bench": { fields: ["state"] },
-  "POST /api/bench/jobs/[id]/readings": { fields: ["key", "value", "note"], base: () => ({ key: "leakage.plug-a", value: 0.12, note: "Measured with the plug both ways." }) },
+  "POST /api/bench/jobs/[id]/readings": {
+    fields: ["key", "value", "note"],
+    base: () => ({ key: "leakage.plug-a", value: 0.12, note: "Measured with the plug both ways." }),
+  },
   "POST /api/bench/jobs/[id]/tasks": { fields: ["code", "done"], base: () => ({ code: "inspect.first", done: true }) },
-  "POST /api/bench/jobs/[id]/notes": { fields: ["body", "idempotencyKey"], base: () => ({ body: "Filter caps bulging; ordered replacements.", idempotencyKey: randomUUID() }) },
+  "POST /api/bench/jobs/[id]/notes": {
+    fields: ["body", "idempotencyKey"],
+    base: () => ({ body: "Filter caps bulging; ordered replacements.", idempotencyKey: randomUUID() }),
+  },
   "POST /api/bench/jobs/[id]/final-checks": { fields: ["force"] },
   "POST /api/bench/jobs/[id]/back-to-bench": { fields: ["reason"] },
   "POST /api/bench/jobs/[id]/complete": { fields: ["force", "balanceMinor"] },
-  "POST /api/bench/jobs/[id]/return": { fields: ["method", "carrier", "trackingNumber"], base: () => ({ method: "shipped", carrier: "Port Alder Parcel", trackingNumber: "PA 1234-5678" }) },
+  "POST /api/bench/jobs/[id]/return": {
+    fields: ["method", "carrier", "trackingNumber"],
+    base: () => ({ method: "shipped", carrier: "Port Alder Parcel", trackingNumber: "PA 1234-5678" }),
+  },
   "POST /api/tools/alignment": {
     fields: ["band", "ifKHz", "injection", "gang", "trackingPointsKHz"],
     base: () => ({ band: { lowKHz: 540, highKHz: 1600, kind: "MW" }, ifKHz: 455, gang: { minPF: 12, maxPF: 365 } }),
   },
   "POST /api/tools/estimate": { fields: ["profile"], base: () => ({ profile: { ...AURELIAN_PROFILE } }) },
   // The version stays the stale one of the starting body, so even a fully valid body saves nothing.
-  "PUT /api/office/settings": { fields: ["identity", "currency", "labourRate", "billingIncrementMinutes", "minutesPerRule", "parts", "tax", "deposit", "warranty", "warrantyTerms", "tolerances"] },
-  "POST /api/office/payments/[paymentId]/refunds": { fields: ["amount", "reason"], base: () => ({ amount: "10.00", reason: "Part not needed after all." }) },
+  "PUT /api/office/settings": {
+    fields: [
+      "identity",
+      "currency",
+      "labourRate",
+      "billingIncrementMinutes",
+      "minutesPerRule",
+      "parts",
+      "tax",
+      "deposit",
+      "warranty",
+      "warrantyTerms",
+      "tolerances",
+    ],
+  },
+  "POST /api/office/payments/[paymentId]/refunds": {
+    fields: ["amount", "reason"],
+    base: () => ({ amount: "10.00", reason: "Part not needed after all." }),
+  },
 };
 
 /** The office settings as the form holds them, with a version that is stale on purpose: a fully valid body is refused with 409. */
@@ -303,19 +404,29 @@ function bodyArbitrary(shape: Shape, f: Fixtures): fc.Arbitrary<string> {
       names.forEach((n, i) => (b[n] = values[i]));
       return b;
     });
-  const extraKeys = fc.dictionary(fc.oneof(nastyStrings, fc.string({ maxLength: 12 })), hostile, { maxKeys: 4 }).map((extra) => ({ ...base(f), ...extra }));
+  const extraKeys = fc
+    .dictionary(fc.oneof(nastyStrings, fc.string({ maxLength: 12 })), hostile, { maxKeys: 4 })
+    .map((extra) => ({ ...base(f), ...extra }));
   const document = fc.oneof(
     { weight: 2, arbitrary: fc.jsonValue({ maxDepth: 4 }).map((v) => JSON.stringify(v)) },
     { weight: 4, arbitrary: junkInFields.map((v) => JSON.stringify(v)) },
     { weight: 4, arbitrary: spoiledBase.map((v) => JSON.stringify(v)) },
     { weight: 2, arbitrary: extraKeys.map((v) => JSON.stringify(v)) },
-    { weight: 1, arbitrary: fc.constantFrom("", "{", "[1,2", "{\"a\":}", "nul", "\u0000", "{\"body\": \"unterminated", "1e999999", "x".repeat(300_000)) },
+    {
+      weight: 1,
+      arbitrary: fc.constantFrom("", "{", "[1,2", '{"a":}', "nul", "\u0000", '{"body": "unterminated', "1e999999", "x".repeat(300_000)),
+    },
   );
   // Prototype keys on top of whatever document came out, as JSON text (an own "__proto__" key).
   return fc.tuple(document, fc.integer({ min: 0, max: 3 })).map(([text, proto]) => {
     if (proto === 0 || !text.startsWith("{") || !text.endsWith("}")) return text;
     const inner = text.slice(1, -1);
-    const extra = proto === 1 ? `"__proto__":${JSON.stringify(POLLUTION)}` : proto === 2 ? `"constructor":{"prototype":${JSON.stringify(POLLUTION)}}` : `"__proto__":{"__proto__":${JSON.stringify(POLLUTION)}}`;
+    const extra =
+      proto === 1
+        ? `"__proto__":${JSON.stringify(POLLUTION)}`
+        : proto === 2
+          ? `"constructor":{"prototype":${JSON.stringify(POLLUTION)}}`
+          : `"__proto__":{"__proto__":${JSON.stringify(POLLUTION)}}`;
     return `{${extra}${inner ? `,${inner}` : ""}}`;
   });
 }
@@ -336,7 +447,8 @@ function problemOf(kind: Kind, { status, text }: Sent): string | null {
   const o = body as Record<string, unknown> | null;
   if (kind === "app" || kind === "webhook") {
     const e = (o?.error ?? null) as { code?: unknown; message?: unknown } | null;
-    if (!e || typeof e.code !== "string" || typeof e.message !== "string") return `a ${status} answer without {error:{code,message}}: ${text.slice(0, 200)}`;
+    if (!e || typeof e.code !== "string" || typeof e.message !== "string")
+      return `a ${status} answer without {error:{code,message}}: ${text.slice(0, 200)}`;
     return null;
   }
   // The sign-in service and the upload SDK have their own structured error: a message (and a code). The upload
@@ -348,7 +460,10 @@ function problemOf(kind: Kind, { status, text }: Sent): string | null {
 }
 
 async function send(client: TestClient, method: string, path: string, text: string, headers: Record<string, string> = {}): Promise<Sent> {
-  const res = await client.request(path, method === "GET" ? { method, headers } : { method, body: text, headers: { "content-type": "application/json", ...headers } });
+  const res = await client.request(
+    path,
+    method === "GET" ? { method, headers } : { method, body: text, headers: { "content-type": "application/json", ...headers } },
+  );
   return { status: res.status, text: await res.text() };
 }
 
@@ -433,7 +548,10 @@ describe("random JSON bodies on every route that takes one", () => {
         }
       }
       // Some of the random bodies were refused: the checks above saw real 4xx answers, not only successes.
-      expect([...seen].some((s) => s >= 400 && s < 500), `${key(entry)} never refused anything (${[...seen]})`).toBe(true);
+      expect(
+        [...seen].some((s) => s >= 400 && s < 500),
+        `${key(entry)} never refused anything (${[...seen]})`,
+      ).toBe(true);
       await expectUnpolluted(key(entry));
     });
   }
@@ -441,11 +559,20 @@ describe("random JSON bodies on every route that takes one", () => {
 
 describe("random bodies on sign-in and sign-up (each from its own client address)", () => {
   const auth = [
-    { path: "/api/auth/sign-in/email", fields: ["email", "password", "rememberMe", "callbackURL"], base: () => ({ email: DEMO.customer.email, password: "not-the-password" }) },
+    {
+      path: "/api/auth/sign-in/email",
+      fields: ["email", "password", "rememberMe", "callbackURL"],
+      base: () => ({ email: DEMO.customer.email, password: "not-the-password" }),
+    },
     {
       path: "/api/auth/sign-up/email",
       fields: ["name", "email", "password", "callbackURL", "role", "emailVerified", "banned", "image"],
-      base: () => ({ name: "Fuzz Sign-up", email: `fuzz-signup-${randomUUID().slice(0, 8)}@example.com`, password: "heterodyne-whistle-42", callbackURL: "/portal" }),
+      base: () => ({
+        name: "Fuzz Sign-up",
+        email: `fuzz-signup-${randomUUID().slice(0, 8)}@example.com`,
+        password: "heterodyne-whistle-42",
+        callbackURL: "/portal",
+      }),
     },
   ];
   for (const a of auth) {
@@ -475,7 +602,9 @@ describe("random bodies on sign-in and sign-up (each from its own client address
     expect(problemOf("auth", answer)).toBeNull();
     const rows = await sql<{ role: string; email_verified: boolean }>(`select role, email_verified from "user" where email = $1`, [email]);
     for (const r of rows) expect(r).toEqual({ role: "customer", email_verified: false });
-    const all = await sql<{ n: number }>(`select count(*)::int as n from "user" where email like 'fuzz-signup-%' and (role <> 'customer' or email_verified)`);
+    const all = await sql<{ n: number }>(
+      `select count(*)::int as n from "user" where email like 'fuzz-signup-%' and (role <> 'customer' or email_verified)`,
+    );
     expect(all[0]!.n).toBe(0);
   });
 });
@@ -511,30 +640,45 @@ describe("prototype pollution", () => {
     const q = (await res.json()) as { rows: { id: string }[] };
     expect(q.rows.length).toBeGreaterThan(0);
     // The message with the prototype key was stored as a plain message of the customer's, nothing more.
-    const [m] = await sql<{ author_id: string; internal: boolean }>("select author_id, internal from message where body = 'prototype probe' order by created_at desc limit 1");
+    const [m] = await sql<{ author_id: string; internal: boolean }>(
+      "select author_id, internal from message where body = 'prototype probe' order by created_at desc limit 1",
+    );
     expect(m).toEqual({ author_id: customer.id, internal: false });
   });
 });
 
 describe("random query strings on the routes that read one", () => {
   const reads: { role: "technician" | "owner" | "customerA"; path: string; params: string[] }[] = [
-    { role: "technician", path: "/api/bench/queue", params: ["page", "pageSize", "sort", "dir", "states", "technician", "q", "includeClosed"] },
+    {
+      role: "technician",
+      path: "/api/bench/queue",
+      params: ["page", "pageSize", "sort", "dir", "states", "technician", "q", "includeClosed"],
+    },
     { role: "owner", path: "/api/office/audit", params: ["actor", "entity", "action", "from", "to", "page"] },
     { role: "owner", path: "/api/office/reports", params: ["from", "to"] },
     { role: "owner", path: "/api/office/payments", params: ["page", "status"] },
   ];
-  const value = fc.oneof(nastyStrings, numbers.map(String), fc.string({ maxLength: 30 }), fc.constantFrom("in_triage,on_bench", "me", "none", "asc", "desc", "2026-01", "2026-01-01", "paid", "1", "0"), huge.map((s) => s.slice(0, 300)));
+  const value = fc.oneof(
+    nastyStrings,
+    numbers.map(String),
+    fc.string({ maxLength: 30 }),
+    fc.constantFrom("in_triage,on_bench", "me", "none", "asc", "desc", "2026-01", "2026-01-01", "paid", "1", "0"),
+    huge.map((s) => s.slice(0, 300)),
+  );
   for (const r of reads) {
     it(`GET ${r.path}`, async () => {
       const client = clientFor(r.role);
       await fc.assert(
         // Bounded so the URL stays under the HTTP server's header limit (that 431 is not the app's answer).
-        fc.asyncProperty(fc.array(fc.tuple(fc.oneof(fc.constantFrom(...r.params), nastyStrings), value), { maxLength: 4 }), async (pairs) => {
-          const qs = new URLSearchParams(pairs as [string, string][]).toString();
-          const answer = await send(client, "GET", `${r.path}?${qs}`, "");
-          const problem = problemOf("app", answer);
-          if (problem) throw new Error(`GET ${r.path}?${qs}: ${problem}`);
-        }),
+        fc.asyncProperty(
+          fc.array(fc.tuple(fc.oneof(fc.constantFrom(...r.params), nastyStrings), value), { maxLength: 4 }),
+          async (pairs) => {
+            const qs = new URLSearchParams(pairs as [string, string][]).toString();
+            const answer = await send(client, "GET", `${r.path}?${qs}`, "");
+            const problem = problemOf("app", answer);
+            if (problem) throw new Error(`GET ${r.path}?${qs}: ${problem}`);
+          },
+        ),
         { numRuns: 25, endOnFailure: true },
       );
       for (const param of r.params) {
@@ -554,7 +698,11 @@ describe("duplicate query parameters", () => {
     { role: "technician", path: "/api/bench/queue?pageSize=5&pageSize=10&dir=asc&dir=desc", last: "/api/bench/queue?pageSize=10&dir=desc" },
     { role: "owner", path: "/api/office/audit?page=1&page=2", last: "/api/office/audit?page=2" },
     { role: "owner", path: "/api/office/audit?from=2026-01-01&from=not-a-day", last: "/api/office/audit?from=not-a-day" },
-    { role: "owner", path: "/api/office/audit?entity=job&entity=payment&action=x&action=job.transition", last: "/api/office/audit?entity=payment&action=job.transition" },
+    {
+      role: "owner",
+      path: "/api/office/audit?entity=job&entity=payment&action=x&action=job.transition",
+      last: "/api/office/audit?entity=payment&action=job.transition",
+    },
     { role: "owner", path: "/api/office/payments?status=paid&status=open", last: "/api/office/payments?status=open" },
     { role: "owner", path: "/api/office/reports?from=2026-01&from=2026-02", last: "/api/office/reports?from=2026-02" },
   ];

@@ -49,7 +49,10 @@ describe("sign-in rate limit (production mode)", () => {
     const ip = "203.0.113.77";
     const statuses: number[] = [];
     for (let i = 0; i < 7; i++) {
-      const res = await new TestClient({ ip }).post("/api/auth/sign-in/email", { email: DEMO.customer.email, password: `wrong-${i}-password` });
+      const res = await new TestClient({ ip }).post("/api/auth/sign-in/email", {
+        email: DEMO.customer.email,
+        password: `wrong-${i}-password`,
+      });
       statuses.push(res.status);
     }
     expect(statuses.slice(0, 5).every((s) => s === 401)).toBe(true);

@@ -11,8 +11,13 @@ import { createJob, userId } from "./bench-fixtures";
 type Posted = { id: string; duplicate: boolean };
 type ErrorBody = { error: { code: string; message: string; fields?: Record<string, string> } };
 
-const messagesOf = (jobId: string) => sql<{ id: string; author_id: string; body: string; idempotency_key: string | null }>("select id, author_id, body, idempotency_key from message where job_id = $1 order by created_at, id", [jobId]);
-const auditsOf = (messageIds: string[]) => sql<{ n: number }>("select count(*)::int as n from audit_event where entity = 'message' and entity_id = any($1::text[])", [messageIds]);
+const messagesOf = (jobId: string) =>
+  sql<{ id: string; author_id: string; body: string; idempotency_key: string | null }>(
+    "select id, author_id, body, idempotency_key from message where job_id = $1 order by created_at, id",
+    [jobId],
+  );
+const auditsOf = (messageIds: string[]) =>
+  sql<{ n: number }>("select count(*)::int as n from audit_event where entity = 'message' and entity_id = any($1::text[])", [messageIds]);
 
 let tech: TestClient;
 let techId: string;
@@ -64,7 +69,10 @@ describe("an owner's message with an idempotency key", () => {
     const ids = new Set(await Promise.all(answers.map(async (r) => ((await r.json()) as Posted).id)));
     expect(ids.size).toBe(1);
     expect(await messagesOf(job.jobId)).toHaveLength(1);
-    const moves = await sql<{ n: number }>("select count(*)::int as n from job_state_history where job_id = $1 and from_state = 'awaiting_owner' and to_state = 'in_triage'", [job.jobId]);
+    const moves = await sql<{ n: number }>(
+      "select count(*)::int as n from job_state_history where job_id = $1 and from_state = 'awaiting_owner' and to_state = 'in_triage'",
+      [job.jobId],
+    );
     expect(moves[0]!.n).toBe(1);
     expect((await sql<{ state: string }>("select state from job where id = $1", [job.jobId]))[0]!.state).toBe("in_triage");
   });
@@ -73,20 +81,31 @@ describe("an owner's message with an idempotency key", () => {
     const { client, email } = await newCustomer("msg-reuse");
     const job = await seedJobWithEstimate({ email, state: "approved" });
     const key = randomUUID();
-    const first = await client.post(`/api/portal/jobs/${job.jobId}/messages`, { body: "Is the dial glass covered by the estimate?", idempotencyKey: key });
+    const first = await client.post(`/api/portal/jobs/${job.jobId}/messages`, {
+      body: "Is the dial glass covered by the estimate?",
+      idempotencyKey: key,
+    });
     expect(first.status).toBe(201);
     const { id } = (await first.json()) as Posted;
 
-    const other = await client.post(`/api/portal/jobs/${job.jobId}/messages`, { body: "Please also look at the dial lamp.", idempotencyKey: key });
+    const other = await client.post(`/api/portal/jobs/${job.jobId}/messages`, {
+      body: "Please also look at the dial lamp.",
+      idempotencyKey: key,
+    });
     expect(other.status).toBe(409);
     const err = (await other.json()) as ErrorBody;
     expect(err.error.code).toBe("conflict");
     expect(err.error.message).toMatch(/already used for a different message/);
     expect(err.error.fields?.idempotencyKey).toMatch(/already used/);
 
-    expect((await messagesOf(job.jobId)).map((m) => ({ id: m.id, body: m.body }))).toEqual([{ id, body: "Is the dial glass covered by the estimate?" }]);
+    expect((await messagesOf(job.jobId)).map((m) => ({ id: m.id, body: m.body }))).toEqual([
+      { id, body: "Is the dial glass covered by the estimate?" },
+    ]);
     // A new key sends the second text as a message of its own.
-    const fresh = await client.post(`/api/portal/jobs/${job.jobId}/messages`, { body: "Please also look at the dial lamp.", idempotencyKey: randomUUID() });
+    const fresh = await client.post(`/api/portal/jobs/${job.jobId}/messages`, {
+      body: "Please also look at the dial lamp.",
+      idempotencyKey: randomUUID(),
+    });
     expect(fresh.status).toBe(201);
     expect(await messagesOf(job.jobId)).toHaveLength(2);
   });
@@ -111,24 +130,41 @@ describe("an owner's message with an idempotency key", () => {
     const jobB = await seedJobWithEstimate({ email: b.email, state: "approved" });
     const key = randomUUID();
 
-    const fromA = await a.client.post(`/api/portal/jobs/${jobA.jobId}/messages`, { body: "A: when does the set ship back?", idempotencyKey: key });
-    const fromB = await b.client.post(`/api/portal/jobs/${jobB.jobId}/messages`, { body: "B: can I drop it off on Saturday?", idempotencyKey: key });
+    const fromA = await a.client.post(`/api/portal/jobs/${jobA.jobId}/messages`, {
+      body: "A: when does the set ship back?",
+      idempotencyKey: key,
+    });
+    const fromB = await b.client.post(`/api/portal/jobs/${jobB.jobId}/messages`, {
+      body: "B: can I drop it off on Saturday?",
+      idempotencyKey: key,
+    });
     expect([fromA.status, fromB.status]).toEqual([201, 201]);
     const idA = ((await fromA.json()) as Posted).id;
     const idB = ((await fromB.json()) as Posted).id;
     expect(idA).not.toBe(idB);
     // B cannot reach A's job with that key (or any): not found, and nothing stored.
-    expect((await b.client.post(`/api/portal/jobs/${jobA.jobId}/messages`, { body: "A: when does the set ship back?", idempotencyKey: key })).status).toBe(404);
+    expect(
+      (await b.client.post(`/api/portal/jobs/${jobA.jobId}/messages`, { body: "A: when does the set ship back?", idempotencyKey: key }))
+        .status,
+    ).toBe(404);
 
     // A technician's note on A's job under the very same key is independent of A's message.
-    const note = await tech.post(`/api/bench/jobs/${jobA.jobId}/notes`, { body: "Owner asked about shipping; check the carton.", idempotencyKey: key });
+    const note = await tech.post(`/api/bench/jobs/${jobA.jobId}/notes`, {
+      body: "Owner asked about shipping; check the carton.",
+      idempotencyKey: key,
+    });
     expect(note.status).toBe(200);
     const noteAnswer = (await note.json()) as { messageId: string; duplicate: boolean };
     expect(noteAnswer.duplicate).toBe(false);
     expect(noteAnswer.messageId).not.toBe(idA);
 
     const rowsA = await messagesOf(jobA.jobId);
-    expect(rowsA.map((m) => [m.author_id, m.idempotency_key]).sort()).toEqual([[jobA.customerId, key], [techId, key]].sort());
+    expect(rowsA.map((m) => [m.author_id, m.idempotency_key]).sort()).toEqual(
+      [
+        [jobA.customerId, key],
+        [techId, key],
+      ].sort(),
+    );
     expect((await messagesOf(jobB.jobId)).map((m) => m.id)).toEqual([idB]);
   });
 });
@@ -147,9 +183,15 @@ describe("the shop's messages with an idempotency key", () => {
     expect(await again.json()).toEqual({ messageId: a.messageId, duplicate: true });
 
     expect((await messagesOf(jobId)).map((m) => m.id)).toEqual([a.messageId]);
-    const allMails = await sql<{ n: number }>("select count(*)::int as n from email_outbox where dedupe_key in (select 'shop-question:' || id::text from message where job_id = $1)", [jobId]);
+    const allMails = await sql<{ n: number }>(
+      "select count(*)::int as n from email_outbox where dedupe_key in (select 'shop-question:' || id::text from message where job_id = $1)",
+      [jobId],
+    );
     expect(allMails[0]!.n).toBe(1);
-    const moves = await sql<{ n: number }>("select count(*)::int as n from job_state_history where job_id = $1 and to_state = 'awaiting_owner'", [jobId]);
+    const moves = await sql<{ n: number }>(
+      "select count(*)::int as n from job_state_history where job_id = $1 and to_state = 'awaiting_owner'",
+      [jobId],
+    );
     expect(moves[0]!.n).toBe(1);
 
     const changed = await tech.post(`/api/bench/jobs/${jobId}/question`, { ...post, question: "Is the dial cord original?" });

@@ -40,7 +40,10 @@ export async function insertHistory(jobId: string, toState: string, at: Date): P
 async function revisionFor(jobId: string, totalMinor: number): Promise<string> {
   const existing = await sql<{ id: string }>(`select id from estimate_revision where job_id = $1 order by revision desc limit 1`, [jobId]);
   if (existing[0]) return existing[0].id;
-  const [estimate] = await sql<{ id: string }>(`insert into estimate (job_id, draft, current_revision) values ($1, '{}'::jsonb, 1) returning id`, [jobId]);
+  const [estimate] = await sql<{ id: string }>(
+    `insert into estimate (job_id, draft, current_revision) values ($1, '{}'::jsonb, 1) returning id`,
+    [jobId],
+  );
   const [rev] = await sql<{ id: string }>(
     `insert into estimate_revision (estimate_id, job_id, revision, status, currency, labour_minor, parts_minor, tax_minor, total_minor, deposit_minor, pricing)
      values ($1, $2, 1, 'approved', 'usd', $3, 0, 0, $3, $4, '{}'::jsonb) returning id`,
@@ -75,14 +78,21 @@ export async function insertPayment({
   return p!.id;
 }
 
-export async function insertRefund({ paymentId, amountMinor, status, settledAt }: { paymentId: string; amountMinor: number; status: string; settledAt: Date | null }) {
-  await sql(`insert into refund (payment_id, amount_minor, reason, status, idempotency_key, settled_at) values ($1, $2, 'Fixture refund', $3, $4, $5)`, [
-    paymentId,
-    amountMinor,
-    status,
-    `fixture-${randomUUID()}`,
-    settledAt,
-  ]);
+export async function insertRefund({
+  paymentId,
+  amountMinor,
+  status,
+  settledAt,
+}: {
+  paymentId: string;
+  amountMinor: number;
+  status: string;
+  settledAt: Date | null;
+}) {
+  await sql(
+    `insert into refund (payment_id, amount_minor, reason, status, idempotency_key, settled_at) values ($1, $2, 'Fixture refund', $3, $4, $5)`,
+    [paymentId, amountMinor, status, `fixture-${randomUUID()}`, settledAt],
+  );
 }
 
 async function standIn(path: string, init: RequestInit = {}): Promise<Response> {
@@ -105,7 +115,11 @@ export async function paidPaymentWithCharge(amountMinor: number): Promise<{ paym
     "line_items[0][price_data][unit_amount]": String(amountMinor),
     "line_items[0][price_data][product_data][name]": "Deposit, office test",
   });
-  const created = await standIn("/v1/checkout/sessions", { method: "POST", body: form, headers: { "content-type": "application/x-www-form-urlencoded" } });
+  const created = await standIn("/v1/checkout/sessions", {
+    method: "POST",
+    body: form,
+    headers: { "content-type": "application/x-www-form-urlencoded" },
+  });
   if (!created.ok) throw new Error(`stand-in session: ${created.status} ${await created.text()}`);
   const session = (await created.json()) as { id: string };
   const paid = await fetch(new URL(`/checkout/${session.id}/pay`, testEnv.stripeUrl), {
@@ -123,11 +137,17 @@ export async function paidPaymentWithCharge(amountMinor: number): Promise<{ paym
 
 /** Makes the stand-in answer the next `count` API calls whose body or path contains `match` with a 500. */
 export async function failNextProcessorCalls(match: string, count: number): Promise<void> {
-  const res = await fetch(new URL(`/control/fail-next?${new URLSearchParams({ match, count: String(count), mode: "error" })}`, testEnv.stripeUrl), { method: "POST" });
+  const res = await fetch(
+    new URL(`/control/fail-next?${new URLSearchParams({ match, count: String(count), mode: "error" })}`, testEnv.stripeUrl),
+    { method: "POST" },
+  );
   if (!res.ok) throw new Error(`stand-in fail-next: ${res.status}`);
 }
 
-export async function waitFor<T>(probe: () => Promise<T | null | undefined | false>, { timeoutMs = 20_000, what = "condition" } = {}): Promise<T> {
+export async function waitFor<T>(
+  probe: () => Promise<T | null | undefined | false>,
+  { timeoutMs = 20_000, what = "condition" } = {},
+): Promise<T> {
   const deadline = Date.now() + timeoutMs;
   for (;;) {
     const v = await probe();

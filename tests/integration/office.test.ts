@@ -3,9 +3,26 @@ import { afterAll, describe, expect, it } from "vitest";
 import { DEMO, signedIn } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
-import { failNextProcessorCalls, insertHistory, insertJob, insertPayment, insertRefund, paidPaymentWithCharge, waitFor } from "./office-fixtures";
+import {
+  failNextProcessorCalls,
+  insertHistory,
+  insertJob,
+  insertPayment,
+  insertRefund,
+  paidPaymentWithCharge,
+  waitFor,
+} from "./office-fixtures";
 
-type Snapshot = { version: number; values: Record<string, unknown> & { version: number; labourRate: string; identity: { phone: string }; deposit: { processorMinimum: string; percent: string; atLeastParts: boolean }; warranty: { designation: string; fullAcknowledged: boolean } } };
+type Snapshot = {
+  version: number;
+  values: Record<string, unknown> & {
+    version: number;
+    labourRate: string;
+    identity: { phone: string };
+    deposit: { processorMinimum: string; percent: string; atLeastParts: boolean };
+    warranty: { designation: string; fullAcknowledged: boolean };
+  };
+};
 
 const PAGES = ["/office/settings", "/office/payments", `/office/payments/${randomUUID()}`, "/office/audit", "/office/reports"];
 
@@ -21,7 +38,10 @@ async function put(client: TestClient, values: unknown) {
 
 // Saves made from a given version: each save writes one audit row whose "before" names the version it replaced.
 async function savesFromVersion(version: number): Promise<number> {
-  const [row] = await sql<{ n: number }>(`select count(*)::int as n from audit_event where action = 'settings.update' and (before->>'version')::int = $1`, [version]);
+  const [row] = await sql<{ n: number }>(
+    `select count(*)::int as n from audit_event where action = 'settings.update' and (before->>'version')::int = $1`,
+    [version],
+  );
   return row!.n;
 }
 
@@ -47,12 +67,21 @@ describe("the office is the shop owner's alone", () => {
     for (const who of [DEMO.tech, DEMO.customer]) {
       const client = await signedIn(who);
       for (const path of PAGES) expect((await client.get(path)).status, `${who.email} ${path}`).toBe(404);
-      for (const path of ["/api/office/settings", "/api/office/payments", `/api/office/payments/${paymentId}`, "/api/office/audit", "/api/office/reports"]) {
+      for (const path of [
+        "/api/office/settings",
+        "/api/office/payments",
+        `/api/office/payments/${paymentId}`,
+        "/api/office/audit",
+        "/api/office/reports",
+      ]) {
         expect((await client.get(path)).status, `${who.email} GET ${path}`).toBe(404);
       }
       const changed = { ...before.values, labourRate: "1.00" };
       expect((await put(client, changed)).status, `${who.email} PUT settings`).toBe(404);
-      expect((await client.post(`/api/office/payments/${paymentId}/refunds`, { amount: "10.00", reason: "Not allowed" })).status, `${who.email} refund`).toBe(404);
+      expect(
+        (await client.post(`/api/office/payments/${paymentId}/refunds`, { amount: "10.00", reason: "Not allowed" })).status,
+        `${who.email} refund`,
+      ).toBe(404);
     }
     const after = await settingsOf(owner);
     expect(after.version).toBe(before.version);
@@ -75,7 +104,8 @@ describe("the office is the shop owner's alone", () => {
 
   it("lets the owner open every office page", async () => {
     const owner = await signedIn(DEMO.owner);
-    for (const path of ["/office", "/office/settings", "/office/payments", "/office/audit", "/office/reports"]) expect((await owner.get(path)).status, path).toBe(200);
+    for (const path of ["/office", "/office/settings", "/office/payments", "/office/audit", "/office/reports"])
+      expect((await owner.get(path)).status, path).toBe(200);
     expect((await owner.get(`/office/payments/${randomUUID()}`)).status).toBe(404);
     expect((await owner.get("/office/payments/not-a-uuid")).status).toBe(404);
   });
@@ -86,11 +116,17 @@ describe("settings", () => {
     const owner = await signedIn(DEMO.owner);
     await rememberSettings(owner);
     const s = await settingsOf(owner);
-    const [stored] = await sql<{ min: number; phone: string }>(`select (policy->'deposit'->>'processorMinimumMinor')::int as min, phone from shop_settings where id = 'shop'`);
+    const [stored] = await sql<{ min: number; phone: string }>(
+      `select (policy->'deposit'->>'processorMinimumMinor')::int as min, phone from shop_settings where id = 'shop'`,
+    );
     expect(await savesFromVersion(s.version)).toBe(0);
 
     const phone = `+1 555 01${Math.floor(Math.random() * 90 + 10)}`;
-    const res = await put(owner, { ...s.values, identity: { ...s.values.identity, phone }, deposit: { ...s.values.deposit, processorMinimum: "0.65" } });
+    const res = await put(owner, {
+      ...s.values,
+      identity: { ...s.values.identity, phone },
+      deposit: { ...s.values.deposit, processorMinimum: "0.65" },
+    });
     expect(res.status).toBe(200);
     const saved = (await res.json()) as Snapshot;
     expect(saved.version).toBe(s.version + 1);
@@ -124,7 +160,9 @@ describe("settings", () => {
     // Calling it a full warranty is a deliberate choice: without the confirmation it is refused.
     const full = await put(owner, { ...s.values, warranty: { ...s.values.warranty, designation: "full", fullAcknowledged: false } });
     expect(full.status).toBe(400);
-    expect(((await full.json()) as { error: { fields: Record<string, string> } }).error.fields["warranty.fullAcknowledged"]).toMatch(/minimum standards/);
+    expect(((await full.json()) as { error: { fields: Record<string, string> } }).error.fields["warranty.fullAcknowledged"]).toMatch(
+      /minimum standards/,
+    );
 
     expect((await settingsOf(owner)).version).toBe(s.version);
     expect(await savesFromVersion(s.version)).toBe(0);
@@ -170,10 +208,16 @@ describe("refunds", () => {
   it("refunds part of a payment and shows it as refunded once the processor's webhook confirms it", async () => {
     const owner = await signedIn(DEMO.owner);
     const { paymentId } = await paidPaymentWithCharge(12_000);
-    const res = await owner.post(`/api/office/payments/${paymentId}/refunds`, { amount: "45.50", reason: "Dial glass was not replaced as quoted" });
+    const res = await owner.post(`/api/office/payments/${paymentId}/refunds`, {
+      amount: "45.50",
+      reason: "Dial glass was not replaced as quoted",
+    });
     expect(res.status).toBe(202);
     const { refundId } = (await res.json()) as { refundId: string };
-    const [requested] = await sql<{ status: string; amount_minor: number; idempotency_key: string }>(`select status, amount_minor, idempotency_key from refund where id = $1`, [refundId]);
+    const [requested] = await sql<{ status: string; amount_minor: number; idempotency_key: string }>(
+      `select status, amount_minor, idempotency_key from refund where id = $1`,
+      [refundId],
+    );
     expect(requested!.amount_minor).toBe(4550);
     expect(requested!.idempotency_key).toBe(`refund-${refundId}`);
 
@@ -188,12 +232,21 @@ describe("refunds", () => {
       { what: "the charge.refunded webhook" },
     );
     expect(settled.processor_refund_id).toMatch(/^re_/);
-    const [payment] = await sql<{ status: string; amount_minor: number }>(`select status, amount_minor from payment where id = $1`, [paymentId]);
+    const [payment] = await sql<{ status: string; amount_minor: number }>(`select status, amount_minor from payment where id = $1`, [
+      paymentId,
+    ]);
     expect(payment).toEqual({ status: "paid", amount_minor: 12_000 });
-    const audits = await sql<{ action: string; actor_id: string | null }>(`select action, actor_id from audit_event where entity_id in ($1, $2) order by id`, [paymentId, refundId]);
+    const audits = await sql<{ action: string; actor_id: string | null }>(
+      `select action, actor_id from audit_event where entity_id in ($1, $2) order by id`,
+      [paymentId, refundId],
+    );
     expect(audits.filter((a) => a.action === "refund.request")).toEqual([{ action: "refund.request", actor_id: "demo-owner-odile" }]);
 
-    const detail = (await (await owner.get(`/api/office/payments/${paymentId}`)).json()) as { refundedMinor: number; inFlightMinor: number; refunds: { status: string }[] };
+    const detail = (await (await owner.get(`/api/office/payments/${paymentId}`)).json()) as {
+      refundedMinor: number;
+      inFlightMinor: number;
+      refunds: { status: string }[];
+    };
     expect(detail).toMatchObject({ refundedMinor: 4550, inFlightMinor: 0 });
     expect(detail.refunds.map((r) => r.status)).toEqual(["succeeded"]);
 
@@ -216,7 +269,9 @@ describe("refunds", () => {
       other.post(`/api/office/payments/${paymentId}/refunds`, { amount: "30.00", reason: "Second half and a bit" }),
     ]);
     expect(results.map((r) => r.status).sort()).toEqual([202, 409]);
-    const rows = await sql<{ amount_minor: number }>(`select amount_minor from refund where payment_id = $1 and status <> 'failed'`, [paymentId]);
+    const rows = await sql<{ amount_minor: number }>(`select amount_minor from refund where payment_id = $1 and status <> 'failed'`, [
+      paymentId,
+    ]);
     expect(rows.reduce((n, r) => n + r.amount_minor, 0)).toBe(3000);
   });
 
@@ -231,9 +286,17 @@ describe("refunds", () => {
     expect(cents.status).toBe(400);
     expect(((await cents.json()) as { error: { fields: Record<string, string> } }).error.fields.amount).toMatch(/2 decimal places/);
     expect((await sql(`select 1 from refund where payment_id = $1`, [paymentId])).length).toBe(0);
-    const unpaid = await insertPayment({ jobId: (await insertJob({ state: "approved" })).jobId, purpose: "deposit", amountMinor: 2000, status: "open", paidAt: null });
+    const unpaid = await insertPayment({
+      jobId: (await insertJob({ state: "approved" })).jobId,
+      purpose: "deposit",
+      amountMinor: 2000,
+      status: "open",
+      paidAt: null,
+    });
     expect((await owner.post(`/api/office/payments/${unpaid}/refunds`, { amount: "5.00", reason: "Not paid yet" })).status).toBe(409);
-    expect((await owner.post(`/api/office/payments/${randomUUID()}/refunds`, { amount: "5.00", reason: "No such payment" })).status).toBe(404);
+    expect((await owner.post(`/api/office/payments/${randomUUID()}/refunds`, { amount: "5.00", reason: "No such payment" })).status).toBe(
+      404,
+    );
   });
 
   it("marks the refund failed with a retryable message when the processor fails, and a retry then works", async () => {
@@ -246,7 +309,9 @@ describe("refunds", () => {
     expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(/Nothing was refunded; please try again/);
     const rows = await sql<{ status: string }>(`select status from refund where payment_id = $1`, [paymentId]);
     expect(rows).toEqual([{ status: "failed" }]);
-    const [p] = await sql<{ refunded_minor: number; status: string }>(`select refunded_minor, status from payment where id = $1`, [paymentId]);
+    const [p] = await sql<{ refunded_minor: number; status: string }>(`select refunded_minor, status from payment where id = $1`, [
+      paymentId,
+    ]);
     expect(p).toEqual({ refunded_minor: 0, status: "paid" });
 
     const retry = await owner.post(`/api/office/payments/${paymentId}/refunds`, { amount: "20.00", reason: "Wrong part fitted" });
@@ -266,14 +331,19 @@ describe("audit log", () => {
     const owner = await signedIn(DEMO.owner);
     const entityId = `audit-probe-${randomUUID()}`;
     for (let i = 0; i < 3; i++) {
-      await sql(`insert into audit_event (actor_id, action, entity, entity_id, before, after, at) values ('demo-tech-tomas', 'probe.check', 'probe', $1, $2, $3, $4)`, [
-        entityId,
-        JSON.stringify({ note: "<b>before</b>" }),
-        JSON.stringify({ note: `<script>alert(${i})</script>` }),
-        new Date(Date.UTC(2014, 4, 10 + i, 12)),
-      ]);
+      await sql(
+        `insert into audit_event (actor_id, action, entity, entity_id, before, after, at) values ('demo-tech-tomas', 'probe.check', 'probe', $1, $2, $3, $4)`,
+        [
+          entityId,
+          JSON.stringify({ note: "<b>before</b>" }),
+          JSON.stringify({ note: `<script>alert(${i})</script>` }),
+          new Date(Date.UTC(2014, 4, 10 + i, 12)),
+        ],
+      );
     }
-    const res = await owner.get(`/api/office/audit?${new URLSearchParams({ actor: "demo-tech-tomas", entity: "probe", action: "probe.check", from: "2014-05-11", to: "2014-05-12" })}`);
+    const res = await owner.get(
+      `/api/office/audit?${new URLSearchParams({ actor: "demo-tech-tomas", entity: "probe", action: "probe.check", from: "2014-05-11", to: "2014-05-12" })}`,
+    );
     expect(res.status).toBe(200);
     const body = (await res.json()) as { rows: { entityId: string; actorName: string; after: { note: string } }[]; total: number };
     expect(body.total).toBe(2);
@@ -359,7 +429,12 @@ describe("reports", () => {
       expect(m, m.month).toEqual({ month: m.month, depositsMinor: dep, balancesMinor: bal, refundsMinor: ref, netMinor: dep + bal - ref });
     }
     expect(r.money.find((m) => m.month === "2013-02")).toMatchObject({ depositsMinor: 7500, balancesMinor: 7055, refundsMinor: 0 });
-    expect(r.money.find((m) => m.month === "2013-03")).toMatchObject({ depositsMinor: 0, balancesMinor: 9000, refundsMinor: 1000, netMinor: 8000 });
+    expect(r.money.find((m) => m.month === "2013-03")).toMatchObject({
+      depositsMinor: 0,
+      balancesMinor: 9000,
+      refundsMinor: 1000,
+      netMinor: 8000,
+    });
 
     // The page prints the same numbers in its tables.
     const html = await (await owner.get("/office/reports?from=2013-01&to=2013-12")).text();

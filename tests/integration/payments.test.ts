@@ -72,7 +72,10 @@ describe("deposit checkout", () => {
     ]);
     const [ja, jb] = [(await a.json()) as { url: string }, (await b.json()) as { url: string }];
     expect(ja.url).toBe(jb.url);
-    const rows = await sql<{ amount_minor: number; currency: string; idempotency_key: string }>("select amount_minor, currency, idempotency_key from payment where job_id = $1", [job.jobId]);
+    const rows = await sql<{ amount_minor: number; currency: string; idempotency_key: string }>(
+      "select amount_minor, currency, idempotency_key from payment where job_id = $1",
+      [job.jobId],
+    );
     expect(rows).toHaveLength(1);
     expect(rows[0]!.amount_minor).toBe(10450);
     expect(rows[0]!.currency).toBe("USD");
@@ -112,10 +115,18 @@ describe("stripe webhook", () => {
     const paid = await payOnStandin(sessionId, "succeed");
     expect(paid.status).toBe(303);
     expect(paid.headers.get("location")).toContain(`/portal/jobs/${job.jobId}/payment?session_id=${sessionId}`);
-    expect(await waitFor(() => jobState(job.jobId), (s) => s === "deposit_paid")).toBe("deposit_paid");
+    expect(
+      await waitFor(
+        () => jobState(job.jobId),
+        (s) => s === "deposit_paid",
+      ),
+    ).toBe("deposit_paid");
     const mail = await waitForMail(email, "Deposit received");
     expect(mail.text).toContain("$93.72");
-    const [history] = await sql<{ actor_id: string | null; from_state: string }>("select actor_id, from_state from job_state_history where job_id = $1 and to_state = 'deposit_paid'", [job.jobId]);
+    const [history] = await sql<{ actor_id: string | null; from_state: string }>(
+      "select actor_id, from_state from job_state_history where job_id = $1 and to_state = 'deposit_paid'",
+      [job.jobId],
+    );
     expect(history).toMatchObject({ actor_id: null, from_state: "approved" });
   });
 
@@ -154,7 +165,11 @@ describe("stripe webhook", () => {
     expect(tampered).not.toBe(ev.payload);
     expect((await deliver(tampered, header)).status).toBe(400);
     expect((await deliver(ev.payload, signedHeader(ev.payload, { secret: "whsec_someone_else" }))).status).toBe(400);
-    const bare = await fetch(`${process.env.APP_URL}/api/webhooks/stripe`, { method: "POST", body: ev.payload, headers: { "content-type": "application/json" } });
+    const bare = await fetch(`${process.env.APP_URL}/api/webhooks/stripe`, {
+      method: "POST",
+      body: ev.payload,
+      headers: { "content-type": "application/json" },
+    });
     expect(bare.status).toBe(400);
     expect(await effects(job.jobId)).toEqual({ paid: 0, moves: 0, mails: 0 });
     expect(await sql("select 1 from payment_event where id = $1", [ev.id])).toHaveLength(0);
@@ -167,7 +182,16 @@ describe("stripe webhook", () => {
       object: "event",
       type: "checkout.session.completed",
       created: Math.floor(Date.now() / 1000),
-      data: { object: { id: `cs_test_nobody_${id}`, object: "checkout.session", payment_status: "paid", amount_total: 9372, currency: "usd", metadata: {} } },
+      data: {
+        object: {
+          id: `cs_test_nobody_${id}`,
+          object: "checkout.session",
+          payment_status: "paid",
+          amount_total: 9372,
+          currency: "usd",
+          metadata: {},
+        },
+      },
     });
     const paidBefore = await sql<{ n: number }>("select count(*)::int as n from payment where status = 'paid'");
     const first = await deliver(payload);
@@ -176,7 +200,10 @@ describe("stripe webhook", () => {
     const again = await deliver(payload);
     expect(again.status).toBe(200);
     expect(((await again.json()) as { outcome: string }).outcome).toBe("duplicate");
-    const stored = await sql<{ outcome: string; payment_id: string | null }>("select outcome, payment_id from payment_event where id = $1", [id]);
+    const stored = await sql<{ outcome: string; payment_id: string | null }>(
+      "select outcome, payment_id from payment_event where id = $1",
+      [id],
+    );
     expect(stored).toEqual([{ outcome: "unknown-session", payment_id: null }]);
     expect(await sql<{ n: number }>("select count(*)::int as n from payment where status = 'paid'")).toEqual(paidBefore);
   });
@@ -229,7 +256,8 @@ describe("stripe webhook", () => {
         o.status = "expired";
         o.payment_status = "unpaid";
       }).replace('"type":"checkout.session.completed"', '"type":"checkout.session.expired"');
-      const sequence = order === "forward" ? [completed.payload, succeeded.payload, expired] : [expired, succeeded.payload, completed.payload];
+      const sequence =
+        order === "forward" ? [completed.payload, succeeded.payload, expired] : [expired, succeeded.payload, completed.payload];
       for (const payload of sequence) expect((await deliver(payload)).status).toBe(200);
       const [row] = await sql<{ status: string }>("select status from payment where job_id = $1", [job.jobId]);
       finals.push({ payment: row!.status, job: await jobState(job.jobId), ...(await effects(job.jobId)) });
@@ -264,7 +292,10 @@ describe("balance and refunds", () => {
   it("takes the balance (total less the deposit) and moves the job to paid in full", async () => {
     const { client, email, job, sessionId } = await approvedWithCheckout();
     await payOnStandin(sessionId, "succeed");
-    await waitFor(() => jobState(job.jobId), (s) => s === "deposit_paid");
+    await waitFor(
+      () => jobState(job.jobId),
+      (s) => s === "deposit_paid",
+    );
     // The bench steps in between are not part of this test: put the job where completion leaves it.
     await sql("update job set state = 'balance_due' where id = $1", [job.jobId]);
     const res = await client.post("/api/payments/checkout", { jobId: job.jobId, purpose: "balance" });
@@ -273,7 +304,12 @@ describe("balance and refunds", () => {
     const session = await stripeClient().checkout.sessions.retrieve(balanceSession);
     expect(session.amount_total).toBe(31240 - 9372);
     await payOnStandin(balanceSession, "succeed");
-    expect(await waitFor(() => jobState(job.jobId), (s) => s === "paid_in_full")).toBe("paid_in_full");
+    expect(
+      await waitFor(
+        () => jobState(job.jobId),
+        (s) => s === "paid_in_full",
+      ),
+    ).toBe("paid_in_full");
     const mail = await waitForMail(email, "Payment in full received");
     expect(mail.text).toContain("$218.68");
   });
@@ -281,18 +317,30 @@ describe("balance and refunds", () => {
   it("settles the office's refund row from charge.refunded", async () => {
     const { job, sessionId } = await approvedWithCheckout();
     await payOnStandin(sessionId, "succeed");
-    await waitFor(() => jobState(job.jobId), (s) => s === "deposit_paid");
-    const [payment] = await sql<{ id: string; payment_intent_id: string }>("select id, payment_intent_id from payment where job_id = $1 and status = 'paid'", [job.jobId]);
+    await waitFor(
+      () => jobState(job.jobId),
+      (s) => s === "deposit_paid",
+    );
+    const [payment] = await sql<{ id: string; payment_intent_id: string }>(
+      "select id, payment_intent_id from payment where job_id = $1 and status = 'paid'",
+      [job.jobId],
+    );
     const [refund] = await sql<{ id: string }>(
       "insert into refund (payment_id, amount_minor, reason, idempotency_key) values ($1, 2000, 'Goodwill: dial glass arrived cracked', $2) returning id",
       [payment!.id, `refund-test-${payment!.id}`],
     );
-    await stripeClient().refunds.create({ payment_intent: payment!.payment_intent_id, amount: 2000, metadata: { refundId: refund!.id } }, { idempotencyKey: `refund-${refund!.id}` });
+    await stripeClient().refunds.create(
+      { payment_intent: payment!.payment_intent_id, amount: 2000, metadata: { refundId: refund!.id } },
+      { idempotencyKey: `refund-${refund!.id}` },
+    );
     const settled = await waitFor(
-      async () => (await sql<{ status: string; refunded_minor: number; processor_refund_id: string | null }>(
-        "select r.status, p.refunded_minor, r.processor_refund_id from refund r join payment p on p.id = r.payment_id where r.id = $1",
-        [refund!.id],
-      ))[0]!,
+      async () =>
+        (
+          await sql<{ status: string; refunded_minor: number; processor_refund_id: string | null }>(
+            "select r.status, p.refunded_minor, r.processor_refund_id from refund r join payment p on p.id = r.payment_id where r.id = $1",
+            [refund!.id],
+          )
+        )[0]!,
       (r) => r.status === "succeeded" && r.refunded_minor === 2000,
     );
     expect(settled.status).toBe("succeeded");

@@ -15,13 +15,30 @@ afterAll(async () => {
 describe("quote request", () => {
   it("creates the set, the job, its photos, history, audit and the e-mail together; a resend is the same job", async () => {
     const { client, email } = await newCustomer("quote");
-    const tickets = [await ticketFor(client, { name: "front.jpg", type: "image/jpeg", bytes: await jpeg() }), await ticketFor(client, { name: "back.jpg", type: "image/jpeg", bytes: await jpeg({ color: "#2f6b3a" }) })];
-    const body = quoteBody(tickets, { maker: "Haldane", model: "Console <b>7</b>", bands: ["MW", "SW", "FM"], kind: "tube-transformer", status: "paid_in_full", customerId: "someone-else" });
+    const tickets = [
+      await ticketFor(client, { name: "front.jpg", type: "image/jpeg", bytes: await jpeg() }),
+      await ticketFor(client, { name: "back.jpg", type: "image/jpeg", bytes: await jpeg({ color: "#2f6b3a" }) }),
+    ];
+    const body = quoteBody(tickets, {
+      maker: "Haldane",
+      model: "Console <b>7</b>",
+      bands: ["MW", "SW", "FM"],
+      kind: "tube-transformer",
+      status: "paid_in_full",
+      customerId: "someone-else",
+    });
     const res = await client.post("/api/portal/jobs", body);
     expect(res.status).toBe(201);
     const { jobId, number } = (await res.json()) as { jobId: string; number: string };
     expect(number).toMatch(/^KL-\d{4}$/);
-    const [job] = await sql<{ state: string; customer_email: string; cautions: Date | null; maker: string; model: string; profile: { bands: { kind: string }[] } }>(
+    const [job] = await sql<{
+      state: string;
+      customer_email: string;
+      cautions: Date | null;
+      maker: string;
+      model: string;
+      profile: { bands: { kind: string }[] };
+    }>(
       `select j.state, u.email as customer_email, j.cautions_acknowledged_at as cautions, s.maker, s.model, s.profile
        from job j join "user" u on u.id = j.customer_id join radio_set s on s.id = j.set_id where j.id = $1`,
       [jobId],
@@ -62,13 +79,24 @@ describe("the owner's job page data", () => {
     const { client, email } = await newCustomer("reader");
     const job = await seedJobWithEstimate({ email });
     const [tech] = await sql<{ id: string }>(`select id from "user" where email = 'tomas@kestrel-lane.example'`);
-    await sql("insert into message (job_id, author_id, body, internal) values ($1, $2, 'Owner seems unsure about the cabinet; quote high.', true), ($1, $2, 'We will start with a safety check.', false)", [job.jobId, tech!.id]);
+    await sql(
+      "insert into message (job_id, author_id, body, internal) values ($1, $2, 'Owner seems unsure about the cabinet; quote high.', true), ($1, $2, 'We will start with a safety check.', false)",
+      [job.jobId, tech!.id],
+    );
     const res = await client.get(`/api/portal/jobs/${job.jobId}`);
     expect(res.status).toBe(200);
     expect(res.headers.get("cache-control")).toContain("no-store");
     const text = await res.text();
-    for (const hidden of ["partCost", "part_cost", "markup", "Bp", "quote high", "technicianId", "customerId"]) expect(text).not.toContain(hidden);
-    const view = JSON.parse(text) as { estimate: { groups: { label: string; lines: { reason: string }[] }[]; total: { text: string }; deposit: { text: string }; warranty: { termDays: number; covers: string[] } } };
+    for (const hidden of ["partCost", "part_cost", "markup", "Bp", "quote high", "technicianId", "customerId"])
+      expect(text).not.toContain(hidden);
+    const view = JSON.parse(text) as {
+      estimate: {
+        groups: { label: string; lines: { reason: string }[] }[];
+        total: { text: string };
+        deposit: { text: string };
+        warranty: { termDays: number; covers: string[] };
+      };
+    };
     expect(view.estimate.groups.map((g) => g.label)).toEqual(["Inspection", "Safety", "Recap", "Parts"]);
     expect(view.estimate.groups[1]!.lines[0]!.reason).toMatch(/^AC\/DC set/);
     expect(view.estimate.total.text).toBe("$312.40");
@@ -94,18 +122,29 @@ describe("the owner's job page data", () => {
     );
     const stale = await client.post(`/api/portal/jobs/${job.jobId}/estimate/approve`, { revisionId: job.revisionId });
     expect(stale.status).toBe(409);
-    const view = (await (await client.get(`/api/portal/jobs/${job.jobId}`)).json()) as { estimate: { revision: number; changeSummary: string; decidable: boolean } };
+    const view = (await (await client.get(`/api/portal/jobs/${job.jobId}`)).json()) as {
+      estimate: { revision: number; changeSummary: string; decidable: boolean };
+    };
     expect(view.estimate).toMatchObject({ revision: 2, changeSummary: "The dial cord is broken and must be restrung.", decidable: true });
-    const declined = await client.post(`/api/portal/jobs/${job.jobId}/estimate/decline`, { revisionId: rev2!.id, reason: "Too much for a set I may sell." });
+    const declined = await client.post(`/api/portal/jobs/${job.jobId}/estimate/decline`, {
+      revisionId: rev2!.id,
+      reason: "Too much for a set I may sell.",
+    });
     expect(declined.status).toBe(200);
-    const [row] = await sql<{ state: string; reason: string }>("select j.state, r.decline_reason as reason from job j join estimate_revision r on r.job_id = j.id and r.revision = 2 where j.id = $1", [job.jobId]);
+    const [row] = await sql<{ state: string; reason: string }>(
+      "select j.state, r.decline_reason as reason from job j join estimate_revision r on r.job_id = j.id and r.revision = 2 where j.id = $1",
+      [job.jobId],
+    );
     expect(row).toEqual({ state: "declined_by_owner", reason: "Too much for a set I may sell." });
   });
 
   it("sends a customer's answer back to triage when the shop was waiting on it", async () => {
     const { client, email } = await newCustomer("answer");
     const job = await seedJobWithEstimate({ email, state: "awaiting_owner" });
-    const res = await client.post(`/api/portal/jobs/${job.jobId}/messages`, { body: "Yes, the label says 5T-48 and chassis 4471.", idempotencyKey: randomUUID() });
+    const res = await client.post(`/api/portal/jobs/${job.jobId}/messages`, {
+      body: "Yes, the label says 5T-48 and chassis 4471.",
+      idempotencyKey: randomUUID(),
+    });
     expect(res.status).toBe(201);
     expect((await sql<{ state: string }>("select state from job where id = $1", [job.jobId]))[0]!.state).toBe("in_triage");
   });
@@ -120,7 +159,10 @@ describe("another owner's things are not found", () => {
     const [photo] = await sql<{ id: string }>("select id from photo where job_id = $1", [created.jobId]);
     const job = await seedJobWithEstimate({ email: a.email });
     await a.client.post(`/api/portal/jobs/${job.jobId}/estimate/approve`, { revisionId: job.revisionId });
-    const checkout = (await (await a.client.post("/api/payments/checkout", { jobId: job.jobId, purpose: "deposit" })).json()) as { url: string; paymentId: string };
+    const checkout = (await (await a.client.post("/api/payments/checkout", { jobId: job.jobId, purpose: "deposit" })).json()) as {
+      url: string;
+      paymentId: string;
+    };
     const sessionId = sessionIdFrom(checkout.url);
     await payOnStandin(sessionId, "succeed");
 

@@ -44,8 +44,19 @@ function startCluster(port: number) {
   // Bring the prepared cluster back up to read it, as the start command does.
   const pgBin = process.env.PG_BIN!;
   const asRoot = process.getuid?.() === 0;
-  const args = ["-D", join(state, "pgdata"), "-l", join(state, "postgres.log"), "-o", `-h 127.0.0.1 -p ${port} -k ${join(state, "pgsock")}`, "-w", "start"];
-  const r = asRoot ? spawnSync("runuser", ["-u", "postgres", "--", join(pgBin, "pg_ctl"), ...args]) : spawnSync(join(pgBin, "pg_ctl"), args);
+  const args = [
+    "-D",
+    join(state, "pgdata"),
+    "-l",
+    join(state, "postgres.log"),
+    "-o",
+    `-h 127.0.0.1 -p ${port} -k ${join(state, "pgsock")}`,
+    "-w",
+    "start",
+  ];
+  const r = asRoot
+    ? spawnSync("runuser", ["-u", "postgres", "--", join(pgBin, "pg_ctl"), ...args])
+    : spawnSync(join(pgBin, "pg_ctl"), args);
   if (r.status !== 0) throw new Error(`pg_ctl start failed: ${r.stderr}`);
   return () => {
     const stop = ["-D", join(state, "pgdata"), "-m", "fast", "-w", "stop"];

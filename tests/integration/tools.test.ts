@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runAlignmentTool } from "@/lib/tools/alignment-request";
+import { runAlignmentTool } from "@/lib/engine/requests/alignment-request";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool } from "../support/db";
 import { TestClient } from "../support/http";
@@ -60,7 +60,11 @@ describe("POST /api/tools/alignment", () => {
     const n = (await narrow.json()) as { error: { fields: Record<string, string> } };
     expect(Object.keys(n.error.fields).length).toBeGreaterThan(0);
 
-    const notJson = await tech.request("/api/tools/alignment", { method: "POST", body: "{not json", headers: { "content-type": "application/json" } });
+    const notJson = await tech.request("/api/tools/alignment", {
+      method: "POST",
+      body: "{not json",
+      headers: { "content-type": "application/json" },
+    });
     expect(notJson.status).toBe(400);
   });
 });
@@ -69,7 +73,10 @@ describe("POST /api/tools/estimate", () => {
   it("prices a profile for staff", async () => {
     const res = await tech.post("/api/tools/estimate", { profile: AURELIAN_PROFILE });
     expect(res.status).toBe(200);
-    const body = (await res.json()) as { lines: { code: string; labourMinor: number; partsMinor: number }[]; totals: { totalMinor: number; labourMinor: number; partsMinor: number; taxMinor: number; depositMinor: number } };
+    const body = (await res.json()) as {
+      lines: { code: string; labourMinor: number; partsMinor: number }[];
+      totals: { totalMinor: number; labourMinor: number; partsMinor: number; taxMinor: number; depositMinor: number };
+    };
     expect(body.lines.map((l) => l.code)).toEqual(expect.arrayContaining(["safety.isolation-bench", "safety.y-capacitor", "test.leakage"]));
     expect(body.totals.labourMinor).toBe(body.lines.reduce((s, l) => s + l.labourMinor, 0));
     expect(body.totals.partsMinor).toBe(body.lines.reduce((s, l) => s + l.partsMinor, 0));
@@ -80,7 +87,9 @@ describe("POST /api/tools/estimate", () => {
   it("keeps others out and explains bad profiles field by field", async () => {
     expect((await customer.post("/api/tools/estimate", { profile: AURELIAN_PROFILE })).status).toBe(404);
     expect((await new TestClient().post("/api/tools/estimate", { profile: AURELIAN_PROFILE })).status).toBe(401);
-    const res = await tech.post("/api/tools/estimate", { profile: { ...AURELIAN_PROFILE, kind: "crystal", bands: [{ kind: "MW", lowKHz: 540, highKHz: 99000, ifKHz: 455 }] } });
+    const res = await tech.post("/api/tools/estimate", {
+      profile: { ...AURELIAN_PROFILE, kind: "crystal", bands: [{ kind: "MW", lowKHz: 540, highKHz: 99000, ifKHz: 455 }] },
+    });
     expect(res.status).toBe(400);
     const { error } = (await res.json()) as { error: { fields: Record<string, string> } };
     expect(error.fields["profile.kind"]).toBeTruthy();

@@ -25,7 +25,11 @@ describe("photo uploads through the upload SDK and the stand-in", () => {
 
   it.each([
     ["an HTML page renamed .jpg", async () => ({ name: "dial.jpg", type: "image/jpeg", bytes: htmlPage }), /not a JPEG, PNG or WebP/],
-    ["a JPEG with a ZIP archive appended", async () => ({ name: "back.jpg", type: "image/jpeg", bytes: await jpegZipPolyglot() }), /more than a photo/],
+    [
+      "a JPEG with a ZIP archive appended",
+      async () => ({ name: "back.jpg", type: "image/jpeg", bytes: await jpegZipPolyglot() }),
+      /more than a photo/,
+    ],
     ["a truncated JPEG", async () => ({ name: "chassis.jpg", type: "image/jpeg", bytes: await truncatedJpeg() }), /incomplete|damaged/],
     ["a 30000 × 30000 PNG", async () => ({ name: "label.png", type: "image/png", bytes: pixelFloodPng() }), /30000 × 30000 pixels/],
     ["a file over 16 MB", async () => ({ name: "huge.jpg", type: "image/jpeg", bytes: await oversizeJpeg() }), /larger than 16 MB/],
@@ -41,7 +45,10 @@ describe("photo uploads through the upload SDK and the stand-in", () => {
   it("refuses a thirteenth photo, in one upload and on the request", async () => {
     const { client } = await newCustomer("thirteen");
     const image = await jpeg({ width: 320, height: 240 });
-    const batch = await uploadFiles(client, Array.from({ length: 13 }, (_, i) => ({ name: `p${i}.jpg`, type: "image/jpeg", bytes: image })));
+    const batch = await uploadFiles(
+      client,
+      Array.from({ length: 13 }, (_, i) => ({ name: `p${i}.jpg`, type: "image/jpeg", bytes: image })),
+    );
     expect(batch[0]!.status).toBe(400);
     expect(batch[0]!.error).toMatch(/At most 12 photos/);
     const tickets: string[] = [];
@@ -50,7 +57,9 @@ describe("photo uploads through the upload SDK and the stand-in", () => {
     expect(res.status).toBe(400);
     const body = (await res.json()) as { error: { fields: Record<string, string> } };
     expect(body.error.fields.photos).toMatch(/At most 12 photos/);
-    expect(await sql(`select 1 from photo p join "user" u on u.id = p.uploader_id where u.email = $1`, [await emailOf(client)])).toHaveLength(0);
+    expect(
+      await sql(`select 1 from photo p join "user" u on u.id = p.uploader_id where u.email = $1`, [await emailOf(client)]),
+    ).toHaveLength(0);
   });
 
   it("strips every bit of EXIF (GPS included) and bakes the orientation in", async () => {

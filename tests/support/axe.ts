@@ -15,7 +15,12 @@ export async function axeViolations(page: Page): Promise<AxeViolation[]> {
   return page.evaluate(async (tags) => {
     const w = window as unknown as { axe: { run: (ctx: Document, opts: unknown) => Promise<{ violations: AxeViolation[] }> } };
     const result = await w.axe.run(document, { runOnly: { type: "tag", values: tags }, resultTypes: ["violations"] });
-    return result.violations.map((v) => ({ id: v.id, impact: v.impact, help: v.help, nodes: v.nodes.map((n) => ({ target: n.target, html: n.html.slice(0, 200) })) }));
+    return result.violations.map((v) => ({
+      id: v.id,
+      impact: v.impact,
+      help: v.help,
+      nodes: v.nodes.map((n) => ({ target: n.target, html: n.html.slice(0, 200) })),
+    }));
   }, TAGS);
 }
 

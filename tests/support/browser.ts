@@ -7,12 +7,24 @@ import { nextTestIp } from "./ip";
 export async function launchBrowser(): Promise<Browser> {
   return chromium.launch({
     executablePath: testEnv.chromium,
-    args: ["--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking", "--disable-component-update", "--disable-sync"],
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+    ],
   });
 }
 
 export async function newContext(browser: Browser): Promise<BrowserContext> {
-  return browser.newContext({ baseURL: testEnv.appUrl, viewport: { width: 1280, height: 900 }, extraHTTPHeaders: { "x-forwarded-for": nextTestIp() } });
+  return browser.newContext({
+    baseURL: testEnv.appUrl,
+    viewport: { width: 1280, height: 900 },
+    extraHTTPHeaders: { "x-forwarded-for": nextTestIp() },
+  });
 }
 
 export async function snap(page: Page, name: string): Promise<string> {

@@ -3,7 +3,17 @@ import { expect } from "vitest";
 
 // Helpers for the keyboard-only browser tests: what has focus, Tab until something matches, sign in by keys.
 
-export type Focused = { tag: string; id: string; role: string | null; type: string; name: string; value: string; checked: boolean; text: string; outline: string };
+export type Focused = {
+  tag: string;
+  id: string;
+  role: string | null;
+  type: string;
+  name: string;
+  value: string;
+  checked: boolean;
+  text: string;
+  outline: string;
+};
 
 export async function focused(page: Page): Promise<Focused> {
   return page.evaluate(() => {
@@ -20,7 +30,8 @@ export async function focused(page: Page): Promise<Focused> {
       checked: input?.checked ?? false,
       text: (el?.innerText || el?.getAttribute("aria-label") || "").replace(/\s+/g, " ").trim(),
       // The focus indicator the user sees: the outline drawn for :focus-visible.
-      outline: style && style.outlineStyle !== "none" && parseFloat(style.outlineWidth) >= 2 ? `${style.outlineWidth} ${style.outlineStyle}` : "",
+      outline:
+        style && style.outlineStyle !== "none" && parseFloat(style.outlineWidth) >= 2 ? `${style.outlineWidth} ${style.outlineStyle}` : "",
     };
   });
 }
@@ -29,7 +40,12 @@ export async function focused(page: Page): Promise<Focused> {
  * Presses Tab (never the mouse) until the focused element matches, within a bounded number of steps.
  * With `visible`, the element reached must also show its focus outline.
  */
-export async function tabTo(page: Page, match: (f: Focused) => boolean, what: string, { max = 120, visible = false }: { max?: number; visible?: boolean } = {}): Promise<Focused> {
+export async function tabTo(
+  page: Page,
+  match: (f: Focused) => boolean,
+  what: string,
+  { max = 120, visible = false }: { max?: number; visible?: boolean } = {},
+): Promise<Focused> {
   for (let i = 0; i < max; i++) {
     await page.keyboard.press("Tab");
     const f = await focused(page);
@@ -41,7 +57,12 @@ export async function tabTo(page: Page, match: (f: Focused) => boolean, what: st
   throw new Error(`could not reach ${what} with the Tab key`);
 }
 
-export async function signInByKeyboard(page: Page, email: string, password: string, { visible = false }: { visible?: boolean } = {}): Promise<void> {
+export async function signInByKeyboard(
+  page: Page,
+  email: string,
+  password: string,
+  { visible = false }: { visible?: boolean } = {},
+): Promise<void> {
   await page.goto("/sign-in");
   await tabTo(page, (f) => f.id === "email", "the e-mail field", { visible });
   await page.keyboard.type(email);

@@ -12,7 +12,8 @@ export async function waitForMail(to: string, subject: RegExp | string, { timeou
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
     const found = (await listMail(to)).find(
-      (m) => (typeof subject === "string" ? m.subject.includes(subject) : subject.test(m.subject)) && new Date(m.createdAt).getTime() >= after,
+      (m) =>
+        (typeof subject === "string" ? m.subject.includes(subject) : subject.test(m.subject)) && new Date(m.createdAt).getTime() >= after,
     );
     if (found) return found;
     await new Promise((r) => setTimeout(r, 250));

@@ -20,8 +20,8 @@ import {
   plausibleIfRangeKHz,
   rasters,
   wavelengthMetres,
-} from "@/lib/bands";
-import { EngineError } from "@/lib/engine-error";
+} from "@/lib/engine/bands";
+import { EngineError } from "@/lib/engine/engine-error";
 import { evaluate } from "./support/oracles";
 
 describe("AM allocations and rasters", () => {

@@ -9,9 +9,9 @@ import {
   setProfileSchema,
   timeConstantSeconds,
   type SetProfile,
-} from "@/lib/checklist";
-import { priceEstimate } from "@/lib/pricing";
-import { defaultShopPolicy } from "@/lib/shop-policy";
+} from "@/lib/engine/checklist";
+import { priceEstimate } from "@/lib/engine/pricing";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import { aurelianTableSet, corvanePortable, haldaneConsole } from "./support/demo-sets";
 import { evaluate } from "./support/oracles";
 
@@ -33,13 +33,22 @@ describe("checklist snapshots of the demo sets", () => {
 describe("safety rules", () => {
   test("AC/DC sets always get the isolation bench, a Y-class capacitor, a polarized plug and fuse, and the leakage test", () => {
     const c = codes(aurelianTableSet);
-    for (const code of ["safety.isolation-bench", "safety.y-capacitor", "safety.polarized-plug-fuse", "test.leakage", "safety.discharge-filter-caps", "safety.current-limited-power-up"]) {
+    for (const code of [
+      "safety.isolation-bench",
+      "safety.y-capacitor",
+      "safety.polarized-plug-fuse",
+      "test.leakage",
+      "safety.discharge-filter-caps",
+      "safety.current-limited-power-up",
+    ]) {
       expect(c).toContain(code);
     }
   });
 
   test("AC/DC bench work through an isolation transformer, final leakage hot check without it (common practice; service manuals)", () => {
-    expect(line(aurelianTableSet, "safety.isolation-bench")?.reason).toMatch(/isolation transformer.*final leakage hot check is made without it/);
+    expect(line(aurelianTableSet, "safety.isolation-bench")?.reason).toMatch(
+      /isolation transformer.*final leakage hot check is made without it/,
+    );
     expect(line(aurelianTableSet, "test.leakage")?.reason).toMatch(/without the isolation transformer/);
     expect(line(aurelianTableSet, "safety.isolation-bench")?.reason).toMatch(/local electrical codes and licensed practice/);
   });
@@ -177,7 +186,14 @@ describe("set profile schema", () => {
       seleniumRectifier: "",
       mainsVolts: "120",
     });
-    expect(p).toMatchObject({ electrolytics: 2, paperCapacitors: 7, tubes: 5, lineCordWorn: true, seleniumRectifier: false, mainsVolts: 120 });
+    expect(p).toMatchObject({
+      electrolytics: 2,
+      paperCapacitors: 7,
+      tubes: 5,
+      lineCordWorn: true,
+      seleniumRectifier: false,
+      mainsVolts: 120,
+    });
     expect(p.bands[0].lowKHz).toBe(540);
   });
 

@@ -9,8 +9,8 @@ import {
   resonantKHz,
   resonantPF,
   resonantUH,
-} from "@/lib/alignment";
-import { EngineError } from "@/lib/engine-error";
+} from "@/lib/engine/alignment";
+import { EngineError } from "@/lib/engine/engine-error";
 import { evaluate } from "./support/oracles";
 
 describe("resonance", () => {
@@ -107,7 +107,9 @@ describe("alignment plan order (common practice: service-manual alignment order)
 
   test("SW: the oscillator trimmer is brought up from minimum so the LO lands above the signal", () => {
     const plan = planAlignment({ band: { lowKHz: 5900, highKHz: 18000, kind: "SW" }, ifKHz: 455 });
-    expect(plan.steps.some((s) => /trimmer at minimum capacitance and bring it up/.test(s.text) && /above the signal/.test(s.text))).toBe(true);
+    expect(plan.steps.some((s) => /trimmer at minimum capacitance and bring it up/.test(s.text) && /above the signal/.test(s.text))).toBe(
+      true,
+    );
   });
 
   test("FM: IF at 10.7 MHz and the detector before the RF alignment", () => {

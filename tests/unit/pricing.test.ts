@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { all, create } from "mathjs";
 import { describe, expect, test } from "vitest";
-import { EngineError } from "@/lib/engine-error";
+import { EngineError } from "@/lib/engine/engine-error";
 import {
   applyBasisPoints,
   checkAmount,
@@ -12,8 +12,8 @@ import {
   roundHalfUpDiv,
   toMinor,
   type EstimateLineInput,
-} from "@/lib/pricing";
-import { defaultShopPolicy, MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/shop-policy";
+} from "@/lib/engine/pricing";
+import { defaultShopPolicy, MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
 
 const policy = defaultShopPolicy;
 
@@ -86,9 +86,21 @@ describe("deposit policy", () => {
 
 describe("priceEstimate", () => {
   const lines: EstimateLineInput[] = [
-    { code: "recap.electrolytic", title: "Replace electrolytic capacitors", minutes: 10, quantity: 3, parts: [{ code: "cap.electrolytic", quantity: 3 }] },
+    {
+      code: "recap.electrolytic",
+      title: "Replace electrolytic capacitors",
+      minutes: 10,
+      quantity: 3,
+      parts: [{ code: "cap.electrolytic", quantity: 3 }],
+    },
     { code: "align.if.455", title: "IF alignment", minutes: 10, quantity: 2 },
-    { code: "extra.knob", title: "Knob", minutes: 0, quantity: 1, parts: [{ code: "knob.custom", title: "Replacement knob", quantity: 1, unitCostMinor: 1000, markupBp: 0 }] },
+    {
+      code: "extra.knob",
+      title: "Knob",
+      minutes: 0,
+      quantity: 1,
+      parts: [{ code: "knob.custom", title: "Replacement knob", quantity: 1, unitCostMinor: 1000, markupBp: 0 }],
+    },
   ];
 
   test("labour rounds each line up to the billing increment at the hourly rate", () => {
@@ -123,7 +135,10 @@ describe("priceEstimate", () => {
   });
 
   test("covered warranty lines cost nothing", () => {
-    const e = priceEstimate(lines.map((l) => ({ ...l, covered: true })), policy);
+    const e = priceEstimate(
+      lines.map((l) => ({ ...l, covered: true })),
+      policy,
+    );
     expect(e.totals.totalMinor).toBe(0);
     expect(e.totals.depositMinor).toBe(0);
   });
@@ -135,7 +150,12 @@ describe("priceEstimate", () => {
     } catch (e) {
       expect((e as EngineError).field).toBe("lines.0.minutes");
     }
-    expect(() => priceEstimate([{ code: "x", title: "x", minutes: 1, quantity: 1, parts: [{ code: "unknown.part", title: "?", quantity: 1, unitCostMinor: -1 }] }], policy)).toThrow(EngineError);
+    expect(() =>
+      priceEstimate(
+        [{ code: "x", title: "x", minutes: 1, quantity: 1, parts: [{ code: "unknown.part", title: "?", quantity: 1, unitCostMinor: -1 }] }],
+        policy,
+      ),
+    ).toThrow(EngineError);
   });
 
   test("the default policy satisfies its own schema", () => {

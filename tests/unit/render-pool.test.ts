@@ -1,8 +1,8 @@
 import { threadId } from "node:worker_threads";
 import { fileURLToPath } from "node:url";
 import { afterEach, describe, expect, it, vi } from "vitest";
-import { certificatePdfFailure } from "@/lib/pdf/certificate-pdf-pool";
-import { RenderPool, RenderPoolError } from "@/lib/pdf/render-pool";
+import { certificatePdfFailure } from "@/lib/server/pdf/certificate-pdf-pool";
+import { RenderPool, RenderPoolError } from "@/lib/server/pdf/render-pool";
 
 type Task = { value?: number; wait?: number; hang?: boolean; exit?: number; uncaught?: boolean; reject?: string };
 type Answer = { threadId: number; value?: number };

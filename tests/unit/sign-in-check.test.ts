@@ -12,7 +12,10 @@ describe("the sign-in field check", () => {
   });
 
   it("names the field that needs attention", () => {
-    expect(checkSignIn({ email: "", password: "" }).errors).toEqual({ email: "Enter a valid e-mail address.", password: "Enter your password." });
+    expect(checkSignIn({ email: "", password: "" }).errors).toEqual({
+      email: "Enter a valid e-mail address.",
+      password: "Enter your password.",
+    });
     expect(checkSignIn({ email: "a@b.co", password: "x".repeat(129) }).errors).toEqual({ password: "Use at most 128 characters." });
     expect(checkSignIn({ email: `${"a".repeat(250)}@b.co`, password: "x" }).errors).toEqual({ email: "Use at most 254 characters." });
   });

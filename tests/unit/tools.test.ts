@@ -1,7 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, test } from "vitest";
-import { EngineError } from "@/lib/engine-error";
-import { defaultShopPolicy } from "@/lib/shop-policy";
+import { EngineError } from "@/lib/engine/engine-error";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import {
   alignmentRequestSchema,
   estimateRequestSchema,
@@ -9,7 +9,7 @@ import {
   invalidInputBody,
   runAlignmentTool,
   runEstimateTool,
-} from "@/lib/tools";
+} from "@/lib/engine/requests";
 import { aurelianTableSet } from "./support/demo-sets";
 
 function allNumbersFinite(value: unknown): boolean {
@@ -22,7 +22,12 @@ function allNumbersFinite(value: unknown): boolean {
 describe("alignment calculator request", () => {
   test("contract: plan, design and error curve when a gang is given", () => {
     const r = runAlignmentTool(
-      alignmentRequestSchema.parse({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 }, trackingPointsKHz: [600, 1000, 1400] }),
+      alignmentRequestSchema.parse({
+        band: { lowKHz: 540, highKHz: 1600 },
+        ifKHz: 455,
+        gang: { minPF: 10, maxPF: 365 },
+        trackingPointsKHz: [600, 1000, 1400],
+      }),
     );
     expect(r.lo).toEqual({ lowKHz: 995, highKHz: 2055 });
     expect(r.image).toEqual({ lowKHz: 1450, highKHz: 2510 });
@@ -47,7 +52,11 @@ describe("alignment calculator request", () => {
     expect(r.success).toBe(false);
     const fields = r.success ? {} : fieldErrors(r.error);
     expect(Object.keys(fields)).toEqual(expect.arrayContaining(["ifKHz", "trackingPointsKHz"]));
-    const order = alignmentRequestSchema.safeParse({ band: { lowKHz: 1600, highKHz: 540 }, ifKHz: 455, trackingPointsKHz: [600, 1000, 1700] });
+    const order = alignmentRequestSchema.safeParse({
+      band: { lowKHz: 1600, highKHz: 540 },
+      ifKHz: 455,
+      trackingPointsKHz: [600, 1000, 1700],
+    });
     expect(order.success ? {} : fieldErrors(order.error)).toEqual({
       "band.highKHz": "The high end must be above the low end.",
       "trackingPointsKHz.0": "Tracking points must lie on the band.",
@@ -77,7 +86,10 @@ describe("alignment calculator request", () => {
           band: fc.record({ lowKHz: num, highKHz: num }),
           ifKHz: num,
           injection: fc.option(fc.constantFrom("high", "low"), { nil: undefined }),
-          gang: fc.option(fc.record({ minPF: fc.double({ min: 0, max: 50, noNaN: true }), maxPF: fc.double({ min: 0, max: 600, noNaN: true }) }), { nil: undefined }),
+          gang: fc.option(
+            fc.record({ minPF: fc.double({ min: 0, max: 50, noNaN: true }), maxPF: fc.double({ min: 0, max: 600, noNaN: true }) }),
+            { nil: undefined },
+          ),
         }),
         (raw) => {
           const parsed = alignmentRequestSchema.safeParse(raw);
@@ -98,9 +110,19 @@ describe("estimate request", () => {
   test("contract: lines and totals", () => {
     const r = runEstimateTool(estimateRequestSchema.parse({ profile: aurelianTableSet }), defaultShopPolicy);
     expect(r.lines[0]).toEqual(
-      expect.objectContaining({ code: "inspect.intake", title: expect.any(String), category: "inspection", minutes: 20, quantity: 1, reason: expect.any(String), readings: [] }),
+      expect.objectContaining({
+        code: "inspect.intake",
+        title: expect.any(String),
+        category: "inspection",
+        minutes: 20,
+        quantity: 1,
+        reason: expect.any(String),
+        readings: [],
+      }),
     );
-    expect(Object.keys(r.totals)).toEqual(expect.arrayContaining(["currency", "labourMinor", "partsMinor", "taxMinor", "totalMinor", "depositMinor", "balanceMinor"]));
+    expect(Object.keys(r.totals)).toEqual(
+      expect.arrayContaining(["currency", "labourMinor", "partsMinor", "taxMinor", "totalMinor", "depositMinor", "balanceMinor"]),
+    );
     expect(r.totals.currency).toBe("USD");
     expect(r.totals.depositMinor + r.totals.balanceMinor).toBe(r.totals.totalMinor);
   });
@@ -114,10 +136,30 @@ describe("estimate request", () => {
 
   test("property: any profile the schema accepts prices without throwing", () => {
     const band = fc.oneof(
-      fc.record({ kind: fc.constant("MW"), lowKHz: fc.integer({ min: 400, max: 900 }), highKHz: fc.integer({ min: 1000, max: 1800 }), ifKHz: fc.integer({ min: 100, max: 600 }) }),
-      fc.record({ kind: fc.constant("SW"), lowKHz: fc.integer({ min: 1500, max: 9000 }), highKHz: fc.integer({ min: 9001, max: 30000 }), ifKHz: fc.integer({ min: 100, max: 600 }) }),
-      fc.record({ kind: fc.constant("LW"), lowKHz: fc.integer({ min: 100, max: 200 }), highKHz: fc.integer({ min: 201, max: 520 }), ifKHz: fc.integer({ min: 100, max: 600 }) }),
-      fc.record({ kind: fc.constant("FM"), lowKHz: fc.integer({ min: 64000, max: 90000 }), highKHz: fc.integer({ min: 90001, max: 110000 }), ifKHz: fc.integer({ min: 10600, max: 10800 }) }),
+      fc.record({
+        kind: fc.constant("MW"),
+        lowKHz: fc.integer({ min: 400, max: 900 }),
+        highKHz: fc.integer({ min: 1000, max: 1800 }),
+        ifKHz: fc.integer({ min: 100, max: 600 }),
+      }),
+      fc.record({
+        kind: fc.constant("SW"),
+        lowKHz: fc.integer({ min: 1500, max: 9000 }),
+        highKHz: fc.integer({ min: 9001, max: 30000 }),
+        ifKHz: fc.integer({ min: 100, max: 600 }),
+      }),
+      fc.record({
+        kind: fc.constant("LW"),
+        lowKHz: fc.integer({ min: 100, max: 200 }),
+        highKHz: fc.integer({ min: 201, max: 520 }),
+        ifKHz: fc.integer({ min: 100, max: 600 }),
+      }),
+      fc.record({
+        kind: fc.constant("FM"),
+        lowKHz: fc.integer({ min: 64000, max: 90000 }),
+        highKHz: fc.integer({ min: 90001, max: 110000 }),
+        ifKHz: fc.integer({ min: 10600, max: 10800 }),
+      }),
     );
     fc.assert(
       fc.property(

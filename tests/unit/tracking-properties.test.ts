@@ -7,8 +7,8 @@ import {
   sampleErrorCurve,
   solveTracking,
   trackingErrorKHz,
-} from "@/lib/alignment";
-import { EngineError } from "@/lib/engine-error";
+} from "@/lib/engine/alignment";
+import { EngineError } from "@/lib/engine/engine-error";
 
 /** Realistic MW sets: the shapes of gang, band and points a bench actually meets. */
 const mwDesign = fc
@@ -68,10 +68,7 @@ describe("tracking properties", () => {
   });
 
   test("no input, however absurd, gives anything but the engine's error or a finite design", () => {
-    const anyNumber = fc.oneof(
-      fc.double(),
-      fc.constantFrom(0, -1, Number.NaN, Number.POSITIVE_INFINITY, 455, 10700, 540, 1600),
-    );
+    const anyNumber = fc.oneof(fc.double(), fc.constantFrom(0, -1, Number.NaN, Number.POSITIVE_INFINITY, 455, 10700, 540, 1600));
     fc.assert(
       fc.property(
         fc.record({
@@ -94,7 +91,14 @@ describe("tracking properties", () => {
               trackingPointsKHz: r.points,
               samples: 11,
             });
-            const numbers = [s.padderPF, s.oscillatorFixedPF, s.oscillatorInductanceUH, s.signalInductanceUH, s.maxAbsErrorKHz, ...s.errorCurve.map((p) => p.errorKHz)];
+            const numbers = [
+              s.padderPF,
+              s.oscillatorFixedPF,
+              s.oscillatorInductanceUH,
+              s.signalInductanceUH,
+              s.maxAbsErrorKHz,
+              ...s.errorCurve.map((p) => p.errorKHz),
+            ];
             expect(numbers.every(Number.isFinite)).toBe(true);
           } catch (e) {
             expect(e).toBeInstanceOf(EngineError);

@@ -14,8 +14,8 @@ import {
   solveMinimaxPoints,
   solveTracking,
   trackingErrorKHz,
-} from "@/lib/alignment";
-import { EngineError } from "@/lib/engine-error";
+} from "@/lib/engine/alignment";
+import { EngineError } from "@/lib/engine/engine-error";
 import { evaluate, oracleMinimax, oracleSignalCircuit, oracleThreePoint } from "./support/oracles";
 
 function engineErrorOf(fn: () => unknown): EngineError {
@@ -211,7 +211,11 @@ describe("rule-of-thumb points (common practice)", () => {
   });
 
   test("points stay inside the band and in order for SW and FM dials", () => {
-    for (const band of [{ lowKHz: 2300, highKHz: 7300 }, { lowKHz: 88000, highKHz: 108000 }, { lowKHz: 150, highKHz: 285 }]) {
+    for (const band of [
+      { lowKHz: 2300, highKHz: 7300 },
+      { lowKHz: 88000, highKHz: 108000 },
+      { lowKHz: 150, highKHz: 285 },
+    ]) {
       const p = ruleOfThumbPoints(band);
       expect(p[0]).toBeGreaterThan(band.lowKHz);
       expect(p[2]).toBeLessThan(band.highKHz);
@@ -233,7 +237,11 @@ describe("impossible or absurd inputs name the field", () => {
     ["negative stray", () => solveTracking({ ...ok, gang: { minPF: 10, maxPF: 365, strayPF: -1 } }), "gang.strayPF"],
     ["a point off the band", () => solveTracking({ ...ok, trackingPointsKHz: [600, 1000, 1700] }), "trackingPointsKHz.2"],
     ["coincident points", () => solveTracking({ ...ok, trackingPointsKHz: [600, 600, 1400] }), "trackingPointsKHz"],
-    ["low-side LO on MW needs a negative padder", () => solveTracking({ ...ok, injection: "low", band: { lowKHz: 540, highKHz: 1600 } }), "injection"],
+    [
+      "low-side LO on MW needs a negative padder",
+      () => solveTracking({ ...ok, injection: "low", band: { lowKHz: 540, highKHz: 1600 } }),
+      "injection",
+    ],
   ];
   test.each(cases)("%s", (_name, fn, field) => {
     const e = engineErrorOf(fn);
@@ -242,7 +250,9 @@ describe("impossible or absurd inputs name the field", () => {
   });
 
   test("strays that eat the needed trimmer make the band uncoverable", () => {
-    expect(engineErrorOf(() => designSignalCircuit({ lowKHz: 540, highKHz: 1600 }, { minPF: 10, maxPF: 365, strayPF: 40 })).code).toBe("gang-cannot-cover");
+    expect(engineErrorOf(() => designSignalCircuit({ lowKHz: 540, highKHz: 1600 }, { minPF: 10, maxPF: 365, strayPF: 40 })).code).toBe(
+      "gang-cannot-cover",
+    );
   });
 
   test("the error curve is sampled across the band, points included", () => {

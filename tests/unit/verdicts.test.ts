@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
-import { computeChecklist } from "@/lib/checklist";
-import { defaultShopPolicy } from "@/lib/shop-policy";
+import { computeChecklist } from "@/lib/engine/checklist";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import {
   defaultTolerances,
   describeTolerance,
@@ -10,7 +10,7 @@ import {
   parseReadingKey,
   readingKey,
   type ReadingRequirement,
-} from "@/lib/verdicts";
+} from "@/lib/engine/verdicts";
 import { aurelianTableSet, corvanePortable, haldaneConsole } from "./support/demo-sets";
 
 const req = (key: string, profile = aurelianTableSet): ReadingRequirement => {

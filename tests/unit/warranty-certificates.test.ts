@@ -15,12 +15,12 @@ import {
   signCertificate,
   verifyCertificate,
   type CertificateContent,
-} from "@/lib/certificates";
-import { computeChecklist } from "@/lib/checklist";
-import { EngineError } from "@/lib/engine-error";
-import { defaultShopPolicy } from "@/lib/shop-policy";
-import { listRequiredReadings } from "@/lib/verdicts";
-import { adviseClaim, computeWarrantyTerm, coverageFromCertificate, exclusionCodes, isWithinTerm } from "@/lib/warranty";
+} from "@/lib/engine/certificates";
+import { computeChecklist } from "@/lib/engine/checklist";
+import { EngineError } from "@/lib/engine/engine-error";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { listRequiredReadings } from "@/lib/engine/verdicts";
+import { adviseClaim, computeWarrantyTerm, coverageFromCertificate, exclusionCodes, isWithinTerm } from "@/lib/engine/warranty";
 import { aurelianTableSet } from "./support/demo-sets";
 
 const keys = generateKeyPairPem();
@@ -43,7 +43,8 @@ function demoCertificate(): CertificateContent {
       parts: lines.flatMap((l) => l.parts.map((p) => ({ code: p.code, title: p.code, quantity: p.quantity }))),
       requirements,
       readings: Object.fromEntries(requirements.map((r) => [r.key, r.nominal ?? 0.12])),
-      termsText: "This limited warranty gives you specific legal rights, and you may also have other rights which vary from state to state.",
+      termsText:
+        "This limited warranty gives you specific legal rights, and you may also have other rights which vary from state to state.",
     },
     defaultShopPolicy,
   );
@@ -83,8 +84,17 @@ describe("what a certificate carries (published: 15 U.S.C. §2303; 16 CFR §701.
   test("readings carry tolerance and verdict; the content satisfies its schema", () => {
     expect(certificateContentSchema.parse(c)).toEqual(c);
     const edge = c.readings.find((r) => r.key === "band.0.edge.low");
-    expect(edge).toMatchObject({ nominal: 540, value: 540, verdict: "pass", toleranceText: "within ±10 kHz or 1 % of the mark, whichever is larger" });
-    expect(c.readings.find((r) => r.key === "leakage.plug-a")).toMatchObject({ value: 0.12, verdict: "pass", toleranceText: "at most 0.5 mA" });
+    expect(edge).toMatchObject({
+      nominal: 540,
+      value: 540,
+      verdict: "pass",
+      toleranceText: "within ±10 kHz or 1 % of the mark, whichever is larger",
+    });
+    expect(c.readings.find((r) => r.key === "leakage.plug-a")).toMatchObject({
+      value: 0.12,
+      verdict: "pass",
+      toleranceText: "at most 0.5 mA",
+    });
   });
 });
 
@@ -112,7 +122,13 @@ describe("claim advice", () => {
   });
 
   test("a suspected exclusion or an unlinked symptom: inspect first", () => {
-    expect(adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["hum"], findings: [{ code: "excl.opened-by-others", status: "suspected" }] }).outcome).toBe("inspect-first");
+    expect(
+      adviseClaim(coverage, {
+        reportedOn: "2025-04-10",
+        symptoms: ["hum"],
+        findings: [{ code: "excl.opened-by-others", status: "suspected" }],
+      }).outcome,
+    ).toBe("inspect-first");
     expect(adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["other"] }).outcome).toBe("inspect-first");
     expect(adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["dial-cord"] }).outcome).toBe("inspect-first");
   });

@@ -1,11 +1,12 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
-import { requirePermission } from "@/lib/session";
+import { requirePermission } from "@/lib/server/session";
 
 export default async function BenchLayout({ children }: { children: ReactNode }) {
-  await requirePermission("bench.use", "/bench");
+  const viewer = await requirePermission("bench.use", "/bench");
   return (
     <AreaShell
+      viewer={viewer}
       dense
       title="Bench"
       nav={[

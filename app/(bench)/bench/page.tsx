@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { QueueTable } from "@/components/bench/queue-table";
-import { initialQueue } from "@/lib/services/bench-queue";
-import { requirePermission } from "@/lib/session";
+import { initialQueue } from "@/lib/server/services/bench-queue";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Bench queue" };
 

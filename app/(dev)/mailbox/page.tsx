@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { SiteHeader } from "@/components/site-header";
-import { env } from "@/lib/env";
+import { getViewer } from "@/lib/server/session";
+import { env } from "@/lib/server/env";
 
 export const metadata: Metadata = { title: "Mailbox (development)", robots: { index: false } };
 export const dynamic = "force-dynamic";
@@ -26,7 +27,7 @@ export default async function MailboxPage({ searchParams }: { searchParams: Prom
   const open = messages.find((m) => m.id === id) ?? messages[0];
   return (
     <>
-      <SiteHeader />
+      <SiteHeader viewer={await getViewer()} />
       <main id="main" className="mx-auto max-w-page space-y-4 px-4 py-6">
         <div>
           <h1 className="text-2xl font-bold">Mailbox</h1>
@@ -47,7 +48,10 @@ export default async function MailboxPage({ searchParams }: { searchParams: Prom
             {messages.length === 0 ? <li className="p-3 text-sm">No messages yet.</li> : null}
             {messages.map((m) => (
               <li key={m.id} className={m.id === open?.id ? "bg-dial-deep" : ""}>
-                <a href={`/mailbox?${new URLSearchParams({ ...(to ? { to } : {}), id: m.id })}`} className="block p-3 text-sm text-bakelite no-underline">
+                <a
+                  href={`/mailbox?${new URLSearchParams({ ...(to ? { to } : {}), id: m.id })}`}
+                  className="block p-3 text-sm text-bakelite no-underline"
+                >
                   <span className="block font-semibold">{m.subject}</span>
                   <span className="block text-bakelite-muted">to {m.to.join(", ")}</span>
                   <span className="figure block text-xs text-bakelite-muted">{new Date(m.createdAt).toLocaleString("en-US")}</span>
@@ -60,7 +64,12 @@ export default async function MailboxPage({ searchParams }: { searchParams: Prom
               <p className="text-sm">
                 <strong>{open.subject}</strong> — from {open.from} to {open.to.join(", ")}
               </p>
-              <iframe title={`Message: ${open.subject}`} sandbox="allow-popups allow-top-navigation-by-user-activation" srcDoc={open.html} className="mt-2 h-[60vh] w-full rounded-card border border-dial-rule bg-white" />
+              <iframe
+                title={`Message: ${open.subject}`}
+                sandbox="allow-popups allow-top-navigation-by-user-activation"
+                srcDoc={open.html}
+                className="mt-2 h-[60vh] w-full rounded-card border border-dial-rule bg-white"
+              />
             </article>
           ) : null}
         </div>

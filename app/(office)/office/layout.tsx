@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
-import { requirePermission } from "@/lib/session";
+import { requirePermission } from "@/lib/server/session";
 
 const OFFICE_NAV = [
   { href: "/office", label: "Overview" },
@@ -13,9 +13,9 @@ const OFFICE_NAV = [
 ];
 
 export default async function OfficeLayout({ children }: { children: ReactNode }) {
-  await requirePermission("office.use", "/office");
+  const viewer = await requirePermission("office.use", "/office");
   return (
-    <AreaShell title="Office" nav={OFFICE_NAV}>
+    <AreaShell viewer={viewer} title="Office" nav={OFFICE_NAV}>
       {children}
     </AreaShell>
   );

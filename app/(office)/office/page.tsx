@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { formatMoney } from "@/components/office/format";
 import { officeOverviewFigures } from "@/db/queries/office";
-import { getShop } from "@/lib/services/shop";
-import { requirePermission } from "@/lib/session";
+import { getShop } from "@/lib/server/services/shop";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Office" };
 
@@ -20,7 +20,11 @@ export default async function OfficePage() {
     { label: "Active technicians", value: String(figures.technicians), href: "/office/staff" },
   ];
   const tiles = [
-    { href: "/office/settings", title: "Rates & policy", text: "Shop identity, labour rate, billing increment, minutes per checklist rule, parts, tax, deposit policy, warranty wording and tolerances." },
+    {
+      href: "/office/settings",
+      title: "Rates & policy",
+      text: "Shop identity, labour rate, billing increment, minutes per checklist rule, parts, tax, deposit policy, warranty wording and tolerances.",
+    },
     { href: "/office/staff", title: "Staff", text: "Invite technicians, change roles, deactivate accounts." },
     { href: "/office/payments", title: "Payments", text: "Deposits and balances received; full or partial refunds." },
     { href: "/office/audit", title: "Audit log", text: "Every change: who, what, when, before and after." },

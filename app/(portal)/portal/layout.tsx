@@ -1,11 +1,12 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
-import { requirePermission } from "@/lib/session";
+import { requirePermission } from "@/lib/server/session";
 
 export default async function PortalLayout({ children }: { children: ReactNode }) {
-  await requirePermission("portal.use", "/portal");
+  const viewer = await requirePermission("portal.use", "/portal");
   return (
     <AreaShell
+      viewer={viewer}
       title="My sets"
       nav={[
         { href: "/portal", label: "My jobs" },

@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { StateBadge } from "@/components/state-badge";
 import { listJobsForCustomer } from "@/db/queries/jobs";
-import { jobNumber } from "@/lib/jobs/states";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "My sets" };
 
@@ -30,7 +30,10 @@ export default async function PortalPage() {
           {jobs.map((j) => (
             <li key={j.id} className="card flex flex-wrap items-center justify-between gap-3 p-4">
               <div>
-                <p className="figure text-xs text-bakelite-muted">{jobNumber(j.number)}{j.isWarranty ? " · warranty job" : ""}</p>
+                <p className="figure text-xs text-bakelite-muted">
+                  {jobNumber(j.number)}
+                  {j.isWarranty ? " · warranty job" : ""}
+                </p>
                 <h2 className="text-lg font-semibold">
                   <Link href={`/portal/jobs/${j.id}`}>
                     {j.maker} {j.model}

@@ -3,7 +3,11 @@ import { ResetPasswordForm, ResetRequestForm } from "@/components/auth/reset-for
 
 export const metadata: Metadata = { title: "Reset your password" };
 
-export default async function ResetPasswordPage({ searchParams }: { searchParams: Promise<{ token?: string; error?: string; welcome?: string }> }) {
+export default async function ResetPasswordPage({
+  searchParams,
+}: {
+  searchParams: Promise<{ token?: string; error?: string; welcome?: string }>;
+}) {
   const { token, error, welcome } = await searchParams;
   return (
     <div className="mx-auto max-w-md space-y-6">

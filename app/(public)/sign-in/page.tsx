@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { redirect } from "next/navigation";
 import { SignInForm } from "@/components/auth/sign-in-form";
-import { homeFor } from "@/lib/permissions";
-import { getViewer } from "@/lib/session";
+import { homeFor } from "@/lib/engine/permissions";
+import { getViewer } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Sign in" };
 

@@ -9,7 +9,9 @@ export default function SignUpPage() {
     <div className="mx-auto max-w-md space-y-6">
       <div className="space-y-2">
         <h1 className="text-3xl font-bold">Create an account</h1>
-        <p className="text-bakelite-soft">With an account you can request a quote, send photos, approve the estimate and follow your set through the workshop.</p>
+        <p className="text-bakelite-soft">
+          With an account you can request a quote, send photos, approve the estimate and follow your set through the workshop.
+        </p>
       </div>
       <div className="card p-6">
         <SignUpForm />

@@ -1,7 +1,7 @@
 import { listClaimsForClaimant } from "@/db/queries/claims";
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { claimSummary, openClaim } from "@/lib/services/claims";
+import { route } from "@/lib/server/route-handler";
+import { claimSummary, openClaim } from "@/lib/server/services/claims";
 import { openClaimSchema } from "@/lib/validation/claims";
 
 export const GET = route({ permission: "claim.open" }, async ({ viewer }) => {

@@ -1,8 +1,8 @@
 import { createRouteHandler } from "uploadthing/next";
 import type { NextRequest } from "next/server";
-import { assertSameOrigin, errorResponse, readJson } from "@/lib/api";
-import { AppError } from "@/lib/errors";
-import { uploadRouter } from "@/lib/uploads/router";
+import { assertSameOrigin, errorResponse, readJson } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
+import { uploadRouter } from "@/lib/server/uploads/router";
 
 export const dynamic = "force-dynamic";
 
@@ -39,7 +39,9 @@ export async function POST(request: NextRequest): Promise<Response> {
   const res = await handler.POST(request);
   // The SDK answers some malformed requests (an empty body, say) with a bare status: give them our error shape.
   if (res.status >= 400 && res.status < 500 && !(res.headers.get("content-type") ?? "").includes("json")) {
-    return errorResponse(new AppError(res.status === 413 ? "payload_too_large" : "invalid_input", "The upload request was not understood."));
+    return errorResponse(
+      new AppError(res.status === 413 ? "payload_too_large" : "invalid_input", "The upload request was not understood."),
+    );
   }
   return res;
 }

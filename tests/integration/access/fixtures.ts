@@ -14,32 +14,47 @@ async function one<T extends Record<string, unknown>>(q: string, v: unknown[] = 
 }
 
 /** A photo of a job's set, stored the way the upload path stores one. */
-export async function storePhoto({ uploaderId, jobId, displayName = "front.jpg" }: { uploaderId: string; jobId: string; displayName?: string }): Promise<string> {
+export async function storePhoto({
+  uploaderId,
+  jobId,
+  displayName = "front.jpg",
+}: {
+  uploaderId: string;
+  jobId: string;
+  displayName?: string;
+}): Promise<string> {
   const photoId = randomUUID();
   const key = `photos/${randomUUID()}.jpg`;
   const dir = join(process.env.UPLOAD_DIR!, "store", "photos");
   mkdirSync(dir, { recursive: true });
-  const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: "#884422" } }).jpeg().toBuffer();
+  const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: "#884422" } })
+    .jpeg()
+    .toBuffer();
   writeFileSync(join(process.env.UPLOAD_DIR!, "store", key), jpeg);
-  await sql("insert into photo (id, uploader_id, job_id, storage_key, display_name, mime, width, height, bytes) values ($1, $2, $3, $4, $5, 'image/jpeg', 8, 8, $6)", [
-    photoId,
-    uploaderId,
-    jobId,
-    key,
-    displayName,
-    jpeg.length,
-  ]);
+  await sql(
+    "insert into photo (id, uploader_id, job_id, storage_key, display_name, mime, width, height, bytes) values ($1, $2, $3, $4, $5, 'image/jpeg', 8, 8, $6)",
+    [photoId, uploaderId, jobId, key, displayName, jpeg.length],
+  );
   return photoId;
 }
 
 /** Customer A's (Mira's) demo jobs, revision, certificate, claim and payment, plus a stored photo. */
 export async function fixturesFromSeed(): Promise<Fixtures> {
-  const { id: jobA } = await one<{ id: string }>("select id from job where idempotency_key = 'demo-returned' and customer_id = 'demo-cust-mira'");
-  const { id: jobOpenA } = await one<{ id: string }>("select id from job where idempotency_key = 'demo-final' and customer_id = 'demo-cust-mira'");
-  const { id: revisionA } = await one<{ id: string }>("select id from estimate_revision where job_id = $1 order by revision desc limit 1", [jobA]);
+  const { id: jobA } = await one<{ id: string }>(
+    "select id from job where idempotency_key = 'demo-returned' and customer_id = 'demo-cust-mira'",
+  );
+  const { id: jobOpenA } = await one<{ id: string }>(
+    "select id from job where idempotency_key = 'demo-final' and customer_id = 'demo-cust-mira'",
+  );
+  const { id: revisionA } = await one<{ id: string }>("select id from estimate_revision where job_id = $1 order by revision desc limit 1", [
+    jobA,
+  ]);
   const { id: certificateA } = await one<{ id: string }>("select id from certificate where job_id = $1", [jobA]);
   const { id: claimA } = await one<{ id: string }>("select id from claim where certificate_id = $1", [certificateA]);
-  const pay = await one<{ id: string; checkout_session_id: string }>("select id, checkout_session_id from payment where job_id = $1 and purpose = 'deposit'", [jobA]);
+  const pay = await one<{ id: string; checkout_session_id: string }>(
+    "select id, checkout_session_id from payment where job_id = $1 and purpose = 'deposit'",
+    [jobA],
+  );
   const photoA = await storePhoto({ uploaderId: "demo-cust-mira", jobId: jobA });
   return { jobA, jobOpenA, revisionA, certificateA, claimA, paymentA: pay.id, sessionA: pay.checkout_session_id, photoA };
 }
@@ -47,6 +62,7 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
 /** The request path of a matrix entry, its params filled from the fixtures. */
 export function pathOf(entry: RouteEntry, f: Fixtures): string {
   let path = entry.route;
-  for (const [k, v] of Object.entries(entry.params?.(f) ?? {})) path = path.replace(`[...${k}]`, v).replace(`[${k}]`, encodeURIComponent(v));
+  for (const [k, v] of Object.entries(entry.params?.(f) ?? {}))
+    path = path.replace(`[...${k}]`, v).replace(`[${k}]`, encodeURIComponent(v));
   return path + (entry.query ?? "");
 }

@@ -14,7 +14,10 @@ function walk(dir: string, out: string[] = []): string[] {
 
 // Turns app/(group)/api/x/[id]/route.ts into /api/x/[id]: route groups do not appear in URLs.
 function urlOf(file: string): string {
-  const parts = relative(APP, file).split(sep).slice(0, -1).filter((s) => !(s.startsWith("(") && s.endsWith(")")));
+  const parts = relative(APP, file)
+    .split(sep)
+    .slice(0, -1)
+    .filter((s) => !(s.startsWith("(") && s.endsWith(")")));
   return "/" + parts.join("/");
 }
 
@@ -27,7 +30,9 @@ export function routeInventory(): { method: string; route: string; file: string 
     }
     // Re-exported handlers (export const { GET, POST } = …)
     const destructured = /export\s+const\s*\{([^}]+)\}\s*=/.exec(text);
-    if (destructured) for (const name of destructured[1]!.split(",").map((s) => s.trim().split(":")[0]!.trim())) if (/^(GET|POST|PUT|PATCH|DELETE)$/.test(name)) out.push({ method: name, route: urlOf(file), file });
+    if (destructured)
+      for (const name of destructured[1]!.split(",").map((s) => s.trim().split(":")[0]!.trim()))
+        if (/^(GET|POST|PUT|PATCH|DELETE)$/.test(name)) out.push({ method: name, route: urlOf(file), file });
   }
   return out;
 }

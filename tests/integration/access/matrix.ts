@@ -11,7 +11,16 @@ import { randomUUID } from "node:crypto";
 
 export type Role = "anonymous" | "customerA" | "customerB" | "technician" | "owner";
 export type Rule = "allow" | "deny" | "own" | "public";
-export type Fixtures = { jobA: string; revisionA: string; certificateA: string; claimA: string; paymentA: string; sessionA: string; photoA: string; jobOpenA: string };
+export type Fixtures = {
+  jobA: string;
+  revisionA: string;
+  certificateA: string;
+  claimA: string;
+  paymentA: string;
+  sessionA: string;
+  photoA: string;
+  jobOpenA: string;
+};
 
 export type RouteEntry = {
   method: "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
@@ -23,63 +32,207 @@ export type RouteEntry = {
   query?: string;
 };
 
-const staff = (rule: Rule = "allow"): Record<Role, Rule> => ({ anonymous: "deny", customerA: "deny", customerB: "deny", technician: rule, owner: rule });
+const staff = (rule: Rule = "allow"): Record<Role, Rule> => ({
+  anonymous: "deny",
+  customerA: "deny",
+  customerB: "deny",
+  technician: rule,
+  owner: rule,
+});
 const ownerOnly: Record<Role, Rule> = { anonymous: "deny", customerA: "deny", customerB: "deny", technician: "deny", owner: "allow" };
 const customers: Record<Role, Rule> = { anonymous: "deny", customerA: "allow", customerB: "allow", technician: "deny", owner: "deny" };
 const customerOwn: Record<Role, Rule> = { anonymous: "deny", customerA: "own", customerB: "own", technician: "deny", owner: "deny" };
 const ownOrStaff: Record<Role, Rule> = { anonymous: "deny", customerA: "own", customerB: "own", technician: "allow", owner: "allow" };
-const everyone: Record<Role, Rule> = { anonymous: "public", customerA: "public", customerB: "public", technician: "public", owner: "public" };
+const everyone: Record<Role, Rule> = {
+  anonymous: "public",
+  customerA: "public",
+  customerB: "public",
+  technician: "public",
+  owner: "public",
+};
 
 const job = (f: Fixtures) => ({ id: f.jobOpenA });
 const jobDone = (f: Fixtures) => ({ id: f.jobA });
 
 export const ROUTES: RouteEntry[] = [
   { method: "GET", route: "/api/auth/[...all]", action: "auth", rules: everyone, params: () => ({ all: "get-session" }) },
-  { method: "POST", route: "/api/auth/[...all]", action: "auth", rules: everyone, params: () => ({ all: "sign-in/email" }), body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/auth/[...all]",
+    action: "auth",
+    rules: everyone,
+    params: () => ({ all: "sign-in/email" }),
+    body: () => ({}),
+  },
   { method: "GET", route: "/api/health", action: "health", rules: everyone },
-  { method: "POST", route: "/api/webhooks/stripe", action: "payment.webhook (signature, not session)", rules: everyone, body: () => ({ id: "evt_unsigned", type: "checkout.session.completed" }) },
+  {
+    method: "POST",
+    route: "/api/webhooks/stripe",
+    action: "payment.webhook (signature, not session)",
+    rules: everyone,
+    body: () => ({ id: "evt_unsigned", type: "checkout.session.completed" }),
+  },
   { method: "GET", route: "/api/uploadthing", action: "upload.config", rules: everyone },
-  { method: "POST", route: "/api/uploadthing", action: "upload.photo (session checked by the upload router)", rules: everyone, body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/uploadthing",
+    action: "upload.photo (session checked by the upload router)",
+    rules: everyone,
+    body: () => ({}),
+  },
 
   { method: "GET", route: "/api/portal/jobs", action: "portal.use", rules: customers },
   { method: "POST", route: "/api/portal/jobs", action: "quote.request", rules: customers, body: () => ({}) },
   { method: "GET", route: "/api/portal/jobs/[id]", action: "job.read (own)", rules: customerOwn, params: job },
   { method: "GET", route: "/api/portal/jobs/[id]/messages", action: "message.read (own)", rules: customerOwn, params: job },
-  { method: "POST", route: "/api/portal/jobs/[id]/messages", action: "message.post (own)", rules: customerOwn, params: job, body: () => ({ body: "Access probe: is the set on the bench yet?", idempotencyKey: randomUUID() }) },
-  { method: "POST", route: "/api/portal/jobs/[id]/estimate/approve", action: "estimate.approve (own)", rules: customerOwn, params: jobDone, body: (f) => ({ revisionId: f.revisionA }) },
-  { method: "POST", route: "/api/portal/jobs/[id]/estimate/decline", action: "estimate.approve (own)", rules: customerOwn, params: jobDone, body: (f) => ({ revisionId: f.revisionA, reason: "Access probe: more than I can spend." }) },
-  { method: "GET", route: "/api/payments/[paymentId]", action: "payment.read (own)", rules: customerOwn, params: (f) => ({ paymentId: f.paymentA }) },
-  { method: "POST", route: "/api/payments/checkout", action: "payment.start (own)", rules: customerOwn, body: (f) => ({ jobId: f.jobA, purpose: "deposit" }) },
-  { method: "GET", route: "/api/payments/session/[sessionId]", action: "payment.read (own)", rules: customerOwn, params: (f) => ({ sessionId: f.sessionA }) },
+  {
+    method: "POST",
+    route: "/api/portal/jobs/[id]/messages",
+    action: "message.post (own)",
+    rules: customerOwn,
+    params: job,
+    body: () => ({ body: "Access probe: is the set on the bench yet?", idempotencyKey: randomUUID() }),
+  },
+  {
+    method: "POST",
+    route: "/api/portal/jobs/[id]/estimate/approve",
+    action: "estimate.approve (own)",
+    rules: customerOwn,
+    params: jobDone,
+    body: (f) => ({ revisionId: f.revisionA }),
+  },
+  {
+    method: "POST",
+    route: "/api/portal/jobs/[id]/estimate/decline",
+    action: "estimate.approve (own)",
+    rules: customerOwn,
+    params: jobDone,
+    body: (f) => ({ revisionId: f.revisionA, reason: "Access probe: more than I can spend." }),
+  },
+  {
+    method: "GET",
+    route: "/api/payments/[paymentId]",
+    action: "payment.read (own)",
+    rules: customerOwn,
+    params: (f) => ({ paymentId: f.paymentA }),
+  },
+  {
+    method: "POST",
+    route: "/api/payments/checkout",
+    action: "payment.start (own)",
+    rules: customerOwn,
+    body: (f) => ({ jobId: f.jobA, purpose: "deposit" }),
+  },
+  {
+    method: "GET",
+    route: "/api/payments/session/[sessionId]",
+    action: "payment.read (own)",
+    rules: customerOwn,
+    params: (f) => ({ sessionId: f.sessionA }),
+  },
   { method: "GET", route: "/api/photos/[id]", action: "photo.view (own or staff)", rules: ownOrStaff, params: (f) => ({ id: f.photoA }) },
 
-  { method: "GET", route: "/api/certificates/[id]/pdf", action: "certificate.download (own or staff)", rules: ownOrStaff, params: (f) => ({ id: f.certificateA }) },
-  { method: "POST", route: "/api/certificates/[id]/revoke", action: "certificate.revoke", rules: ownerOnly, params: (f) => ({ id: f.certificateA }), body: () => ({}) },
-  { method: "POST", route: "/api/certificates/[id]/reissue", action: "certificate.reissue", rules: ownerOnly, params: (f) => ({ id: f.certificateA }), body: () => ({}) },
+  {
+    method: "GET",
+    route: "/api/certificates/[id]/pdf",
+    action: "certificate.download (own or staff)",
+    rules: ownOrStaff,
+    params: (f) => ({ id: f.certificateA }),
+  },
+  {
+    method: "POST",
+    route: "/api/certificates/[id]/revoke",
+    action: "certificate.revoke",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.certificateA }),
+    body: () => ({}),
+  },
+  {
+    method: "POST",
+    route: "/api/certificates/[id]/reissue",
+    action: "certificate.reissue",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.certificateA }),
+    body: () => ({}),
+  },
   { method: "GET", route: "/api/claims", action: "claim.list (own)", rules: customers },
-  { method: "POST", route: "/api/claims", action: "claim.open (own certificate)", rules: customerOwn, body: (f) => ({ certificateId: f.certificateA, symptomCategory: "hum", description: "Hum came back after an hour.", statements: [], photos: [] }) },
+  {
+    method: "POST",
+    route: "/api/claims",
+    action: "claim.open (own certificate)",
+    rules: customerOwn,
+    body: (f) => ({
+      certificateId: f.certificateA,
+      symptomCategory: "hum",
+      description: "Hum came back after an hour.",
+      statements: [],
+      photos: [],
+    }),
+  },
   { method: "POST", route: "/api/claims/by-code", action: "claim.open (by code, as the terms allow)", rules: customers, body: () => ({}) },
-  { method: "POST", route: "/api/claims/[id]/decision", action: "claim.decide", rules: staff(), params: (f) => ({ id: f.claimA }), body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/claims/[id]/decision",
+    action: "claim.decide",
+    rules: staff(),
+    params: (f) => ({ id: f.claimA }),
+    body: () => ({}),
+  },
 
   { method: "GET", route: "/api/bench/queue", action: "bench.use", rules: staff(), query: "?page=1" },
   { method: "GET", route: "/api/bench/staff", action: "bench.use", rules: staff() },
   { method: "GET", route: "/api/bench/jobs/[id]", action: "bench.use", rules: staff(), params: job },
   { method: "GET", route: "/api/bench/jobs/[id]/sheet", action: "bench.use", rules: staff(), params: job },
-  { method: "POST", route: "/api/bench/jobs/[id]/assign", action: "job.assign", rules: staff(), params: job, body: () => ({ technicianId: 12 }) },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/assign",
+    action: "job.assign",
+    rules: staff(),
+    params: job,
+    body: () => ({ technicianId: 12 }),
+  },
   { method: "POST", route: "/api/bench/jobs/[id]/triage", action: "job.triage", rules: staff(), params: jobDone, body: () => ({}) },
   { method: "PUT", route: "/api/bench/jobs/[id]/profile", action: "job.triage", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/question", action: "job.triage", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/decline", action: "job.triage", rules: staff(), params: job, body: () => ({}) },
   { method: "GET", route: "/api/bench/jobs/[id]/estimate", action: "estimate.edit", rules: staff(), params: job },
   { method: "PUT", route: "/api/bench/jobs/[id]/estimate", action: "estimate.edit", rules: staff(), params: job, body: () => ({}) },
-  { method: "POST", route: "/api/bench/jobs/[id]/estimate/rebuild", action: "estimate.edit", rules: staff(), params: job, body: () => ({}) },
-  { method: "POST", route: "/api/bench/jobs/[id]/estimate/send", action: "estimate.send", rules: staff(), params: jobDone, body: () => ({}) },
-  { method: "POST", route: "/api/bench/jobs/[id]/start-bench", action: "reading.record", rules: staff(), params: jobDone, body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/estimate/rebuild",
+    action: "estimate.edit",
+    rules: staff(),
+    params: job,
+    body: () => ({}),
+  },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/estimate/send",
+    action: "estimate.send",
+    rules: staff(),
+    params: jobDone,
+    body: () => ({}),
+  },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/start-bench",
+    action: "reading.record",
+    rules: staff(),
+    params: jobDone,
+    body: () => ({}),
+  },
   { method: "POST", route: "/api/bench/jobs/[id]/readings", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/tasks", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/notes", action: "bench.use", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/final-checks", action: "job.complete", rules: staff(), params: jobDone, body: () => ({}) },
-  { method: "POST", route: "/api/bench/jobs/[id]/back-to-bench", action: "job.complete", rules: staff(), params: jobDone, body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/back-to-bench",
+    action: "job.complete",
+    rules: staff(),
+    params: jobDone,
+    body: () => ({}),
+  },
   { method: "POST", route: "/api/bench/jobs/[id]/complete", action: "job.complete", rules: staff(), params: jobDone, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/return", action: "job.return", rules: staff(), params: jobDone, body: () => ({}) },
   { method: "POST", route: "/api/tools/alignment", action: "tools.use", rules: staff(), body: () => ({}) },
@@ -90,8 +243,21 @@ export const ROUTES: RouteEntry[] = [
   { method: "GET", route: "/api/office/audit", action: "audit.read", rules: ownerOnly },
   { method: "GET", route: "/api/office/reports", action: "reports.read", rules: ownerOnly },
   { method: "GET", route: "/api/office/payments", action: "payment.refund", rules: ownerOnly },
-  { method: "GET", route: "/api/office/payments/[paymentId]", action: "payment.refund", rules: ownerOnly, params: (f) => ({ paymentId: f.paymentA }) },
-  { method: "POST", route: "/api/office/payments/[paymentId]/refunds", action: "payment.refund", rules: ownerOnly, params: (f) => ({ paymentId: f.paymentA }), body: () => ({}) },
+  {
+    method: "GET",
+    route: "/api/office/payments/[paymentId]",
+    action: "payment.refund",
+    rules: ownerOnly,
+    params: (f) => ({ paymentId: f.paymentA }),
+  },
+  {
+    method: "POST",
+    route: "/api/office/payments/[paymentId]/refunds",
+    action: "payment.refund",
+    rules: ownerOnly,
+    params: (f) => ({ paymentId: f.paymentA }),
+    body: () => ({}),
+  },
 ];
 
 // Server actions: the permission each is wrapped with, and the roles that permission must grant.

@@ -1,4 +1,4 @@
-import { setProfileSchema, type SetProfile } from "@/lib/checklist/profile";
+import { setProfileSchema, type SetProfile } from "@/lib/engine/checklist/profile";
 
 /** Sets from the demo scenario at Kestrel Lane Wireless, Port Alder. */
 

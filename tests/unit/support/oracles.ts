@@ -68,7 +68,10 @@ export function oracleThreePoint(
       const rp = residual(xp);
       for (let i = 0; i < 3; i++) J[i][j] = (rp[i] - r[i]) / h;
     }
-    const dx = numeric.solve(J, r.map((v) => -v));
+    const dx = numeric.solve(
+      J,
+      r.map((v) => -v),
+    );
     x = x.map((v, i) => v + dx[i]);
   }
   const [P, To, Lo] = x;

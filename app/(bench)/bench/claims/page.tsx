@@ -1,11 +1,11 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { listClaimsForStaff } from "@/db/queries/claims";
-import { jobNumber } from "@/lib/jobs/states";
-import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/services/claims";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
+import { requirePermission } from "@/lib/server/session";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
-import type { ClaimSymptom } from "@/lib/warranty";
+import type { ClaimSymptom } from "@/lib/engine/warranty";
 
 export const metadata: Metadata = { title: "Claims" };
 
@@ -22,7 +22,12 @@ export default async function BenchClaimsPage({ searchParams }: { searchParams: 
         <h1 className="text-2xl font-bold">Warranty claims</h1>
         <nav aria-label="Which claims" className="flex gap-3 text-sm">
           {(["open", "decided", "all"] as const).map((f) => (
-            <Link key={f} href={`/bench/claims?show=${f}`} aria-current={f === filter ? "page" : undefined} className={f === filter ? "font-semibold" : ""}>
+            <Link
+              key={f}
+              href={`/bench/claims?show=${f}`}
+              aria-current={f === filter ? "page" : undefined}
+              className={f === filter ? "font-semibold" : ""}
+            >
               {f === "open" ? "To decide" : f === "decided" ? "Decided" : "All"}
             </Link>
           ))}

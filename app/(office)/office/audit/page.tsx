@@ -4,8 +4,8 @@ import { AuditChange } from "@/components/office/audit-change";
 import { formatWhen } from "@/components/office/format";
 import { Notice } from "@/components/ui/notice";
 import { AUDIT_PAGE_SIZE, auditFilterOptionsForOwner, listAuditEventsForOwner } from "@/db/queries/audit";
-import { zodFields } from "@/lib/api";
-import { requirePermission } from "@/lib/session";
+import { zodFields } from "@/lib/server/route-handler";
+import { requirePermission } from "@/lib/server/session";
 import { auditFilterSchema, type AuditFilter } from "@/lib/validation/office";
 
 export const metadata: Metadata = { title: "Audit log" };
@@ -35,10 +35,17 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
     <div className="space-y-5">
       <div>
         <h1 className="text-3xl font-bold">Audit log</h1>
-        <p className="max-w-prose text-bakelite-soft">Every change to jobs, estimates, payments, staff and settings: who made it, when, and what it was before and after.</p>
+        <p className="max-w-prose text-bakelite-soft">
+          Every change to jobs, estimates, payments, staff and settings: who made it, when, and what it was before and after.
+        </p>
       </div>
 
-      <form method="get" action="/office/audit" className="card grid gap-3 p-4 sm:grid-cols-2 lg:grid-cols-6" aria-label="Filter the audit log">
+      <form
+        method="get"
+        action="/office/audit"
+        className="card grid gap-3 p-4 sm:grid-cols-2 lg:grid-cols-6"
+        aria-label="Filter the audit log"
+      >
         <div className="lg:col-span-2">
           <label htmlFor="filter-actor" className="field-label">
             Who
@@ -82,7 +89,15 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           <label htmlFor="filter-from" className="field-label">
             From (UTC day)
           </label>
-          <input id="filter-from" name="from" type="date" defaultValue={filter.from ?? ""} className="field-input" aria-invalid={!!problems?.from} aria-describedby={problems?.from ? "filter-from-error" : undefined} />
+          <input
+            id="filter-from"
+            name="from"
+            type="date"
+            defaultValue={filter.from ?? ""}
+            className="field-input"
+            aria-invalid={!!problems?.from}
+            aria-describedby={problems?.from ? "filter-from-error" : undefined}
+          />
           {problems?.from ? (
             <p id="filter-from-error" className="field-error">
               {problems.from}
@@ -93,7 +108,15 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           <label htmlFor="filter-to" className="field-label">
             To (UTC day, included)
           </label>
-          <input id="filter-to" name="to" type="date" defaultValue={filter.to ?? ""} className="field-input" aria-invalid={!!problems?.to} aria-describedby={problems?.to ? "filter-to-error" : undefined} />
+          <input
+            id="filter-to"
+            name="to"
+            type="date"
+            defaultValue={filter.to ?? ""}
+            className="field-input"
+            aria-invalid={!!problems?.to}
+            aria-describedby={problems?.to ? "filter-to-error" : undefined}
+          />
           {problems?.to ? (
             <p id="filter-to-error" className="field-error">
               {problems.to}

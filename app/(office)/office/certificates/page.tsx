@@ -3,10 +3,10 @@ import Link from "next/link";
 import { CertificateActions } from "@/components/warranty/certificate-actions";
 import { CertificateStatusBadge } from "@/components/warranty/certificate-status";
 import { listCertificatesForStaff } from "@/db/queries/certificates";
-import { jobNumber } from "@/lib/jobs/states";
-import { can } from "@/lib/permissions";
-import { certificateStatus } from "@/lib/services/certificates";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { can } from "@/lib/engine/permissions";
+import { certificateStatus } from "@/lib/server/services/certificates";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Certificates" };
 
@@ -17,7 +17,9 @@ export default async function OfficeCertificatesPage() {
     <div className="space-y-4">
       <div>
         <h1 className="text-3xl font-bold">Certificates</h1>
-        <p className="text-bakelite-soft">Every certificate issued, its status as the public page shows it, and corrections or revocations.</p>
+        <p className="text-bakelite-soft">
+          Every certificate issued, its status as the public page shows it, and corrections or revocations.
+        </p>
       </div>
       {rows.length === 0 ? (
         <p>No certificates have been issued yet.</p>
@@ -55,7 +57,11 @@ export default async function OfficeCertificatesPage() {
                     <a href={`/api/certificates/${c.id}/pdf`} className="inline-block min-h-6 min-w-6 py-0.5">
                       PDF<span className="sr-only"> of {c.code}</span>
                     </a>
-                    <CertificateActions id={c.id} canRevoke={live && can(viewer.role, "certificate.revoke")} canReissue={live && can(viewer.role, "certificate.reissue")} />
+                    <CertificateActions
+                      id={c.id}
+                      canRevoke={live && can(viewer.role, "certificate.revoke")}
+                      canReissue={live && can(viewer.role, "certificate.reissue")}
+                    />
                   </td>
                 </tr>
               );

@@ -3,9 +3,9 @@ import Link from "next/link";
 import { formatMoney, formatWhen } from "@/components/office/format";
 import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL } from "@/components/office/labels";
 import { listPaymentsForOffice } from "@/db/queries/office";
-import { jobNumber } from "@/lib/jobs/states";
-import { getShop } from "@/lib/services/shop";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { getShop } from "@/lib/server/services/shop";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Payments" };
 
@@ -27,7 +27,9 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
     <div className="space-y-5">
       <div>
         <h1 className="text-3xl font-bold">Payments</h1>
-        <p className="max-w-prose text-bakelite-soft">Deposits and balances paid through the processor. Open a payment to refund part or all of it.</p>
+        <p className="max-w-prose text-bakelite-soft">
+          Deposits and balances paid through the processor. Open a payment to refund part or all of it.
+        </p>
       </div>
       <nav aria-label="Show payments" className="flex gap-3 text-sm">
         {FILTERS.map((f) =>
@@ -85,7 +87,9 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                   <td className="figure whitespace-nowrap">{formatWhen(p.paidAt)}</td>
                   <td className="figure whitespace-nowrap text-right">
                     {formatMoney(p.refundedMinor, currency)}
-                    {p.inFlightMinor > 0 ? <span className="block text-xs text-bakelite-muted">+ {formatMoney(p.inFlightMinor, currency)} waiting</span> : null}
+                    {p.inFlightMinor > 0 ? (
+                      <span className="block text-xs text-bakelite-muted">+ {formatMoney(p.inFlightMinor, currency)} waiting</span>
+                    ) : null}
                   </td>
                   <td>
                     <Link href={`/office/payments/${p.id}`}>

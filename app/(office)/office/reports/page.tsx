@@ -3,10 +3,10 @@ import { formatMoney } from "@/components/office/format";
 import { JobsPerStateChart, MoneyChart, TurnaroundChart } from "@/components/office/report-charts";
 import { Notice } from "@/components/ui/notice";
 import { reportsForOwner, resolveMonthRange } from "@/db/queries/reports";
-import { zodFields } from "@/lib/api";
-import { STATE_LABEL } from "@/lib/jobs/states";
-import { getShop } from "@/lib/services/shop";
-import { requirePermission } from "@/lib/session";
+import { zodFields } from "@/lib/server/route-handler";
+import { STATE_LABEL } from "@/lib/engine/jobs/states";
+import { getShop } from "@/lib/server/services/shop";
+import { requirePermission } from "@/lib/server/session";
 import { reportRangeSchema } from "@/lib/validation/office";
 
 export const metadata: Metadata = { title: "Reports" };
@@ -28,7 +28,12 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
   const currency = shop.policy.currency;
   const scale = 10 ** currency.exponent;
   const totals = r.money.reduce(
-    (t, m) => ({ deposits: t.deposits + m.depositsMinor, balances: t.balances + m.balancesMinor, refunds: t.refunds + m.refundsMinor, net: t.net + m.netMinor }),
+    (t, m) => ({
+      deposits: t.deposits + m.depositsMinor,
+      balances: t.balances + m.balancesMinor,
+      refunds: t.refunds + m.refundsMinor,
+      net: t.net + m.netMinor,
+    }),
     { deposits: 0, balances: 0, refunds: 0, net: 0 },
   );
   const opened = r.jobsPerState.reduce((n, s) => n + s.count, 0);
@@ -39,8 +44,8 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
       <div>
         <h1 className="text-3xl font-bold">Reports</h1>
         <p className="max-w-prose text-bakelite-soft">
-          From <span className="figure">{r.range.from}</span> to <span className="figure">{r.range.to}</span> (calendar months, UTC). Each chart has its figures in the
-          table beside it.
+          From <span className="figure">{r.range.from}</span> to <span className="figure">{r.range.to}</span> (calendar months, UTC). Each
+          chart has its figures in the table beside it.
         </p>
       </div>
 
@@ -49,7 +54,15 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           <label htmlFor="range-from" className="field-label">
             First month
           </label>
-          <input id="range-from" name="from" type="month" defaultValue={r.range.from} className="field-input figure" aria-invalid={!!problems?.from} aria-describedby={problems?.from ? "range-from-error" : undefined} />
+          <input
+            id="range-from"
+            name="from"
+            type="month"
+            defaultValue={r.range.from}
+            className="field-input figure"
+            aria-invalid={!!problems?.from}
+            aria-describedby={problems?.from ? "range-from-error" : undefined}
+          />
           {problems?.from ? (
             <p id="range-from-error" className="field-error">
               {problems.from}
@@ -60,7 +73,15 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           <label htmlFor="range-to" className="field-label">
             Last month
           </label>
-          <input id="range-to" name="to" type="month" defaultValue={r.range.to} className="field-input figure" aria-invalid={!!problems?.to} aria-describedby={problems?.to ? "range-to-error" : undefined} />
+          <input
+            id="range-to"
+            name="to"
+            type="month"
+            defaultValue={r.range.to}
+            className="field-input figure"
+            aria-invalid={!!problems?.to}
+            aria-describedby={problems?.to ? "range-to-error" : undefined}
+          />
           {problems?.to ? (
             <p id="range-to-error" className="field-error">
               {problems.to}
@@ -85,7 +106,11 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           <span className="figure">{opened}</span> {opened === 1 ? "job" : "jobs"} opened.
         </p>
         <div className="mt-3 grid gap-6 lg:grid-cols-[1fr_20rem]">
-          {shownStates.length ? <JobsPerStateChart data={shownStates.map((s) => ({ label: STATE_LABEL[s.state].staff, count: s.count }))} /> : <p className="text-sm">No jobs opened in these months.</p>}
+          {shownStates.length ? (
+            <JobsPerStateChart data={shownStates.map((s) => ({ label: STATE_LABEL[s.state].staff, count: s.count }))} />
+          ) : (
+            <p className="text-sm">No jobs opened in these months.</p>
+          )}
           <table className="dense-table h-fit" id="table-states">
             <caption className="sr-only">Jobs per state</caption>
             <thead>
@@ -116,12 +141,20 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           Turnaround from receipt to return
         </h2>
         <p className="text-sm text-bakelite-soft">
-          Median <span className="figure font-semibold text-bakelite" data-testid="median-turnaround">{days(r.turnaround.medianDays)}</span> days over{" "}
-          <span className="figure">{r.turnaround.jobs}</span> returned jobs. Receipt is the day the set arrived (or first went on the bench); return is the day it was
-          picked up or shipped.
+          Median{" "}
+          <span className="figure font-semibold text-bakelite" data-testid="median-turnaround">
+            {days(r.turnaround.medianDays)}
+          </span>{" "}
+          days over <span className="figure">{r.turnaround.jobs}</span> returned jobs. Receipt is the day the set arrived (or first went on
+          the bench); return is the day it was picked up or shipped.
         </p>
         <div className="mt-3 grid gap-6 lg:grid-cols-[1fr_20rem]">
-          <TurnaroundChart data={r.turnaround.byMonth.map((m) => ({ month: m.month, medianDays: m.medianDays === null ? null : Number(m.medianDays.toFixed(1)) }))} />
+          <TurnaroundChart
+            data={r.turnaround.byMonth.map((m) => ({
+              month: m.month,
+              medianDays: m.medianDays === null ? null : Number(m.medianDays.toFixed(1)),
+            }))}
+          />
           <table className="dense-table h-fit" id="table-turnaround">
             <caption className="sr-only">Median turnaround per month of return</caption>
             <thead>
@@ -154,11 +187,19 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
         <h2 id="r-money" className="text-xl font-semibold">
           Deposits and revenue per month
         </h2>
-        <p className="text-sm text-bakelite-soft">Payments by the month they were received; refunds by the month the processor confirmed them. Net revenue is what was received less refunds.</p>
+        <p className="text-sm text-bakelite-soft">
+          Payments by the month they were received; refunds by the month the processor confirmed them. Net revenue is what was received less
+          refunds.
+        </p>
         <div className="mt-3 space-y-4">
           <MoneyChart
             currency={currency.code}
-            data={r.money.map((m) => ({ month: m.month, deposits: m.depositsMinor / scale, balances: m.balancesMinor / scale, refunds: m.refundsMinor / scale }))}
+            data={r.money.map((m) => ({
+              month: m.month,
+              deposits: m.depositsMinor / scale,
+              balances: m.balancesMinor / scale,
+              refunds: m.refundsMinor / scale,
+            }))}
           />
           <div className="overflow-x-auto">
             <table className="dense-table" id="table-money">

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { SettingsForm } from "@/components/office/settings-form";
-import { requirePermission } from "@/lib/session";
-import { loadSettingsForOffice } from "@/lib/services/settings";
+import { requirePermission } from "@/lib/server/session";
+import { loadSettingsForOffice } from "@/lib/server/services/settings";
 
 export const metadata: Metadata = { title: "Rates & policy" };
 
@@ -13,8 +13,8 @@ export default async function SettingsPage() {
       <div>
         <h1 className="text-3xl font-bold">Rates &amp; policy</h1>
         <p className="max-w-prose text-bakelite-soft">
-          The figures every estimate, bench verdict and certificate is computed from. A change applies to estimates priced after you save; estimates already sent keep
-          the figures they were sent with.
+          The figures every estimate, bench verdict and certificate is computed from. A change applies to estimates priced after you save;
+          estimates already sent keep the figures they were sent with.
         </p>
       </div>
       <SettingsForm initial={initial} />

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { listStaff } from "@/db/queries/staff";
-import { isRole } from "@/lib/permissions";
-import { requirePermission } from "@/lib/session";
+import { isRole } from "@/lib/engine/permissions";
+import { requirePermission } from "@/lib/server/session";
 import { InviteForm, StaffRow } from "./_components/staff-controls";
 
 export const metadata: Metadata = { title: "Staff" };
@@ -30,7 +30,11 @@ export default async function StaffPage() {
           </thead>
           <tbody>
             {staff.map((s) => (
-              <StaffRow key={s.id} person={{ id: s.id, name: s.name, email: s.email, role: isRole(s.role) ? s.role : "customer", active: !s.banned }} self={s.id === viewer.id} />
+              <StaffRow
+                key={s.id}
+                person={{ id: s.id, name: s.name, email: s.email, role: isRole(s.role) ? s.role : "customer", active: !s.banned }}
+                self={s.id === viewer.id}
+              />
             ))}
           </tbody>
         </table>

@@ -4,20 +4,25 @@ import { CertificateStatusBadge } from "@/components/warranty/certificate-status
 import { MyClaims } from "@/components/warranty/my-claims";
 import { listCertificatesForCustomer } from "@/db/queries/certificates";
 import { listClaimsForClaimant } from "@/db/queries/claims";
-import { certificateStatus } from "@/lib/services/certificates";
-import { claimSummary } from "@/lib/services/claims";
-import { requirePermission } from "@/lib/session";
+import { certificateStatus } from "@/lib/server/services/certificates";
+import { claimSummary } from "@/lib/server/services/claims";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Warranty claims" };
 
 export default async function PortalClaimsPage() {
   const viewer = await requirePermission("claim.open", "/portal/claims");
-  const [certs, claims] = await Promise.all([listCertificatesForCustomer({ customerId: viewer.id }), listClaimsForClaimant({ claimantId: viewer.id })]);
+  const [certs, claims] = await Promise.all([
+    listCertificatesForCustomer({ customerId: viewer.id }),
+    listClaimsForClaimant({ claimantId: viewer.id }),
+  ]);
   return (
     <div className="space-y-8">
       <div>
         <h1 className="text-3xl font-bold">Warranty claims</h1>
-        <p className="text-bakelite-soft">If a set we restored develops a fault, open a claim from its certificate. We answer every claim by e-mail.</p>
+        <p className="text-bakelite-soft">
+          If a set we restored develops a fault, open a claim from its certificate. We answer every claim by e-mail.
+        </p>
       </div>
 
       <section aria-labelledby="certs-heading" className="space-y-3">
@@ -25,7 +30,9 @@ export default async function PortalClaimsPage() {
           My certificates
         </h2>
         {certs.length === 0 ? (
-          <p className="text-bakelite-soft">You have no certificates yet. A certificate is issued when a restored set is returned to you.</p>
+          <p className="text-bakelite-soft">
+            You have no certificates yet. A certificate is issued when a restored set is returned to you.
+          </p>
         ) : (
           <ul className="space-y-2">
             {certs.map((c) => {
@@ -54,7 +61,8 @@ export default async function PortalClaimsPage() {
           </ul>
         )}
         <p className="text-sm">
-          Bought a set restored by us? <Link href="/portal/claims/new">Claim with the certificate code</Link> if its warranty passes to a later owner.
+          Bought a set restored by us? <Link href="/portal/claims/new">Claim with the certificate code</Link> if its warranty passes to a
+          later owner.
         </p>
       </section>
 

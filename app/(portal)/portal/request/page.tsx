@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { requirePermission } from "@/lib/session";
+import { requirePermission } from "@/lib/server/session";
 import { QuoteForm } from "./_components/quote-form";
 
 export const metadata: Metadata = { title: "Request a quote" };
@@ -11,8 +11,8 @@ export default async function RequestQuotePage() {
       <header className="space-y-2">
         <h1 className="text-3xl font-bold">Request a quote</h1>
         <p className="text-lg text-bakelite-soft">
-          Tell us about your set and send a few photos. A technician reads every request and replies with a written estimate,
-          usually within three working days. You decide only after you have seen it.
+          Tell us about your set and send a few photos. A technician reads every request and replies with a written estimate, usually within
+          three working days. You decide only after you have seen it.
         </p>
       </header>
       <QuoteForm />

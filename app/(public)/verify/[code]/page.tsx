@@ -6,10 +6,11 @@ import { BandEdgeTable } from "@/components/warranty/band-edge-table";
 import { CertificateStatusBadge } from "@/components/warranty/certificate-status";
 import { Notice } from "@/components/ui/notice";
 import { countVerifyRequest, getCertificateByCode, getCertificateById } from "@/db/queries/certificates";
-import { normaliseCertificateCode } from "@/lib/certificates";
-import { setKindLabels } from "@/lib/checklist/profile";
-import { EngineError } from "@/lib/engine-error";
-import { certificateStatus, clientIpFrom, maskSerial, VERIFY_LIMIT_PER_MINUTE } from "@/lib/services/certificates";
+import { normaliseCertificateCode } from "@/lib/engine/certificates";
+import { setKindLabels } from "@/lib/engine/checklist/profile";
+import { EngineError } from "@/lib/engine/engine-error";
+import { certificateStatus, clientIpFrom, VERIFY_LIMIT_PER_MINUTE } from "@/lib/server/services/certificates";
+import { maskSerial } from "@/lib/engine/certificates/document";
 
 export const dynamic = "force-dynamic";
 export const metadata: Metadata = { title: "Certificate check", robots: { index: false, follow: false } };
@@ -108,7 +109,9 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
         ) : null}
         {status === "expired" ? (
           <p>
-            The {designation.toLowerCase()} warranty of {d.warranty.termDays} days ended on <strong className="figure">{d.warranty.endsOn}</strong>. The measurements below are still those recorded when the set left the shop.
+            The {designation.toLowerCase()} warranty of {d.warranty.termDays} days ended on{" "}
+            <strong className="figure">{d.warranty.endsOn}</strong>. The measurements below are still those recorded when the set left the
+            shop.
           </p>
         ) : null}
         {status === "revoked" ? (
@@ -122,7 +125,10 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
               The shop replaced this certificate with a corrected one
               {newer ? (
                 <>
-                  : <Link href={`/verify/${newer.code}`} className="figure">{newer.code}</Link>
+                  :{" "}
+                  <Link href={`/verify/${newer.code}`} className="figure">
+                    {newer.code}
+                  </Link>
                 </>
               ) : null}
               . Rely on the newer certificate.
@@ -161,7 +167,8 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
         <BandEdgeTable document={d} />
       </div>
       <p className="text-sm text-bakelite-muted">
-        This page shows only what a buyer needs to check the set. Owners see the full certificate, with every reading and the warranty terms, in their portal.
+        This page shows only what a buyer needs to check the set. Owners see the full certificate, with every reading and the warranty
+        terms, in their portal.
       </p>
     </Shell>
   );

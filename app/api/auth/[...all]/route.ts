@@ -1,6 +1,6 @@
 import { toNextJsHandler } from "better-auth/next-js";
-import { auth } from "@/lib/auth";
-import { endSessionPastLifetime } from "@/lib/session";
+import { auth } from "@/lib/server/auth";
+import { endSessionPastLifetime } from "@/lib/server/session";
 
 export async function GET(request: Request) {
   await endSessionPastLifetime(request.headers);

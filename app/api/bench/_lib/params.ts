@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { AppError } from "@/lib/errors";
+import { AppError } from "@/lib/server/errors";
 
 const uuid = z.uuid();
 

@@ -1,7 +1,7 @@
-import { route } from "@/lib/api";
-import { AppError } from "@/lib/errors";
-import { queuePage } from "@/lib/services/bench-queue";
-import { zodFields } from "@/lib/api";
+import { route } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
+import { queuePage } from "@/lib/server/services/bench-queue";
+import { zodFields } from "@/lib/server/route-handler";
 import { queueQuerySchema } from "@/lib/validation/bench";
 
 // GET /api/bench/queue?page=1&pageSize=25&sort=updatedAt&dir=desc&states=in_triage,on_bench&technician=me&q=KL-0042

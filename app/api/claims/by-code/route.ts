@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { openClaim } from "@/lib/services/claims";
+import { route } from "@/lib/server/route-handler";
+import { openClaim } from "@/lib/server/services/claims";
 import { openClaimByCodeSchema } from "@/lib/validation/claims";
 
 // A later owner (or the holder) opens a claim with the code printed on the certificate, where the terms allow.

@@ -1,6 +1,6 @@
 import { listAuditEventsForOwner } from "@/db/queries/audit";
-import { route, zodFields } from "@/lib/api";
-import { AppError } from "@/lib/errors";
+import { route, zodFields } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
 import { auditFilterSchema } from "@/lib/validation/office";
 
 export const GET = route({ permission: "audit.read" }, async ({ request }) => {

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { listPaymentsForOffice } from "@/db/queries/office";
-import { route } from "@/lib/api";
-import { AppError } from "@/lib/errors";
+import { route } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
 
 const querySchema = z.object({
   page: z.coerce.number().int().min(1).max(100_000).default(1),

@@ -1,6 +1,6 @@
 import { reportsForOwner, resolveMonthRange } from "@/db/queries/reports";
-import { route, zodFields } from "@/lib/api";
-import { AppError } from "@/lib/errors";
+import { route, zodFields } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
 import { reportRangeSchema } from "@/lib/validation/office";
 
 export const GET = route({ permission: "reports.read" }, async ({ request }) => {

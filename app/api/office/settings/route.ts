@@ -1,5 +1,5 @@
-import { route } from "@/lib/api";
-import { loadSettingsForOffice, saveSettings } from "@/lib/services/settings";
+import { route } from "@/lib/server/route-handler";
+import { loadSettingsForOffice, saveSettings } from "@/lib/server/services/settings";
 import { settingsFormSchema } from "@/lib/validation/office";
 
 // The office settings: identity, rates, policy, warranty wording, tolerances. Owner only (others get 404).

@@ -1,6 +1,6 @@
 import { getPaymentForCustomer } from "@/db/queries/payments";
-import { route } from "@/lib/api";
-import { AppError } from "@/lib/errors";
+import { route } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
 import { idFrom } from "../../portal/_lib/ids";
 
 // GET /api/payments/:paymentId — one of the owner's own payments.

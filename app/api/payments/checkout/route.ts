@@ -1,5 +1,5 @@
-import { route } from "@/lib/api";
-import { startCheckout } from "@/lib/services/payments";
+import { route } from "@/lib/server/route-handler";
+import { startCheckout } from "@/lib/server/services/payments";
 import { checkoutSchema } from "@/lib/validation/quote";
 
 // POST /api/payments/checkout { jobId, purpose } — where to send the payer: the hosted checkout, or (when a

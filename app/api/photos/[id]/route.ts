@@ -1,13 +1,17 @@
 import { getPhotoForViewer } from "@/db/queries/photos";
-import { route } from "@/lib/api";
-import { AppError } from "@/lib/errors";
-import { can } from "@/lib/permissions";
-import { photoStore } from "@/lib/uploads/storage";
+import { route } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
+import { can } from "@/lib/engine/permissions";
+import { photoStore } from "@/lib/server/uploads/storage";
 import { idFrom } from "../../portal/_lib/ids";
 
 // GET /api/photos/:id[?size=thumb] — the re-encoded photo, for its owner and for the workshop only.
 export const GET = route<{ id: string }>({ permission: "photo.view" }, async ({ viewer, params, request }) => {
-  const photo = await getPhotoForViewer({ photoId: idFrom(params.id, "That photo"), viewerId: viewer.id, staff: can(viewer.role, "bench.use") });
+  const photo = await getPhotoForViewer({
+    photoId: idFrom(params.id, "That photo"),
+    viewerId: viewer.id,
+    staff: can(viewer.role, "bench.use"),
+  });
   if (!photo) throw new AppError("not_found", "That photo was not found.");
   const thumb = new URL(request.url).searchParams.get("size") === "thumb";
   const key = thumb && photo.thumbKey ? photo.thumbKey : photo.storageKey;

@@ -1,7 +1,7 @@
 import { listJobsForCustomer } from "@/db/queries/jobs";
-import { route } from "@/lib/api";
-import { jobNumber, STATE_LABEL } from "@/lib/jobs/states";
-import { submitQuote } from "@/lib/services/quotes";
+import { route } from "@/lib/server/route-handler";
+import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
+import { submitQuote } from "@/lib/server/services/quotes";
 import { quoteRequestSchema } from "@/lib/validation/quote";
 
 // GET /api/portal/jobs — the owner's jobs, newest activity first.

@@ -1,6 +1,6 @@
-import { json, readJson, route } from "@/lib/api";
-import { getShop } from "@/lib/services/shop";
-import { estimateRequestSchema, invalidInputBody, runEstimateTool } from "@/lib/tools";
+import { json, readJson, route } from "@/lib/server/route-handler";
+import { getShop } from "@/lib/server/services/shop";
+import { estimateRequestSchema, invalidInputBody, runEstimateTool } from "@/lib/engine/requests";
 
 // POST /api/tools/estimate — profile → checklist → priced estimate with the shop's policy in force.
 export const POST = route({ permission: "tools.use" }, async ({ request }) => {

@@ -1,8 +1,8 @@
 import type Stripe from "stripe";
-import { json } from "@/lib/api";
-import { env } from "@/lib/env";
-import { stripe } from "@/lib/payments";
-import { handleStripeEvent } from "@/lib/services/payments";
+import { json } from "@/lib/server/route-handler";
+import { env } from "@/lib/server/env";
+import { stripe } from "@/lib/server/payments";
+import { handleStripeEvent } from "@/lib/server/services/payments";
 
 export const dynamic = "force-dynamic";
 

@@ -6,9 +6,10 @@ export default async function task(input) {
   if (input.wait) await new Promise((resolve) => setTimeout(resolve, input.wait));
   if (input.hang) await new Promise(() => {});
   if (input.exit) process.exit(input.exit);
-  if (input.uncaught) setTimeout(() => {
-    throw new Error("the renderer blew up");
-  });
+  if (input.uncaught)
+    setTimeout(() => {
+      throw new Error("the renderer blew up");
+    });
   if (input.uncaught) await new Promise(() => {});
   if (input.reject) throw new Error(input.reject);
   return { threadId, value: input.value };

@@ -5,13 +5,13 @@ import { CertificateStatusBadge } from "@/components/warranty/certificate-status
 import { DecisionForm } from "@/components/warranty/decision-form";
 import { Notice } from "@/components/ui/notice";
 import { getClaimForStaff, listClaimPhotos } from "@/db/queries/claims";
-import { jobNumber } from "@/lib/jobs/states";
-import { can } from "@/lib/permissions";
-import { certificateStatus, isUuid } from "@/lib/services/certificates";
-import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/services/claims";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { can } from "@/lib/engine/permissions";
+import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
+import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
+import { requirePermission } from "@/lib/server/session";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
-import { exclusionWording, type ClaimSymptom } from "@/lib/warranty";
+import { exclusionWording, type ClaimSymptom } from "@/lib/engine/warranty";
 
 export const metadata: Metadata = { title: "Claim" };
 
@@ -31,9 +31,7 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
         <Link href="/bench/claims">Claims</Link>
       </p>
       <div className="flex flex-wrap items-center gap-3">
-        <h1 className="text-2xl font-bold">
-          Claim: {d ? `${d.set.maker} ${d.set.model}` : row.certificateCode}
-        </h1>
+        <h1 className="text-2xl font-bold">Claim: {d ? `${d.set.maker} ${d.set.model}` : row.certificateCode}</h1>
         <span className="font-semibold">
           <span aria-hidden="true">{st.icon} </span>
           {st.staff}
@@ -41,7 +39,10 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
       </div>
       {(advice.symptoms ?? []).some((s) => s === "shock-or-tingle" || s === "smoke-or-smell") ? (
         <Notice tone="caution" title="Safety first">
-          <p>Ask the owner to unplug the set and not use it. Treat the chassis as live until it is checked on the isolation transformer; follow local codes and licensed practice.</p>
+          <p>
+            Ask the owner to unplug the set and not use it. Treat the chassis as live until it is checked on the isolation transformer;
+            follow local codes and licensed practice.
+          </p>
         </Notice>
       ) : null}
       <div className="grid gap-4 lg:grid-cols-2">
@@ -50,7 +51,8 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
             What the owner reports
           </h2>
           <p>
-            <strong>{SYMPTOM_LABEL[row.claim.symptomCategory as ClaimSymptom] ?? row.claim.symptomCategory}</strong> · opened {row.claim.createdAt.toISOString().slice(0, 10)} by {row.claimantName} ({row.claimantEmail})
+            <strong>{SYMPTOM_LABEL[row.claim.symptomCategory as ClaimSymptom] ?? row.claim.symptomCategory}</strong> · opened{" "}
+            {row.claim.createdAt.toISOString().slice(0, 10)} by {row.claimantName} ({row.claimantEmail})
             {row.certificateCustomerId !== row.claim.claimantId ? " — a later owner, claiming with the code" : ""}
           </p>
           <p className="whitespace-pre-wrap">{row.claim.description}</p>
@@ -68,7 +70,14 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
               {photos.map((p) => (
                 <li key={p.id}>
                   <a href={`/api/photos/${p.id}`}>
-                    <img src={`/api/photos/${p.id}?size=thumb`} alt={p.displayName} width={96} height={96} className="h-24 w-24 rounded-card object-cover" />
+                    {/* eslint-disable-next-line @next/next/no-img-element -- photos come re-encoded from our own authorised route; the image optimiser would fetch them without the session */}
+                    <img
+                      src={`/api/photos/${p.id}?size=thumb`}
+                      alt={p.displayName}
+                      width={96}
+                      height={96}
+                      className="h-24 w-24 rounded-card object-cover"
+                    />
                   </a>
                 </li>
               ))}

@@ -3,8 +3,8 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { JobWorkspace } from "@/components/bench/job-workspace";
 import { getJobDetailForStaff } from "@/db/queries/bench";
-import { jobNumber } from "@/lib/jobs/states";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { requirePermission } from "@/lib/server/session";
 
 type Props = { params: Promise<{ id: string }> };
 

@@ -5,9 +5,9 @@ import { z } from "zod";
 import { jsonify } from "@/components/office/format";
 import { RefundPanel } from "@/components/office/refund-panel";
 import { getPaymentForOffice } from "@/db/queries/office";
-import { jobNumber } from "@/lib/jobs/states";
-import { getShop } from "@/lib/services/shop";
-import { requirePermission } from "@/lib/session";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { getShop } from "@/lib/server/services/shop";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Payment" };
 

@@ -7,8 +7,8 @@ import { useForm } from "react-hook-form";
 import type { z } from "zod";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import type { Role } from "@/db/schema/enums";
-import { ROLE_LABEL } from "@/lib/permissions";
+import type { Role } from "@/lib/engine/permissions";
+import { ROLE_LABEL } from "@/lib/engine/permissions";
 import { staffInviteSchema } from "@/lib/validation/account";
 import { changeStaffRole, inviteStaff, setStaffActive } from "../actions";
 
@@ -52,7 +52,12 @@ export function StaffRow({ person, self }: { person: Person; self: boolean }) {
         {self ? (
           <span className="text-bakelite-muted">You</span>
         ) : (
-          <button type="button" className="btn-secondary px-2 py-1" disabled={pending} onClick={() => run(() => setStaffActive({ userId: person.id, active: !person.active }))}>
+          <button
+            type="button"
+            className="btn-secondary px-2 py-1"
+            disabled={pending}
+            onClick={() => run(() => setStaffActive({ userId: person.id, active: !person.active }))}
+          >
             {person.active ? `Deactivate ${person.name}` : `Reactivate ${person.name}`}
           </button>
         )}
@@ -85,10 +90,23 @@ export function InviteForm() {
   return (
     <form onSubmit={onSubmit} noValidate className="grid gap-3 sm:grid-cols-2">
       <Field id="invite-name" label="Name" error={errors.name?.message}>
-        <input id="invite-name" className="field-input" aria-invalid={!!errors.name} aria-describedby={describedBy("invite-name", { error: errors.name })} {...register("name")} />
+        <input
+          id="invite-name"
+          className="field-input"
+          aria-invalid={!!errors.name}
+          aria-describedby={describedBy("invite-name", { error: errors.name })}
+          {...register("name")}
+        />
       </Field>
       <Field id="invite-email" label="E-mail" error={errors.email?.message}>
-        <input id="invite-email" type="email" className="field-input" aria-invalid={!!errors.email} aria-describedby={describedBy("invite-email", { error: errors.email })} {...register("email")} />
+        <input
+          id="invite-email"
+          type="email"
+          className="field-input"
+          aria-invalid={!!errors.email}
+          aria-describedby={describedBy("invite-email", { error: errors.email })}
+          {...register("email")}
+        />
       </Field>
       <Field id="invite-role" label="Role">
         <select id="invite-role" className="field-input" {...register("role")}>

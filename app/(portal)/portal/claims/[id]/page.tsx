@@ -2,11 +2,11 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getClaimForClaimant } from "@/db/queries/claims";
-import { isUuid } from "@/lib/services/certificates";
-import { CLAIM_STATUS_LABEL, claimSummary } from "@/lib/services/claims";
-import { requirePermission } from "@/lib/session";
+import { isUuid } from "@/lib/server/services/certificates";
+import { CLAIM_STATUS_LABEL, claimSummary } from "@/lib/server/services/claims";
+import { requirePermission } from "@/lib/server/session";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
-import type { ClaimSymptom } from "@/lib/warranty";
+import type { ClaimSymptom } from "@/lib/engine/warranty";
 
 export const metadata: Metadata = { title: "Warranty claim" };
 

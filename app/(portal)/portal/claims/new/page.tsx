@@ -2,8 +2,8 @@ import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { ClaimForm } from "@/components/warranty/claim-form";
 import { getCertificateForCustomer } from "@/db/queries/certificates";
-import { certificateStatus, isUuid } from "@/lib/services/certificates";
-import { requirePermission } from "@/lib/session";
+import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
+import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Open a warranty claim" };
 
@@ -21,7 +21,11 @@ export default async function NewClaimPage({ searchParams }: { searchParams: Pro
   return (
     <div className="mx-auto max-w-prose space-y-4">
       <h1 className="text-3xl font-bold">Open a warranty claim</h1>
-      {certificate ? null : <p className="text-bakelite-soft">Enter the code printed on the certificate. A later owner can claim if the certificate says the warranty passes to them.</p>}
+      {certificate ? null : (
+        <p className="text-bakelite-soft">
+          Enter the code printed on the certificate. A later owner can claim if the certificate says the warranty passes to them.
+        </p>
+      )}
       <ClaimForm certificateId={certificate} setName={setName} />
     </div>
   );

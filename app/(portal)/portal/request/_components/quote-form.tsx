@@ -4,7 +4,7 @@ import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useRouter } from "next/navigation";
 import { useCallback, useState } from "react";
-import { useForm, type Path } from "react-hook-form";
+import { useForm, useWatch, type Path } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import {
@@ -21,7 +21,7 @@ import {
 } from "@/lib/validation/quote";
 import { api, ApiError } from "../../_lib/api";
 import { portalKeys } from "../../_lib/query-keys";
-import { PhotoPicker, type PhotoPickerState } from "../../_components/photo-picker";
+import { PhotoPicker, type PhotoPickerState } from "@/components/photo-picker";
 
 export function QuoteForm() {
   const router = useRouter();
@@ -29,12 +29,12 @@ export function QuoteForm() {
   const [idempotencyKey] = useState(() => crypto.randomUUID());
   const [uploading, setUploading] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
-  const { register, handleSubmit, setValue, setError, formState, watch } = useForm<QuoteRequestInput, unknown, QuoteRequest>({
+  const { register, handleSubmit, setValue, setError, formState, control } = useForm<QuoteRequestInput, unknown, QuoteRequest>({
     resolver: zodResolver(quoteRequestSchema),
     defaultValues: { bands: [], photos: [], idempotencyKey, delivery: "mail-in", contactPreference: "email", poweredRecently: undefined },
   });
   const { errors, isSubmitting } = formState;
-  const contact = watch("contactPreference");
+  const contact = useWatch({ control, name: "contactPreference" });
 
   const onPhotos = useCallback(
     (s: PhotoPickerState) => {
@@ -137,17 +137,32 @@ export function QuoteForm() {
             </p>
           ) : null}
         </fieldset>
-        <Field id="dialMarkings" label="Numbers at the ends of each dial scale (optional)" hint='For example "55 … 160" or "6 … 18 Mc". It helps us plan the alignment.' error={errors.dialMarkings?.message}>
+        <Field
+          id="dialMarkings"
+          label="Numbers at the ends of each dial scale (optional)"
+          hint='For example "55 … 160" or "6 … 18 Mc". It helps us plan the alignment.'
+          error={errors.dialMarkings?.message}
+        >
           <input {...input("dialMarkings", true)} {...register("dialMarkings")} />
         </Field>
       </fieldset>
 
       <fieldset className="space-y-5">
         <legend className="font-serif text-xl font-bold">What is wrong with it</legend>
-        <Field id="symptoms" label="What does it do, or not do?" hint="In your own words: hum, no sound, crackles, dial stuck, smell of burning…" error={errors.symptoms?.message}>
+        <Field
+          id="symptoms"
+          label="What does it do, or not do?"
+          hint="In your own words: hum, no sound, crackles, dial stuck, smell of burning…"
+          error={errors.symptoms?.message}
+        >
           <textarea {...input("symptoms", true)} {...register("symptoms")} rows={5} />
         </Field>
-        <Field id="priorWork" label="Has anyone worked on it before? (optional)" hint="Parts replaced, repairs, or nothing you know of." error={errors.priorWork?.message}>
+        <Field
+          id="priorWork"
+          label="Has anyone worked on it before? (optional)"
+          hint="Parts replaced, repairs, or nothing you know of."
+          error={errors.priorWork?.message}
+        >
           <textarea {...input("priorWork", true)} {...register("priorWork")} rows={3} />
         </Field>
         <fieldset aria-describedby={errors.poweredRecently ? "poweredRecently-error" : undefined}>
@@ -173,7 +188,11 @@ export function QuoteForm() {
         <p id="photos-hint" className="text-bakelite-soft">
           Photos let the technician see the set before it travels. We remove location and camera details from every photo.
         </p>
-        <PhotoPicker onChange={onPhotos} error={errors.photos?.message} describedById={describedBy("photos", { error: errors.photos, hint: true })} />
+        <PhotoPicker
+          onChange={onPhotos}
+          error={errors.photos?.message}
+          describedById={describedBy("photos", { error: errors.photos, hint: true })}
+        />
         {errors.photos ? (
           <p id="photos-error" className="field-error" role="alert">
             {errors.photos.message}

@@ -1,5 +1,5 @@
-import { route } from "@/lib/api";
-import { getJobDetail } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { getJobDetail } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../_lib/params";
 
 // GET /api/bench/jobs/:id — the job page's header, triage data, messages, photos and history.

@@ -1,11 +1,11 @@
 import { getCertificateById, getCertificateForCustomer } from "@/db/queries/certificates";
-import { json, route } from "@/lib/api";
-import { env } from "@/lib/env";
-import { AppError } from "@/lib/errors";
-import { certificatePdfFailure, renderCertificatePdfOffThread } from "@/lib/pdf/certificate-pdf-pool";
-import { RenderPoolError } from "@/lib/pdf/render-pool";
-import { can } from "@/lib/permissions";
-import { certificateStatus, isUuid } from "@/lib/services/certificates";
+import { json, route } from "@/lib/server/route-handler";
+import { env } from "@/lib/server/env";
+import { AppError } from "@/lib/server/errors";
+import { certificatePdfFailure, renderCertificatePdfOffThread } from "@/lib/server/pdf/certificate-pdf-pool";
+import { RenderPoolError } from "@/lib/server/pdf/render-pool";
+import { can } from "@/lib/engine/permissions";
+import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
 
 export const runtime = "nodejs";
 
@@ -25,7 +25,8 @@ export const GET = route<{ id: string }>({ permission: "certificate.download" },
     keyId: row.keyId,
     issuedAt: row.issuedAt,
     status: {
-      revoked: status === "revoked" && row.revokedAt ? { reason: row.revokeReason ?? "", on: row.revokedAt.toISOString().slice(0, 10) } : null,
+      revoked:
+        status === "revoked" && row.revokedAt ? { reason: row.revokeReason ?? "", on: row.revokedAt.toISOString().slice(0, 10) } : null,
       supersededByCode: newer?.code ?? null,
     },
   };

@@ -1,7 +1,7 @@
 import { z } from "zod";
 import { getPaymentForOffice } from "@/db/queries/office";
-import { route } from "@/lib/api";
-import { notFound } from "@/lib/errors";
+import { route } from "@/lib/server/route-handler";
+import { notFound } from "@/lib/server/errors";
 
 export const GET = route<{ paymentId: string }>({ permission: "payment.refund" }, async ({ params }) => {
   if (!z.uuid().safeParse(params.paymentId).success) throw notFound("That payment");

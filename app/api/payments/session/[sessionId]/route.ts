@@ -1,6 +1,6 @@
 import { getPaymentBySessionForCustomer } from "@/db/queries/payments";
-import { route } from "@/lib/api";
-import { AppError } from "@/lib/errors";
+import { route } from "@/lib/server/route-handler";
+import { AppError } from "@/lib/server/errors";
 
 // GET /api/payments/session/:sessionId — the return page asks until the webhook has confirmed the payment.
 export const GET = route<{ sessionId: string }>({ permission: "portal.use" }, async ({ viewer, params }) => {

@@ -1,5 +1,5 @@
-import { route } from "@/lib/api";
-import { getPortalJobView } from "@/lib/services/portal-view";
+import { route } from "@/lib/server/route-handler";
+import { getPortalJobView } from "@/lib/server/services/portal-view";
 import { idFrom } from "../../_lib/ids";
 
 // GET /api/portal/jobs/:id — timeline, photos, current estimate, payments and what is due.

@@ -10,11 +10,24 @@ const reasonSchema = declineSchema.pick({ reason: true });
 type ReasonInput = z.infer<typeof reasonSchema>;
 
 // Loaded only when the owner chooses to decline, so the job page does not carry the form code up front.
-export default function DeclineForm({ pending, onDecline, onBack }: { pending: boolean; onDecline: (reason: string) => void; onBack: () => void }) {
+export default function DeclineForm({
+  pending,
+  onDecline,
+  onBack,
+}: {
+  pending: boolean;
+  onDecline: (reason: string) => void;
+  onBack: () => void;
+}) {
   const { register, handleSubmit, formState } = useForm<ReasonInput>({ resolver: zodResolver(reasonSchema) });
   return (
     <form noValidate className="space-y-3" onSubmit={handleSubmit((v) => onDecline(v.reason))}>
-      <Field id="reason" label="Why are you declining?" hint="The shop reads every answer; a reason helps them suggest another way." error={formState.errors.reason?.message}>
+      <Field
+        id="reason"
+        label="Why are you declining?"
+        hint="The shop reads every answer; a reason helps them suggest another way."
+        error={formState.errors.reason?.message}
+      >
         <textarea
           id="reason"
           rows={3}

@@ -4,13 +4,15 @@ import { useMutation, useQueryClient } from "@tanstack/react-query";
 import dynamic from "next/dynamic";
 import { useState } from "react";
 import { Notice } from "@/components/ui/notice";
-import type { PortalJobView } from "@/lib/services/portal-view";
+import type { PortalJobView } from "@/lib/server/services/portal-view";
 import { api } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
 
 type Estimate = NonNullable<PortalJobView["estimate"]>;
 
-const DeclineForm = dynamic(() => import("./decline-form"), { loading: () => <p className="text-sm text-bakelite-muted">Opening the form…</p> });
+const DeclineForm = dynamic(() => import("./decline-form"), {
+  loading: () => <p className="text-sm text-bakelite-muted">Opening the form…</p>,
+});
 
 function minutes(n: number): string {
   if (!n) return "";
@@ -29,14 +31,19 @@ const STATUS_TEXT: Record<Estimate["status"], string> = {
 export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Estimate }) {
   const queryClient = useQueryClient();
   const [declining, setDeclining] = useState(false);
-  const refresh = () => Promise.all([queryClient.invalidateQueries({ queryKey: portalKeys.job(jobId) }), queryClient.invalidateQueries({ queryKey: portalKeys.jobs() })]);
+  const refresh = () =>
+    Promise.all([
+      queryClient.invalidateQueries({ queryKey: portalKeys.job(jobId) }),
+      queryClient.invalidateQueries({ queryKey: portalKeys.jobs() }),
+    ]);
 
   const approve = useMutation({
     mutationFn: () => api(`/api/portal/jobs/${jobId}/estimate/approve`, { method: "POST", body: { revisionId: estimate.id } }),
     onSuccess: refresh,
   });
   const decline = useMutation({
-    mutationFn: (reason: string) => api(`/api/portal/jobs/${jobId}/estimate/decline`, { method: "POST", body: { revisionId: estimate.id, reason } }),
+    mutationFn: (reason: string) =>
+      api(`/api/portal/jobs/${jobId}/estimate/decline`, { method: "POST", body: { revisionId: estimate.id, reason } }),
     onSuccess: refresh,
   });
 
@@ -52,7 +59,9 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
       {estimate.revision > 1 && estimate.changeSummary ? (
         <Notice tone="info" title="What changed since the last estimate">
           <p className="whitespace-pre-line">{estimate.changeSummary}</p>
-          {estimate.earlier[0] ? <p>The previous total was {estimate.earlier[0].total.text}. This revision needs your approval before work goes on.</p> : null}
+          {estimate.earlier[0] ? (
+            <p>The previous total was {estimate.earlier[0].total.text}. This revision needs your approval before work goes on.</p>
+          ) : null}
         </Notice>
       ) : null}
 
@@ -99,7 +108,9 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
             <dd>{estimate.parts.text}</dd>
           </div>
           <div className="flex justify-between">
-            <dt>Tax{estimate.labourTax.minor && estimate.partsTax.minor ? " (labour and parts)" : estimate.partsTax.minor ? " on parts" : ""}</dt>
+            <dt>
+              Tax{estimate.labourTax.minor && estimate.partsTax.minor ? " (labour and parts)" : estimate.partsTax.minor ? " on parts" : ""}
+            </dt>
             <dd>{estimate.tax.text}</dd>
           </div>
           <div className="flex justify-between border-t border-dial-rule pt-2 text-lg font-bold">
@@ -119,7 +130,8 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
           <h3 className="text-lg font-bold">What the warranty will cover</h3>
           {estimate.warranty.termDays ? (
             <p>
-              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty from the day it is returned. It covers:
+              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty from the day it is
+              returned. It covers:
             </p>
           ) : (
             <p>This shop does not offer a warranty on this work.</p>
@@ -158,7 +170,12 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
           ) : null}
           {!declining ? (
             <div className="flex flex-wrap gap-3">
-              <button type="button" className="btn-primary px-6 py-3 text-base" disabled={approve.isPending} onClick={() => approve.mutate()}>
+              <button
+                type="button"
+                className="btn-primary px-6 py-3 text-base"
+                disabled={approve.isPending}
+                onClick={() => approve.mutate()}
+              >
                 {approve.isPending ? "Approving…" : `Approve this estimate (${estimate.total.text})`}
               </button>
               <button type="button" className="btn-secondary px-6 py-3 text-base" onClick={() => setDeclining(true)}>

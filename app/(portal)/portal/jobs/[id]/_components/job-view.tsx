@@ -5,7 +5,7 @@ import type { ReactNode } from "react";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
-import type { PortalJobView } from "@/lib/services/portal-view";
+import type { PortalJobView } from "@/lib/server/services/portal-view";
 import { api } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
 import { EstimatePanel } from "./estimate-panel";
@@ -46,7 +46,11 @@ export function JobView({
   paymentCancelled: boolean;
   certificates?: ReactNode;
 }) {
-  const query = useQuery({ queryKey: portalKeys.job(jobId), queryFn: () => api<PortalJobView>(`/api/portal/jobs/${jobId}`), initialData: initial });
+  const query = useQuery({
+    queryKey: portalKeys.job(jobId),
+    queryFn: () => api<PortalJobView>(`/api/portal/jobs/${jobId}`),
+    initialData: initial,
+  });
 
   if (query.isError) {
     return (
@@ -75,7 +79,10 @@ export function JobView({
           {setName}
           {v.job.set.year ? <span className="font-normal text-bakelite-soft"> ({v.job.set.year})</span> : null}
         </h1>
-        <p className="inline-flex items-center gap-2 rounded-full border border-bakelite-soft bg-white px-3 py-1 font-semibold" data-testid="job-state">
+        <p
+          className="inline-flex items-center gap-2 rounded-full border border-bakelite-soft bg-white px-3 py-1 font-semibold"
+          data-testid="job-state"
+        >
           <span aria-hidden="true">{v.job.stateIcon}</span>
           {v.job.stateLabel}
         </p>
@@ -161,7 +168,11 @@ export function JobView({
               <li key={p.id}>
                 <a href={p.url} target="_blank" rel="noreferrer" className="block">
                   {/* eslint-disable-next-line @next/next/no-img-element */}
-                  <img src={p.thumbUrl} alt={`Photo: ${p.name}`} className="aspect-square w-full rounded-card border border-dial-rule object-cover" />
+                  <img
+                    src={p.thumbUrl}
+                    alt={`Photo: ${p.name}`}
+                    className="aspect-square w-full rounded-card border border-dial-rule object-cover"
+                  />
                 </a>
               </li>
             ))}
@@ -185,7 +196,10 @@ export function JobView({
             <p className="whitespace-pre-line">{v.job.priorWork}</p>
           </div>
         ) : null}
-        <p className="text-sm text-bakelite-muted">{v.job.delivery === "mail-in" ? "Mail-in" : "Drop-off at the shop"}{v.job.set.serial ? ` · serial ${v.job.set.serial}` : ""}</p>
+        <p className="text-sm text-bakelite-muted">
+          {v.job.delivery === "mail-in" ? "Mail-in" : "Drop-off at the shop"}
+          {v.job.set.serial ? ` · serial ${v.job.set.serial}` : ""}
+        </p>
       </section>
 
       <section aria-labelledby="timeline-title" className="space-y-3">

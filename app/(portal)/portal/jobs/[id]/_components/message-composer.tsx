@@ -13,7 +13,8 @@ import { portalKeys } from "../../../_lib/query-keys";
 const retryLostAnswer = (failures: number, e: Error) => failures < 2 && e instanceof ApiError && (e.status === 0 || e.status >= 500);
 
 function postErrorText(e: Error): string {
-  if (e instanceof ApiError && e.fields.idempotencyKey) return "An earlier version of this message already reached the shop; it is shown above. Send again to add this text as a new message.";
+  if (e instanceof ApiError && e.fields.idempotencyKey)
+    return "An earlier version of this message already reached the shop; it is shown above. Send again to add this text as a new message.";
   return e.message;
 }
 
@@ -22,15 +23,22 @@ export default function MessageComposer({ jobId }: { jobId: string }) {
   const queryClient = useQueryClient();
   // One key per composed message: kept while this message is retried, renewed once it is stored.
   const [idempotencyKey, setIdempotencyKey] = useState(() => crypto.randomUUID());
-  const { register, handleSubmit, reset, formState } = useForm<MessageForm>({ resolver: zodResolver(messageFormSchema), defaultValues: { body: "" } });
+  const { register, handleSubmit, reset, formState } = useForm<MessageForm>({
+    resolver: zodResolver(messageFormSchema),
+    defaultValues: { body: "" },
+  });
   const post = useMutation({
-    mutationFn: (v: MessageInput) => api<{ id: string; duplicate: boolean }>(`/api/portal/jobs/${jobId}/messages`, { method: "POST", body: v }),
+    mutationFn: (v: MessageInput) =>
+      api<{ id: string; duplicate: boolean }>(`/api/portal/jobs/${jobId}/messages`, { method: "POST", body: v }),
     retry: retryLostAnswer,
     onSuccess: async () => {
       reset({ body: "" });
       setIdempotencyKey(crypto.randomUUID());
       // An answer may also move the job (the shop was waiting on it).
-      await Promise.all([queryClient.invalidateQueries({ queryKey: portalKeys.messages(jobId) }), queryClient.invalidateQueries({ queryKey: portalKeys.job(jobId) })]);
+      await Promise.all([
+        queryClient.invalidateQueries({ queryKey: portalKeys.messages(jobId) }),
+        queryClient.invalidateQueries({ queryKey: portalKeys.job(jobId) }),
+      ]);
     },
     onError: async (e) => {
       // The text was changed after an earlier try that did reach the shop: show the thread as stored and
@@ -44,8 +52,19 @@ export default function MessageComposer({ jobId }: { jobId: string }) {
 
   return (
     <form noValidate onSubmit={handleSubmit((v) => post.mutate({ ...v, idempotencyKey }))} className="space-y-2">
-      <Field id="message-body" label="Write to the shop" error={formState.errors.body?.message ?? (post.isError ? postErrorText(post.error) : undefined)}>
-        <textarea id="message-body" rows={3} className="field-input" aria-invalid={!!formState.errors.body} aria-describedby={describedBy("message-body", { error: formState.errors.body })} {...register("body")} />
+      <Field
+        id="message-body"
+        label="Write to the shop"
+        error={formState.errors.body?.message ?? (post.isError ? postErrorText(post.error) : undefined)}
+      >
+        <textarea
+          id="message-body"
+          rows={3}
+          className="field-input"
+          aria-invalid={!!formState.errors.body}
+          aria-describedby={describedBy("message-body", { error: formState.errors.body })}
+          {...register("body")}
+        />
       </Field>
       <button type="submit" className="btn-secondary" disabled={post.isPending}>
         {post.isPending ? "Sending…" : "Send message"}

@@ -3,7 +3,7 @@
 import { useQuery } from "@tanstack/react-query";
 import dynamic from "next/dynamic";
 import { Notice } from "@/components/ui/notice";
-import type { PortalMessage } from "@/lib/services/portal-view";
+import type { PortalMessage } from "@/lib/server/services/portal-view";
 import { api } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
 
@@ -15,7 +15,10 @@ function ComposerPlaceholder() {
 const MessageComposer = dynamic(() => import("./message-composer"), { ssr: false, loading: ComposerPlaceholder });
 
 export function MessageThread({ jobId }: { jobId: string }) {
-  const messages = useQuery({ queryKey: portalKeys.messages(jobId), queryFn: () => api<{ messages: PortalMessage[] }>(`/api/portal/jobs/${jobId}/messages`) });
+  const messages = useQuery({
+    queryKey: portalKeys.messages(jobId),
+    queryFn: () => api<{ messages: PortalMessage[] }>(`/api/portal/jobs/${jobId}/messages`),
+  });
   return (
     <section aria-labelledby="messages-title" className="space-y-3">
       <h2 id="messages-title" className="text-2xl font-bold">
@@ -33,7 +36,9 @@ export function MessageThread({ jobId }: { jobId: string }) {
               <p className="text-sm font-semibold">
                 {m.from}
                 {m.isQuestion ? <span className="ml-2 text-ember-dark">asked a question</span> : null}
-                <span className="ml-2 font-normal text-bakelite-muted">{new Date(m.createdAt).toLocaleString("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}</span>
+                <span className="ml-2 font-normal text-bakelite-muted">
+                  {new Date(m.createdAt).toLocaleString("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}
+                </span>
               </p>
               <p className="mt-1 whitespace-pre-line">{m.body}</p>
             </li>

@@ -7,7 +7,8 @@ import { api } from "../../../_lib/api";
 // Sends the payer to the hosted checkout. The amount is the server's; a second click reuses the same session.
 export function PayButton({ jobId, purpose, amountText }: { jobId: string; purpose: "deposit" | "balance"; amountText: string }) {
   const start = useMutation({
-    mutationFn: () => api<{ kind: "redirect" | "confirming"; url: string }>("/api/payments/checkout", { method: "POST", body: { jobId, purpose } }),
+    mutationFn: () =>
+      api<{ kind: "redirect" | "confirming"; url: string }>("/api/payments/checkout", { method: "POST", body: { jobId, purpose } }),
     onSuccess: ({ url }) => window.location.assign(url),
   });
   const label = purpose === "deposit" ? `Pay the deposit of ${amountText}` : `Pay the balance of ${amountText}`;
@@ -22,7 +23,12 @@ export function PayButton({ jobId, purpose, amountText }: { jobId: string; purpo
           <p>{start.error.message}</p>
         </Notice>
       ) : null}
-      <button type="button" className="btn-primary px-6 py-3 text-base" disabled={start.isPending || start.isSuccess} onClick={() => start.mutate()}>
+      <button
+        type="button"
+        className="btn-primary px-6 py-3 text-base"
+        disabled={start.isPending || start.isSuccess}
+        onClick={() => start.mutate()}
+      >
         {start.isPending || start.isSuccess ? "Opening the payment page…" : start.isError ? `Try again: ${label.toLowerCase()}` : label}
       </button>
     </section>

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { getJobForCustomer } from "@/db/queries/jobs";
-import { requirePermission } from "@/lib/session";
+import { requirePermission } from "@/lib/server/session";
 import { PaymentReturn } from "./payment-return";
 
 export const metadata: Metadata = { title: "Confirming your payment" };
@@ -9,7 +9,13 @@ export const metadata: Metadata = { title: "Confirming your payment" };
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
 
 // Where the payment page sends the payer back. It never records anything: only the verified webhook does.
-export default async function PaymentReturnPage({ params, searchParams }: { params: Promise<{ id: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+export default async function PaymentReturnPage({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ id: string }>;
+  searchParams: Promise<Record<string, string | string[] | undefined>>;
+}) {
   const { id } = await params;
   const viewer = await requirePermission("portal.use", `/portal/jobs/${id}`);
   if (!UUID.test(id) || !(await getJobForCustomer({ jobId: id, customerId: viewer.id }))) notFound();

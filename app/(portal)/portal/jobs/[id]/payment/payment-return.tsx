@@ -14,7 +14,8 @@ export function PaymentReturn({ jobId, sessionId, paymentId }: { jobId: string; 
     queryKey: portalKeys.paymentSession(key),
     queryFn: () => api<Status>(sessionId ? `/api/payments/session/${sessionId}` : `/api/payments/${paymentId}`),
     enabled: Boolean(sessionId ?? paymentId),
-    refetchInterval: (q) => (q.state.data?.status === "paid" || q.state.data?.status === "failed" || q.state.data?.status === "expired" ? false : 1500),
+    refetchInterval: (q) =>
+      q.state.data?.status === "paid" || q.state.data?.status === "failed" || q.state.data?.status === "expired" ? false : 1500,
     staleTime: 0,
   });
   const back = (

@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { returnToBench } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { returnToBench } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
 // POST /api/bench/jobs/:id/back-to-bench — final checks found something (final checks → on the bench).

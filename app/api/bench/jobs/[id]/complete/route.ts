@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { completeJob } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { completeJob } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
 // POST /api/bench/jobs/:id/complete — refused (409, one field per reason) until every required reading

@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { getEstimateView, saveDraft } from "@/lib/services/estimates";
+import { route } from "@/lib/server/route-handler";
+import { getEstimateView, saveDraft } from "@/lib/server/services/estimates";
 import { saveEstimateSchema } from "@/lib/validation/estimate";
 import { jobIdFrom } from "../../../_lib/params";
 
@@ -11,8 +11,13 @@ export const GET = route<{ id: string }>({ permission: "estimate.edit" }, async 
 });
 
 // PUT /api/bench/jobs/:id/estimate { version, lines } — 409 "stale" when someone saved since `version`.
-export const PUT = route<{ id: string }, typeof saveEstimateSchema>({ permission: "estimate.edit", body: saveEstimateSchema }, async ({ params, body, viewer }) => {
-  const jobId = await jobIdFrom(params);
-  const { version, priced } = await transaction((ctx) => saveDraft(ctx, { jobId, actorId: viewer.id, version: body.version, lines: body.lines }));
-  return { version, totals: priced.totals };
-});
+export const PUT = route<{ id: string }, typeof saveEstimateSchema>(
+  { permission: "estimate.edit", body: saveEstimateSchema },
+  async ({ params, body, viewer }) => {
+    const jobId = await jobIdFrom(params);
+    const { version, priced } = await transaction((ctx) =>
+      saveDraft(ctx, { jobId, actorId: viewer.id, version: body.version, lines: body.lines }),
+    );
+    return { version, totals: priced.totals };
+  },
+);

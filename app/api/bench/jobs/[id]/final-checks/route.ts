@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { beginFinalChecks } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { beginFinalChecks } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
 // POST /api/bench/jobs/:id/final-checks — every line ticked (on the bench → final checks).

@@ -1,5 +1,5 @@
-import { route } from "@/lib/api";
-import { getBenchSheet } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { getBenchSheet } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
 // GET /api/bench/jobs/:id/sheet — required readings with values and verdicts, checklist lines, completion gate.

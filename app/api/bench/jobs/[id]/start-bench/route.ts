@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { startBenchWork } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { startBenchWork } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
 // POST /api/bench/jobs/:id/start-bench — the set has arrived (deposit paid → on the bench).

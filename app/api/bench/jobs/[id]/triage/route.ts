@@ -1,6 +1,6 @@
 import { transaction } from "@/db/transaction";
-import { route } from "@/lib/api";
-import { startTriage } from "@/lib/services/bench";
+import { route } from "@/lib/server/route-handler";
+import { startTriage } from "@/lib/server/services/bench";
 import { jobIdFrom } from "../../../_lib/params";
 
 // POST /api/bench/jobs/:id/triage — pick up a new request (requested → in triage).

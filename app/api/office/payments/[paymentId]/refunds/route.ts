@@ -1,7 +1,7 @@
 import { z } from "zod";
-import { json, route } from "@/lib/api";
-import { notFound } from "@/lib/errors";
-import { requestRefund } from "@/lib/services/refunds";
+import { json, route } from "@/lib/server/route-handler";
+import { notFound } from "@/lib/server/errors";
+import { requestRefund } from "@/lib/server/services/refunds";
 import { refundFormSchema } from "@/lib/validation/office";
 
 // Starts a refund; it is confirmed later by the processor's webhook (202: accepted, not yet settled).

@@ -1,6 +1,6 @@
-import { route } from "@/lib/api";
-import { inMessageTransaction, postMessage } from "@/lib/services/messages";
-import { getPortalMessages } from "@/lib/services/portal-view";
+import { route } from "@/lib/server/route-handler";
+import { inMessageTransaction, postMessage } from "@/lib/server/services/messages";
+import { getPortalMessages } from "@/lib/server/services/portal-view";
 import { messageSchema } from "@/lib/validation/messages";
 import { idFrom } from "../../../_lib/ids";
 
@@ -11,8 +11,16 @@ export const GET = route<{ id: string }>({ permission: "portal.use" }, async ({ 
 
 // POST /api/portal/jobs/:id/messages { body, idempotencyKey } — the same key again gives the same message
 // (200, duplicate: true) and stores nothing; the same key with another text is refused (409).
-export const POST = route<{ id: string }, typeof messageSchema>({ permission: "portal.use", body: messageSchema }, async ({ viewer, params, body }) => {
-  const jobId = idFrom(params.id);
-  const row = await inMessageTransaction((ctx) => postMessage(ctx, { jobId, author: { id: viewer.id, side: "customer" }, body: body.body, idempotencyKey: body.idempotencyKey }));
-  return Response.json({ id: row.id, duplicate: row.duplicate }, { status: row.duplicate ? 200 : 201, headers: { "cache-control": "no-store" } });
-});
+export const POST = route<{ id: string }, typeof messageSchema>(
+  { permission: "portal.use", body: messageSchema },
+  async ({ viewer, params, body }) => {
+    const jobId = idFrom(params.id);
+    const row = await inMessageTransaction((ctx) =>
+      postMessage(ctx, { jobId, author: { id: viewer.id, side: "customer" }, body: body.body, idempotencyKey: body.idempotencyKey }),
+    );
+    return Response.json(
+      { id: row.id, duplicate: row.duplicate },
+      { status: row.duplicate ? 200 : 201, headers: { "cache-control": "no-store" } },
+    );
+  },
+);

@@ -1,0 +1,86 @@
+import { z } from "zod";
+import { certificateContentSchema, type CertificateContent } from "./content";
+
+// The written warranty as carried in the signed content, and the signed document itself. The schema here is
+// the certificate's own and stays stable: stored certificates must parse forever, whatever the settings
+// form becomes.
+
+/** The shop's contact block as the warranty text prints it. */
+export type WarrantorContact = { name: string; addressLines: string[]; phone: string; email: string };
+
+/** Printed on every certificate: the warranty gives rights that local law may add to. */
+export const RIGHTS_SENTENCE =
+  "This warranty gives you specific legal rights, and you may also have other rights which vary from state to state. Nothing in it limits the rights the law where you live gives you.";
+
+export const certificateTermsSchema = z.object({
+  /** Coverage passes to a later owner of the set for the rest of the term. */
+  transferable: z.boolean(),
+  whoIsCovered: z.string(),
+  whatWeWillDo: z.string(),
+  whatWeWillNotDo: z.string(),
+  howToClaim: z.array(z.string()),
+  disputes: z.string(),
+  impliedWarranties: z.string(),
+  consequentialDamages: z.string(),
+  shopWording: z.string(),
+  rightsSentence: z.string(),
+});
+export type CertificateTerms = z.infer<typeof certificateTermsSchema>;
+
+/** The whole written warranty as plain text (the engine's termsText), in the order a reader needs it. */
+export function composeTermsText(
+  terms: CertificateTerms,
+  warranty: { designation: "limited" | "full"; termDays: number; startsOn: string; endsOn: string },
+  shop: WarrantorContact,
+): string {
+  const title = `${warranty.designation === "full" ? "Full" : "Limited"} ${warranty.termDays}-day warranty`;
+  const contact = [shop.name, ...shop.addressLines, shop.phone, shop.email].filter((x) => x.trim().length > 0).join(", ");
+  return [
+    title,
+    `Who is covered: ${terms.whoIsCovered}`,
+    terms.transferable
+      ? "If the set changes hands during the term, the new owner is covered for the rest of the term."
+      : "The coverage does not pass to a later owner of the set.",
+    `Term: from ${warranty.startsOn}, the day the set was returned, to ${warranty.endsOn} (${warranty.termDays} days).`,
+    `What we will do: ${terms.whatWeWillDo}`,
+    `What we will not do: ${terms.whatWeWillNotDo}`,
+    "How to make a claim:",
+    ...terms.howToClaim.map((step, i) => `${i + 1}. ${step}`),
+    `Warrantor: ${contact}`,
+    `Disputes: ${terms.disputes}`,
+    terms.impliedWarranties,
+    terms.consequentialDamages,
+    ...(terms.shopWording ? [terms.shopWording] : []),
+    terms.rightsSentence,
+  ].join("\n");
+}
+
+// The signed document: the engine's content plus the written-warranty wording and, for a correction,
+// which certificate it replaces. Every field is covered by the signature.
+
+export const certificateDocumentSchema = certificateContentSchema.extend({
+  terms: certificateTermsSchema,
+  correction: z.object({ supersedesCode: z.string(), reason: z.string() }).optional(),
+});
+export type CertificateDocument = z.infer<typeof certificateDocumentSchema>;
+export type CertificateReading = CertificateContent["readings"][number];
+
+export function parseCertificateDocument(content: unknown): CertificateDocument | null {
+  const parsed = certificateDocumentSchema.safeParse(content);
+  return parsed.success ? parsed.data : null;
+}
+
+export type CertificateStatus = "valid" | "expired" | "revoked" | "superseded" | "unverifiable";
+
+export function todayIso(now = new Date()): string {
+  return now.toISOString().slice(0, 10);
+}
+
+/** "AU-52-1187" → "AU••••87": enough for a buyer to match the set in front of them, not its length or the rest. */
+export function maskSerial(serial: string | undefined): string | null {
+  if (!serial) return null;
+  const s = serial.trim();
+  if (s.length <= 4) return "••••";
+  const keep = s.length <= 6 ? 1 : 2;
+  return `${s.slice(0, keep)}••••${s.slice(-keep)}`;
+}

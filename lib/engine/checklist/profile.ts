@@ -1,0 +1,106 @@
+import { z } from "zod";
+import { bandKindSchema, injectionSchema, type Band, type BandKind } from "../bands/band";
+import { isPlausibleIf, ifFamilyForBand, plausibleIfRangeKHz } from "../bands/if-presets";
+
+export const setKinds = ["tube-acdc", "tube-transformer", "transistor-battery", "transistor-mains"] as const;
+export type SetKind = (typeof setKinds)[number];
+export const setKindSchema = z.enum(setKinds);
+
+export const setKindLabels: Record<SetKind, string> = {
+  "tube-acdc": "Tube set, AC/DC (live chassis)",
+  "tube-transformer": "Tube set with mains transformer",
+  "transistor-battery": "Transistor set, battery",
+  "transistor-mains": "Transistor set, mains powered",
+};
+
+export const symptomFlags = ["no-sound", "hum", "weak", "intermittent", "distorted", "noisy-controls"] as const;
+export type SymptomFlag = (typeof symptomFlags)[number];
+
+/** Plausible printed dial ranges per band kind; anything outside is almost certainly a unit mistake. */
+export const plausibleBandRangeKHz: Record<BandKind, { min: number; max: number }> = {
+  LW: { min: 100, max: 520 },
+  MW: { min: 400, max: 1800 },
+  SW: { min: 1500, max: 30000 },
+  FM: { min: 64000, max: 110000 },
+};
+
+// Form posts send checkboxes as "on"/"true" and leave them out when unticked; JSON sends booleans.
+const formBoolean = z.preprocess((v) => {
+  if (typeof v !== "string") return v;
+  const s = v.trim().toLowerCase();
+  if (["true", "on", "1", "yes"].includes(s)) return true;
+  if (["false", "off", "0", "no", ""].includes(s)) return false;
+  return v;
+}, z.boolean());
+
+const kHz = z.coerce.number({ error: "Enter a frequency in kHz." }).finite().positive();
+const count = (max: number) => z.coerce.number({ error: "Enter a whole number." }).int().min(0).max(max);
+
+export const bandSchema = z
+  .object({
+    kind: bandKindSchema,
+    lowKHz: kHz,
+    highKHz: kHz,
+    ifKHz: kHz,
+    label: z.string().trim().max(40).optional(),
+    injection: injectionSchema.optional(),
+  })
+  .superRefine((band, ctx) => {
+    if (band.lowKHz >= band.highKHz) {
+      ctx.addIssue({ code: "custom", path: ["highKHz"], message: "The high end must be above the low end." });
+    }
+    const range = plausibleBandRangeKHz[band.kind];
+    if (band.lowKHz < range.min || band.lowKHz > range.max) {
+      ctx.addIssue({ code: "custom", path: ["lowKHz"], message: `A ${band.kind} dial starts between ${range.min} and ${range.max} kHz.` });
+    }
+    if (band.highKHz < range.min || band.highKHz > range.max) {
+      ctx.addIssue({ code: "custom", path: ["highKHz"], message: `A ${band.kind} dial ends between ${range.min} and ${range.max} kHz.` });
+    }
+    const family = ifFamilyForBand(band.kind);
+    if (!isPlausibleIf(band.ifKHz, family)) {
+      const r = plausibleIfRangeKHz[family];
+      ctx.addIssue({ code: "custom", path: ["ifKHz"], message: `An ${family} IF lies between ${r.min} and ${r.max} kHz.` });
+    }
+  });
+
+export const setProfileSchema = z.object({
+  kind: setKindSchema,
+  bands: z.array(bandSchema).min(1, "Add at least one band.").max(8),
+  electrolytics: count(60),
+  paperCapacitors: count(120),
+  tubes: count(40).optional(),
+  transistors: count(60).optional(),
+  ifTransformers: count(12).optional(),
+  seleniumRectifier: formBoolean.optional(),
+  lineCordWorn: formBoolean.optional(),
+  dialCordBroken: formBoolean.optional(),
+  batteryCorrosion: formBoolean.optional(),
+  /** Mains voltage the set runs on; selects the leakage limit. */
+  mainsVolts: z.coerce
+    .number()
+    .pipe(z.union([z.literal(120), z.literal(230)]))
+    .optional(),
+  /** Schematic B+ in volts, when known, so the bench reading gets a target. */
+  bPlusVolts: z.coerce.number().finite().positive().max(1000).optional(),
+  symptoms: z.array(z.enum(symptomFlags)).max(symptomFlags.length).optional(),
+});
+
+export type SetProfile = z.infer<typeof setProfileSchema>;
+export type SetProfileInput = z.input<typeof setProfileSchema>;
+
+export type ProfileBand = Band;
+
+export function isMainsSet(kind: SetKind): boolean {
+  return kind !== "transistor-battery";
+}
+
+export function isTubeSet(kind: SetKind): boolean {
+  return kind === "tube-acdc" || kind === "tube-transformer";
+}
+
+/** Distinct IFs in band order, each with the kind of the first band that uses it. */
+export function distinctIfs(bands: readonly Band[]): { ifKHz: number; kind: BandKind }[] {
+  const seen = new Map<number, BandKind>();
+  for (const b of bands) if (!seen.has(b.ifKHz)) seen.set(b.ifKHz, b.kind);
+  return [...seen].map(([ifKHz, kind]) => ({ ifKHz, kind }));
+}

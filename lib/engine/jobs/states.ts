@@ -1,0 +1,68 @@
+// The life of a job: its states and the moves between them.
+export const JOB_STATES = [
+  "requested",
+  "in_triage",
+  "awaiting_owner",
+  "estimate_sent",
+  "approved",
+  "deposit_paid",
+  "on_bench",
+  "final_checks",
+  "balance_due",
+  "paid_in_full",
+  "returned",
+  "declined_by_owner",
+  "declined_by_shop",
+  "cancelled",
+] as const;
+export type JobState = (typeof JOB_STATES)[number];
+
+export type Actor = "customer" | "staff" | "system";
+
+// Every legal move of a job. The server refuses anything not listed here (409) and leaves the job as it was.
+export const TRANSITIONS: Record<JobState, Partial<Record<JobState, Actor>>> = {
+  requested: { in_triage: "staff", cancelled: "customer" },
+  in_triage: { awaiting_owner: "staff", estimate_sent: "staff", declined_by_shop: "staff" },
+  awaiting_owner: { in_triage: "customer" },
+  estimate_sent: { approved: "customer", declined_by_owner: "customer", estimate_sent: "staff" },
+  approved: { deposit_paid: "system", estimate_sent: "staff" },
+  deposit_paid: { on_bench: "staff" },
+  on_bench: { estimate_sent: "staff", final_checks: "staff" },
+  final_checks: { balance_due: "staff", on_bench: "staff" },
+  balance_due: { paid_in_full: "system" },
+  paid_in_full: { returned: "staff" },
+  returned: {},
+  declined_by_owner: {},
+  declined_by_shop: {},
+  cancelled: {},
+};
+
+export function canTransition(from: JobState, to: JobState, actor: Actor): boolean {
+  return TRANSITIONS[from]?.[to] === actor;
+}
+
+export function isTerminal(state: JobState): boolean {
+  return Object.keys(TRANSITIONS[state]).length === 0;
+}
+
+// Words of our own, for the set owner and for the bench. Shown with an icon, never colour alone.
+export const STATE_LABEL: Record<JobState, { owner: string; staff: string; icon: string }> = {
+  requested: { owner: "Quote requested", staff: "New request", icon: "✉" },
+  in_triage: { owner: "Being reviewed", staff: "In triage", icon: "◔" },
+  awaiting_owner: { owner: "The shop has a question", staff: "Waiting on owner", icon: "?" },
+  estimate_sent: { owner: "Estimate ready for you", staff: "Estimate out", icon: "✎" },
+  approved: { owner: "Approved — deposit due", staff: "Approved, no deposit yet", icon: "✓" },
+  deposit_paid: { owner: "Deposit received — send the set", staff: "Deposit in, awaiting set", icon: "⛁" },
+  on_bench: { owner: "On the bench", staff: "On the bench", icon: "⚒" },
+  final_checks: { owner: "Final checks", staff: "Final checks", icon: "⌁" },
+  balance_due: { owner: "Ready — balance due", staff: "Balance due", icon: "⛀" },
+  paid_in_full: { owner: "Paid — on its way back", staff: "Paid, to return", icon: "⛁" },
+  returned: { owner: "Returned", staff: "Returned", icon: "⌂" },
+  declined_by_owner: { owner: "You declined the estimate", staff: "Declined by owner", icon: "✕" },
+  declined_by_shop: { owner: "The shop cannot take this job", staff: "Declined by shop", icon: "✕" },
+  cancelled: { owner: "Cancelled", staff: "Cancelled", icon: "✕" },
+};
+
+export function jobNumber(n: number): string {
+  return `KL-${String(n).padStart(4, "0")}`;
+}

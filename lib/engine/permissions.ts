@@ -1,0 +1,60 @@
+export const ROLES = ["customer", "technician", "owner"] as const;
+export type Role = (typeof ROLES)[number];
+
+// Who may do what. The UI reads it to hide controls; the server reads it to refuse.
+// Ownership (a customer's own job, photo, certificate) is checked beside the data, in db/queries.
+export const PERMISSIONS = {
+  "portal.use": ["customer"],
+  "quote.request": ["customer"],
+  "estimate.approve": ["customer"],
+  "payment.start": ["customer"],
+  "message.post": ["customer", "technician", "owner"],
+  // Seeing a photo also needs ownership (its uploader, its job's owner) or a workshop role; see db/queries/photos.
+  "photo.view": ["customer", "technician", "owner"],
+  "claim.open": ["customer"],
+  "bench.use": ["technician", "owner"],
+  "job.triage": ["technician", "owner"],
+  "job.assign": ["technician", "owner"],
+  "estimate.edit": ["technician", "owner"],
+  "estimate.send": ["technician", "owner"],
+  "reading.record": ["technician", "owner"],
+  "job.complete": ["technician", "owner"],
+  "job.return": ["technician", "owner"],
+  "tools.use": ["technician", "owner"],
+  "claim.review": ["technician", "owner"],
+  "claim.decide": ["technician", "owner"],
+  "office.use": ["owner"],
+  "settings.edit": ["owner"],
+  "staff.manage": ["owner"],
+  "payment.refund": ["owner"],
+  "audit.read": ["owner"],
+  "reports.read": ["owner"],
+  "certificate.revoke": ["owner"],
+  "certificate.reissue": ["owner"],
+  // The holder downloads their own certificate; staff any (ownership is checked beside the data).
+  "certificate.download": ["customer", "technician", "owner"],
+  "certificate.list": ["owner"],
+} as const satisfies Record<string, readonly Role[]>;
+
+export type Permission = keyof typeof PERMISSIONS;
+
+export function isRole(value: unknown): value is Role {
+  return value === "customer" || value === "technician" || value === "owner";
+}
+
+export function can(role: string | null | undefined, permission: Permission): boolean {
+  if (!isRole(role)) return false;
+  return (PERMISSIONS[permission] as readonly Role[]).includes(role);
+}
+
+export function homeFor(role: string | null | undefined): string {
+  if (role === "owner") return "/office";
+  if (role === "technician") return "/bench";
+  return "/portal";
+}
+
+export const ROLE_LABEL: Record<Role, string> = {
+  customer: "Set owner",
+  technician: "Technician",
+  owner: "Shop owner",
+};

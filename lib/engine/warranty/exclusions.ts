@@ -1,0 +1,31 @@
+import { z } from "zod";
+
+export const exclusionCodes = [
+  "excl.physical-damage",
+  "excl.opened-by-others",
+  "excl.battery-leakage",
+  "excl.wrong-supply",
+  "excl.cosmetic",
+] as const;
+export type ExclusionCode = (typeof exclusionCodes)[number];
+export const exclusionCodeSchema = z.enum(exclusionCodes);
+
+/** Plain wording for each exclusion, printed on the certificate and shown beside the claim advice. */
+export const exclusionWording: Record<ExclusionCode, string> = {
+  "excl.physical-damage": "Damage from a drop, knock, liquid, heat or other physical harm after return.",
+  "excl.opened-by-others": "Faults after the set was opened or worked on by anyone other than the shop.",
+  "excl.battery-leakage": "Damage from batteries left in the set, including corrosion from leaking cells.",
+  "excl.wrong-supply": "Damage from connecting the set to the wrong supply voltage, battery or adapter.",
+  "excl.cosmetic": "Cosmetic wear: cabinet, finish, dial glass, knobs and grille cloth.",
+};
+
+export const coveredWordingKeys = ["covered.workmanship", "covered.parts-replaced", "covered.alignment", "covered.safety-work"] as const;
+export type CoveredWordingKey = (typeof coveredWordingKeys)[number];
+export const coveredWordingKeySchema = z.enum(coveredWordingKeys);
+
+export const coveredWording: Record<CoveredWordingKey, string> = {
+  "covered.workmanship": "The work listed on this certificate, done with reasonable care and skill.",
+  "covered.parts-replaced": "The parts the shop fitted, as listed on this certificate.",
+  "covered.alignment": "The alignment recorded on this certificate, within the tolerances printed beside each reading.",
+  "covered.safety-work": "The safety work listed, including the leakage test result recorded here.",
+};

@@ -1,0 +1,327 @@
+import "server-only";
+import { readFileSync } from "node:fs";
+import { join } from "node:path";
+import { Document, Font, Image, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
+import QRCode from "qrcode";
+import { setKindLabels } from "@/lib/engine/checklist/profile";
+import type { CertificateDocument, CertificateReading } from "@/lib/engine/certificates/document";
+import { woffToSfnt } from "@/lib/server/pdf/woff";
+import { bandEdgeRows, formatReading, otherReadings, VERDICT_WORD } from "@/lib/engine/certificates/tables";
+
+// Fonts ship with the app from node_modules/@fontsource. The renderer takes TTF or WOFF (not WOFF2);
+// the WOFF files are unpacked to plain TrueType in memory, which its parser reads reliably.
+let fontsRegistered = false;
+function fontData(pkg: string, file: string): string {
+  const woff = readFileSync(join(process.cwd(), "node_modules", "@fontsource", pkg, "files", file));
+  return `data:font/ttf;base64,${woffToSfnt(woff).toString("base64")}`;
+}
+
+function registerFonts() {
+  if (fontsRegistered) return;
+  Font.register({
+    family: "Plex Sans",
+    fonts: [
+      { src: fontData("ibm-plex-sans", "ibm-plex-sans-latin-400-normal.woff"), fontWeight: 400 },
+      { src: fontData("ibm-plex-sans", "ibm-plex-sans-latin-600-normal.woff"), fontWeight: 600 },
+      { src: fontData("ibm-plex-sans", "ibm-plex-sans-latin-700-normal.woff"), fontWeight: 700 },
+    ],
+  });
+  Font.register({
+    family: "Plex Mono",
+    fonts: [
+      { src: fontData("ibm-plex-mono", "ibm-plex-mono-latin-400-normal.woff"), fontWeight: 400 },
+      { src: fontData("ibm-plex-mono", "ibm-plex-mono-latin-500-normal.woff"), fontWeight: 500 },
+    ],
+  });
+  // Codes and frequencies must never be split across lines.
+  Font.registerHyphenationCallback((word) => [word]);
+  fontsRegistered = true;
+}
+
+const ink = "#2a2320";
+const muted = "#5f544b";
+const rule = "#cbbda5";
+const accent = "#8a3517";
+
+const s = StyleSheet.create({
+  page: { fontFamily: "Plex Sans", fontSize: 7.4, color: ink, paddingTop: 28, paddingBottom: 34, paddingHorizontal: 34, lineHeight: 1.3 },
+  header: {
+    flexDirection: "row",
+    justifyContent: "space-between",
+    borderBottomWidth: 1.5,
+    borderBottomColor: accent,
+    paddingBottom: 8,
+    marginBottom: 8,
+  },
+  shop: { fontSize: 8, color: muted },
+  shopName: { fontSize: 12, fontWeight: 700, color: ink, lineHeight: 1.2 },
+  designation: { fontSize: 16, fontWeight: 700, color: accent, marginTop: 6, lineHeight: 1.2 },
+  title: { fontSize: 10, fontWeight: 600, lineHeight: 1.3 },
+  code: { fontFamily: "Plex Mono", fontSize: 8.5, fontWeight: 500, marginTop: 3 },
+  qr: { width: 78, height: 78 },
+  qrBox: { alignItems: "center", width: 130 },
+  qrNote: { fontSize: 6.5, color: muted, textAlign: "center" },
+  h2: { fontSize: 9, fontWeight: 700, marginTop: 8, marginBottom: 3, color: ink, textTransform: "uppercase", letterSpacing: 0.6 },
+  facts: { flexDirection: "row", flexWrap: "wrap" },
+  fact: { width: "25%", marginBottom: 3 },
+  factLabel: { fontSize: 6.5, color: muted, textTransform: "uppercase" },
+  factValue: { fontSize: 8.5, fontWeight: 600 },
+  table: { borderTopWidth: 0.75, borderTopColor: ink },
+  tr: { flexDirection: "row", borderBottomWidth: 0.5, borderBottomColor: rule, paddingVertical: 2 },
+  th: { fontSize: 6.8, fontWeight: 700, color: muted, textTransform: "uppercase" },
+  td: { fontSize: 7.4, paddingRight: 4 },
+  num: { fontFamily: "Plex Mono", fontSize: 7.4, paddingRight: 4 },
+  columns: { flexDirection: "row", gap: 14 },
+  col: { flex: 1 },
+  p: { marginBottom: 2.5 },
+  li: { flexDirection: "row", marginBottom: 1.5 },
+  bullet: { width: 9 },
+  small: { fontSize: 6.8, color: muted },
+  footer: {
+    position: "absolute",
+    bottom: 14,
+    left: 34,
+    right: 34,
+    fontSize: 6.5,
+    color: muted,
+    flexDirection: "row",
+    justifyContent: "space-between",
+  },
+  notice: { borderWidth: 1, borderColor: accent, padding: 4, marginBottom: 6, fontWeight: 600, color: accent },
+});
+
+function Cell({ w, children, mono, bold }: { w: string; children: React.ReactNode; mono?: boolean; bold?: boolean }) {
+  return <Text style={[mono ? s.num : s.td, { width: w }, bold ? { fontWeight: 700 } : {}]}>{children}</Text>;
+}
+
+function Fact({ label, value }: { label: string; value: string }) {
+  return (
+    <View style={s.fact}>
+      <Text style={s.factLabel}>{label}</Text>
+      <Text style={s.factValue}>{value}</Text>
+    </View>
+  );
+}
+
+function ReadingsTable({ rows }: { rows: CertificateReading[] }) {
+  return (
+    <View style={s.table}>
+      <View style={s.tr}>
+        <Text style={[s.th, { width: "30%" }]}>Reading</Text>
+        <Text style={[s.th, { width: "12%" }]}>Nominal</Text>
+        <Text style={[s.th, { width: "12%" }]}>Measured</Text>
+        <Text style={[s.th, { width: "36%" }]}>Tolerance applied</Text>
+        <Text style={[s.th, { width: "10%" }]}>Verdict</Text>
+      </View>
+      {rows.map((r) => (
+        <View key={r.key} style={s.tr} wrap={false}>
+          <Cell w="30%">{r.label}</Cell>
+          <Cell w="12%" mono>
+            {r.nominal === null ? "—" : formatReading(r.nominal, r.unit)}
+          </Cell>
+          <Cell w="12%" mono>
+            {formatReading(r.value, r.unit)}
+          </Cell>
+          <Cell w="36%">{r.toleranceText}</Cell>
+          <Cell w="10%" bold>
+            {VERDICT_WORD[r.verdict]}
+          </Cell>
+        </View>
+      ))}
+    </View>
+  );
+}
+
+export type CertificatePdfInput = {
+  document: CertificateDocument;
+  verifyUrl: string;
+  keyId: string;
+  issuedAt: Date;
+  status: { revoked?: { reason: string; on: string } | null; supersededByCode?: string | null };
+};
+
+function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: CertificatePdfInput & { qr: string }) {
+  const designation = d.warranty.designation === "full" ? "Full" : "Limited";
+  const edges = bandEdgeRows(d);
+  const others = otherReadings(d);
+  const setName = `${d.set.maker} ${d.set.model}${d.set.year ? ` (${d.set.year})` : ""}`;
+  return (
+    <Document
+      title={`Warranty certificate ${d.code}`}
+      author={d.shop.name}
+      subject={`${designation} warranty for ${setName}`}
+      creator="Bandedge"
+      producer="Bandedge"
+    >
+      <Page size="LETTER" style={s.page}>
+        {status.revoked ? (
+          <Text style={s.notice}>
+            REVOKED on {status.revoked.on}: {status.revoked.reason}
+          </Text>
+        ) : null}
+        {status.supersededByCode ? <Text style={s.notice}>SUPERSEDED: replaced by certificate {status.supersededByCode}.</Text> : null}
+        <View style={s.header}>
+          <View style={{ flex: 1 }}>
+            <Text style={s.shopName}>{d.shop.name}</Text>
+            <Text style={s.shop}>
+              {d.shop.address}
+              {d.shop.phone ? ` · ${d.shop.phone}` : ""}
+            </Text>
+            <Text style={s.designation}>
+              {designation} warranty · {d.warranty.termDays} days
+            </Text>
+            <Text style={s.title}>Certificate of restoration and alignment</Text>
+            <Text style={s.code}>Code {d.code}</Text>
+            {d.correction ? (
+              <Text style={s.small}>
+                Corrects certificate {d.correction.supersedesCode}: {d.correction.reason}
+              </Text>
+            ) : null}
+          </View>
+          <View style={s.qrBox}>
+            {/* react-pdf's Image has no alt text; the URL is printed beneath it. */}
+            {/* eslint-disable-next-line jsx-a11y/alt-text -- a PDF image, not an HTML one: react-pdf has no alt prop */}
+            <Image src={qr} style={s.qr} />
+            <Text style={s.qrNote}>Scan to check this certificate, or enter its code at</Text>
+            <Text style={[s.qrNote, { fontFamily: "Plex Mono" }]}>
+              {verifyUrl.replace(/^https?:\/\//, "").replace(/\/verify\/.*$/, "/verify")}
+            </Text>
+          </View>
+        </View>
+
+        <View style={s.facts}>
+          <Fact label="Set" value={setName} />
+          <Fact label="Kind" value={setKindLabels[d.set.kind]} />
+          <Fact label="Serial" value={d.set.serial ?? "not recorded"} />
+          <Fact label="Issued to" value={d.owner.name || "—"} />
+          <Fact label="Technician" value={d.technician.name} />
+          <Fact label="Completed (term starts)" value={d.completedOn} />
+          <Fact label="Term ends" value={d.warranty.endsOn} />
+          <Fact label="Issued" value={d.issuedOn} />
+        </View>
+
+        <Text style={s.h2}>Band edges, measured against the dial</Text>
+        <View style={s.table}>
+          <View style={s.tr}>
+            <Text style={[s.th, { width: "16%" }]}>Band</Text>
+            <Text style={[s.th, { width: "20%" }]}>Dial range</Text>
+            <Text style={[s.th, { width: "12%" }]}>Low edge</Text>
+            <Text style={[s.th, { width: "12%" }]}>High edge</Text>
+            <Text style={[s.th, { width: "30%" }]}>Tolerance applied</Text>
+            <Text style={[s.th, { width: "10%" }]}>Verdict</Text>
+          </View>
+          {edges.map((b) => (
+            <View key={b.index} style={s.tr} wrap={false}>
+              <Cell w="16%">{b.name}</Cell>
+              <Cell w="20%" mono>
+                {b.nominal}
+              </Cell>
+              <Cell w="12%" mono>
+                {b.low}
+              </Cell>
+              <Cell w="12%" mono>
+                {b.high}
+              </Cell>
+              <Cell w="30%">{b.tolerance}</Cell>
+              <Cell w="10%" bold>
+                {b.verdict}
+              </Cell>
+            </View>
+          ))}
+        </View>
+
+        <Text style={s.h2}>IF, oscillator, tracking, leakage and supply readings</Text>
+        <ReadingsTable rows={others} />
+
+        <View style={s.columns}>
+          <View style={s.col}>
+            <Text style={s.h2}>Work done</Text>
+            <Text style={s.p}>{d.work.map((w) => w.title).join("; ") || "—"}.</Text>
+          </View>
+          <View style={s.col}>
+            <Text style={s.h2}>Parts replaced</Text>
+            <Text style={s.p}>{d.parts.length ? d.parts.map((p) => `${p.title} × ${p.quantity}`).join("; ") : "None"}.</Text>
+          </View>
+        </View>
+
+        <Text style={s.h2}>{designation} warranty — the terms</Text>
+        <View style={s.columns}>
+          <View style={s.col}>
+            <Text style={s.p}>
+              <Text style={{ fontWeight: 700 }}>Term. </Text>
+              {d.warranty.termDays} days from {d.warranty.startsOn}, the day the set was returned, to {d.warranty.endsOn}.
+            </Text>
+            <Text style={s.p}>
+              <Text style={{ fontWeight: 700 }}>Who is covered. </Text>
+              {d.terms.whoIsCovered}{" "}
+              {d.terms.transferable
+                ? "Coverage passes to a later owner for the rest of the term."
+                : "Coverage does not pass to a later owner."}
+            </Text>
+            <Text style={[s.p, { fontWeight: 700 }]}>What is covered</Text>
+            {d.warranty.covered.map((c) => (
+              <View key={c.key} style={s.li}>
+                <Text style={s.bullet}>•</Text>
+                <Text style={{ flex: 1 }}>{c.text}</Text>
+              </View>
+            ))}
+            <Text style={[s.p, { fontWeight: 700, marginTop: 2 }]}>What is not covered</Text>
+            {d.warranty.excluded.map((e) => (
+              <View key={e.code} style={s.li}>
+                <Text style={s.bullet}>•</Text>
+                <Text style={{ flex: 1 }}>{e.text}</Text>
+              </View>
+            ))}
+            <Text style={s.p}>
+              <Text style={{ fontWeight: 700 }}>What we will do. </Text>
+              {d.terms.whatWeWillDo}
+            </Text>
+            <Text style={s.p}>
+              <Text style={{ fontWeight: 700 }}>What we will not do. </Text>
+              {d.terms.whatWeWillNotDo}
+            </Text>
+          </View>
+          <View style={s.col}>
+            <Text style={[s.p, { fontWeight: 700 }]}>How to make a claim</Text>
+            {d.terms.howToClaim.map((step, i) => (
+              <View key={i} style={s.li}>
+                <Text style={s.bullet}>{i + 1}.</Text>
+                <Text style={{ flex: 1 }}>{step}</Text>
+              </View>
+            ))}
+            <Text style={s.p}>
+              <Text style={{ fontWeight: 700 }}>Warrantor. </Text>
+              {d.shop.name}, {d.shop.address}
+              {d.shop.phone ? `, ${d.shop.phone}` : ""}.
+            </Text>
+            <Text style={s.p}>
+              <Text style={{ fontWeight: 700 }}>Disputes. </Text>
+              {d.terms.disputes}
+            </Text>
+            <Text style={s.p}>{d.terms.impliedWarranties}</Text>
+            <Text style={s.p}>{d.terms.consequentialDamages}</Text>
+            {d.terms.shopWording ? <Text style={s.p}>{d.terms.shopWording}</Text> : null}
+            <Text style={[s.p, { fontWeight: 600 }]}>{d.terms.rightsSentence}</Text>
+          </View>
+        </View>
+
+        <View style={s.footer} fixed>
+          <Text>Signed (Ed25519, key {keyId}). Any change to this certificate makes the check at the address above fail.</Text>
+          <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
+        </View>
+      </Page>
+    </Document>
+  );
+}
+
+/** The certificate as a PDF, with the QR code to its verification page. */
+export async function renderCertificatePdf(input: CertificatePdfInput): Promise<Buffer> {
+  registerFonts();
+  const qr = await QRCode.toDataURL(input.verifyUrl, {
+    errorCorrectionLevel: "M",
+    margin: 1,
+    width: 320,
+    color: { dark: "#2a2320", light: "#ffffff" },
+  });
+  return renderToBuffer(<CertificatePdf {...input} qr={qr} />);
+}

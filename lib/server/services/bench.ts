@@ -1,0 +1,519 @@
+import "server-only";
+import { and, eq, sql } from "drizzle-orm";
+import { db, type Database } from "@/db";
+import {
+  getJobDetailForStaff,
+  listAssignableStaff,
+  listHistoryForStaff,
+  listMessagesForStaff,
+  listPhotosForStaff,
+} from "@/db/queries/bench";
+import { getApprovedRevisionWithLines, getLatestRevisionWithLines } from "@/db/queries/estimates";
+import { jobs, jobTasks, messages, payments, radioSets, readings, user } from "@/db/schema";
+import type { JobState } from "@/lib/engine/jobs/states";
+import type { TxContext } from "@/db/transaction";
+import { audit } from "@/lib/server/audit";
+import { isMainsSet, type SetProfile } from "@/lib/engine/checklist/profile";
+import { env } from "@/lib/server/env";
+import { AppError } from "@/lib/server/errors";
+import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
+import { queueEmail } from "@/lib/server/mail";
+import { computeBalance } from "@/lib/engine/pricing/deposit";
+import { issueCertificate } from "@/lib/server/services/certificates";
+import { checkProfile } from "@/lib/server/services/estimates";
+import { transitionJob } from "@/lib/server/services/jobs";
+import { findKeyedMessage } from "@/lib/server/services/messages";
+import { getShop } from "@/lib/server/services/shop";
+import { judgeReading, judgeReadings, listRequiredReadings, type ReadingRequirement } from "@/lib/engine/verdicts";
+import type { ProfileUpdate, ReadingInput, ReturnInput } from "@/lib/validation/bench";
+import { moneyText } from "@/lib/validation/estimate";
+
+type JobRow = typeof jobs.$inferSelect;
+
+async function loadJob(tx: Database, jobId: string, { lock = false } = {}) {
+  const q = tx
+    .select({ job: jobs, set: radioSets, customer: { id: user.id, name: user.name, email: user.email } })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .where(eq(jobs.id, jobId))
+    .limit(1);
+  const [row] = lock ? await q.for("update", { of: jobs }) : await q;
+  if (!row) throw new AppError("not_found", "That job was not found.");
+  return row;
+}
+
+function requireState(job: JobRow, allowed: readonly JobState[], doing: string): void {
+  if (!allowed.includes(job.state)) {
+    throw new AppError("invalid_transition", `You cannot ${doing} while the job is "${STATE_LABEL[job.state].staff}".`);
+  }
+}
+
+const portalUrl = (jobId: string) => `${env().APP_URL}/portal/jobs/${jobId}`;
+const setName = (set: { maker: string; model: string }) => `${set.maker} ${set.model}`;
+
+// ---- Triage -------------------------------------------------------------------------------------------
+
+/** A technician picks up a new request; it becomes theirs unless someone already has it. */
+export async function startTriage(ctx: TxContext, { jobId, actorId }: { jobId: string; actorId: string }) {
+  const { job } = await loadJob(ctx.tx, jobId);
+  return transitionJob(ctx, {
+    jobId,
+    to: "in_triage",
+    actor: "staff",
+    actorId,
+    note: "Picked up for triage",
+    patch: job.technicianId ? undefined : { technicianId: actorId },
+  });
+}
+
+const PROFILE_STATES: readonly JobState[] = [
+  "requested",
+  "in_triage",
+  "awaiting_owner",
+  "estimate_sent",
+  "approved",
+  "deposit_paid",
+  "on_bench",
+];
+
+/** Corrects the set profile that drives the checklist and the bench sheet. */
+export async function updateProfile(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ProfileUpdate }) {
+  const { job, set } = await loadJob(ctx.tx, jobId, { lock: true });
+  requireState(job, PROFILE_STATES, "change the set profile");
+  const profile = input.profile as Record<string, unknown>;
+  await ctx.tx
+    .update(radioSets)
+    .set({ maker: input.maker, model: input.model, year: input.year ?? null, kind: input.profile.kind, profile, updatedAt: new Date() })
+    .where(eq(radioSets.id, set.id));
+  await audit(ctx, {
+    actorId,
+    action: "set.profile.update",
+    entity: "radio_set",
+    entityId: set.id,
+    before: { maker: set.maker, model: set.model, year: set.year, profile: set.profile },
+    after: { maker: input.maker, model: input.model, year: input.year ?? null, profile },
+  });
+  return { setId: set.id };
+}
+
+/**
+ * Asks the owner a question: a message they see, an e-mail, and the job waits on them. The same key again
+ * (a retry after a lost answer) returns the first question without a second message, e-mail or move.
+ */
+export async function askQuestion(
+  ctx: TxContext,
+  { jobId, actorId, question, idempotencyKey }: { jobId: string; actorId: string; question: string; idempotencyKey: string },
+) {
+  const { job, set, customer } = await loadJob(ctx.tx, jobId, { lock: true });
+  const existing = await findKeyedMessage(ctx, {
+    jobId,
+    authorId: actorId,
+    idempotencyKey,
+    body: question,
+    internal: false,
+    isQuestion: true,
+  });
+  if (existing) return { messageId: existing.id, duplicate: true };
+  requireState(job, ["in_triage"], "ask the owner a question");
+  const [msg] = await ctx.tx
+    .insert(messages)
+    .values({ jobId, authorId: actorId, body: question, isQuestion: true, internal: false, idempotencyKey })
+    .returning({ id: messages.id });
+  await transitionJob(ctx, { jobId, to: "awaiting_owner", actor: "staff", actorId, note: "Question sent to the owner" });
+  await queueEmail(ctx, {
+    to: customer.email,
+    template: "shop-question",
+    props: { name: customer.name, jobNumber: jobNumber(job.number), setName: setName(set), question, url: portalUrl(jobId) },
+    dedupeKey: `shop-question:${msg!.id}`,
+  });
+  return { messageId: msg!.id, duplicate: false };
+}
+
+/** The shop turns the job down; the reason is kept as a message the owner can read. */
+export async function declineJob(ctx: TxContext, { jobId, actorId, reason }: { jobId: string; actorId: string; reason: string }) {
+  const { job } = await loadJob(ctx.tx, jobId);
+  requireState(job, ["in_triage"], "decline the job");
+  await ctx.tx.insert(messages).values({ jobId, authorId: actorId, body: `The shop cannot take this job: ${reason}`, internal: false });
+  return transitionJob(ctx, { jobId, to: "declined_by_shop", actor: "staff", actorId, note: reason });
+}
+
+/** Gives the job to a technician (or to nobody); refuses people who are not active staff. */
+export async function assignTechnician(
+  ctx: TxContext,
+  { jobId, actorId, technicianId }: { jobId: string; actorId: string; technicianId: string | null },
+) {
+  const { job } = await loadJob(ctx.tx, jobId, { lock: true });
+  if (technicianId) {
+    const [tech] = await ctx.tx
+      .select({ id: user.id, role: user.role, banned: user.banned })
+      .from(user)
+      .where(eq(user.id, technicianId))
+      .limit(1);
+    if (!tech || tech.banned || (tech.role !== "technician" && tech.role !== "owner")) {
+      throw new AppError("invalid_input", "Choose an active member of the workshop.", {
+        technicianId: "Choose an active member of the workshop.",
+      });
+    }
+  }
+  if (job.technicianId === technicianId) return { changed: false };
+  await ctx.tx
+    .update(jobs)
+    .set({ technicianId, version: job.version + 1, updatedAt: new Date() })
+    .where(eq(jobs.id, jobId));
+  await audit(ctx, {
+    actorId,
+    action: "job.assign",
+    entity: "job",
+    entityId: jobId,
+    before: { technicianId: job.technicianId },
+    after: { technicianId },
+  });
+  return { changed: true };
+}
+
+// ---- Bench sheet ---------------------------------------------------------------------------------------
+
+/** The set has arrived after the deposit: work starts. */
+export async function startBenchWork(ctx: TxContext, { jobId, actorId }: { jobId: string; actorId: string }) {
+  const { job } = await loadJob(ctx.tx, jobId);
+  return transitionJob(ctx, {
+    jobId,
+    to: "on_bench",
+    actor: "staff",
+    actorId,
+    note: "Set received, work started",
+    patch: { receivedAt: job.receivedAt ?? new Date(), ...(job.technicianId ? {} : { technicianId: actorId }) },
+  });
+}
+
+/**
+ * The readings this job must have: what the profile calls for on the lines of the revision the owner
+ * approved (or the newest one), and the leakage test on every mains set whatever the estimate says.
+ */
+export function requiredReadingsFor(
+  profile: SetProfile,
+  tolerances: Parameters<typeof listRequiredReadings>[1],
+  lineCodes: readonly string[] | null,
+): ReadingRequirement[] {
+  const all = listRequiredReadings(profile, tolerances);
+  if (!lineCodes) return all;
+  const lines = new Set(lineCodes);
+  const mains = isMainsSet(profile.kind);
+  return all.filter((r) => lines.has(r.lineCode) || (mains && r.lineCode === "test.leakage"));
+}
+
+async function sheetBasis(tx: Database, jobId: string, set: { profile: Record<string, unknown> }) {
+  const profile = checkProfile(set.profile);
+  if (!profile.ok)
+    return { profile: null, requirements: [] as ReadingRequirement[], lines: [] as { code: string; title: string; kind: string }[] };
+  const shop = await getShop(tx);
+  const rev = (await getApprovedRevisionWithLines({ jobId }, tx)) ?? (await getLatestRevisionWithLines({ jobId }, tx));
+  const labour = rev ? rev.lines.filter((l) => l.category !== "parts") : null;
+  const requirements = requiredReadingsFor(profile.profile, shop.policy.tolerances, labour ? labour.map((l) => l.code) : null);
+  return { profile: profile.profile, requirements, lines: (labour ?? []).map((l) => ({ code: l.code, title: l.title, kind: l.category })) };
+}
+
+const READING_STATES: readonly JobState[] = ["on_bench", "final_checks"];
+
+/** Stores one reading with its verdict against the tolerance in force; re-measuring overwrites it. */
+export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ReadingInput }) {
+  const { job, set } = await loadJob(ctx.tx, jobId);
+  requireState(job, READING_STATES, "record readings");
+  const { requirements } = await sheetBasis(ctx.tx, jobId, set);
+  const requirement = requirements.find((r) => r.key === input.key);
+  if (!requirement)
+    throw new AppError("invalid_input", "This set does not call for that reading.", { key: "This set does not call for that reading." });
+  const judged = judgeReading(requirement, input.value);
+  const now = new Date();
+  const [before] = await ctx.tx
+    .select()
+    .from(readings)
+    .where(and(eq(readings.jobId, jobId), eq(readings.key, input.key)))
+    .limit(1);
+  const values = {
+    value: input.value,
+    unit: requirement.unit,
+    note: input.note || null,
+    verdict: judged.verdict,
+    toleranceText: judged.toleranceText,
+    recordedBy: actorId,
+    recordedAt: now,
+  };
+  await ctx.tx
+    .insert(readings)
+    .values({ jobId, key: input.key, ...values })
+    .onConflictDoUpdate({ target: [readings.jobId, readings.key], set: values });
+  await audit(ctx, {
+    actorId,
+    action: "reading.record",
+    entity: "job",
+    entityId: jobId,
+    before: before ? { key: before.key, value: before.value, verdict: before.verdict } : null,
+    after: { key: input.key, value: input.value, verdict: judged.verdict },
+  });
+  return {
+    key: input.key,
+    value: input.value,
+    verdict: judged.verdict,
+    toleranceText: judged.toleranceText,
+    deviation: judged.deviation ?? null,
+    allowed: judged.allowed ?? null,
+    recordedAt: now.toISOString(),
+  };
+}
+
+/** Ticks (or unticks) a checklist line, keeping who and when. */
+export async function setTask(
+  ctx: TxContext,
+  { jobId, actorId, code, done }: { jobId: string; actorId: string; code: string; done: boolean },
+) {
+  const { job } = await loadJob(ctx.tx, jobId);
+  requireState(job, READING_STATES, "tick checklist lines");
+  const [task] = await ctx.tx
+    .select()
+    .from(jobTasks)
+    .where(and(eq(jobTasks.jobId, jobId), eq(jobTasks.code, code)))
+    .limit(1);
+  if (!task) throw new AppError("not_found", "That checklist line is not on this job.");
+  const now = new Date();
+  await ctx.tx
+    .update(jobTasks)
+    .set(done ? { doneBy: actorId, doneAt: now } : { doneBy: null, doneAt: null })
+    .where(eq(jobTasks.id, task.id));
+  await audit(ctx, {
+    actorId,
+    action: done ? "task.done" : "task.reopen",
+    entity: "job",
+    entityId: jobId,
+    before: { code, done: Boolean(task.doneAt) },
+    after: { code, done },
+  });
+  return { code, done, doneAt: done ? now.toISOString() : null };
+}
+
+/** A workshop-only note; the same key again returns the first note instead of adding another. */
+export async function addBenchNote(
+  ctx: TxContext,
+  { jobId, actorId, body, idempotencyKey }: { jobId: string; actorId: string; body: string; idempotencyKey: string },
+) {
+  await loadJob(ctx.tx, jobId, { lock: true });
+  const existing = await findKeyedMessage(ctx, { jobId, authorId: actorId, idempotencyKey, body, internal: true, isQuestion: false });
+  if (existing) return { messageId: existing.id, duplicate: true };
+  const [msg] = await ctx.tx
+    .insert(messages)
+    .values({ jobId, authorId: actorId, body, internal: true, idempotencyKey })
+    .returning({ id: messages.id });
+  return { messageId: msg!.id, duplicate: false };
+}
+
+// ---- Completion and return -----------------------------------------------------------------------------
+
+export type CompletionReason = { kind: "reading-missing" | "reading-failing" | "line-open" | "profile"; key: string; text: string };
+
+/** Why the job cannot be completed yet; an empty list means it can. */
+export async function completionGate(tx: Database, jobId: string) {
+  const { set } = await loadJob(tx, jobId);
+  const basis = await sheetBasis(tx, jobId, set);
+  const reasons: CompletionReason[] = [];
+  if (!basis.profile)
+    reasons.push({ kind: "profile", key: "profile", text: "The set profile is incomplete, so the required readings are unknown." });
+  const stored = await tx.select().from(readings).where(eq(readings.jobId, jobId));
+  const values = Object.fromEntries(stored.map((r) => [r.key, r.value]));
+  const sheet = judgeReadings(basis.requirements, values);
+  for (const r of sheet.results) {
+    if (r.verdict === "missing") reasons.push({ kind: "reading-missing", key: r.key, text: `${r.label}: not recorded yet.` });
+    if (r.verdict === "fail")
+      reasons.push({
+        kind: "reading-failing",
+        key: r.key,
+        text: `${r.label}: ${r.value} ${r.unit} is outside the tolerance (${r.toleranceText}).`,
+      });
+  }
+  const tasks = await tx.select().from(jobTasks).where(eq(jobTasks.jobId, jobId));
+  for (const t of tasks) if (!t.doneAt) reasons.push({ kind: "line-open", key: t.code, text: `Checklist line not ticked: ${t.title}.` });
+  return { reasons, sheet, tasks };
+}
+
+function refuse(message: string, reasons: CompletionReason[]): AppError {
+  return new AppError(
+    "conflict",
+    message,
+    Object.fromEntries(reasons.map((r) => [r.kind === "line-open" ? `task:${r.key}` : r.key, r.text])),
+  );
+}
+
+/** All lines ticked: the set goes to final checks. */
+export async function beginFinalChecks(ctx: TxContext, { jobId, actorId }: { jobId: string; actorId: string }) {
+  const { job } = await loadJob(ctx.tx, jobId, { lock: true });
+  requireState(job, ["on_bench"], "start final checks");
+  const { reasons } = await completionGate(ctx.tx, jobId);
+  const open = reasons.filter((r) => r.kind === "line-open");
+  if (open.length) throw refuse(`Final checks start once every checklist line is ticked; ${open.length} still open.`, open);
+  return transitionJob(ctx, { jobId, to: "final_checks", actor: "staff", actorId, note: "All checklist lines ticked" });
+}
+
+export async function returnToBench(ctx: TxContext, { jobId, actorId }: { jobId: string; actorId: string }) {
+  return transitionJob(ctx, { jobId, to: "on_bench", actor: "staff", actorId, note: "Back to the bench from final checks" });
+}
+
+async function paidMinor(tx: Database, jobId: string): Promise<number> {
+  const [row] = await tx
+    .select({ paid: sql<number>`coalesce(sum(${payments.amountMinor} - ${payments.refundedMinor}), 0)::int` })
+    .from(payments)
+    .where(and(eq(payments.jobId, jobId), eq(payments.status, "paid")));
+  return row?.paid ?? 0;
+}
+
+/**
+ * Completion: refused with every reason while a required reading is missing or failing or a line is
+ * open; otherwise the job moves to "balance due" and the owner is asked for the balance.
+ */
+export async function completeJob(ctx: TxContext, { jobId, actorId }: { jobId: string; actorId: string }) {
+  const { job, set, customer } = await loadJob(ctx.tx, jobId, { lock: true });
+  requireState(job, ["final_checks"], "complete the job");
+  const { reasons } = await completionGate(ctx.tx, jobId);
+  if (reasons.length) {
+    throw refuse(
+      `The job cannot be completed yet: ${reasons.length} ${reasons.length === 1 ? "thing needs" : "things need"} attention.`,
+      reasons,
+    );
+  }
+  const approved = await getApprovedRevisionWithLines({ jobId }, ctx.tx);
+  if (!approved) throw new AppError("conflict", "No approved estimate was found for this job.");
+  const paid = await paidMinor(ctx.tx, jobId);
+  const balanceMinor = computeBalance({ totalMinor: approved.revision.totalMinor, paidMinor: paid });
+  const exponent = typeof approved.revision.pricing.exponent === "number" ? approved.revision.pricing.exponent : 2;
+  await transitionJob(ctx, {
+    jobId,
+    to: "balance_due",
+    actor: "staff",
+    actorId,
+    note: "Completed: every required reading passes",
+    patch: { completedAt: new Date() },
+  });
+  await queueEmail(ctx, {
+    to: customer.email,
+    template: "balance-due",
+    props: {
+      name: customer.name,
+      jobNumber: jobNumber(job.number),
+      setName: setName(set),
+      url: portalUrl(jobId),
+      balanceText: moneyText(balanceMinor, approved.revision.currency, exponent),
+    },
+    dedupeKey: `balance-due:${jobId}:r${approved.revision.revision}`,
+  });
+  return { balanceMinor, currency: approved.revision.currency, exponent };
+}
+
+/** The set goes back to its owner (paid in full): the return is recorded and the certificate issued together. */
+export async function recordReturn(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ReturnInput }) {
+  const { job, set, customer } = await loadJob(ctx.tx, jobId);
+  requireState(job, ["paid_in_full"], "record the return");
+  const shipped = input.method === "shipped" ? input : null;
+  await transitionJob(ctx, {
+    jobId,
+    to: "returned",
+    actor: "staff",
+    actorId,
+    note: shipped ? `Shipped by ${shipped.carrier}, tracking ${shipped.trackingNumber}` : "Picked up at the shop",
+    patch: {
+      returnMethod: input.method,
+      carrier: shipped?.carrier ?? null,
+      trackingNumber: shipped?.trackingNumber ?? null,
+      returnedAt: new Date(),
+    },
+  });
+  const certificate = await issueCertificate(ctx, { jobId, actorId });
+  await queueEmail(ctx, {
+    to: customer.email,
+    template: "set-returned",
+    props: {
+      name: customer.name,
+      jobNumber: jobNumber(job.number),
+      setName: setName(set),
+      method: input.method,
+      ...(shipped ? { carrier: shipped.carrier, trackingNumber: shipped.trackingNumber } : {}),
+      url: portalUrl(jobId),
+    },
+    dedupeKey: `set-returned:${jobId}`,
+  });
+  return { certificateId: certificate.certificateId, code: certificate.code };
+}
+
+// ---- Read side -----------------------------------------------------------------------------------------
+
+/** Everything the bench sheet shows: required readings with stored values and verdicts, lines, the gate. */
+export async function getBenchSheet({ jobId }: { jobId: string }) {
+  const { job, set } = await loadJob(db, jobId);
+  const basis = await sheetBasis(db, jobId, set);
+  const stored = await db
+    .select({
+      key: readings.key,
+      value: readings.value,
+      note: readings.note,
+      verdict: readings.verdict,
+      recordedAt: readings.recordedAt,
+      recordedByName: user.name,
+    })
+    .from(readings)
+    .leftJoin(user, eq(user.id, readings.recordedBy))
+    .where(eq(readings.jobId, jobId));
+  const byKey = new Map(stored.map((r) => [r.key, r]));
+  const tasks = await db
+    .select({ code: jobTasks.code, title: jobTasks.title, doneAt: jobTasks.doneAt, doneByName: user.name })
+    .from(jobTasks)
+    .leftJoin(user, eq(user.id, jobTasks.doneBy))
+    .where(eq(jobTasks.jobId, jobId));
+  const order = new Map(basis.lines.map((l, i) => [l.code, i]));
+  tasks.sort((a, b) => (order.get(a.code) ?? 999) - (order.get(b.code) ?? 999));
+  const gate = await completionGate(db, jobId);
+  return {
+    jobState: job.state,
+    editable: READING_STATES.includes(job.state),
+    profile: basis.profile,
+    requirements: basis.requirements.map((r) => {
+      const s = byKey.get(r.key);
+      return {
+        ...r,
+        value: s?.value ?? null,
+        note: s?.note ?? null,
+        verdict: judgeReading(r, s?.value ?? null).verdict,
+        recordedAt: s?.recordedAt.toISOString() ?? null,
+        recordedByName: s?.recordedByName ?? null,
+      };
+    }),
+    tasks: tasks.map((t) => ({ ...t, doneAt: t.doneAt?.toISOString() ?? null })),
+    reasons: gate.reasons,
+  };
+}
+
+export type BenchSheet = Awaited<ReturnType<typeof getBenchSheet>>;
+
+/** The job page's header, triage data, messages, photos and history. */
+export async function getJobDetail({ jobId }: { jobId: string }) {
+  const row = await getJobDetailForStaff({ jobId });
+  if (!row) throw new AppError("not_found", "That job was not found.");
+  const [messageRows, photoRows, history, staff] = await Promise.all([
+    listMessagesForStaff({ jobId }),
+    listPhotosForStaff({ jobId }),
+    listHistoryForStaff({ jobId }),
+    listAssignableStaff(),
+  ]);
+  const profile = checkProfile(row.set.profile);
+  const { idempotencyKey: _key, ...job } = row.job;
+  return {
+    job: { ...job, jobNumber: jobNumber(row.job.number) },
+    set: row.set,
+    profileIssues: profile.ok ? null : profile.fields,
+    customer: row.customer,
+    technicianName: row.technicianName,
+    messages: messageRows,
+    photos: photoRows,
+    history,
+    staff,
+  };
+}
+
+export type JobDetail = Awaited<ReturnType<typeof getJobDetail>>;

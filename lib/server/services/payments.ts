@@ -1,0 +1,446 @@
+import "server-only";
+import { and, eq, ne } from "drizzle-orm";
+import type Stripe from "stripe";
+import { countCheckouts, getLatestApprovedRevision, listLiveCheckouts, paidTotalForJob } from "@/db/queries/payments";
+import { estimateRevisions, jobs, paymentEvents, payments, radioSets, refunds, user } from "@/db/schema";
+import type { JobState } from "@/lib/engine/jobs/states";
+import { transaction, type TxContext } from "@/db/transaction";
+import { audit } from "@/lib/server/audit";
+import { env } from "@/lib/server/env";
+import { AppError } from "@/lib/server/errors";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { queueEmail } from "@/lib/server/mail";
+import { stripe } from "@/lib/server/payments";
+import { paidDeposits } from "@/lib/server/services/approvals";
+import { transitionJob } from "@/lib/server/services/jobs";
+import { moneyText } from "@/lib/validation/estimate";
+
+export type PaymentPurpose = "deposit" | "balance";
+type PaymentRow = typeof payments.$inferSelect;
+type PaymentStatus = PaymentRow["status"];
+
+// Which job state a payment of each purpose settles, and where the job goes once the money is in.
+const SETTLES: Record<PaymentPurpose, { from: JobState; to: JobState }> = {
+  deposit: { from: "approved", to: "deposit_paid" },
+  balance: { from: "balance_due", to: "paid_in_full" },
+};
+
+const UNAVAILABLE =
+  "The payment service did not answer. Nothing was charged and nothing changed on your job; please try again in a minute.";
+
+function exponentOf(revision: { pricing: Record<string, unknown> }): number {
+  const e = revision.pricing.exponent;
+  return typeof e === "number" && Number.isInteger(e) ? e : 2;
+}
+
+export type CheckoutResult = { kind: "redirect"; url: string; paymentId: string } | { kind: "confirming"; paymentId: string };
+
+/**
+ * Opens (or reopens) a hosted checkout for the deposit or the balance. The amount comes only from the stored
+ * approved revision; the job row is locked so a double click waits and then reuses the same session, and our
+ * own idempotency key makes a retried create call return the same session at the processor. A failing or slow
+ * processor rolls everything back.
+ */
+export async function startCheckout(input: { jobId: string; customerId: string; purpose: PaymentPurpose }): Promise<CheckoutResult> {
+  return transaction(async (ctx) => {
+    const { tx } = ctx;
+    const [row] = await tx
+      .select({ job: jobs, set: radioSets, email: user.email })
+      .from(jobs)
+      .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+      .innerJoin(user, eq(user.id, jobs.customerId))
+      .where(and(eq(jobs.id, input.jobId), eq(jobs.customerId, input.customerId)))
+      .for("update", { of: jobs })
+      .limit(1);
+    if (!row) throw new AppError("not_found", "That job was not found.");
+    const { job, set } = row;
+    if (job.state !== SETTLES[input.purpose].from) {
+      throw new AppError(
+        "conflict",
+        input.purpose === "deposit"
+          ? "There is no deposit to pay on this job right now."
+          : "There is no balance to pay on this job right now.",
+      );
+    }
+    const revision = await getLatestApprovedRevision(tx, { jobId: job.id });
+    if (!revision) throw new AppError("conflict", "This job has no approved estimate yet.");
+
+    // Deposit: the approved revision's deposit less deposits already paid (a revision sent during the work
+    // asks only for the difference). Balance: the approved total less everything paid so far.
+    const amountMinor =
+      input.purpose === "deposit"
+        ? revision.depositMinor - (await paidDeposits(ctx, job.id))
+        : revision.totalMinor - (await paidTotalForJob(tx, { jobId: job.id }));
+    if (amountMinor <= 0) throw new AppError("conflict", "Nothing is left to pay on this job.");
+    const currency = revision.currency.toLowerCase();
+
+    for (const live of await listLiveCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) {
+      if (live.status === "paid" || live.status === "processing") return { kind: "confirming", paymentId: live.id };
+      if (live.amountMinor !== amountMinor || !live.checkoutSessionId) continue;
+      let session: Stripe.Checkout.Session;
+      try {
+        session = await stripe().checkout.sessions.retrieve(live.checkoutSessionId);
+      } catch (error) {
+        console.error("[bandedge] checkout retrieve failed", error);
+        throw new AppError("unavailable", UNAVAILABLE);
+      }
+      if (session.status === "open" && session.url) return { kind: "redirect", url: session.url, paymentId: live.id };
+      if (session.status === "complete") return { kind: "confirming", paymentId: live.id };
+      // Expired at the processor: the webhook may not have told us yet.
+      await tx
+        .update(payments)
+        .set({ status: "expired" })
+        .where(and(eq(payments.id, live.id), eq(payments.status, "open")));
+    }
+
+    const attempt = (await countCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) + 1;
+    const idempotencyKey = `bandedge:${input.purpose}:${revision.id}:${attempt}`;
+    const base = env().APP_URL;
+    const label = input.purpose === "deposit" ? "Deposit" : "Balance";
+    let session: Stripe.Checkout.Session;
+    try {
+      session = await stripe().checkout.sessions.create(
+        {
+          mode: "payment",
+          line_items: [
+            {
+              quantity: 1,
+              price_data: {
+                currency,
+                unit_amount: amountMinor,
+                product_data: {
+                  name: `${label} for ${jobNumber(job.number)} — ${set.maker} ${set.model} (estimate revision ${revision.revision})`,
+                },
+              },
+            },
+          ],
+          client_reference_id: job.id,
+          customer_email: row.email,
+          metadata: { jobId: job.id, revisionId: revision.id, purpose: input.purpose },
+          payment_intent_data: { metadata: { jobId: job.id, revisionId: revision.id, purpose: input.purpose } },
+          success_url: `${base}/portal/jobs/${job.id}/payment?session_id={CHECKOUT_SESSION_ID}`,
+          cancel_url: `${base}/portal/jobs/${job.id}?payment=cancelled`,
+        },
+        { idempotencyKey },
+      );
+    } catch (error) {
+      console.error("[bandedge] checkout create failed", error);
+      throw new AppError("unavailable", UNAVAILABLE);
+    }
+    if (session.amount_total !== amountMinor || session.currency !== currency || !session.url) {
+      console.error("[bandedge] checkout session does not match what we asked for", {
+        sessionId: session.id,
+        amount: session.amount_total,
+      });
+      throw new AppError("unavailable", UNAVAILABLE);
+    }
+    const [payment] = await tx
+      .insert(payments)
+      .values({
+        jobId: job.id,
+        revisionId: revision.id,
+        purpose: input.purpose,
+        amountMinor,
+        currency: revision.currency,
+        status: "open",
+        checkoutSessionId: session.id,
+        checkoutUrl: session.url,
+        idempotencyKey,
+        createdBy: input.customerId,
+      })
+      .returning({ id: payments.id });
+    await audit(ctx, {
+      actorId: input.customerId,
+      action: "payment.checkout",
+      entity: "payment",
+      entityId: payment!.id,
+      before: null,
+      after: { purpose: input.purpose, amountMinor, currency: revision.currency, revisionId: revision.id, sessionId: session.id },
+    });
+    return { kind: "redirect", url: session.url, paymentId: payment!.id };
+  });
+}
+
+// ---- webhooks ----
+
+export const HANDLED_EVENTS = new Set([
+  "checkout.session.completed",
+  "checkout.session.async_payment_succeeded",
+  "checkout.session.async_payment_failed",
+  "checkout.session.expired",
+  "charge.refunded",
+  "refund.created",
+  "refund.updated",
+]);
+
+// A payment only moves forward: paid never goes back, whatever order the events arrive in.
+const RANK: Record<PaymentStatus, number> = { open: 0, processing: 1, failed: 2, expired: 2, paid: 3 };
+
+export type WebhookOutcome = { outcome: string };
+
+/** Applies one verified processor event exactly once: its id is stored in the same transaction as its effect. */
+export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOutcome> {
+  if (!HANDLED_EVENTS.has(event.type)) return { outcome: "ignored" };
+  return transaction(async (ctx) => {
+    switch (event.type) {
+      case "checkout.session.completed":
+      case "checkout.session.async_payment_succeeded":
+      case "checkout.session.async_payment_failed":
+      case "checkout.session.expired":
+        return onCheckoutEvent(ctx, event.id, event.type, event.data.object);
+      case "charge.refunded":
+        return onChargeRefunded(ctx, event.id, event.type, event.data.object);
+      case "refund.created":
+      case "refund.updated":
+        return onRefund(ctx, event.id, event.type, event.data.object);
+      default:
+        return { outcome: "ignored" };
+    }
+  });
+}
+
+// Claims the event id; false when an earlier (or concurrent, now committed) delivery already did the work.
+async function claimEvent(ctx: TxContext, eventId: string, type: string, paymentId: string | null, outcome = "received"): Promise<boolean> {
+  const [row] = await ctx.tx
+    .insert(paymentEvents)
+    .values({ id: eventId, type, paymentId, outcome })
+    .onConflictDoNothing({ target: paymentEvents.id })
+    .returning({ id: paymentEvents.id });
+  return Boolean(row);
+}
+
+async function finish(ctx: TxContext, eventId: string, outcome: string): Promise<WebhookOutcome> {
+  await ctx.tx.update(paymentEvents).set({ outcome }).where(eq(paymentEvents.id, eventId));
+  return { outcome };
+}
+
+function idOf(v: string | { id: string } | null | undefined): string | null {
+  if (!v) return null;
+  return typeof v === "string" ? v : v.id;
+}
+
+async function onCheckoutEvent(ctx: TxContext, eventId: string, type: string, session: Stripe.Checkout.Session): Promise<WebhookOutcome> {
+  const { tx } = ctx;
+  const [payment] = await tx.select().from(payments).where(eq(payments.checkoutSessionId, session.id)).for("update").limit(1);
+  if (!payment) {
+    // Nothing to apply: the event is stored with its outcome in the one statement that claims it.
+    if (!(await claimEvent(ctx, eventId, type, null, "unknown-session"))) return { outcome: "duplicate" };
+    console.error("[bandedge] webhook for an unknown checkout session", { eventId, sessionId: session.id });
+    return { outcome: "unknown-session" };
+  }
+  if (!(await claimEvent(ctx, eventId, type, payment.id))) return { outcome: "duplicate" };
+
+  const [revision] = await tx.select().from(estimateRevisions).where(eq(estimateRevisions.id, payment.revisionId)).limit(1);
+  const problems: string[] = [];
+  if (session.amount_total !== payment.amountMinor) problems.push(`amount ${session.amount_total} ≠ ${payment.amountMinor}`);
+  if ((session.currency ?? "").toLowerCase() !== payment.currency.toLowerCase())
+    problems.push(`currency ${session.currency} ≠ ${payment.currency}`);
+  if (session.metadata?.jobId !== payment.jobId) problems.push("job id");
+  if (session.metadata?.revisionId !== payment.revisionId) problems.push("revision id");
+  if (session.metadata?.purpose !== payment.purpose) problems.push("purpose");
+  if (!revision || revision.jobId !== payment.jobId) problems.push("revision missing");
+  else if (payment.amountMinor > revision.totalMinor || revision.currency !== payment.currency)
+    problems.push("payment does not fit the revision");
+  if (problems.length) {
+    console.error("[bandedge] payment event does not match our records; not marked paid", { eventId, paymentId: payment.id, problems });
+    await audit(ctx, {
+      actorId: null,
+      action: "payment.mismatch",
+      entity: "payment",
+      entityId: payment.id,
+      before: { status: payment.status },
+      after: { eventId, type, problems },
+    });
+    return finish(ctx, eventId, `mismatch: ${problems.join("; ")}`);
+  }
+
+  const paid = session.payment_status === "paid";
+  if (type === "checkout.session.completed" || type === "checkout.session.async_payment_succeeded") {
+    if (paid) return finish(ctx, eventId, await markPaid(ctx, payment, idOf(session.payment_intent)));
+    if (type === "checkout.session.completed") return finish(ctx, eventId, await advance(ctx, payment, "processing"));
+    return finish(ctx, eventId, "not-paid");
+  }
+  if (type === "checkout.session.async_payment_failed") return finish(ctx, eventId, await advance(ctx, payment, "failed"));
+  return finish(ctx, eventId, await advance(ctx, payment, "expired"));
+}
+
+async function advance(ctx: TxContext, payment: PaymentRow, to: PaymentStatus): Promise<string> {
+  if (RANK[to] <= RANK[payment.status]) return `kept-${payment.status}`;
+  await ctx.tx.update(payments).set({ status: to }).where(eq(payments.id, payment.id));
+  await audit(ctx, {
+    actorId: null,
+    action: `payment.${to}`,
+    entity: "payment",
+    entityId: payment.id,
+    before: { status: payment.status },
+    after: { status: to },
+  });
+  return to;
+}
+
+async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: string | null): Promise<string> {
+  const { tx } = ctx;
+  if (payment.status === "paid") return "already-paid";
+  const [other] = await tx
+    .select({ id: payments.id })
+    .from(payments)
+    .where(
+      and(
+        eq(payments.revisionId, payment.revisionId),
+        eq(payments.purpose, payment.purpose),
+        eq(payments.status, "paid"),
+        ne(payments.id, payment.id),
+      ),
+    )
+    .limit(1);
+  if (other) {
+    // A second checkout for the same thing was paid: keep the money visible to the office for a refund.
+    console.error("[bandedge] a second payment arrived for an already paid revision", { paymentId: payment.id, paidId: other.id });
+    await tx.update(payments).set({ paymentIntentId }).where(eq(payments.id, payment.id));
+    await audit(ctx, {
+      actorId: null,
+      action: "payment.duplicate",
+      entity: "payment",
+      entityId: payment.id,
+      before: { status: payment.status },
+      after: { paidId: other.id, paymentIntentId },
+    });
+    return "duplicate-charge";
+  }
+  const paidAt = new Date();
+  await tx.update(payments).set({ status: "paid", paidAt, paymentIntentId }).where(eq(payments.id, payment.id));
+  await audit(ctx, {
+    actorId: null,
+    action: "payment.paid",
+    entity: "payment",
+    entityId: payment.id,
+    before: { status: payment.status },
+    after: { status: "paid", amountMinor: payment.amountMinor, currency: payment.currency, paymentIntentId },
+  });
+
+  const [row] = await tx
+    .select({ job: jobs, set: radioSets, name: user.name, email: user.email, revision: estimateRevisions })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .innerJoin(estimateRevisions, eq(estimateRevisions.id, payment.revisionId))
+    .where(eq(jobs.id, payment.jobId))
+    .limit(1);
+  if (!row) return "paid";
+  let outcome = "paid";
+  const move = SETTLES[payment.purpose];
+  if (row.job.state === move.from) {
+    await transitionJob(ctx, {
+      jobId: row.job.id,
+      to: move.to,
+      actor: "system",
+      actorId: null,
+      note: `${payment.purpose === "deposit" ? "Deposit" : "Balance"} of ${moneyText(payment.amountMinor, payment.currency, exponentOf(row.revision))} received`,
+    });
+  } else {
+    // Money arrived for a job that moved on (e.g. a revision was sent meanwhile): recorded, job left alone.
+    outcome = "paid-job-not-waiting";
+    console.error("[bandedge] payment received while the job was not waiting for it", { paymentId: payment.id, state: row.job.state });
+  }
+  await queueEmail(ctx, {
+    to: row.email,
+    template: payment.purpose === "deposit" ? "deposit-receipt" : "balance-receipt",
+    props: {
+      name: row.name,
+      jobNumber: jobNumber(row.job.number),
+      setName: `${row.set.maker} ${row.set.model}`,
+      url: `${env().APP_URL}/portal/jobs/${row.job.id}`,
+      amountText: moneyText(payment.amountMinor, payment.currency, exponentOf(row.revision)),
+      paidAt: paidAt.toLocaleDateString("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }),
+      reference: paymentIntentId ?? payment.id,
+    },
+    dedupeKey: `receipt:${payment.id}`,
+  });
+  return outcome;
+}
+
+async function onChargeRefunded(ctx: TxContext, eventId: string, type: string, charge: Stripe.Charge): Promise<WebhookOutcome> {
+  const { tx } = ctx;
+  const intentId = idOf(charge.payment_intent);
+  const [payment] = intentId ? await tx.select().from(payments).where(eq(payments.paymentIntentId, intentId)).for("update").limit(1) : [];
+  for (const refund of charge.refunds?.data ?? []) await requireRefundRow(ctx, refund);
+  if (!(await claimEvent(ctx, eventId, type, payment?.id ?? null))) return { outcome: "duplicate" };
+  if (!payment) {
+    console.error("[bandedge] refund event for an unknown payment", { eventId, intentId });
+    return finish(ctx, eventId, "unknown-payment");
+  }
+  if (charge.currency.toLowerCase() !== payment.currency.toLowerCase() || charge.amount_refunded > payment.amountMinor) {
+    console.error("[bandedge] refund event does not match the payment", { eventId, paymentId: payment.id });
+    await audit(ctx, {
+      actorId: null,
+      action: "refund.mismatch",
+      entity: "payment",
+      entityId: payment.id,
+      before: null,
+      after: { eventId },
+    });
+    return finish(ctx, eventId, "mismatch");
+  }
+  for (const refund of charge.refunds?.data ?? []) await settleRefund(ctx, payment, refund);
+  if (charge.amount_refunded > payment.refundedMinor) {
+    await tx.update(payments).set({ refundedMinor: charge.amount_refunded }).where(eq(payments.id, payment.id));
+    await audit(ctx, {
+      actorId: null,
+      action: "payment.refunded",
+      entity: "payment",
+      entityId: payment.id,
+      before: { refundedMinor: payment.refundedMinor },
+      after: { refundedMinor: charge.amount_refunded },
+    });
+  }
+  return finish(ctx, eventId, "refund-recorded");
+}
+
+async function onRefund(ctx: TxContext, eventId: string, type: string, refund: Stripe.Refund): Promise<WebhookOutcome> {
+  const { tx } = ctx;
+  const intentId = idOf(refund.payment_intent);
+  const [payment] = intentId ? await tx.select().from(payments).where(eq(payments.paymentIntentId, intentId)).for("update").limit(1) : [];
+  await requireRefundRow(ctx, refund);
+  if (!(await claimEvent(ctx, eventId, type, payment?.id ?? null))) return { outcome: "duplicate" };
+  if (!payment) return finish(ctx, eventId, "unknown-payment");
+  return finish(ctx, eventId, await settleRefund(ctx, payment, refund));
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+// The office writes the refund row before asking the processor; if its transaction has not committed yet,
+// answer "try again" so the processor redelivers instead of losing the update.
+async function requireRefundRow(ctx: TxContext, refund: Stripe.Refund): Promise<void> {
+  const refundId = refund.metadata?.refundId;
+  if (!refundId || !UUID.test(refundId)) return;
+  const [row] = await ctx.tx.select({ id: refunds.id }).from(refunds).where(eq(refunds.id, refundId)).limit(1);
+  if (!row) throw new AppError("unavailable", "Refund not recorded yet; deliver again later.");
+}
+
+async function settleRefund(ctx: TxContext, payment: PaymentRow, refund: Stripe.Refund): Promise<string> {
+  const refundId = refund.metadata?.refundId;
+  if (!refundId || !UUID.test(refundId)) return "refund-without-reference";
+  const [row] = await ctx.tx
+    .select()
+    .from(refunds)
+    .where(and(eq(refunds.id, refundId), eq(refunds.paymentId, payment.id)))
+    .for("update")
+    .limit(1);
+  if (!row) return "refund-unknown";
+  if (row.amountMinor !== refund.amount || refund.currency.toLowerCase() !== payment.currency.toLowerCase()) {
+    console.error("[bandedge] refund amount differs from the office's request", { refundId, asked: row.amountMinor, got: refund.amount });
+    return "refund-mismatch";
+  }
+  const status = refund.status === "succeeded" ? "succeeded" : refund.status === "failed" || refund.status === "canceled" ? "failed" : null;
+  if (!status || row.status === status || row.status !== "requested") return `refund-${row.status}`;
+  await ctx.tx.update(refunds).set({ status, processorRefundId: refund.id, settledAt: new Date() }).where(eq(refunds.id, row.id));
+  await audit(ctx, {
+    actorId: null,
+    action: `refund.${status}`,
+    entity: "refund",
+    entityId: row.id,
+    before: { status: row.status },
+    after: { status, processorRefundId: refund.id },
+  });
+  return `refund-${status}`;
+}

@@ -1,0 +1,179 @@
+import "server-only";
+import { listPaymentsForCustomer } from "@/db/queries/payments";
+import {
+  getPortalJobForCustomer,
+  listMessagesForCustomer,
+  listPhotosForCustomer,
+  listRevisionsForCustomer,
+  listTimelineForCustomer,
+} from "@/db/queries/portal";
+import type { JobState } from "@/lib/engine/jobs/states";
+import { AppError } from "@/lib/server/errors";
+import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
+import { coveredWording, exclusionWording, type CoveredWordingKey, type ExclusionCode } from "@/lib/engine/warranty/exclusions";
+import { CATEGORY_LABEL, moneyText, type DraftCategory } from "@/lib/validation/estimate";
+
+// What a set owner may see of a job, shaped field by field: no cost prices, markups, internal notes or staff ids.
+
+type Money = { minor: number; text: string };
+
+function pricingNumber(p: Record<string, unknown>, key: string, fallback = 0): number {
+  const v = p[key];
+  return typeof v === "number" && Number.isFinite(v) ? v : fallback;
+}
+
+function warrantyOf(p: Record<string, unknown>) {
+  const w = (p.warranty ?? {}) as { termDays?: unknown; designation?: unknown; coveredKeys?: unknown; excludedKeys?: unknown };
+  const covered = Array.isArray(w.coveredKeys)
+    ? w.coveredKeys.filter((k): k is CoveredWordingKey => typeof k === "string" && k in coveredWording)
+    : [];
+  const excluded = Array.isArray(w.excludedKeys)
+    ? w.excludedKeys.filter((k): k is ExclusionCode => typeof k === "string" && k in exclusionWording)
+    : [];
+  return {
+    termDays: typeof w.termDays === "number" ? w.termDays : 0,
+    designation: w.designation === "full" ? "full" : "limited",
+    covers: covered.map((k) => coveredWording[k]),
+    excludes: excluded.map((k) => exclusionWording[k]),
+  };
+}
+
+const CATEGORY_ORDER: DraftCategory[] = ["inspection", "safety", "recap", "alignment", "mechanical", "test", "parts"];
+
+export async function getPortalJobView({ jobId, customerId }: { jobId: string; customerId: string }) {
+  const job = await getPortalJobForCustomer({ jobId, customerId });
+  if (!job) throw new AppError("not_found", "That job was not found.");
+  const [timeline, photoRows, revisions, paymentRows] = await Promise.all([
+    listTimelineForCustomer({ jobId, customerId }),
+    listPhotosForCustomer({ jobId, customerId }),
+    listRevisionsForCustomer({ jobId, customerId }),
+    listPaymentsForCustomer({ jobId, customerId }),
+  ]);
+
+  const current = revisions[0];
+  const exponent = current ? pricingNumber(current.pricing, "exponent", 2) : 2;
+  const currency = current?.currency ?? "USD";
+  const m = (minor: number): Money => ({ minor, text: moneyText(minor, currency, exponent) });
+
+  const paidDeposits = paymentRows.filter((p) => p.status === "paid" && p.purpose === "deposit").reduce((s, p) => s + p.amountMinor, 0);
+  const paidTotal = paymentRows.filter((p) => p.status === "paid").reduce((s, p) => s + p.amountMinor, 0);
+  const approved = revisions.find((r) => r.status === "approved");
+  let due: { purpose: "deposit" | "balance"; amount: Money } | null = null;
+  if (approved && job.state === "approved" && approved.depositMinor - paidDeposits > 0)
+    due = { purpose: "deposit", amount: m(approved.depositMinor - paidDeposits) };
+  if (approved && job.state === "balance_due" && approved.totalMinor - paidTotal > 0)
+    due = { purpose: "balance", amount: m(approved.totalMinor - paidTotal) };
+  const inFlight = paymentRows.find((p) => p.status === "processing");
+
+  const estimate = current
+    ? {
+        id: current.id,
+        revision: current.revision,
+        status: current.status,
+        sentAt: current.sentAt.toISOString(),
+        decidedAt: current.decidedAt?.toISOString() ?? null,
+        changeSummary: current.changeSummary,
+        declineReason: current.declineReason,
+        decidable: job.state === "estimate_sent" && current.status === "sent",
+        groups: CATEGORY_ORDER.map((category) => {
+          const lines = current.lines.filter((l) => l.category === category);
+          return {
+            category,
+            label: CATEGORY_LABEL[category],
+            lines: lines.map((l) => ({
+              id: l.id,
+              title: l.title,
+              reason: l.reason,
+              minutes: l.minutes,
+              quantity: l.quantity,
+              labour: m(l.labourMinor),
+              parts: m(l.partsMinor),
+              coveredByWarranty: l.coveredByWarranty > 0,
+            })),
+            subtotal: m(lines.reduce((s, l) => s + l.labourMinor + l.partsMinor, 0)),
+          };
+        }).filter((g) => g.lines.length > 0),
+        labour: m(current.labourMinor),
+        parts: m(current.partsMinor),
+        labourTax: m(pricingNumber(current.pricing, "labourTaxMinor")),
+        partsTax: m(pricingNumber(current.pricing, "partsTaxMinor")),
+        tax: m(current.taxMinor),
+        total: m(current.totalMinor),
+        deposit: m(current.depositMinor),
+        balanceAfterDeposit: m(Math.max(0, current.totalMinor - current.depositMinor)),
+        warranty: warrantyOf(current.pricing),
+        earlier: revisions.slice(1).map((r) => ({
+          revision: r.revision,
+          status: r.status,
+          total: m(r.totalMinor),
+          changeSummary: r.changeSummary,
+          sentAt: r.sentAt.toISOString(),
+        })),
+      }
+    : null;
+
+  return {
+    job: {
+      id: job.id,
+      number: jobNumber(job.number),
+      state: job.state,
+      stateLabel: STATE_LABEL[job.state].owner,
+      stateIcon: STATE_LABEL[job.state].icon,
+      symptoms: job.symptoms,
+      priorWork: job.priorWork,
+      delivery: job.delivery,
+      isWarranty: job.isWarranty,
+      returnMethod: job.returnMethod,
+      carrier: job.carrier,
+      trackingNumber: job.trackingNumber,
+      createdAt: job.createdAt.toISOString(),
+      set: { maker: job.set.maker, model: job.set.model, year: job.set.year, serial: job.set.serial, kind: job.set.kind },
+    },
+    timeline: timeline.map((t) => ({
+      id: t.id,
+      state: t.toState as JobState,
+      label: STATE_LABEL[t.toState].owner,
+      icon: STATE_LABEL[t.toState].icon,
+      at: t.at.toISOString(),
+    })),
+    photos: photoRows.map((p) => ({
+      id: p.id,
+      name: p.displayName,
+      width: p.width,
+      height: p.height,
+      url: `/api/photos/${p.id}`,
+      thumbUrl: `/api/photos/${p.id}?size=thumb`,
+    })),
+    estimate,
+    payments: paymentRows
+      .filter((p) => p.status !== "open" && p.status !== "expired")
+      .map((p) => ({
+        id: p.id,
+        purpose: p.purpose,
+        status: p.status,
+        amount: m(p.amountMinor),
+        refunded: m(p.refundedMinor),
+        paidAt: p.paidAt?.toISOString() ?? null,
+      })),
+    due,
+    confirming: Boolean(inFlight),
+  };
+}
+
+export type PortalJobView = Awaited<ReturnType<typeof getPortalJobView>>;
+
+export async function getPortalMessages({ jobId, customerId }: { jobId: string; customerId: string }) {
+  const job = await getPortalJobForCustomer({ jobId, customerId });
+  if (!job) throw new AppError("not_found", "That job was not found.");
+  const rows = await listMessagesForCustomer({ jobId, customerId });
+  return rows.map((r) => ({
+    id: r.id,
+    body: r.body,
+    mine: r.authorId === customerId,
+    from: r.authorId === customerId ? "You" : `${r.authorName.split(" ")[0]} at the shop`,
+    isQuestion: r.isQuestion,
+    createdAt: r.createdAt.toISOString(),
+  }));
+}
+
+export type PortalMessage = Awaited<ReturnType<typeof getPortalMessages>>[number];

@@ -1,0 +1,74 @@
+import "server-only";
+import { createUploadthing, type FileRouter } from "uploadthing/next";
+import { UploadThingError, UTApi } from "uploadthing/server";
+import { countPhotosByUploaderSince } from "@/db/queries/photos";
+import { can } from "@/lib/engine/permissions";
+import { viewerFromHeaders } from "@/lib/server/session";
+import { acceptPhoto, PhotoRefused } from "@/lib/server/uploads/photos";
+import { MAX_PHOTO_BYTES, MAX_PHOTOS } from "@/lib/validation/quote";
+
+/** Photos one person may store per day: generous for real requests, a ceiling for abuse. */
+export const DAILY_PHOTO_QUOTA = 120;
+
+function friendly(message: string): string {
+  if (message.includes("FileSizeMismatch")) return `A photo is larger than ${MAX_PHOTO_BYTES / 1024 / 1024} MB. Please send a smaller one.`;
+  if (message.includes("FileCountMismatch")) return `At most ${MAX_PHOTOS} photos per request.`;
+  if (message.includes("InvalidFileType") || message.includes("UnknownFileType")) return "Only photos (JPEG, PNG or WebP) can be added.";
+  return message;
+}
+
+const f = createUploadthing({ errorFormatter: (err) => ({ message: friendly(`${err.message} ${String(err.cause ?? "")}`).trim() }) });
+
+export type PhotoServerData = { ok: true; ticket: string; width: number; height: number } | { ok: false; error: string };
+
+// The SDK trusts the browser's declared type and size; the bytes are judged in onUploadComplete.
+async function fetchCapped(url: string, cap: number): Promise<Buffer | "too-large"> {
+  const res = await fetch(url, { signal: AbortSignal.timeout(30_000) });
+  if (!res.ok || !res.body) throw new Error(`upload service answered ${res.status}`);
+  const chunks: Buffer[] = [];
+  let total = 0;
+  for await (const chunk of res.body as AsyncIterable<Uint8Array>) {
+    total += chunk.byteLength;
+    if (total > cap) return "too-large";
+    chunks.push(Buffer.from(chunk));
+  }
+  return Buffer.concat(chunks);
+}
+
+export const uploadRouter = {
+  quotePhotos: f({ image: { maxFileSize: "32MB", maxFileCount: MAX_PHOTOS } }, { awaitServerData: true })
+    .middleware(async ({ req }) => {
+      const viewer = await viewerFromHeaders(req.headers);
+      if (!viewer || !(can(viewer.role, "quote.request") || can(viewer.role, "claim.open"))) {
+        throw new UploadThingError({ code: "FORBIDDEN", message: "Please sign in to add photos." });
+      }
+      const recent = await countPhotosByUploaderSince({ uploaderId: viewer.id, since: new Date(Date.now() - 24 * 3600 * 1000) });
+      if (recent >= DAILY_PHOTO_QUOTA) {
+        throw new UploadThingError({
+          code: "FILE_LIMIT_EXCEEDED",
+          message: "You have sent a lot of photos today. Please try again tomorrow or write to the shop.",
+        });
+      }
+      return { uploaderId: viewer.id };
+    })
+    .onUploadComplete(async ({ file, metadata }): Promise<PhotoServerData> => {
+      const utapi = new UTApi();
+      try {
+        const bytes = await fetchCapped(file.ufsUrl, MAX_PHOTO_BYTES);
+        if (bytes === "too-large") {
+          return { ok: false, error: `This photo is larger than ${MAX_PHOTO_BYTES / 1024 / 1024} MB. Please send a smaller one.` };
+        }
+        const accepted = await acceptPhoto({ bytes, name: file.name, uploaderId: metadata.uploaderId });
+        return { ok: true, ...accepted };
+      } catch (error) {
+        if (error instanceof PhotoRefused) return { ok: false, error: error.message };
+        console.error("[bandedge] photo processing failed", error);
+        return { ok: false, error: "This photo could not be processed. Please try again." };
+      } finally {
+        // The original keeps its metadata (GPS included): only the re-encoded copy is kept.
+        await utapi.deleteFiles(file.key).catch((e: unknown) => console.error("[bandedge] could not delete the original upload", e));
+      }
+    }),
+} satisfies FileRouter;
+
+export type UploadRouter = typeof uploadRouter;

@@ -1,5 +1,0 @@
-import { startEmailWorker } from "./mail";
-
-export async function startWorkers(): Promise<void> {
-  await startEmailWorker();
-}

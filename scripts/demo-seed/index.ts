@@ -1,0 +1,38 @@
+import { sql } from "drizzle-orm";
+import { account, shopSettings, user } from "@/db/schema";
+import { transaction } from "@/db/transaction";
+import { hashPassword } from "@/lib/server/password";
+import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { seedDemoJobs } from "./jobs";
+import { DEMO_SHOP, DEMO_USERS } from "./users";
+
+export async function seedDemo(): Promise<string> {
+  const hashes = new Map<string, string>();
+  for (const u of DEMO_USERS) if (!hashes.has(u.password)) hashes.set(u.password, await hashPassword(u.password));
+
+  return transaction(async (ctx) => {
+    // One seed at a time, even if two starts race.
+    await ctx.tx.execute(sql`select pg_advisory_xact_lock(724021)`);
+    let createdUsers = 0;
+    for (const u of DEMO_USERS) {
+      const inserted = await ctx.tx
+        .insert(user)
+        .values({ id: u.id, name: u.name, email: u.email, emailVerified: true, role: u.role })
+        .onConflictDoNothing()
+        .returning({ id: user.id });
+      if (inserted.length) {
+        createdUsers++;
+        await ctx.tx
+          .insert(account)
+          .values({ id: `${u.id}-credential`, accountId: u.id, providerId: "credential", userId: u.id, password: hashes.get(u.password)! })
+          .onConflictDoNothing();
+      }
+    }
+    await ctx.tx
+      .insert(shopSettings)
+      .values({ id: "shop", ...DEMO_SHOP, policy: defaultShopPolicy as unknown as Record<string, unknown> })
+      .onConflictDoNothing();
+    const jobs = await seedDemoJobs(ctx);
+    return `${createdUsers} users created, ${jobs} jobs created`;
+  });
+}
