@@ -1,0 +1,67 @@
+import { checkAmount } from "./money";
+
+// One account of what is owed on a job, read by every page, e-mail, checkout, report and export.
+// Money the processor has taken counts once it is paid; money going back counts as soon as a refund is
+// asked for (pending) so that nothing is offered back twice, and is only "refunded" once the processor
+// confirms it.
+
+export type AccountPayment = {
+  amountMinor: number;
+  /** Only "paid" payments count; open, failed and expired sessions took nothing. */
+  status: string;
+};
+
+export type AccountRefund = {
+  amountMinor: number;
+  /** "succeeded" came back from the processor; "requested"/"pending" is on its way; "failed" took nothing. */
+  status: string;
+};
+
+export type Account = {
+  /** The approved revision's total (zero before any approval). */
+  totalMinor: number;
+  /** Sum of paid payments. */
+  paidMinor: number;
+  /** Refunds the processor confirmed. */
+  refundedMinor: number;
+  /** Refunds asked for and not yet settled either way. */
+  refundPendingMinor: number;
+  /** What the shop holds: paid − refunded − pending refunds. */
+  heldMinor: number;
+  /** What the owner still has to pay (never negative). */
+  owedMinor: number;
+  /** What the shop has to give back (never negative): held beyond the total. */
+  owedBackMinor: number;
+};
+
+const PENDING = new Set(["requested", "pending"]);
+
+export function accountOf({
+  totalMinor,
+  payments,
+  refunds,
+}: {
+  totalMinor: number;
+  payments: readonly AccountPayment[];
+  refunds: readonly AccountRefund[];
+}): Account {
+  const total = checkAmount(totalMinor, "totalMinor");
+  let paid = 0;
+  for (const p of payments) if (p.status === "paid") paid += checkAmount(p.amountMinor, "payments.amountMinor");
+  let refunded = 0;
+  let pending = 0;
+  for (const r of refunds) {
+    if (r.status === "succeeded") refunded += checkAmount(r.amountMinor, "refunds.amountMinor");
+    else if (PENDING.has(r.status)) pending += checkAmount(r.amountMinor, "refunds.amountMinor");
+  }
+  const held = paid - refunded - pending;
+  return {
+    totalMinor: total,
+    paidMinor: paid,
+    refundedMinor: refunded,
+    refundPendingMinor: pending,
+    heldMinor: held,
+    owedMinor: Math.max(0, total - held),
+    owedBackMinor: Math.max(0, held - total),
+  };
+}
