@@ -70,6 +70,13 @@ export default function HomePage() {
               </tr>
             </tbody>
           </table>
+          <p className="mt-3 text-sm">
+            Buying a set that came through our workshop?{" "}
+            <Link href="/verify" className="font-semibold">
+              Check its certificate
+            </Link>{" "}
+            with the code printed on it.
+          </p>
         </figure>
       </section>
 

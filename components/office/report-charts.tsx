@@ -5,6 +5,14 @@ import { Bar, BarChart, CartesianGrid, Legend, ResponsiveContainer, Tooltip, XAx
 // The charts are a picture of the tables printed beside them; screen readers get the tables.
 const AXIS = { fontSize: 12, fill: "#4a3f38" };
 
+/** "2026-03" → "Mar 26": short enough that every bar keeps its label, tilted, even on a phone. */
+function shortMonth(month: string): string {
+  const m = /^(\d{4})-(\d{2})$/.exec(month);
+  if (!m) return month;
+  return `${MONTHS[Number(m[2]) - 1] ?? m[2]} ${m[1].slice(2)}`;
+}
+const MONTHS = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"];
+
 export function JobsPerStateChart({ data }: { data: { label: string; count: number }[] }) {
   return (
     <div aria-hidden="true" className="h-72 w-full">
@@ -33,7 +41,7 @@ export function MoneyChart({
       <ResponsiveContainer width="100%" height="100%">
         <BarChart data={data} margin={{ left: 8, right: 16, top: 8, bottom: 8 }} accessibilityLayer={false}>
           <CartesianGrid stroke="#d9cdb8" vertical={false} />
-          <XAxis dataKey="month" tick={AXIS} />
+          <XAxis dataKey="month" tick={AXIS} interval={0} angle={-35} textAnchor="end" height={48} tickFormatter={shortMonth} />
           <YAxis tick={AXIS} width={70} label={{ value: currency, angle: -90, position: "insideLeft", fill: "#4a3f38", fontSize: 12 }} />
           <Tooltip />
           <Legend formatter={(value: string) => <span style={{ color: "#2a2320" }}>{value}</span>} />
@@ -52,7 +60,7 @@ export function TurnaroundChart({ data }: { data: { month: string; medianDays: n
       <ResponsiveContainer width="100%" height="100%">
         <BarChart data={data} margin={{ left: 8, right: 16, top: 8, bottom: 8 }} accessibilityLayer={false}>
           <CartesianGrid stroke="#d9cdb8" vertical={false} />
-          <XAxis dataKey="month" tick={AXIS} />
+          <XAxis dataKey="month" tick={AXIS} interval={0} angle={-35} textAnchor="end" height={48} tickFormatter={shortMonth} />
           <YAxis tick={AXIS} width={50} label={{ value: "days", angle: -90, position: "insideLeft", fill: "#4a3f38", fontSize: 12 }} />
           <Tooltip />
           <Bar dataKey="medianDays" name="Median days" fill="#7a5440" maxBarSize={40} isAnimationActive={false} />

@@ -30,7 +30,7 @@ describe("an owner of a set signs up, verifies, signs in and resets a password",
     const verify = await waitForMail(email, "Confirm your e-mail");
     await page.goto(firstLink(verify, "verify-email"));
     await page.waitForURL(/\/portal/);
-    await expect.poll(() => page.getByRole("heading", { name: "My sets" }).count()).toBe(1);
+    await expect.poll(() => page.getByRole("heading", { name: "My jobs" }).count()).toBe(1);
     await snap(page, "account-02-portal");
 
     await page.getByRole("button", { name: "Sign out" }).click();

@@ -5,7 +5,7 @@ import { listJobsForCustomer } from "@/db/queries/jobs";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { requirePermission } from "@/lib/server/session";
 
-export const metadata: Metadata = { title: "My sets" };
+export const metadata: Metadata = { title: "My jobs" };
 
 export default async function PortalPage() {
   const viewer = await requirePermission("portal.use", "/portal");
@@ -14,7 +14,7 @@ export default async function PortalPage() {
     <div className="space-y-6">
       <div className="flex flex-wrap items-end justify-between gap-4">
         <div>
-          <h1 className="text-3xl font-bold">My sets</h1>
+          <h1 className="text-3xl font-bold">My jobs</h1>
           <p className="text-bakelite-soft">Every set you have sent us, where it is, and what we need from you.</p>
         </div>
         <Link href="/portal/request" className="btn-primary">

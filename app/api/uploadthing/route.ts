@@ -6,7 +6,8 @@ import { uploadRouter } from "@/lib/server/uploads/router";
 
 export const dynamic = "force-dynamic";
 
-const handler = createRouteHandler({ router: uploadRouter, config: { handleDaemonPromise: "await" } });
+// Warnings and errors only: at its default level the SDK prints a JSON line per request, signed URLs included.
+const handler = createRouteHandler({ router: uploadRouter, config: { handleDaemonPromise: "await", logLevel: "Warning" } });
 
 export const GET = handler.GET;
 

@@ -52,7 +52,8 @@ export const uploadRouter = {
       return { uploaderId: viewer.id };
     })
     .onUploadComplete(async ({ file, metadata }): Promise<PhotoServerData> => {
-      const utapi = new UTApi();
+      // Warnings and errors only: the SDK logs signed file URLs at its default level.
+      const utapi = new UTApi({ logLevel: "Warning" });
       try {
         const bytes = await fetchCapped(file.ufsUrl, MAX_PHOTO_BYTES);
         if (bytes === "too-large") {
