@@ -15,6 +15,8 @@ type Item = {
   preview: string;
   progress: number;
   status: "uploading" | "done" | "refused" | "failed";
+  /** The browser could not draw the file (not an image it can decode): show a plain mark, not a broken image. */
+  noPreview?: boolean;
   message?: string;
   ticket?: string;
   controller?: AbortController;
@@ -183,8 +185,22 @@ export function PhotoPicker({
         <ul ref={listRef} className="grid gap-3 sm:grid-cols-2" aria-label="Photos added">
           {items.map((item) => (
             <li key={item.id} className="card flex gap-3 p-3" data-status={item.status}>
-              {/* eslint-disable-next-line @next/next/no-img-element */}
-              <img src={item.preview} alt="" className="h-16 w-16 shrink-0 rounded object-cover" />
+              {item.status === "refused" || item.noPreview ? (
+                <span
+                  aria-hidden="true"
+                  className="flex h-16 w-16 shrink-0 items-center justify-center rounded border border-dial-rule bg-dial-deep text-2xl text-bakelite-muted"
+                >
+                  ⊘
+                </span>
+              ) : (
+                // eslint-disable-next-line @next/next/no-img-element -- a local blob preview of the chosen file; the image optimiser cannot read it
+                <img
+                  src={item.preview}
+                  alt=""
+                  className="h-16 w-16 shrink-0 rounded object-cover"
+                  onError={() => patch(item.id, { noPreview: true })}
+                />
+              )}
               <div className="min-w-0 flex-1 space-y-1">
                 <p className="truncate text-sm font-semibold">{item.file.name}</p>
                 {item.status === "uploading" ? (

@@ -434,7 +434,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
               {detail.photos.map((p) => (
                 <li key={p.id}>
                   <a href={p.url ?? "#"} target="_blank" rel="noreferrer">
-                    {/* eslint-disable-next-line @next/next/no-img-element */}
+                    {/* eslint-disable-next-line @next/next/no-img-element -- photos come re-encoded from our own authorised route; the image optimiser would fetch them without the session */}
                     <img src={p.thumbUrl ?? p.url ?? ""} alt={p.displayName} className="h-20 w-full rounded object-cover" />
                   </a>
                 </li>
