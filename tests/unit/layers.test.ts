@@ -20,7 +20,8 @@ async function findings(filePath: string, code: string): Promise<string[]> {
 
 const layerRule = /no-restricted-(paths|imports|properties)/;
 
-describe("import boundaries", () => {
+// Loading ESLint with its plugins takes seconds on a busy machine; the findings themselves are quick.
+describe("import boundaries", { timeout: 60_000 }, () => {
   it("reports the engine importing the database client", async () => {
     const found = await findings("lib/engine/alignment/wrong.ts", 'import { db } from "@/db";\nexport const x = db;\n');
     expect(found.some((f) => f.startsWith("import/no-restricted-paths") && f.includes("engine is pure"))).toBe(true);
