@@ -21,9 +21,10 @@ export function AreaShell({
     <>
       <SiteHeader viewer={viewer} />
       <div className="border-b border-dial-rule bg-dial-deep">
-        <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-5 gap-y-1 px-4 py-2 text-sm">
-          <span className="font-serif font-bold">{title}</span>
-          <nav aria-label={`${title} sections`} className="flex flex-wrap gap-x-4 gap-y-1">
+        <div className="mx-auto flex max-w-page items-center gap-x-5 px-4 py-2 text-sm">
+          <span className="hidden shrink-0 font-serif font-bold sm:inline">{title}</span>
+          {/* On a phone the sections stay on one line and slide sideways inside their own bar. */}
+          <nav aria-label={`${title} sections`} className="-my-1 flex min-w-0 gap-x-4 overflow-x-auto py-1 whitespace-nowrap sm:flex-wrap">
             {nav.map((n) => (
               <Link key={n.href} href={n.href} className="text-bakelite no-underline hover:text-ember-dark hover:underline">
                 {n.label}

@@ -25,31 +25,35 @@ function DialMark() {
 export type HeaderViewer = { name: string; role: Role } | null;
 
 export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
+  // One link per area; each area's own sections are in the bar beneath (AreaShell), never repeated here.
   const links: { href: string; label: string }[] = [];
   if (viewer) {
     if (can(viewer.role, "portal.use")) links.push({ href: "/portal", label: "My sets" });
-    if (can(viewer.role, "bench.use"))
-      links.push({ href: "/bench", label: "Bench" }, { href: "/bench/calculator", label: "Alignment calculator" });
+    if (can(viewer.role, "bench.use")) links.push({ href: "/bench", label: "Bench" });
     if (can(viewer.role, "office.use")) links.push({ href: "/office", label: "Office" });
   }
   return (
     <header className="border-b-4 border-walnut bg-bakelite text-dial">
       <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
-        <Link href="/" className="flex items-center gap-2 text-dial no-underline">
+        <Link href="/" className="flex min-w-0 items-center gap-2 text-dial no-underline">
           <DialMark />
-          <span className="font-serif text-lg font-bold tracking-wide">Kestrel Lane Wireless</span>
+          <span className="truncate font-serif text-lg font-bold tracking-wide">
+            Kestrel Lane<span className="hidden sm:inline"> Wireless</span>
+          </span>
         </Link>
-        <nav aria-label="Main" className="flex flex-1 flex-wrap items-center gap-4 text-sm">
-          {links.map((l) => (
-            <Link key={l.href} href={l.href} className="text-dial no-underline hover:text-brass-light hover:underline">
-              {l.label}
-            </Link>
-          ))}
-        </nav>
-        <div className="flex items-center gap-3 text-sm">
+        {links.length > 0 && (
+          <nav aria-label="Main" className="order-3 flex w-full items-center gap-4 text-sm sm:order-none sm:w-auto sm:flex-1">
+            {links.map((l) => (
+              <Link key={l.href} href={l.href} className="text-dial no-underline hover:text-brass-light hover:underline">
+                {l.label}
+              </Link>
+            ))}
+          </nav>
+        )}
+        <div className="ml-auto flex items-center gap-3 text-sm">
           {viewer ? (
             <>
-              <span className="text-dial-deep">
+              <span className="hidden text-dial-deep sm:inline">
                 {viewer.name} <span className="text-brass-light">· {ROLE_LABEL[viewer.role]}</span>
               </span>
               <SignOutButton />
@@ -59,7 +63,10 @@ export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
               <Link href="/sign-in" className="text-dial no-underline hover:underline">
                 Sign in
               </Link>
-              <Link href="/sign-up" className="rounded-card bg-ember px-3 py-1.5 font-semibold text-white no-underline hover:bg-ember-dark">
+              <Link
+                href="/sign-up"
+                className="rounded-card bg-ember px-3 py-1.5 font-semibold whitespace-nowrap text-white no-underline hover:bg-ember-dark"
+              >
                 Request a quote
               </Link>
             </>

@@ -20,6 +20,7 @@ import type { QueueQueryInput, QueueSort } from "@/lib/validation/bench";
 import { INITIAL_QUEUE_PARAMS } from "@/lib/validation/queue-params";
 import { api, errorText } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
+import { TableScroll } from "@/components/ui/table-scroll";
 
 type QueueRow = {
   id: string;
@@ -279,52 +280,60 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
       ) : null}
 
       <div className="card overflow-x-auto">
-        <table className="dense-table" aria-label="Job queue" aria-busy={result.isFetching}>
-          <thead>
-            {table.getHeaderGroups().map((group) => (
-              <tr key={group.id}>
-                {group.headers.map((header) => {
-                  const sorted = header.column.getIsSorted();
-                  return (
-                    <th key={header.id} scope="col" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
-                      {header.isPlaceholder ? null : header.column.getCanSort() ? (
-                        <button
-                          type="button"
-                          className="inline-flex items-center gap-1 font-semibold"
-                          onClick={header.column.getToggleSortingHandler()}
-                        >
+        <TableScroll label="Job queue table">
+          <table className="dense-table" aria-label="Job queue" aria-busy={result.isFetching}>
+            <thead>
+              {table.getHeaderGroups().map((group) => (
+                <tr key={group.id}>
+                  {group.headers.map((header) => {
+                    const sorted = header.column.getIsSorted();
+                    return (
+                      <th
+                        key={header.id}
+                        scope="col"
+                        aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}
+                      >
+                        {header.isPlaceholder ? null : header.column.getCanSort() ? (
+                          <button
+                            type="button"
+                            className="inline-flex items-center gap-1 font-semibold"
+                            onClick={header.column.getToggleSortingHandler()}
+                          >
+                            <table.FlexRender header={header} />
+                            <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                            <span className="sr-only">
+                              {sorted ? `, sorted ${sorted === "asc" ? "ascending" : "descending"}` : ", sort"}
+                            </span>
+                          </button>
+                        ) : (
                           <table.FlexRender header={header} />
-                          <span aria-hidden="true">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
-                          <span className="sr-only">{sorted ? `, sorted ${sorted === "asc" ? "ascending" : "descending"}` : ", sort"}</span>
-                        </button>
-                      ) : (
-                        <table.FlexRender header={header} />
-                      )}
-                    </th>
-                  );
-                })}
-              </tr>
-            ))}
-          </thead>
-          <tbody>
-            {table.getRowModel().rows.map((row) => (
-              <tr key={row.id} data-job={row.original.number}>
-                {row.getAllCells().map((cell) => (
-                  <td key={cell.id}>
-                    <table.FlexRender cell={cell} />
+                        )}
+                      </th>
+                    );
+                  })}
+                </tr>
+              ))}
+            </thead>
+            <tbody>
+              {table.getRowModel().rows.map((row) => (
+                <tr key={row.id} data-job={row.original.number}>
+                  {row.getAllCells().map((cell) => (
+                    <td key={cell.id}>
+                      <table.FlexRender cell={cell} />
+                    </td>
+                  ))}
+                </tr>
+              ))}
+              {result.data && result.data.rows.length === 0 ? (
+                <tr>
+                  <td colSpan={6} className="py-6 text-center text-bakelite-muted">
+                    No jobs match these filters.
                   </td>
-                ))}
-              </tr>
-            ))}
-            {result.data && result.data.rows.length === 0 ? (
-              <tr>
-                <td colSpan={6} className="py-6 text-center text-bakelite-muted">
-                  No jobs match these filters.
-                </td>
-              </tr>
-            ) : null}
-          </tbody>
-        </table>
+                </tr>
+              ) : null}
+            </tbody>
+          </table>
+        </TableScroll>
       </div>
 
       <nav aria-label="Queue pages" className="flex flex-wrap items-center gap-3 text-sm">

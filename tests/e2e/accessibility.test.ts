@@ -1,9 +1,9 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO } from "../support/accounts";
 import { sql } from "../support/db";
 import { axeViolations, describeViolations } from "../support/axe";
 import { launchBrowser, newContext, signInPage } from "../support/browser";
+import { AUDIENCES } from "../support/pages";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -12,43 +12,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await browser?.close();
 });
-
-// Every page in its main state, per audience. Pages with ids are reached by following the first link of a list.
-const AUDIENCES: {
-  who: string;
-  login?: { email: string; password: string };
-  pages: string[];
-  follow?: { from: string; link: RegExp }[];
-  certificatePage?: boolean;
-}[] = [
-  { who: "anonymous", pages: ["/", "/sign-in", "/sign-up", "/reset-password", "/verify", "/mailbox"], certificatePage: true },
-  {
-    who: "set owner",
-    login: DEMO.customer,
-    pages: ["/portal", "/portal/request", "/portal/claims"],
-    follow: [
-      { from: "/portal", link: /Aurelian/ },
-      { from: "/portal", link: /Haldane/ },
-      { from: "/portal/claims", link: /KL-|Aurelian|claim/i },
-    ],
-  },
-  {
-    who: "technician",
-    login: DEMO.tech,
-    pages: ["/bench", "/bench/calculator", "/bench/claims"],
-    follow: [
-      { from: "/bench", link: /KL-0008/ },
-      { from: "/bench", link: /KL-0002/ },
-      { from: "/bench/claims", link: /KL-|Aurelian|claim/i },
-    ],
-  },
-  {
-    who: "shop owner",
-    login: DEMO.owner,
-    pages: ["/office", "/office/staff", "/office/settings", "/office/payments", "/office/certificates", "/office/audit", "/office/reports"],
-    follow: [{ from: "/office/payments", link: /KL-/ }],
-  },
-];
 
 async function check(page: Page, path: string) {
   await page.goto(path);

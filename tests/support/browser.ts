@@ -19,10 +19,18 @@ export async function launchBrowser(): Promise<Browser> {
   });
 }
 
-export async function newContext(browser: Browser): Promise<BrowserContext> {
+/** A phone held upright: 390 CSS pixels wide, touch, mobile viewport rules. */
+export const PHONE = { viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true } as const;
+
+export async function newContext(
+  browser: Browser,
+  device: { viewport: { width: number; height: number }; isMobile?: boolean; hasTouch?: boolean } = {
+    viewport: { width: 1280, height: 900 },
+  },
+): Promise<BrowserContext> {
   return browser.newContext({
     baseURL: testEnv.appUrl,
-    viewport: { width: 1280, height: 900 },
+    ...device,
     extraHTTPHeaders: { "x-forwarded-for": nextTestIp() },
   });
 }

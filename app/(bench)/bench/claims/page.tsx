@@ -6,6 +6,7 @@ import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/serv
 import { requirePermission } from "@/lib/server/session";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
 import type { ClaimSymptom } from "@/lib/engine/warranty";
+import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Claims" };
 
@@ -36,44 +37,46 @@ export default async function BenchClaimsPage({ searchParams }: { searchParams: 
       {rows.length === 0 ? (
         <p className="text-bakelite-soft">No claims here.</p>
       ) : (
-        <table className="dense-table w-full">
-          <thead>
-            <tr>
-              <th scope="col">Opened</th>
-              <th scope="col">Set</th>
-              <th scope="col">Claimant</th>
-              <th scope="col">Symptom</th>
-              <th scope="col">Advice</th>
-              <th scope="col">Status</th>
-              <th scope="col">Original job</th>
-            </tr>
-          </thead>
-          <tbody>
-            {rows.map((r) => {
-              const advice = r.claim.advice as unknown as StoredAdvice;
-              const set = (r.certificateContent as { set?: { maker?: string; model?: string } }).set;
-              const status = CLAIM_STATUS_LABEL[r.claim.status];
-              return (
-                <tr key={r.claim.id}>
-                  <td className="figure">{r.claim.createdAt.toISOString().slice(0, 10)}</td>
-                  <td>
-                    <Link href={`/bench/claims/${r.claim.id}`}>
-                      {set?.maker} {set?.model}
-                    </Link>
-                  </td>
-                  <td>{r.claimantName}</td>
-                  <td>{SYMPTOM_LABEL[r.claim.symptomCategory as ClaimSymptom] ?? r.claim.symptomCategory}</td>
-                  <td>{OUTCOME_LABEL[advice.outcome] ?? "—"}</td>
-                  <td>
-                    <span aria-hidden="true">{status.icon} </span>
-                    {status.staff}
-                  </td>
-                  <td className="figure">{jobNumber(r.jobNumber)}</td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
+        <TableScroll label="Claims">
+          <table className="dense-table w-full">
+            <thead>
+              <tr>
+                <th scope="col">Opened</th>
+                <th scope="col">Set</th>
+                <th scope="col">Claimant</th>
+                <th scope="col">Symptom</th>
+                <th scope="col">Advice</th>
+                <th scope="col">Status</th>
+                <th scope="col">Original job</th>
+              </tr>
+            </thead>
+            <tbody>
+              {rows.map((r) => {
+                const advice = r.claim.advice as unknown as StoredAdvice;
+                const set = (r.certificateContent as { set?: { maker?: string; model?: string } }).set;
+                const status = CLAIM_STATUS_LABEL[r.claim.status];
+                return (
+                  <tr key={r.claim.id}>
+                    <td className="figure">{r.claim.createdAt.toISOString().slice(0, 10)}</td>
+                    <td>
+                      <Link href={`/bench/claims/${r.claim.id}`}>
+                        {set?.maker} {set?.model}
+                      </Link>
+                    </td>
+                    <td>{r.claimantName}</td>
+                    <td>{SYMPTOM_LABEL[r.claim.symptomCategory as ClaimSymptom] ?? r.claim.symptomCategory}</td>
+                    <td>{OUTCOME_LABEL[advice.outcome] ?? "—"}</td>
+                    <td>
+                      <span aria-hidden="true">{status.icon} </span>
+                      {status.staff}
+                    </td>
+                    <td className="figure">{jobNumber(r.jobNumber)}</td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </TableScroll>
       )}
     </div>
   );

@@ -7,6 +7,7 @@ import { AUDIT_PAGE_SIZE, auditFilterOptionsForOwner, listAuditEventsForOwner } 
 import { zodFields } from "@/lib/server/route-handler";
 import { requirePermission } from "@/lib/server/session";
 import { auditFilterSchema, type AuditFilter } from "@/lib/validation/office";
+import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Audit log" };
 
@@ -144,33 +145,35 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
           {total === 0 ? "No entries" : `Entries ${firstRow}–${firstRow + rows.length - 1} of ${total}`}
         </h2>
         {rows.length > 0 ? (
-          <table className="dense-table">
-            <thead>
-              <tr>
-                <th scope="col">When</th>
-                <th scope="col">Who</th>
-                <th scope="col">Action</th>
-                <th scope="col">Record</th>
-                <th scope="col">Before → after</th>
-              </tr>
-            </thead>
-            <tbody>
-              {rows.map((r) => (
-                <tr key={r.id}>
-                  <td className="figure whitespace-nowrap">{formatWhen(r.at)}</td>
-                  <td>{r.actorId ? (r.actorName ?? r.actorId) : <span className="text-bakelite-muted">System</span>}</td>
-                  <td className="figure">{r.action}</td>
-                  <td>
-                    {r.entity}
-                    <span className="figure block break-all text-xs text-bakelite-muted">{r.entityId}</span>
-                  </td>
-                  <td className="min-w-72">
-                    <AuditChange before={r.before} after={r.after} />
-                  </td>
+          <TableScroll label="Audit entries">
+            <table className="dense-table">
+              <thead>
+                <tr>
+                  <th scope="col">When</th>
+                  <th scope="col">Who</th>
+                  <th scope="col">Action</th>
+                  <th scope="col">Record</th>
+                  <th scope="col">Before → after</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {rows.map((r) => (
+                  <tr key={r.id}>
+                    <td className="figure whitespace-nowrap">{formatWhen(r.at)}</td>
+                    <td>{r.actorId ? (r.actorName ?? r.actorId) : <span className="text-bakelite-muted">System</span>}</td>
+                    <td className="figure">{r.action}</td>
+                    <td>
+                      {r.entity}
+                      <span className="figure block break-all text-xs text-bakelite-muted">{r.entityId}</span>
+                    </td>
+                    <td className="min-w-72">
+                      <AuditChange before={r.before} after={r.after} />
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </TableScroll>
         ) : (
           <p className="text-sm text-bakelite-soft">Nothing matches these filters.</p>
         )}

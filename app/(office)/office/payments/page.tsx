@@ -6,6 +6,7 @@ import { listPaymentsForOffice } from "@/db/queries/office";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { getShop } from "@/lib/server/services/shop";
 import { requirePermission } from "@/lib/server/session";
+import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Payments" };
 
@@ -51,59 +52,61 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
         {rows.length === 0 ? (
           <p className="text-sm text-bakelite-soft">No payments to show.</p>
         ) : (
-          <table className="dense-table">
-            <thead>
-              <tr>
-                <th scope="col">Job</th>
-                <th scope="col">Set and owner</th>
-                <th scope="col">Purpose</th>
-                <th scope="col" className="text-right">
-                  Amount
-                </th>
-                <th scope="col">Status</th>
-                <th scope="col">Paid at</th>
-                <th scope="col" className="text-right">
-                  Refunded so far
-                </th>
-                <th scope="col">
-                  <span className="sr-only">Open</span>
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {rows.map((p) => (
-                <tr key={p.id}>
-                  <td className="figure whitespace-nowrap">{jobNumber(p.jobNumber)}</td>
-                  <td>
-                    {p.maker} {p.model}
-                    <span className="block text-xs text-bakelite-muted">{p.customerName}</span>
-                  </td>
-                  <td>{PURPOSE_LABEL[p.purpose]}</td>
-                  <td className="figure whitespace-nowrap text-right">{formatMoney(p.amountMinor, currency)}</td>
-                  <td>
-                    <span aria-hidden="true">{PAYMENT_STATUS_LABEL[p.status].icon} </span>
-                    {PAYMENT_STATUS_LABEL[p.status].text}
-                  </td>
-                  <td className="figure whitespace-nowrap">{formatWhen(p.paidAt)}</td>
-                  <td className="figure whitespace-nowrap text-right">
-                    {formatMoney(p.refundedMinor, currency)}
-                    {p.inFlightMinor > 0 ? (
-                      <span className="block text-xs text-bakelite-muted">+ {formatMoney(p.inFlightMinor, currency)} waiting</span>
-                    ) : null}
-                  </td>
-                  <td>
-                    <Link href={`/office/payments/${p.id}`}>
-                      {p.status === "paid" ? "Open / refund" : "Open"}
-                      <span className="sr-only">
-                        {" "}
-                        {PURPOSE_LABEL[p.purpose].toLowerCase()} for {jobNumber(p.jobNumber)}
-                      </span>
-                    </Link>
-                  </td>
+          <TableScroll label="Payments">
+            <table className="dense-table">
+              <thead>
+                <tr>
+                  <th scope="col">Job</th>
+                  <th scope="col">Set and owner</th>
+                  <th scope="col">Purpose</th>
+                  <th scope="col" className="text-right">
+                    Amount
+                  </th>
+                  <th scope="col">Status</th>
+                  <th scope="col">Paid at</th>
+                  <th scope="col" className="text-right">
+                    Refunded so far
+                  </th>
+                  <th scope="col">
+                    <span className="sr-only">Open</span>
+                  </th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {rows.map((p) => (
+                  <tr key={p.id}>
+                    <td className="figure whitespace-nowrap">{jobNumber(p.jobNumber)}</td>
+                    <td>
+                      {p.maker} {p.model}
+                      <span className="block text-xs text-bakelite-muted">{p.customerName}</span>
+                    </td>
+                    <td>{PURPOSE_LABEL[p.purpose]}</td>
+                    <td className="figure whitespace-nowrap text-right">{formatMoney(p.amountMinor, currency)}</td>
+                    <td>
+                      <span aria-hidden="true">{PAYMENT_STATUS_LABEL[p.status].icon} </span>
+                      {PAYMENT_STATUS_LABEL[p.status].text}
+                    </td>
+                    <td className="figure whitespace-nowrap">{formatWhen(p.paidAt)}</td>
+                    <td className="figure whitespace-nowrap text-right">
+                      {formatMoney(p.refundedMinor, currency)}
+                      {p.inFlightMinor > 0 ? (
+                        <span className="block text-xs text-bakelite-muted">+ {formatMoney(p.inFlightMinor, currency)} waiting</span>
+                      ) : null}
+                    </td>
+                    <td>
+                      <Link href={`/office/payments/${p.id}`}>
+                        {p.status === "paid" ? "Open / refund" : "Open"}
+                        <span className="sr-only">
+                          {" "}
+                          {PURPOSE_LABEL[p.purpose].toLowerCase()} for {jobNumber(p.jobNumber)}
+                        </span>
+                      </Link>
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </TableScroll>
         )}
         <nav aria-label="Pages" className="mt-3 flex gap-4 text-sm">
           {page > 1 ? <Link href={href(page - 1)}>← Newer</Link> : null}

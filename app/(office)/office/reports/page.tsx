@@ -8,6 +8,7 @@ import { STATE_LABEL } from "@/lib/engine/jobs/states";
 import { getShop } from "@/lib/server/services/shop";
 import { requirePermission } from "@/lib/server/session";
 import { reportRangeSchema } from "@/lib/validation/office";
+import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Reports" };
 
@@ -111,28 +112,30 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           ) : (
             <p className="text-sm">No jobs opened in these months.</p>
           )}
-          <table className="dense-table h-fit" id="table-states">
-            <caption className="sr-only">Jobs per state</caption>
-            <thead>
-              <tr>
-                <th scope="col">State</th>
-                <th scope="col" className="text-right">
-                  Jobs
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {r.jobsPerState.map((s) => (
-                <tr key={s.state} data-state={s.state}>
-                  <th scope="row" className="bg-transparent font-normal">
-                    <span aria-hidden="true">{STATE_LABEL[s.state].icon} </span>
-                    {STATE_LABEL[s.state].staff}
+          <TableScroll label="Jobs by state">
+            <table className="dense-table h-fit" id="table-states">
+              <caption className="sr-only">Jobs per state</caption>
+              <thead>
+                <tr>
+                  <th scope="col">State</th>
+                  <th scope="col" className="text-right">
+                    Jobs
                   </th>
-                  <td className="figure text-right">{s.count}</td>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {r.jobsPerState.map((s) => (
+                  <tr key={s.state} data-state={s.state}>
+                    <th scope="row" className="bg-transparent font-normal">
+                      <span aria-hidden="true">{STATE_LABEL[s.state].icon} </span>
+                      {STATE_LABEL[s.state].staff}
+                    </th>
+                    <td className="figure text-right">{s.count}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </TableScroll>
         </div>
       </section>
 
@@ -155,31 +158,33 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
               medianDays: m.medianDays === null ? null : Number(m.medianDays.toFixed(1)),
             }))}
           />
-          <table className="dense-table h-fit" id="table-turnaround">
-            <caption className="sr-only">Median turnaround per month of return</caption>
-            <thead>
-              <tr>
-                <th scope="col">Month returned</th>
-                <th scope="col" className="text-right">
-                  Jobs
-                </th>
-                <th scope="col" className="text-right">
-                  Median days
-                </th>
-              </tr>
-            </thead>
-            <tbody>
-              {r.turnaround.byMonth.map((m) => (
-                <tr key={m.month}>
-                  <th scope="row" className="figure bg-transparent font-normal">
-                    {m.month}
+          <TableScroll label="Turnaround by month">
+            <table className="dense-table h-fit" id="table-turnaround">
+              <caption className="sr-only">Median turnaround per month of return</caption>
+              <thead>
+                <tr>
+                  <th scope="col">Month returned</th>
+                  <th scope="col" className="text-right">
+                    Jobs
                   </th>
-                  <td className="figure text-right">{m.jobs}</td>
-                  <td className="figure text-right">{days(m.medianDays)}</td>
+                  <th scope="col" className="text-right">
+                    Median days
+                  </th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {r.turnaround.byMonth.map((m) => (
+                  <tr key={m.month}>
+                    <th scope="row" className="figure bg-transparent font-normal">
+                      {m.month}
+                    </th>
+                    <td className="figure text-right">{m.jobs}</td>
+                    <td className="figure text-right">{days(m.medianDays)}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </TableScroll>
         </div>
       </section>
 
@@ -202,50 +207,56 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
             }))}
           />
           <div className="overflow-x-auto">
-            <table className="dense-table" id="table-money">
-              <caption className="sr-only">Money per month</caption>
-              <thead>
-                <tr>
-                  <th scope="col">Month</th>
-                  <th scope="col" className="text-right">
-                    Deposits
-                  </th>
-                  <th scope="col" className="text-right">
-                    Balances
-                  </th>
-                  <th scope="col" className="text-right">
-                    Refunds
-                  </th>
-                  <th scope="col" className="text-right">
-                    Net revenue
-                  </th>
-                </tr>
-              </thead>
-              <tbody>
-                {r.money.map((m) => (
-                  <tr key={m.month} data-month={m.month}>
-                    <th scope="row" className="figure bg-transparent font-normal">
-                      {m.month}
+            <TableScroll label="Money by month">
+              <table className="dense-table" id="table-money">
+                <caption className="sr-only">Money per month</caption>
+                <thead>
+                  <tr>
+                    <th scope="col">Month</th>
+                    <th scope="col" className="text-right">
+                      Deposits
                     </th>
-                    <td className="figure whitespace-nowrap text-right">{formatMoney(m.depositsMinor, currency)}</td>
-                    <td className="figure whitespace-nowrap text-right">{formatMoney(m.balancesMinor, currency)}</td>
-                    <td className="figure whitespace-nowrap text-right">{formatMoney(m.refundsMinor, currency)}</td>
-                    <td className="figure whitespace-nowrap text-right">{formatMoney(m.netMinor, currency)}</td>
+                    <th scope="col" className="text-right">
+                      Balances
+                    </th>
+                    <th scope="col" className="text-right">
+                      Refunds
+                    </th>
+                    <th scope="col" className="text-right">
+                      Net revenue
+                    </th>
                   </tr>
-                ))}
-              </tbody>
-              <tfoot>
-                <tr>
-                  <th scope="row" className="border-t border-bakelite-soft px-2 py-1.5 text-left">
-                    Total
-                  </th>
-                  <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">{formatMoney(totals.deposits, currency)}</td>
-                  <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">{formatMoney(totals.balances, currency)}</td>
-                  <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">{formatMoney(totals.refunds, currency)}</td>
-                  <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">{formatMoney(totals.net, currency)}</td>
-                </tr>
-              </tfoot>
-            </table>
+                </thead>
+                <tbody>
+                  {r.money.map((m) => (
+                    <tr key={m.month} data-month={m.month}>
+                      <th scope="row" className="figure bg-transparent font-normal">
+                        {m.month}
+                      </th>
+                      <td className="figure whitespace-nowrap text-right">{formatMoney(m.depositsMinor, currency)}</td>
+                      <td className="figure whitespace-nowrap text-right">{formatMoney(m.balancesMinor, currency)}</td>
+                      <td className="figure whitespace-nowrap text-right">{formatMoney(m.refundsMinor, currency)}</td>
+                      <td className="figure whitespace-nowrap text-right">{formatMoney(m.netMinor, currency)}</td>
+                    </tr>
+                  ))}
+                </tbody>
+                <tfoot>
+                  <tr>
+                    <th scope="row" className="border-t border-bakelite-soft px-2 py-1.5 text-left">
+                      Total
+                    </th>
+                    <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">
+                      {formatMoney(totals.deposits, currency)}
+                    </td>
+                    <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">
+                      {formatMoney(totals.balances, currency)}
+                    </td>
+                    <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">{formatMoney(totals.refunds, currency)}</td>
+                    <td className="figure border-t border-bakelite-soft px-2 py-1.5 text-right">{formatMoney(totals.net, currency)}</td>
+                  </tr>
+                </tfoot>
+              </table>
+            </TableScroll>
           </div>
         </div>
       </section>

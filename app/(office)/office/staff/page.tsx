@@ -3,6 +3,7 @@ import { listStaff } from "@/db/queries/staff";
 import { isRole } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 import { InviteForm, StaffRow } from "./_components/staff-controls";
+import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Staff" };
 
@@ -16,28 +17,30 @@ export default async function StaffPage() {
         <h2 id="staff-list" className="mb-3 text-lg font-semibold">
           People with access to the bench
         </h2>
-        <table className="dense-table">
-          <thead>
-            <tr>
-              <th scope="col">Name</th>
-              <th scope="col">E-mail</th>
-              <th scope="col">Role</th>
-              <th scope="col">Status</th>
-              <th scope="col">
-                <span className="sr-only">Actions</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {staff.map((s) => (
-              <StaffRow
-                key={s.id}
-                person={{ id: s.id, name: s.name, email: s.email, role: isRole(s.role) ? s.role : "customer", active: !s.banned }}
-                self={s.id === viewer.id}
-              />
-            ))}
-          </tbody>
-        </table>
+        <TableScroll label="Staff">
+          <table className="dense-table">
+            <thead>
+              <tr>
+                <th scope="col">Name</th>
+                <th scope="col">E-mail</th>
+                <th scope="col">Role</th>
+                <th scope="col">Status</th>
+                <th scope="col">
+                  <span className="sr-only">Actions</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {staff.map((s) => (
+                <StaffRow
+                  key={s.id}
+                  person={{ id: s.id, name: s.name, email: s.email, role: isRole(s.role) ? s.role : "customer", active: !s.banned }}
+                  self={s.id === viewer.id}
+                />
+              ))}
+            </tbody>
+          </table>
+        </TableScroll>
       </section>
       <section aria-labelledby="invite" className="card max-w-xl p-4">
         <h2 id="invite" className="mb-3 text-lg font-semibold">

@@ -1,0 +1,18 @@
+import type { ReactNode } from "react";
+
+/**
+ * A wide table on a narrow screen scrolls inside its own box, never the whole page. The box is a labelled,
+ * focusable region so it can be scrolled from the keyboard too.
+ */
+export function TableScroll({ label, children }: { label: string; children: ReactNode }) {
+  return (
+    <div
+      role="region"
+      aria-label={label}
+      tabIndex={0}
+      className="max-w-full overflow-x-auto focus-visible:outline-2 focus-visible:outline-ember"
+    >
+      {children}
+    </div>
+  );
+}
