@@ -110,6 +110,9 @@ async function main() {
     Technician   tomas@kestrel-lane.example    bench-tech-2026
     Technician   priya@kestrel-lane.example    bench-tech-2026
     Set owner    mira.holloway@example.com     demo-owner-2026
+    Set owner    jonah.pell@example.com        demo-owner-2026
+    Set owner    ines.varga@example.net        demo-owner-2026
+    Set owner    brennan.estate@example.org    demo-owner-2026
 
   Press Ctrl-C to stop everything (PostgreSQL is stopped cleanly).
 `);
