@@ -1,10 +1,12 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { AuditChange } from "@/components/office/audit-change";
+import { auditRecordHref, auditSentence, entityWord } from "@/components/office/audit-sentence";
 import { formatWhen } from "@/components/office/format";
 import { Notice } from "@/components/ui/notice";
 import { AUDIT_PAGE_SIZE, auditFilterOptionsForOwner, listAuditEventsForOwner } from "@/db/queries/audit";
 import { zodFields } from "@/lib/server/route-handler";
+import { getShop } from "@/lib/server/services/shop";
 import { requirePermission } from "@/lib/server/session";
 import { auditFilterSchema, type AuditFilter } from "@/lib/validation/office";
 import { TableScroll } from "@/components/ui/table-scroll";
@@ -23,7 +25,12 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
   const parsed = auditFilterSchema.safeParse(raw);
   const filter: AuditFilter = parsed.success ? parsed.data : { page: 1 };
   const problems = parsed.success ? null : zodFields(parsed.error);
-  const [{ rows, hasMore, total }, options] = await Promise.all([listAuditEventsForOwner({ filter }), auditFilterOptionsForOwner()]);
+  const [{ rows, hasMore, total }, options, shop] = await Promise.all([
+    listAuditEventsForOwner({ filter }),
+    auditFilterOptionsForOwner(),
+    getShop(),
+  ]);
+  const currency = shop.policy.currency;
   const query = (page: number) => {
     const q = new URLSearchParams();
     for (const k of ["actor", "entity", "action", "from", "to"] as const) if (filter[k]) q.set(k, String(filter[k]));
@@ -150,9 +157,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
               <thead>
                 <tr>
                   <th scope="col">When</th>
-                  <th scope="col">Who</th>
-                  <th scope="col">Action</th>
-                  <th scope="col">Record</th>
+                  <th scope="col">What happened</th>
                   <th scope="col">Before → after</th>
                 </tr>
               </thead>
@@ -160,14 +165,29 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                 {rows.map((r) => (
                   <tr key={r.id}>
                     <td className="figure whitespace-nowrap">{formatWhen(r.at)}</td>
-                    <td>{r.actorId ? (r.actorName ?? r.actorId) : <span className="text-bakelite-muted">System</span>}</td>
-                    <td className="figure">{r.action}</td>
-                    <td>
-                      {r.entity}
-                      <span className="figure block break-all text-xs text-bakelite-muted">{r.entityId}</span>
+                    <td className="min-w-56">
+                      <p>
+                        <span className="font-semibold">{r.actorId ? (r.actorName ?? "A former account") : "Bandedge"}</span>{" "}
+                        {auditSentence(r, currency)}
+                        {(() => {
+                          const href = auditRecordHref(r);
+                          return href ? (
+                            <>
+                              {" "}
+                              (<Link href={href}>open the {entityWord(r.entity)}</Link>)
+                            </>
+                          ) : null;
+                        })()}
+                      </p>
+                      <details className="mt-1 text-xs text-bakelite-muted">
+                        <summary>Details</summary>
+                        <span className="figure break-all">
+                          {r.action} · {r.entity} {r.entityId}
+                        </span>
+                      </details>
                     </td>
                     <td className="min-w-72">
-                      <AuditChange before={r.before} after={r.after} />
+                      <AuditChange before={r.before} after={r.after} currency={currency} />
                     </td>
                   </tr>
                 ))}
