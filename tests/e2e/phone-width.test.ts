@@ -23,24 +23,14 @@ async function overflow(page: Page, path: string): Promise<string | null> {
     const doc = document.documentElement;
     // Not innerWidth: a mobile browser widens its layout viewport to fit content that sticks out.
     if (doc.scrollWidth <= screenWidth + 1) return null;
-    // Name the widest elements that stick out, so the failure says where to look.
+    // Name the outermost elements that stick out, so the failure says where to look.
     const out: string[] = [];
     for (const el of Array.from(document.body.querySelectorAll<HTMLElement>("*"))) {
       const r = el.getBoundingClientRect();
-      if (r.right > screenWidth + 1 && el.offsetParent !== null) {
-        let scrolls = false;
-        for (let p = el.parentElement; p; p = p.parentElement) {
-          const o = getComputedStyle(p).overflowX;
-          if (o === "auto" || o === "scroll" || o === "hidden") {
-            scrolls = true;
-            break;
-          }
-        }
-        if (!scrolls)
-          out.push(
-            `${el.tagName.toLowerCase()}${el.id ? "#" + el.id : ""}.${String(el.className).slice(0, 40)} right=${Math.round(r.right)}`,
-          );
-      }
+      if (r.right <= screenWidth + 1 || r.width === 0) continue;
+      const parent = el.parentElement;
+      if (parent && parent !== document.body && parent.getBoundingClientRect().right > screenWidth + 1) continue;
+      out.push(`${el.tagName.toLowerCase()}.${String(el.className).slice(0, 60)} right=${Math.round(r.right)}`);
     }
     return `page is ${doc.scrollWidth}px wide: ${out.slice(0, 5).join("; ")}`;
   }, PHONE.viewport.width);

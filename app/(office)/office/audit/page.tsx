@@ -180,7 +180,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
                         })()}
                       </p>
                       <details className="mt-1 text-xs text-bakelite-muted">
-                        <summary>Details</summary>
+                        <summary className="min-h-6 cursor-pointer py-1">Details</summary>
                         <span className="figure break-all">
                           {r.action} · {r.entity} {r.entityId}
                         </span>
