@@ -1,5 +1,5 @@
 import { requirePositive } from "../engine-error";
-import { checkDialRange, checkIf, checkInjection, type DialRange, type Injection } from "./inputs";
+import type { AlignmentBasis, DialRange, Injection } from "./inputs";
 
 /** f[kHz] = K / √(L[µH]·C[pF]); keeps every formula in bench units. */
 export const RESONANCE_K = 1e6 / (2 * Math.PI);
@@ -31,11 +31,11 @@ export function imageKHz(rfKHz: number, ifKHz: number, injection: Injection = "h
   return injection === "high" ? rfKHz + 2 * ifKHz : Math.abs(rfKHz - 2 * ifKHz);
 }
 
-/** Image rejection of a single tuned circuit of loaded Q: α = √(1 + Q²ρ²), ρ = f_img/f − f/f_img. */
+/**
+ * Image rejection of a single tuned circuit of loaded Q: α = √(1 + Q²ρ²), ρ = f_img/f − f/f_img.
+ * The inputs come checked from the engine's door (a positive frequency, IF and Q).
+ */
 export function imageRejection(rfKHz: number, ifKHz: number, loadedQ: number, injection: Injection = "high") {
-  requirePositive(rfKHz, "rfKHz", "Frequency");
-  requirePositive(ifKHz, "ifKHz", "The IF");
-  requirePositive(loadedQ, "loadedQ", "The loaded Q");
   const img = imageKHz(rfKHz, ifKHz, injection);
   const rho = img / rfKHz - rfKHz / img;
   const ratio = Math.sqrt(1 + loadedQ * loadedQ * rho * rho);
@@ -44,7 +44,6 @@ export function imageRejection(rfKHz: number, ifKHz: number, loadedQ: number, in
 
 /** C_max/C_min = (f_max/f_min)² for a tank tuned by a variable capacitor alone. */
 export function capacitanceRatio(lowKHz: number, highKHz: number): number {
-  checkDialRange({ lowKHz, highKHz });
   return (highKHz / lowKHz) ** 2;
 }
 
@@ -54,10 +53,8 @@ export type BandFrequencies = {
   capacitanceRatio: { signal: number; oscillator: number };
 };
 
-export function bandFrequencies(band: DialRange, ifKHz: number, injection: Injection = "high"): BandFrequencies {
-  checkDialRange(band);
-  checkIf(ifKHz);
-  checkInjection(band, ifKHz, injection);
+/** LO, image and capacitance ratios of a checked band. */
+export function bandFrequencies({ band, ifKHz, injection }: AlignmentBasis): BandFrequencies {
   const loLow = localOscillatorKHz(band.lowKHz, ifKHz, injection);
   const loHigh = localOscillatorKHz(band.highKHz, ifKHz, injection);
   return {

@@ -1,28 +1,38 @@
 import { EngineError } from "../engine-error";
 import { minimiseNelderMead } from "./nelder-mead";
-import { designThreePoint, errorExtrema, maxAbsErrorKHz, type TrackingDesign, type TrackingInput } from "./tracking";
+import { designThreePoint, maxAbsDetuning, maxAbsErrorKHz, type TrackingDesign, type TrackingInput } from "./tracking";
 import { ruleOfThumbPoints } from "./tracking-points";
 
 const PENALTY = 1e12;
 
 /**
- * Minimax (equal-ripple) tracking points: the three points whose design has the smallest worst-case
- * error over the band. Searched in log-frequency, started from the rule-of-thumb points.
+ * What the minimax points equalise. "detuning" (the default) is the error relative to the antenna
+ * circuit's bandwidth, ρ = f_r/f − f/f_r, which is what the set loses in gain and selectivity; "kHz"
+ * is the plain error in kHz, which spends the low end of the band where the bandwidth is narrowest.
  */
-export function solveMinimaxPoints(input: TrackingInput): { design: TrackingDesign; maxAbsErrorKHz: number } {
+export type MinimaxMeasure = "detuning" | "kHz";
+
+export type MinimaxResult = { design: TrackingDesign; maxAbsErrorKHz: number; maxAbsDetuning: number; measure: MinimaxMeasure };
+
+/**
+ * Minimax (equal-ripple) tracking points: the three points whose design has the smallest worst case of
+ * the chosen measure over the band. Searched in log-frequency, started from the rule-of-thumb points.
+ * The worst-case detuning does not depend on the loaded Q, so neither do the points.
+ */
+export function solveMinimaxPoints(input: TrackingInput, measure: MinimaxMeasure = "detuning"): MinimaxResult {
   const start = ruleOfThumbPoints(input.band);
-  // Validates every input once, so errors name the caller's fields and not the search.
-  designThreePoint({ ...input, trackingPointsKHz: start });
   const lo = Math.log(input.band.lowKHz);
   const hi = Math.log(input.band.highKHz);
   const span = hi - lo;
   const toPoints = (x: number[]) => x.map((t) => Math.exp(lo + t * span));
+  const worst = measure === "kHz" ? maxAbsErrorKHz : maxAbsDetuning;
   const objective = (x: number[]) => {
     if (x.some((t) => t < 0 || t > 1) || !(x[0] < x[1] && x[1] < x[2]) || x[1] - x[0] < 2e-3 || x[2] - x[1] < 2e-3) {
       return PENALTY;
     }
     try {
-      return maxAbsErrorKHz(designThreePoint({ ...input, trackingPointsKHz: toPoints(x) }));
+      const value = worst(designThreePoint({ ...input, trackingPointsKHz: toPoints(x) }));
+      return Number.isFinite(value) ? value : PENALTY;
     } catch {
       return PENALTY;
     }
@@ -35,5 +45,5 @@ export function solveMinimaxPoints(input: TrackingInput): { design: TrackingDesi
     throw new EngineError("tracking-unrealisable", "No three tracking points give a realisable design on this band.", "gang");
   }
   const design = designThreePoint({ ...input, trackingPointsKHz: toPoints(best.x) });
-  return { design, maxAbsErrorKHz: Math.max(...errorExtrema(design).map((p) => Math.abs(p.errorKHz))) };
+  return { design, maxAbsErrorKHz: maxAbsErrorKHz(design), maxAbsDetuning: maxAbsDetuning(design), measure };
 }

@@ -1,20 +1,16 @@
 import type { BandKind } from "../bands/band";
-import { ifFamilyOf } from "../bands/if-presets";
-import { EngineError } from "../engine-error";
 import { bandFrequencies, imageRejection, type BandFrequencies } from "./frequencies";
-import type { DialRange, Injection } from "./inputs";
+import type { AlignmentBasis, Injection } from "./inputs";
 import { ruleOfThumbPoints } from "./tracking-points";
 
 export type AlignmentStep = { order: number; text: string };
 
-export type AlignmentPlanInput = {
-  band: DialRange & { kind?: BandKind };
-  ifKHz: number;
-  injection?: Injection;
-  trackingPointsKHz?: readonly [number, number, number] | readonly number[];
+export type AlignmentPlanInput = AlignmentBasis & {
+  /** Checked tracking points, low to high (the request's or the service manual's); the usual ones otherwise. */
+  trackingPointsKHz?: readonly [number, number, number];
   /** Loaded Q of the signal circuit, for the image-rejection figure; omitted when unknown. */
   loadedQ?: number;
-  /** Adds the isolation-transformer reminder for hot-chassis sets. */
+  /** Adds the isolation-transformer caution for hot-chassis (AC/DC) sets. */
   hotChassis?: boolean;
 };
 
@@ -27,25 +23,18 @@ export type AlignmentPlan = BandFrequencies & {
   warnings: string[];
 };
 
-/** Without a stated kind, guess from the IF and the frequencies; a set's own band kind always wins. */
-export function inferBandKind(band: DialRange, ifKHz: number): BandKind {
-  if (ifFamilyOf(ifKHz) === "FM" || band.lowKHz >= 30000) return "FM";
-  if (band.highKHz <= 520) return "LW";
-  if (band.lowKHz >= 1700) return "SW";
-  return "MW";
-}
-
 const fmt = (kHz: number) => (kHz >= 10000 ? `${trim(kHz / 1000, 3)} MHz` : `${trim(kHz, 1)} kHz`);
 
 function trim(x: number, digits: number): string {
   return String(Number(x.toFixed(digits)));
 }
 
+/** The plan for one checked band: LO, image, capacitance ratios and the order of adjustments. */
 export function planAlignment(input: AlignmentPlanInput): AlignmentPlan {
-  const injection = input.injection ?? "high";
-  const freqs = bandFrequencies(input.band, input.ifKHz, injection);
-  const kind = input.band.kind ?? inferBandKind(input.band, input.ifKHz);
-  const points = input.trackingPointsKHz ? checkPlanPoints(input.trackingPointsKHz, input.band) : ruleOfThumbPoints(input.band);
+  const injection = input.injection;
+  const freqs = bandFrequencies(input);
+  const kind = input.band.kind;
+  const points: [number, number, number] = input.trackingPointsKHz ? [...input.trackingPointsKHz] : ruleOfThumbPoints(input.band);
   const [low, middle, high] = points;
   const lo = (f: number) => (injection === "high" ? f + input.ifKHz : f - input.ifKHz);
   const side = injection === "high" ? "above" : "below";
@@ -69,8 +58,11 @@ export function planAlignment(input: AlignmentPlanInput): AlignmentPlan {
       `IF first: inject ${fmt(input.ifKHz)} at a low generator level and peak each IF transformer from the last stage back to the first; keep the detector output low and reduce the input as the peak nears.`,
     );
     if (kind === "SW") {
+      // More trimmer capacitance lowers the LO, so from minimum the first response met is the LO above the signal.
       texts.push(
-        `Start with the oscillator trimmer at minimum capacitance and bring it up: the first response is the LO ${side} the signal, as wanted; a second response further on is the image, ${fmt(2 * input.ifKHz)} away.`,
+        injection === "high"
+          ? `Start with the oscillator trimmer at minimum capacitance and bring it up: the first response met is the LO above the signal, the wanted one; a second response further on is the image setting, with the LO ${fmt(2 * input.ifKHz)} lower. Stop at the first.`
+          : `Start with the oscillator trimmer at minimum capacitance and bring it up: the first response met is the LO above the signal, which this set does not use; go on to the second response, ${fmt(2 * input.ifKHz)} lower in LO, which is the wanted one with the LO below the signal.`,
       );
     }
     texts.push(
@@ -83,8 +75,12 @@ export function planAlignment(input: AlignmentPlanInput): AlignmentPlan {
     `Check the middle point at ${fmt(middle)} and the band edges at ${fmt(input.band.lowKHz)} and ${fmt(input.band.highKHz)} against the dial, and record each reading on the bench sheet.`,
   );
   if (kind === "SW") {
+    // Which side of the mark the image lies on tells the oscillator side; its strength says nothing about it.
+    const twoIf = 2 * input.ifKHz;
+    const right = injection === "high" ? middle - twoIf : middle + twoIf;
+    const wrong = injection === "high" ? middle + twoIf : middle - twoIf;
     texts.push(
-      `Confirm the image: a generator at ${fmt(high)} should be heard only weakly with the dial at ${fmt(injection === "high" ? high - 2 * input.ifKHz : high + 2 * input.ifKHz)}; if that response is the strong one, the oscillator is on the wrong side.`,
+      `Confirm the oscillator side: leave the generator at ${fmt(middle)}, heard at its mark, and tune the dial for the second (image) response. With the LO ${side} the signal it lies two IFs (${fmt(twoIf)}) ${injection === "high" ? "below" : "above"} the mark, near ${fmt(right)}. If it lies ${fmt(twoIf)} ${injection === "high" ? "above" : "below"} the mark instead, near ${fmt(wrong)}, the oscillator trimmer was set on the wrong response: go back to the high point.`,
     );
   }
 
@@ -110,15 +106,4 @@ export function planAlignment(input: AlignmentPlanInput): AlignmentPlan {
     plan.imageRejection = { atLowEnd: { ratio: a.ratio, dB: a.dB }, atHighEnd: { ratio: b.ratio, dB: b.dB } };
   }
   return plan;
-}
-
-function checkPlanPoints(points: readonly number[], band: DialRange): [number, number, number] {
-  if (points.length !== 3) throw new EngineError("points-count", "Give exactly 3 tracking points.", "trackingPointsKHz");
-  points.forEach((p, i) => {
-    if (!Number.isFinite(p) || p < band.lowKHz || p > band.highKHz) {
-      throw new EngineError("point-outside-band", "Tracking points must lie on the band.", `trackingPointsKHz.${i}`);
-    }
-  });
-  const sorted = [...points].sort((a, b) => a - b);
-  return [sorted[0], sorted[1], sorted[2]];
 }

@@ -1,4 +1,4 @@
-import { checkDialRange, type DialRange } from "./inputs";
+import type { DialRange } from "./inputs";
 
 /** Round to a step a technician can set on a generator: about 1/50 of the span, as a power of ten. */
 export function niceStepKHz(band: DialRange): number {
@@ -9,10 +9,10 @@ export function niceStepKHz(band: DialRange): number {
 /**
  * Rule-of-thumb tracking points: the outer two at the Chebyshev nodes of the band on a logarithmic
  * frequency scale (roughly where the dial ends bunch up), the middle at their geometric mean. On a
- * 540–1600 kHz dial this gives the familiar "about 600, 1000 and 1400–1500 kHz".
+ * 540–1600 kHz dial this gives the familiar "about 600, 1000 and 1400–1500 kHz". The band is one that
+ * has passed a check (a request's door or the set-profile schema).
  */
 export function ruleOfThumbPoints(band: DialRange): [number, number, number] {
-  checkDialRange(band);
   const a = Math.log(band.lowKHz);
   const b = Math.log(band.highKHz);
   const mid = (a + b) / 2;

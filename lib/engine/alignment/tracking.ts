@@ -1,6 +1,6 @@
 import { EngineError } from "../engine-error";
 import { RESONANCE_K } from "./frequencies";
-import { checkDialRange, checkGang, checkIf, checkInjection, type DialRange, type Gang, type Injection } from "./inputs";
+import { checkTrackingPoints, type CheckedGang, type DialRange, type Injection, type TrackingBasis } from "./inputs";
 
 /**
  * Model (see the tracking section of the reference figures): the gang section adds g ∈ [0, G] above its
@@ -29,27 +29,24 @@ export type TrackingDesign = {
   band: DialRange;
   ifKHz: number;
   injection: Injection;
-  gang: Required<Gang>;
+  gang: CheckedGang;
   signal: SignalCircuit;
   oscillator: OscillatorCircuit;
   trackingPointsKHz: number[];
 };
 
-export type TrackingInput = {
-  band: DialRange;
-  ifKHz: number;
-  injection?: Injection;
-  gang: Gang;
-};
+/**
+ * A band, its IF, the oscillator side and the gang, checked once at the engine's door
+ * (checkTrackingBasis, or the alignment request parser): the designs below trust them.
+ */
+export type TrackingInput = TrackingBasis;
 
 export type ErrorPoint = { kHz: number; errorKHz: number };
 
 const w = (kHz: number) => (kHz / RESONANCE_K) ** 2;
 
 /** T_s = G/(α² − 1) and L_s from the top of the band: the gang at minimum must reach the high end. */
-export function designSignalCircuit(band: DialRange, gangInput: Gang): SignalCircuit {
-  checkDialRange(band);
-  const gang = checkGang(gangInput);
+export function designSignalCircuit(band: DialRange, gang: CheckedGang): SignalCircuit {
   const swingPF = gang.maxPF - gang.minPF;
   const alpha = band.highKHz / band.lowKHz;
   const fixedPF = swingPF / (alpha * alpha - 1);
@@ -91,28 +88,6 @@ export function trackingErrorKHz(design: TrackingDesign, kHz: number): number {
   return oscillatorKHzAt(design.oscillator, g) - targetLoKHz(kHz, design.ifKHz, design.injection);
 }
 
-function checkPoints(points: readonly number[], band: DialRange, count: number): number[] {
-  if (points.length !== count) {
-    throw new EngineError("points-count", `Give exactly ${count} tracking points.`, "trackingPointsKHz");
-  }
-  points.forEach((p, i) => {
-    if (typeof p !== "number" || !Number.isFinite(p)) {
-      throw new EngineError("not-finite", "Each tracking point must be a finite number.", `trackingPointsKHz.${i}`);
-    }
-    if (p < band.lowKHz || p > band.highKHz) {
-      throw new EngineError("point-outside-band", "Tracking points must lie on the band.", `trackingPointsKHz.${i}`);
-    }
-  });
-  const sorted = [...points].sort((a, b) => a - b);
-  const minGap = (band.highKHz - band.lowKHz) * 1e-3;
-  for (let i = 1; i < sorted.length; i++) {
-    if (sorted[i] - sorted[i - 1] < minGap) {
-      throw new EngineError("points-too-close", "Tracking points must be distinct and spread across the band.", "trackingPointsKHz");
-    }
-  }
-  return sorted;
-}
-
 function unrealisable(message: string, field = "trackingPointsKHz"): never {
   throw new EngineError("tracking-unrealisable", message, field);
 }
@@ -121,7 +96,7 @@ function finishOscillator(
   padderPF: number | null,
   fixedPF: number,
   inductanceUH: number,
-  gang: Required<Gang>,
+  gang: CheckedGang,
   injection: Injection,
 ): OscillatorCircuit {
   if (padderPF !== null && (!Number.isFinite(padderPF) || padderPF <= 0)) {
@@ -143,16 +118,8 @@ function finishOscillator(
 }
 
 function prepare(input: TrackingInput) {
-  const band = checkDialRange(input.band);
-  const ifKHz = checkIf(input.ifKHz);
-  const injection = input.injection ?? "high";
-  if (injection !== "high" && injection !== "low") {
-    throw new EngineError("injection", 'Injection must be "high" or "low".', "injection");
-  }
-  checkInjection(band, ifKHz, injection);
-  const gang = checkGang(input.gang);
-  const signal = designSignalCircuit(band, gang);
-  return { band, ifKHz, injection, gang, signal };
+  const { band, ifKHz, injection, gang } = input;
+  return { band: { lowKHz: band.lowKHz, highKHz: band.highKHz }, ifKHz, injection, gang, signal: designSignalCircuit(band, gang) };
 }
 
 /**
@@ -161,7 +128,7 @@ function prepare(input: TrackingInput) {
  */
 export function designThreePoint(input: TrackingInput & { trackingPointsKHz: readonly number[] }): TrackingDesign {
   const { band, ifKHz, injection, gang, signal } = prepare(input);
-  const points = checkPoints(input.trackingPointsKHz, band, 3);
+  const points = checkTrackingPoints(input.trackingPointsKHz, band, 3);
   const g = points.map((f) => gangSettingPF(signal, f));
   const wo = points.map((f) => w(targetLoKHz(f, ifKHz, injection)));
   const r = ((wo[0] - wo[1]) * (g[2] - g[1])) / ((wo[1] - wo[2]) * (g[1] - g[0]));
@@ -183,7 +150,7 @@ export function designThreePoint(input: TrackingInput & { trackingPointsKHz: rea
  */
 export function designPadderOnly(input: TrackingInput & { trackingPointsKHz?: readonly number[] }): TrackingDesign {
   const { band, ifKHz, injection, gang, signal } = prepare(input);
-  const points = checkPoints(input.trackingPointsKHz ?? [band.lowKHz, band.highKHz], band, 2);
+  const points = checkTrackingPoints(input.trackingPointsKHz ?? [band.lowKHz, band.highKHz], band, 2);
   const fixedPF = signal.fixedPF;
   const x = points.map((f) => gangSettingPF(signal, f) + fixedPF);
   const wo = points.map((f) => w(targetLoKHz(f, ifKHz, injection)));
@@ -196,7 +163,7 @@ export function designPadderOnly(input: TrackingInput & { trackingPointsKHz?: re
 /** Two-point design with no padder: the oscillator's own trimmer and inductance are free. */
 export function designTrimmerOnly(input: TrackingInput & { trackingPointsKHz?: readonly number[] }): TrackingDesign {
   const { band, ifKHz, injection, gang, signal } = prepare(input);
-  const points = checkPoints(input.trackingPointsKHz ?? [band.lowKHz, band.highKHz], band, 2);
+  const points = checkTrackingPoints(input.trackingPointsKHz ?? [band.lowKHz, band.highKHz], band, 2);
   const g = points.map((f) => gangSettingPF(signal, f));
   const wo = points.map((f) => w(targetLoKHz(f, ifKHz, injection)));
   const fixedPF = (wo[1] * g[1] - wo[0] * g[0]) / (wo[0] - wo[1]);
@@ -207,9 +174,9 @@ export function designTrimmerOnly(input: TrackingInput & { trackingPointsKHz?: r
 
 const GOLDEN = (Math.sqrt(5) - 1) / 2;
 
-/** Largest |e| on [a, b], assuming |e| is unimodal there (true between consecutive zeros). */
-function peakOnSegment(design: TrackingDesign, a: number, b: number): ErrorPoint {
-  const abs = (f: number) => Math.abs(trackingErrorKHz(design, f));
+/** Largest |measure| on [a, b], assuming it is unimodal there (true between consecutive zeros of the error). */
+function peakOnSegment(design: TrackingDesign, a: number, b: number, measure: (f: number) => number = (f) => trackingErrorKHz(design, f)): number {
+  const abs = (f: number) => Math.abs(measure(f));
   let lo = a;
   let hi = b;
   let c = hi - GOLDEN * (hi - lo);
@@ -234,17 +201,58 @@ function peakOnSegment(design: TrackingDesign, a: number, b: number): ErrorPoint
   const candidates = [a, b, (lo + hi) / 2];
   let best = candidates[0];
   for (const f of candidates) if (abs(f) > abs(best)) best = f;
-  return { kHz: best, errorKHz: trackingErrorKHz(design, best) };
+  return best;
+}
+
+function segments(design: TrackingDesign): [number, number][] {
+  const edges = [design.band.lowKHz, ...design.trackingPointsKHz, design.band.highKHz];
+  const out: [number, number][] = [];
+  for (let i = 1; i < edges.length; i++) if (edges[i] - edges[i - 1] > 0) out.push([edges[i - 1], edges[i]]);
+  return out;
 }
 
 /** The error's extrema between band ends and tracking points: where the worst mistracking is. */
 export function errorExtrema(design: TrackingDesign): ErrorPoint[] {
-  const edges = [design.band.lowKHz, ...design.trackingPointsKHz, design.band.highKHz];
-  const out: ErrorPoint[] = [];
-  for (let i = 1; i < edges.length; i++) {
-    if (edges[i] - edges[i - 1] > 0) out.push(peakOnSegment(design, edges[i - 1], edges[i]));
-  }
-  return out;
+  return segments(design).map(([a, b]) => {
+    const kHz = peakOnSegment(design, a, b);
+    return { kHz, errorKHz: trackingErrorKHz(design, kHz) };
+  });
+}
+
+/**
+ * What mistracking costs the set. With the dial (and so the antenna circuit) at f, the station the set
+ * receives is at f + e, so the antenna circuit meets it detuned by ρ = (f + e)/f − f/(f + e). A single
+ * tuned circuit of loaded Q passes it at 1/√(1 + Q²ρ²): the loss is 10·log10(1 + Q²ρ²) dB. Since the
+ * bandwidth is f/Q, the same error in kHz costs more at the low end of the band than at the top.
+ */
+export function detuning(design: TrackingDesign, kHz: number): number {
+  const received = kHz + trackingErrorKHz(design, kHz);
+  return received / kHz - kHz / received;
+}
+
+export function sensitivityLossDbAt(rho: number, loadedQ: number): number {
+  return 10 * Math.log10(1 + loadedQ * loadedQ * rho * rho);
+}
+
+export type LossPoint = { kHz: number; errorKHz: number; detuning: number };
+
+/** The detuning's extrema between band ends and tracking points. */
+export function detuningExtrema(design: TrackingDesign): LossPoint[] {
+  return segments(design).map(([a, b]) => {
+    const kHz = peakOnSegment(design, a, b, (f) => detuning(design, f));
+    return { kHz, errorKHz: trackingErrorKHz(design, kHz), detuning: detuning(design, kHz) };
+  });
+}
+
+/** The largest |ρ| over the band: the measure the minimax points equalise. */
+export function maxAbsDetuning(design: TrackingDesign): number {
+  return Math.max(...detuningExtrema(design).map((p) => Math.abs(p.detuning)));
+}
+
+/** The worst-case sensitivity loss over the band at a loaded Q, and where it falls. */
+export function worstSensitivityLoss(design: TrackingDesign, loadedQ: number): { dB: number; kHz: number; errorKHz: number } {
+  const worst = detuningExtrema(design).reduce((a, b) => (Math.abs(b.detuning) > Math.abs(a.detuning) ? b : a));
+  return { dB: sensitivityLossDbAt(worst.detuning, loadedQ), kHz: worst.kHz, errorKHz: worst.errorKHz };
 }
 
 export function maxAbsErrorKHz(design: TrackingDesign): number {

@@ -1,6 +1,8 @@
 import type { BandKind } from "./band";
 
-export type IfPreset = { kHz: number; label: string; family: "AM" | "FM" };
+export type IfFamily = "AM" | "FM";
+
+export type IfPreset = { kHz: number; label: string; family: IfFamily };
 
 export const ifPresets: readonly IfPreset[] = [
   { kHz: 455, label: "455 kHz (US standard after about 1940)", family: "AM" },
@@ -22,7 +24,7 @@ export const plausibleIfRangeKHz = {
   FM: { min: 10600, max: 10800 },
 } as const;
 
-export function ifFamilyForBand(kind: BandKind): "AM" | "FM" {
+export function ifFamilyForBand(kind: BandKind): IfFamily {
   return kind === "FM" ? "FM" : "AM";
 }
 
@@ -32,7 +34,7 @@ export function isPlausibleIf(ifKHz: number, family: "AM" | "FM"): boolean {
 }
 
 /** The family an IF belongs to, or null when it is plausible for neither. */
-export function ifFamilyOf(ifKHz: number): "AM" | "FM" | null {
+export function ifFamilyOf(ifKHz: number): IfFamily | null {
   if (isPlausibleIf(ifKHz, "AM")) return "AM";
   if (isPlausibleIf(ifKHz, "FM")) return "FM";
   return null;

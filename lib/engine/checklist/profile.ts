@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { bandKindSchema, injectionSchema, type Band, type BandKind } from "../bands/band";
+import { bandKindSchema, injectionSchema, plausibleBandRangeKHz, type Band, type BandKind } from "../bands/band";
 import { isPlausibleIf, ifFamilyForBand, plausibleIfRangeKHz } from "../bands/if-presets";
 
 export const setKinds = ["tube-acdc", "tube-transformer", "transistor-battery", "transistor-mains"] as const;
@@ -16,13 +16,7 @@ export const setKindLabels: Record<SetKind, string> = {
 export const symptomFlags = ["no-sound", "hum", "weak", "intermittent", "distorted", "noisy-controls"] as const;
 export type SymptomFlag = (typeof symptomFlags)[number];
 
-/** Plausible printed dial ranges per band kind; anything outside is almost certainly a unit mistake. */
-export const plausibleBandRangeKHz: Record<BandKind, { min: number; max: number }> = {
-  LW: { min: 100, max: 520 },
-  MW: { min: 400, max: 1800 },
-  SW: { min: 1500, max: 30000 },
-  FM: { min: 64000, max: 110000 },
-};
+export { plausibleBandRangeKHz };
 
 // Form posts send checkboxes as "on"/"true" and leave them out when unticked; JSON sends booleans.
 const formBoolean = z.preprocess((v) => {
@@ -44,6 +38,8 @@ export const bandSchema = z
     ifKHz: kHz,
     label: z.string().trim().max(40).optional(),
     injection: injectionSchema.optional(),
+    /** The service manual's own tracking points, low to high, when it gives them. */
+    trackingPointsKHz: z.tuple([kHz, kHz, kHz]).optional(),
   })
   .superRefine((band, ctx) => {
     if (band.lowKHz >= band.highKHz) {
@@ -61,6 +57,12 @@ export const bandSchema = z
       const r = plausibleIfRangeKHz[family];
       ctx.addIssue({ code: "custom", path: ["ifKHz"], message: `An ${family} IF lies between ${r.min} and ${r.max} kHz.` });
     }
+    band.trackingPointsKHz?.forEach((p, i) => {
+      const ordered = i === 0 || p > band.trackingPointsKHz![i - 1]!;
+      if (p < band.lowKHz || p > band.highKHz || !ordered) {
+        ctx.addIssue({ code: "custom", path: ["trackingPointsKHz", i], message: "Tracking points lie on the band, low to high." });
+      }
+    });
   });
 
 export const setProfileSchema = z.object({
