@@ -3,6 +3,7 @@
  * tracking solve. Prints figures only; the goals (≤ 1 ms and ≤ 0.2 ms) are for reading, not asserting.
  */
 import { performance } from "node:perf_hooks";
+import { checkTrackingBasis } from "@/lib/engine/alignment/inputs";
 import { solveTracking } from "@/lib/engine/alignment/solve-tracking";
 import { computeChecklist } from "@/lib/engine/checklist/compute-checklist";
 import { setProfileSchema } from "@/lib/engine/checklist/profile";
@@ -27,7 +28,7 @@ const profile = setProfileSchema.parse({
   dialCordBroken: true,
 });
 
-const trackingInput = { band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } };
+const trackingInput = checkTrackingBasis({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } });
 
 function median(xs: number[]): number {
   const s = [...xs].sort((a, b) => a - b);

@@ -17,6 +17,8 @@ type CalcForm = {
   injection: string;
   gang: { minPF: string; maxPF: string; strayPF: string };
   trackingPointsKHz: [string, string, string];
+  loadedQ: string;
+  hotChassis: boolean;
 };
 
 const num = (s: string): number | undefined => {
@@ -24,47 +26,90 @@ const num = (s: string): number | undefined => {
   return t === "" ? undefined : Number(t);
 };
 
-function toRequest(v: CalcForm): unknown {
-  const tp = v.trackingPointsKHz.map(num);
+// Frequency fields go to the engine's door as typed: it reads "1.49 MHz", "455 kHz" or "455k" and names the field otherwise.
+const freqText = (s: string): string | undefined => (s.trim() === "" ? undefined : s.trim());
+
+/** The request as JSON, exactly as the route takes it. */
+export function toAlignmentRequest(v: CalcForm): AlignmentRequest {
+  const tp = v.trackingPointsKHz.map(freqText);
   const gangGiven = v.gang.minPF.trim() !== "" || v.gang.maxPF.trim() !== "";
+  const q = num(v.loadedQ);
   return {
-    band: { lowKHz: num(v.band.lowKHz), highKHz: num(v.band.highKHz), ...(v.band.kind ? { kind: v.band.kind } : {}) },
-    ifKHz: num(v.ifKHz),
-    ...(v.injection ? { injection: v.injection } : {}),
+    band: { lowKHz: freqText(v.band.lowKHz), highKHz: freqText(v.band.highKHz), ...(v.band.kind ? { kind: v.band.kind as Band["kind"] } : {}) },
+    ifKHz: freqText(v.ifKHz),
+    ...(v.injection === "low" ? { injection: "low" as const } : {}),
     ...(gangGiven
-      ? { gang: { minPF: num(v.gang.minPF), maxPF: num(v.gang.maxPF), ...(v.gang.strayPF.trim() ? { strayPF: num(v.gang.strayPF) } : {}) } }
+      ? {
+          gang: {
+            minPF: num(v.gang.minPF) as number,
+            maxPF: num(v.gang.maxPF) as number,
+            ...(v.gang.strayPF.trim() ? { strayPF: num(v.gang.strayPF) as number } : {}),
+          },
+        }
       : {}),
-    ...(tp.some((x) => x !== undefined) ? { trackingPointsKHz: tp } : {}),
+    ...(tp.some((x) => x !== undefined) ? { trackingPointsKHz: tp as [string, string, string] } : {}),
+    ...(q !== undefined ? { loadedQ: q } : {}),
+    ...(v.hotChassis ? { hotChassis: true } : {}),
   };
 }
 
-function formFromBand(b: Band | null): CalcForm {
+function formFromBand(b: Band | null, hotChassis: boolean): CalcForm {
+  const tp = b?.trackingPointsKHz;
   return {
     band: { kind: b?.kind ?? "MW", lowKHz: String(b?.lowKHz ?? 540), highKHz: String(b?.highKHz ?? 1600) },
     ifKHz: String(b?.ifKHz ?? 455),
     injection: b?.injection === "low" ? "low" : "",
     gang: { minPF: b && b.kind !== "MW" ? "" : "10", maxPF: b && b.kind !== "MW" ? "" : "365", strayPF: "" },
-    trackingPointsKHz: ["", "", ""],
+    trackingPointsKHz: tp ? [String(tp[0]), String(tp[1]), String(tp[2])] : ["", "", ""],
+    loadedQ: "",
+    hotChassis,
   };
 }
 
 const f2 = (x: number) => formatNumber(x, 2);
 const freq = (kHz: number) => (kHz >= 10000 ? `${formatNumber(kHz / 1000, 3)} MHz` : `${formatNumber(kHz, 2)} kHz`);
 
-function Figure({ name, label, value, unit }: { name: string; label: string; value: number; unit: string }) {
+function Figure({
+  name,
+  label,
+  value,
+  unit,
+  format = f2,
+}: {
+  name: string;
+  label: string;
+  value: number | null;
+  unit: string;
+  format?: (x: number) => string;
+}) {
+  if (value === null) return null;
   return (
     <div>
       <dt className="text-xs text-bakelite-muted">{label}</dt>
       <dd className="figure font-semibold">
-        <span data-figure={name}>{f2(value)}</span> {unit}
+        <span data-figure={name}>{format(value)}</span> {unit}
       </dd>
     </div>
   );
 }
 
-function Result({ r }: { r: AlignmentResponse }) {
+/** Three significant figures: FM coils are tens of nanohenries, where two decimals of µH say nothing. */
+const sig3 = (x: number) => String(Number(x.toPrecision(3)));
+
+/** Inductance as a bench reads it: nH below 1 µH (FM coils), µH with two decimals otherwise. */
+function Inductance({ name, label, uH, fm }: { name: string; label: string; uH: number | null; fm: boolean }) {
+  if (uH === null) return null;
+  return fm ? (
+    <Figure name={name.replace(/UH$/, "NH")} label={label} value={uH * 1000} unit="nH" format={sig3} />
+  ) : (
+    <Figure name={name} label={label} value={uH} unit="µH" />
+  );
+}
+
+function Result({ r, hotChassis }: { r: AlignmentResponse; hotChassis: boolean }) {
   const d = r.design;
-  const unit = r.bandKind === "FM" ? "MHz" : "kHz";
+  const fm = r.bandKind === "FM";
+  const unit = fm ? "MHz" : "kHz";
   return (
     <div className="space-y-3" data-testid="alignment-result">
       <dl className="card grid grid-cols-2 gap-x-4 gap-y-1 p-3 text-sm md:grid-cols-4">
@@ -101,6 +146,14 @@ function Result({ r }: { r: AlignmentResponse }) {
           </div>
         ) : null}
       </dl>
+      {hotChassis ? (
+        <Notice tone="caution" title="Hot chassis">
+          <p data-caution="isolation-transformer">
+            This set&apos;s chassis is tied to one side of the mains. Power it only through an isolation transformer while the generator
+            and meters are connected, and follow local codes and licensed practice for work on live equipment.
+          </p>
+        </Notice>
+      ) : null}
       {r.warnings.length ? (
         <Notice tone="caution" title="Check">
           <ul className="list-disc pl-5">
@@ -123,30 +176,57 @@ function Result({ r }: { r: AlignmentResponse }) {
       {d ? (
         <section className="card space-y-2 p-3" aria-labelledby="design-heading">
           <h4 id="design-heading" className="font-semibold">
-            Three-point tracking design
+            {d.method === "three-point"
+              ? "Three-point tracking design"
+              : d.method === "trimmer-only"
+                ? "Two-point tracking design (no padder)"
+                : "Signal circuit design"}
           </h4>
+          {d.notes.length ? (
+            <ul className="list-disc pl-5 text-sm" data-testid="design-notes">
+              {d.notes.map((n) => (
+                <li key={n}>{n}</li>
+              ))}
+            </ul>
+          ) : null}
           <dl className="grid grid-cols-2 gap-x-4 gap-y-1 text-sm md:grid-cols-4">
-            <Figure name="design.signalInductanceUH" label="Signal inductance" value={d.signalInductanceUH} unit="µH" />
+            <Inductance name="design.signalInductanceUH" label="Signal inductance" uH={d.signalInductanceUH} fm={fm} />
             <Figure name="design.signalFixedPF" label="Signal fixed capacitance" value={d.signalFixedPF} unit="pF" />
             <Figure name="design.signalTrimmerPF" label="Signal trimmer" value={d.signalTrimmerPF} unit="pF" />
             <Figure name="design.padderPF" label="Padder" value={d.padderPF} unit="pF" />
             <Figure name="design.oscillatorFixedPF" label="Oscillator fixed capacitance" value={d.oscillatorFixedPF} unit="pF" />
             <Figure name="design.oscillatorTrimmerPF" label="Oscillator trimmer" value={d.oscillatorTrimmerPF} unit="pF" />
-            <Figure name="design.oscillatorInductanceUH" label="Oscillator inductance" value={d.oscillatorInductanceUH} unit="µH" />
+            <Inductance name="design.oscillatorInductanceUH" label="Oscillator inductance" uH={d.oscillatorInductanceUH} fm={fm} />
+            <Figure
+              name="design.sensitivityLossDb"
+              label={`Worst sensitivity loss (loaded Q ${formatNumber(d.loadedQ)}${d.loadedQAssumed ? ", assumed" : ""})`}
+              value={d.sensitivityLossDb}
+              unit="dB"
+            />
             <Figure name="design.maxAbsErrorKHz" label="Largest tracking error" value={d.maxAbsErrorKHz} unit="kHz" />
           </dl>
-          <TrackingPlot
-            curve={d.errorCurve}
-            trackingPointsKHz={r.trackingPointsKHz}
-            minimaxCurve={d.minimax?.errorCurve ?? null}
-            unit={unit}
-          />
+          {d.errorCurve.length ? (
+            <TrackingPlot
+              curve={d.errorCurve}
+              trackingPointsKHz={d.method === "trimmer-only" ? [r.trackingPointsKHz[0], r.trackingPointsKHz[2]] : r.trackingPointsKHz}
+              minimaxCurve={d.minimax?.errorCurve ?? null}
+              unit={unit}
+              sensitivityLossDb={d.sensitivityLossDb}
+              minimaxSensitivityLossDb={d.minimax?.sensitivityLossDb ?? null}
+              loadedQ={d.loadedQ}
+            />
+          ) : null}
           {d.minimax ? (
-            <p className="text-sm">
-              Equal-ripple points: <span className="figure">{d.minimax.trackingPointsKHz.map((p) => freq(p)).join(", ")}</span>, largest
-              error <span className="figure">{f2(d.minimax.maxAbsErrorKHz)} kHz</span>.
+            <p className="text-sm" data-testid="minimax">
+              Least-loss points (equal error relative to the antenna circuit&apos;s bandwidth):{" "}
+              <span className="figure">{d.minimax.trackingPointsKHz.map((p) => freq(p)).join(", ")}</span>, worst sensitivity loss{" "}
+              <span className="figure" data-figure="design.minimax.sensitivityLossDb">
+                {f2(d.minimax.sensitivityLossDb)} dB
+              </span>{" "}
+              (largest error <span className="figure">{f2(d.minimax.maxAbsErrorKHz)} kHz</span>).
             </p>
           ) : null}
+          {d.comparisons.length ? (
           <table className="dense-table">
             <caption className="text-left text-xs text-bakelite-muted">Two-point designs, for comparison</caption>
             <thead>
@@ -156,6 +236,7 @@ function Result({ r }: { r: AlignmentResponse }) {
                 <th scope="col">Oscillator fixed, pF</th>
                 <th scope="col">Oscillator L, µH</th>
                 <th scope="col">Largest error, kHz</th>
+                <th scope="col">Worst loss, dB</th>
               </tr>
             </thead>
             <tbody>
@@ -168,14 +249,16 @@ function Result({ r }: { r: AlignmentResponse }) {
                       <td className="figure">{f2(c.oscillatorFixedPF)}</td>
                       <td className="figure">{f2(c.oscillatorInductanceUH)}</td>
                       <td className="figure">{f2(c.maxAbsErrorKHz)}</td>
+                      <td className="figure">{f2(c.sensitivityLossDb)}</td>
                     </>
                   ) : (
-                    <td colSpan={4}>{c.reason}</td>
+                    <td colSpan={5}>{c.reason}</td>
                   )}
                 </tr>
               ))}
             </tbody>
           </table>
+          ) : null}
         </section>
       ) : (
         <p className="text-sm text-bakelite-muted">
@@ -186,10 +269,14 @@ function Result({ r }: { r: AlignmentResponse }) {
   );
 }
 
-export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
+/**
+ * The alignment calculator. `hotChassis` (an AC/DC set's job) puts the isolation-transformer caution at the
+ * head of the plan and above it.
+ */
+export function AlignmentCalculator({ bands = [], hotChassis = false }: { bands?: Band[]; hotChassis?: boolean }) {
   const [request, setRequest] = useState<AlignmentRequest | null>(null);
   const [bandIndex, setBandIndex] = useState(0);
-  const form = useForm<CalcForm>({ defaultValues: formFromBand(bands[0] ?? null) });
+  const form = useForm<CalcForm>({ defaultValues: formFromBand(bands[0] ?? null, hotChassis) });
   const { register, handleSubmit, formState, setError, clearErrors, reset } = form;
   const q = useQuery({
     queryKey: benchKeys.alignment(request),
@@ -202,13 +289,14 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
 
   const submit = handleSubmit((v) => {
     clearErrors();
-    const parsed = alignmentRequestSchema.safeParse(toRequest(v));
+    const body = toAlignmentRequest(v);
+    const parsed = alignmentRequestSchema.safeParse(body);
     if (!parsed.success) {
       for (const [k, m] of Object.entries(fieldErrors(parsed.error)))
         setError((k === "_" ? "root" : k) as FieldPath<CalcForm>, { message: m });
       return;
     }
-    setRequest(parsed.data);
+    setRequest(body);
   });
 
   const errAt = (path: string): string | undefined => {
@@ -227,7 +315,7 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
         <div className="flex items-center gap-1">
           <input
             id={id}
-            inputMode="decimal"
+            inputMode={unit === "kHz" ? "text" : "decimal"}
             className="field-input figure mt-0 w-28 py-1 text-right"
             aria-invalid={message ? true : undefined}
             aria-describedby={message ? `${id}-error` : hint ? `${id}-hint` : undefined}
@@ -264,7 +352,7 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
               onChange={(e) => {
                 const i = Number(e.target.value);
                 setBandIndex(i);
-                reset(formFromBand(bands[i] ?? null));
+                reset(formFromBand(bands[i] ?? null, hotChassis));
                 setRequest(null);
               }}
             >
@@ -282,15 +370,15 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
               Band kind
             </label>
             <select id="calc-band-kind" className="field-input mt-0 py-1" {...register("band.kind")}>
-              <option value="">Work it out</option>
+              <option value="">From the dial range</option>
               {bandKinds.map((k) => (
                 <option key={k}>{k}</option>
               ))}
             </select>
           </div>
-          {input("band.lowKHz", "Dial low end", "kHz")}
+          {input("band.lowKHz", "Dial low end", "kHz", "Or with a unit: 1.49 MHz")}
           {input("band.highKHz", "Dial high end", "kHz")}
-          {input("ifKHz", "IF", "kHz")}
+          {input("ifKHz", "IF", "kHz", "455, 455k or 10.7 MHz")}
           <div>
             <label htmlFor="calc-injection" className="field-label text-xs">
               Oscillator
@@ -301,6 +389,10 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
             </select>
           </div>
         </div>
+        <label className="inline-flex items-center gap-2 text-sm">
+          <input type="checkbox" {...register("hotChassis")} />
+          AC/DC set: the chassis is tied to the mains (hot chassis)
+        </label>
         <fieldset className="flex flex-wrap items-start gap-3">
           <legend className="field-label text-xs">Tuning gang (optional; needed for the design and plot)</legend>
           {input("gang.minPF", "Gang minimum", "pF")}
@@ -312,6 +404,10 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
           {input("trackingPointsKHz.0", "Low", "kHz")}
           {input("trackingPointsKHz.1", "Middle", "kHz")}
           {input("trackingPointsKHz.2", "High", "kHz")}
+        </fieldset>
+        <fieldset className="flex flex-wrap items-start gap-3">
+          <legend className="field-label text-xs">Antenna circuit (optional; for the sensitivity loss and image rejection)</legend>
+          {input("loadedQ", "Loaded Q", "", "A typical figure is assumed when empty")}
         </fieldset>
         {formState.errors.root?.message || apiFields._ ? (
           <p className="field-error">{formState.errors.root?.message ?? apiFields._}</p>
@@ -326,7 +422,7 @@ export function AlignmentCalculator({ bands = [] }: { bands?: Band[] }) {
           {errorText(q.error)}
         </Notice>
       ) : null}
-      {q.data && !q.isFetching ? <Result r={q.data} /> : null}
+      {q.data && !q.isFetching ? <Result r={q.data} hotChassis={request?.hotChassis === true} /> : null}
     </div>
   );
 }

@@ -9,11 +9,23 @@ type Props = {
   trackingPointsKHz: readonly number[];
   minimaxCurve?: ErrorPoint[] | null;
   unit?: "kHz" | "MHz";
+  /** Worst-case sensitivity loss of the plotted design and of the least-loss points, dB at loadedQ. */
+  sensitivityLossDb?: number | null;
+  minimaxSensitivityLossDb?: number | null;
+  loadedQ?: number;
 };
 
 // The tracking error across the band (received frequency minus dial frequency), with the tracking points
 // marked where the error is zero by design.
-export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "kHz" }: Props) {
+export function TrackingPlot({
+  curve,
+  trackingPointsKHz,
+  minimaxCurve,
+  unit = "kHz",
+  sensitivityLossDb = null,
+  minimaxSensitivityLossDb = null,
+  loadedQ,
+}: Props) {
   const scale = unit === "MHz" ? 1000 : 1;
   // Each curve keeps its own samples: the two sets of tracking points add points at different places.
   const data = curve.map((p) => ({ f: p.kHz / scale, error: p.errorKHz }));
@@ -63,7 +75,7 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
             />
             {minimax ? (
               <Line
-                name="Equal-ripple points"
+                name="Least-loss points"
                 type="monotone"
                 data={minimax}
                 dataKey="error"
@@ -101,8 +113,16 @@ export function TrackingPlot({ curve, trackingPointsKHz, minimaxCurve, unit = "k
         </ResponsiveContainer>
       </div>
       <figcaption id="tracking-plot-caption" className="text-xs text-bakelite-muted">
-        Tracking error across the band, {curve.length} points; the three tracking points are marked ◆ on the zero line. Largest error{" "}
-        {formatNumber(maxAbs, 2)} kHz.
+        Tracking error across the band, {curve.length} points; the {trackingPointsKHz.length} tracking points are marked ◆ on the zero line.
+        Largest error {formatNumber(maxAbs, 2)} kHz.
+        {sensitivityLossDb !== null ? (
+          <span data-plot-loss="chosen">
+            {" "}
+            Worst sensitivity loss {formatNumber(sensitivityLossDb, 2)} dB{loadedQ !== undefined ? ` at loaded Q ${formatNumber(loadedQ)}` : ""}
+            {minimaxSensitivityLossDb !== null ? `; with the least-loss points ${formatNumber(minimaxSensitivityLossDb, 2)} dB` : ""}. The same
+            error costs more at the low end, where the antenna circuit is narrowest.
+          </span>
+        ) : null}
       </figcaption>
     </figure>
   );
