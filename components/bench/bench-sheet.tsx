@@ -5,7 +5,7 @@ import { useRef, useState } from "react";
 import { useForm, useWatch, type Control, type UseFormRegister } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
-import { judgeReading, formatNumber, type ReadingRequirement } from "@/lib/engine/verdicts";
+import { judgeReading, formatNumber, readingValueProblem, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { benchNoteSchema, parseReadingText } from "@/lib/validation/bench";
 import { api, ApiError, errorText, retryLostAnswer } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
@@ -16,19 +16,26 @@ import { VerdictBadge } from "./verdict-badge";
 type SheetForm = { readings: { text: string; note: string }[] };
 type Requirement = BenchSheetJson["requirements"][number];
 
+// These readings check dial calibration (where the set receives against where the dial points); tracking
+// proper is the antenna circuit's peak, set at the antenna trimmer and coil.
 const GROUP_TITLE = (code: string): string => {
   if (code.startsWith("align.if.")) return "IF alignment";
-  if (code.startsWith("align.tracking.")) return `Tracking, band ${Number(code.split(".")[2]) + 1}`;
-  if (code.startsWith("align.dial.")) return `Band edges, band ${Number(code.split(".")[2]) + 1}`;
-  if (code === "test.voltages") return "Supply voltage";
+  if (code.startsWith("align.tracking.")) return `Dial calibration at the tracking points, band ${Number(code.split(".")[2]) + 1}`;
+  if (code.startsWith("align.dial.")) return `Dial calibration at the band edges, band ${Number(code.split(".")[2]) + 1}`;
+  if (code === "test.voltages") return "Supply voltage (with the mains voltage at the time)";
   if (code === "test.leakage") return "Leakage current (final hot check)";
   return code;
 };
 
+/** The unit a row is typed and shown in: MHz on SW and FM frequency rows, the stored unit otherwise. */
+const shownUnit = (r: Pick<ReadingRequirement, "unit" | "entryUnit">): string => r.entryUnit ?? r.unit;
+const shown = (r: Pick<ReadingRequirement, "unit" | "entryUnit">, value: number): string =>
+  formatNumber(r.entryUnit === "MHz" ? value / 1000 : value, r.entryUnit === "MHz" ? 4 : 3);
+
 function nominalText(r: ReadingRequirement): string {
-  if (r.nominal === null) return "";
+  if (r.nominal === null) return r.tolerance.kind === "recorded" ? "no schematic figure: recorded only" : "";
   if (r.tolerance.kind === "window")
-    return `${r.tolerance.reference === "target" ? "target" : "mark"} ${formatNumber(r.nominal)} ${r.unit}`;
+    return `${r.tolerance.reference === "target" ? "target" : "mark"} ${shown(r, r.nominal)} ${shownUnit(r)}`;
   return `schematic ${formatNumber(r.nominal)} ${r.unit}`;
 }
 
@@ -63,9 +70,10 @@ function ReadingRow({
   onEnter: (index: number) => void;
 }) {
   const text = useWatch({ control, name: `readings.${index}.text` }) ?? "";
-  const parsed = parseReadingText(text);
-  const live = parsed === undefined ? "invalid" : judgeReading(r, parsed).verdict;
-  const savedText = r.value === null ? "" : String(r.value);
+  const parsed = parseReadingText(text, r);
+  const problem = parsed === undefined ? `Enter a number${r.unit === "kHz" ? ", with its unit if you like (1.49 MHz, 455 kHz)" : ""}.` : parsed === null ? null : readingValueProblem(r, parsed);
+  const live = problem ? "invalid" : judgeReading(r, parsed).verdict;
+  const savedText = r.value === null ? "" : shown(r, r.value);
   const dirty = text.trim() !== savedText;
   const id = `rd-${r.key.replaceAll(".", "-")}`;
   const reg = register(`readings.${index}.text`);
@@ -84,7 +92,7 @@ function ReadingRow({
             className="field-input figure mt-0 w-28 py-0.5 text-right"
             disabled={!editable}
             aria-invalid={live === "invalid" || live === "fail" ? true : undefined}
-            aria-describedby={`${id}-tol ${id}-verdict${serverError ? ` ${id}-error` : ""}`}
+            aria-describedby={`${id}-tol ${id}-verdict${serverError || problem ? ` ${id}-error` : ""}`}
             {...reg}
             ref={(el) => {
               reg.ref(el);
@@ -98,11 +106,11 @@ function ReadingRow({
               }
             }}
           />
-          <span className="figure text-sm">{r.unit}</span>
+          <span className="figure text-sm">{shownUnit(r)}</span>
         </div>
-        {serverError ? (
+        {serverError || (problem && text.trim() !== "") ? (
           <p id={`${id}-error`} className="field-error">
-            {serverError}
+            {serverError ?? problem}
           </p>
         ) : null}
       </td>
@@ -111,7 +119,7 @@ function ReadingRow({
       </td>
       <td aria-live="polite">
         <VerdictBadge verdict={live} id={`${id}-verdict`} />
-        {parsed !== null && parsed !== undefined ? (
+        {parsed !== null && parsed !== undefined && !problem ? (
           <span className="ml-1 figure text-xs text-bakelite-muted">{deviationText(r, parsed)}</span>
         ) : null}
       </td>
@@ -137,7 +145,7 @@ function ReadingRow({
 function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
   const qc = useQueryClient();
   const form = useForm<SheetForm>({
-    defaultValues: { readings: sheet.requirements.map((r) => ({ text: r.value === null ? "" : String(r.value), note: r.note ?? "" })) },
+    defaultValues: { readings: sheet.requirements.map((r) => ({ text: r.value === null ? "" : shown(r, r.value), note: r.note ?? "" })) },
   });
   const inputs = useRef<(HTMLInputElement | null)[]>([]);
   const [pending, setPending] = useState<Set<number>>(new Set());
@@ -148,9 +156,14 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
   });
   const saveRow = (i: number) => {
     const r = sheet.requirements[i]!;
-    const value = parseReadingText(form.getValues(`readings.${i}.text`) ?? "");
+    const value = parseReadingText(form.getValues(`readings.${i}.text`) ?? "", r);
     if (value === undefined) {
-      setErrors((e) => ({ ...e, [i]: "Enter a number, e.g. 455 or 0.21." }));
+      setErrors((e) => ({ ...e, [i]: "Enter a number, e.g. 455, 1.49 MHz or 0.21." }));
+      return;
+    }
+    const problem = value === null ? null : readingValueProblem(r, value);
+    if (problem) {
+      setErrors((e) => ({ ...e, [i]: problem }));
       return;
     }
     setErrors((e) => {
@@ -186,7 +199,8 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
         Readings
       </h3>
       <p className="text-xs text-bakelite-muted">
-        Type a reading and press Enter to save it and move to the next; the verdict follows as you type.
+        Type a reading and press Enter to save it and move to the next; the verdict follows as you type. Frequencies take a unit
+        (1.49 MHz, 455 kHz, 455k); SW and FM rows are in MHz.
       </p>
       <table className="dense-table mt-2">
         <thead>

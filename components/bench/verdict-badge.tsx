@@ -4,7 +4,8 @@ const LOOK: Record<Verdict | "invalid", { icon: string; word: string; cls: strin
   pass: { icon: "✓", word: "Pass", cls: "border-pass text-pass bg-pass-light" },
   fail: { icon: "✕", word: "Fail", cls: "border-fail text-fail bg-fail-light" },
   missing: { icon: "○", word: "Not recorded", cls: "border-bakelite-soft text-bakelite-muted bg-white" },
-  invalid: { icon: "!", word: "Not a number", cls: "border-fail text-fail bg-white" },
+  recorded: { icon: "•", word: "Recorded", cls: "border-bakelite-soft text-bakelite bg-white" },
+  invalid: { icon: "!", word: "Not a reading", cls: "border-fail text-fail bg-white" },
 };
 
 // A verdict in words and an icon, never colour alone.

@@ -680,17 +680,15 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
       <Section
         id="s-tolerances"
         title="Tolerances"
-        intro="A reading passes when it is within the larger of the two figures: an absolute window in kHz or a percentage of the mark. The certificate prints the tolerance applied."
+        intro="A reading passes when it is within the larger of the two figures: an absolute window in kHz or a percentage of the mark. Dial calibration is one figure in received frequency: an LO reading at a mark gets the same window, around mark + IF. The certificate prints the tolerance applied and which reading it came from."
       >
         <div className="overflow-x-auto">
           <table className="dense-table">
             <thead>
               <tr>
                 <th scope="col">Band kind</th>
-                <th scope="col">Dial point ± kHz</th>
-                <th scope="col">Dial point ± %</th>
-                <th scope="col">LO ± kHz</th>
-                <th scope="col">LO ± %</th>
+                <th scope="col">Dial calibration ± kHz</th>
+                <th scope="col">Dial calibration ± %</th>
                 <th scope="col">IF peak ± kHz</th>
                 <th scope="col">IF peak ± %</th>
               </tr>
@@ -701,12 +699,12 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
                   <th scope="row" className="bg-transparent font-normal">
                     {BAND_KIND_LABEL[k]} ({k})
                   </th>
-                  {(["dial", "lo", "ifPeak"] as const).flatMap((what) =>
+                  {(["dial", "ifPeak"] as const).flatMap((what) =>
                     (["absKHz", "percent"] as const).map((unit) => (
                       <td key={`${what}-${unit}`}>
                         <CellInput
                           name={`tolerances.byBandKind.${k}.${what}.${unit}`}
-                          label={`${BAND_KIND_LABEL[k]}: ${what === "dial" ? "dial point" : what === "lo" ? "LO" : "IF peak"} tolerance in ${unit === "absKHz" ? "kHz" : "percent"}`}
+                          label={`${BAND_KIND_LABEL[k]}: ${what === "dial" ? "dial calibration" : "IF peak"} tolerance in ${unit === "absKHz" ? "kHz" : "percent"}`}
                           register={register}
                           errors={errors}
                         />

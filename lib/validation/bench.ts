@@ -2,6 +2,8 @@ import { z } from "zod";
 import { QUEUE_SORTS, type QueueQuery } from "@/lib/engine/jobs/queue-query";
 import { JOB_STATES } from "@/lib/engine/jobs/states";
 import { setProfileSchema } from "@/lib/engine/checklist/profile";
+import { parseFrequencyText } from "@/lib/engine/bands/frequency-text";
+import type { ReadingUnit } from "@/lib/engine/verdicts/judge-reading";
 import { messageKeySchema } from "@/lib/validation/messages";
 
 // Shared by the bench forms and the bench JSON routes.
@@ -76,12 +78,17 @@ export const readingInputSchema = z.object({
 });
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 
-/** What a technician types into a reading cell: "1,003.5" or "0.21" → a number; "" → null; junk → undefined. */
-export function parseReadingText(text: string): number | null | undefined {
+/**
+ * What a technician types into a reading cell: "1,003.5" or "0.21" → a number; "" → null; junk → undefined.
+ * Frequencies take a unit and come back in kHz ("1.49 MHz", "455 kHz", "455k"); a bare number is in the
+ * row's entry unit (MHz on SW and FM rows). Other readings may carry their own unit ("0.21 mA", "250 V").
+ */
+export function parseReadingText(text: string, row: { unit: ReadingUnit; entryUnit?: "MHz" } = { unit: "kHz" }): number | null | undefined {
+  if (row.unit === "kHz") return parseFrequencyText(text, row.entryUnit ?? "kHz");
   const s = text.trim().replace(/,/g, "");
   if (s === "") return null;
-  if (!/^-?\d+(\.\d+)?$/.test(s)) return undefined;
-  return Number(s);
+  const m = new RegExp(`^([+-]?(?:\\d+(?:\\.\\d*)?|\\.\\d+))\\s*(?:${row.unit})?$`, "i").exec(s);
+  return m ? Number(m[1]) : undefined;
 }
 
 export const taskInputSchema = z.object({ code: z.string().min(1).max(80), done: z.boolean() });

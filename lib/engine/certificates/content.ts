@@ -45,7 +45,8 @@ export const certificateContentSchema = z.object({
       nominal: z.number().nullable(),
       value: z.number().nullable(),
       toleranceText: z.string(),
-      verdict: z.enum(["pass", "fail", "missing"]),
+      /** "recorded": a reading with no figure to judge it by (B+ without a schematic value, the mains voltage). */
+      verdict: z.enum(["pass", "fail", "missing", "recorded"]),
     }),
   ),
   warranty: z.object({

@@ -1,7 +1,12 @@
 import type { CertificateDocument, CertificateReading } from "./document";
 import { bandName, formatNumber, readingKey } from "@/lib/engine/verdicts";
 
-export const VERDICT_WORD: Record<CertificateReading["verdict"], string> = { pass: "Pass", fail: "Fail", missing: "Not measured" };
+export const VERDICT_WORD: Record<CertificateReading["verdict"], string> = {
+  pass: "Pass",
+  fail: "Fail",
+  missing: "Not measured",
+  recorded: "Recorded",
+};
 
 /** Frequencies as people read them off a dial: kHz below 10 MHz, MHz above; other units as stored. */
 export function formatFrequency(kHz: number): string {
@@ -55,7 +60,7 @@ export function bandEdgeRows(d: Pick<CertificateDocument, "bands" | "readings">)
   });
 }
 
-/** Everything that is not a band edge: IF peaks, LO, tracking points, leakage (with its limit), B+. */
+/** Everything that is not a band edge: IF peaks, dial calibration at the tracking points (received and LO), leakage (with its limit), B+ and the mains at the time. */
 export function otherReadings(d: Pick<CertificateDocument, "readings">): CertificateReading[] {
   return d.readings.filter((r) => !/^band\.\d+\.edge\.(low|high)$/.test(r.key));
 }

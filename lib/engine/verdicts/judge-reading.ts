@@ -1,24 +1,35 @@
 export type ReadingUnit = "kHz" | "mA" | "V";
 
 export type Tolerance =
-  /** |reading − nominal| ≤ max(absKHz, percent % of nominal). */
-  | { kind: "window"; absKHz: number; percent: number; reference: "mark" | "target" }
+  /**
+   * |reading − nominal| ≤ max(absKHz, percent % of the mark). For a reading against a target (the LO,
+   * mark ± IF) `markKHz` is the dial mark the percentage is taken of, so that the LO reading and the
+   * received-frequency reading of one dial error get the same window.
+   */
+  | { kind: "window"; absKHz: number; percent: number; reference: "mark" | "target"; markKHz?: number }
   | { kind: "max"; limit: number; unit: ReadingUnit }
   | { kind: "percent"; percent: number }
   | { kind: "recorded" };
+
+/** What a reading checks, printed beside its tolerance so the certificate says where a verdict came from. */
+export type ReadingMeasure = "if-peak" | "dial-calibration" | "leakage" | "b-plus" | "mains";
 
 export type ReadingRequirement = {
   key: string;
   label: string;
   lineCode: string;
   unit: ReadingUnit;
+  /** Frequency readings typed in MHz (SW and FM); stored in kHz all the same. */
+  entryUnit?: "MHz";
+  measures?: ReadingMeasure;
   /** The mark or target; null for limits and for readings that are only recorded. */
   nominal: number | null;
   tolerance: Tolerance;
   toleranceText: string;
 };
 
-export type Verdict = "pass" | "fail" | "missing";
+/** "recorded": a reading with no figure to judge it against (B+ without a schematic value, the mains voltage). */
+export type Verdict = "pass" | "fail" | "missing" | "recorded";
 
 export type ReadingJudgement = {
   verdict: Verdict;
@@ -34,15 +45,20 @@ export function formatNumber(x: number, maxDigits = 3): string {
   return String(Number(x.toFixed(maxDigits)));
 }
 
-export function describeTolerance(t: Tolerance, context: { ifKHz?: number } = {}): string {
+export function describeTolerance(t: Tolerance, context: { ifKHz?: number; injection?: "high" | "low" } = {}): string {
   switch (t.kind) {
     case "window": {
-      const of =
-        t.reference === "mark"
-          ? "of the mark"
-          : context.ifKHz !== undefined
-            ? `of the target (mark + IF ${formatNumber(context.ifKHz)} kHz)`
-            : "of the target";
+      if (t.reference === "target") {
+        // An LO reading: a dial-calibration window, turned into kHz at this mark.
+        const allowed = windowAllowed(t, t.markKHz ?? 0);
+        const sign = context.injection === "low" ? "−" : "+";
+        const target =
+          t.markKHz !== undefined && context.ifKHz !== undefined
+            ? `the target (mark ${formatNumber(t.markKHz)} kHz ${sign} IF ${formatNumber(context.ifKHz)} kHz)`
+            : "the target";
+        return `within ±${formatNumber(allowed)} kHz of ${target}`;
+      }
+      const of = "of the mark";
       if (t.absKHz > 0 && t.percent > 0) {
         return `within ±${formatNumber(t.absKHz)} kHz or ${formatNumber(t.percent)} % ${of}, whichever is larger`;
       }
@@ -54,8 +70,12 @@ export function describeTolerance(t: Tolerance, context: { ifKHz?: number } = {}
     case "percent":
       return `within ±${formatNumber(t.percent)} % of the schematic value`;
     case "recorded":
-      return "recorded, no limit";
+      return "recorded, no figure to judge against";
   }
+}
+
+function windowAllowed(t: { absKHz: number; percent: number }, markKHz: number): number {
+  return Math.max(t.absKHz, (t.percent / 100) * Math.abs(markKHz));
 }
 
 // Readings are typed to a few decimals; a reading exactly on the limit passes.
@@ -71,7 +91,7 @@ export function judgeReading(requirement: ReadingRequirement, value: number | nu
   switch (t.kind) {
     case "window": {
       if (nominal === null) return { verdict: "missing", toleranceText };
-      const allowed = Math.max(t.absKHz, (t.percent / 100) * Math.abs(nominal));
+      const allowed = windowAllowed(t, t.markKHz ?? nominal);
       const deviation = value - nominal;
       return { verdict: Math.abs(deviation) <= allowed + EPS ? "pass" : "fail", toleranceText, deviation, allowed };
     }
@@ -84,7 +104,7 @@ export function judgeReading(requirement: ReadingRequirement, value: number | nu
     case "max":
       return { verdict: value <= t.limit + EPS ? "pass" : "fail", toleranceText, allowed: t.limit };
     case "recorded":
-      return { verdict: "pass", toleranceText };
+      return { verdict: "recorded", toleranceText };
   }
 }
 

@@ -24,7 +24,7 @@ import { checkProfile } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { findKeyedMessage } from "@/lib/server/services/messages";
 import { getShop } from "@/lib/server/services/shop";
-import { judgeReading, judgeReadings, listRequiredReadings, type ReadingRequirement } from "@/lib/engine/verdicts";
+import { judgeReading, judgeReadings, listRequiredReadings, readingValueProblem, type ReadingRequirement } from "@/lib/engine/verdicts";
 import type { ProfileUpdate, ReadingInput, ReturnInput } from "@/lib/validation/bench";
 import { moneyText } from "@/lib/validation/estimate";
 
@@ -224,6 +224,8 @@ export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { j
   const requirement = requirements.find((r) => r.key === input.key);
   if (!requirement)
     throw new AppError("invalid_input", "This set does not call for that reading.", { key: "This set does not call for that reading." });
+  const problem = input.value === null ? null : readingValueProblem(requirement, input.value);
+  if (problem) throw new AppError("invalid_input", problem, { value: problem });
   const judged = judgeReading(requirement, input.value);
   const now = new Date();
   const [before] = await ctx.tx

@@ -111,15 +111,17 @@ function readingLabel(key: string): string {
     case "if-peak":
       return `IF peak at ${p.ifKHz} kHz`;
     case "edge":
-      return `Band ${p.band + 1}: ${p.end} band edge`;
+      return `Band ${p.band + 1}: dial calibration at the ${p.end} band edge`;
     case "lo":
-      return `Band ${p.band + 1}: LO at the ${p.end} tracking point`;
+      return `Band ${p.band + 1}: dial calibration at the ${p.end} tracking point, LO frequency`;
     case "track":
-      return `Band ${p.band + 1}: tracking point ${p.point + 1}`;
+      return `Band ${p.band + 1}: dial calibration at tracking point ${p.point + 1}, received frequency`;
     case "leakage":
       return p.plug === "a" ? "Leakage current, plug one way" : "Leakage current, plug reversed";
     case "bplus":
       return "B+ at the filter output";
+    case "bplus-mains":
+      return "Mains voltage while B+ was read";
   }
 }
 
@@ -179,7 +181,10 @@ function buildDocument(
   const required = new Set(requirements.map((r) => r.key));
   const readings: CertificateReading[] = content.readings.map((r) => {
     const stored = byKey.get(r.key);
-    return stored ? { ...r, toleranceText: stored.toleranceText || r.toleranceText, verdict: stored.verdict } : r;
+    // A reading with nothing to judge it by is recorded, whatever an older row stored for it.
+    return stored
+      ? { ...r, toleranceText: stored.toleranceText || r.toleranceText, verdict: r.verdict === "recorded" ? "recorded" : stored.verdict }
+      : r;
   });
   for (const stored of src.readings) {
     if (required.has(stored.key)) continue;
