@@ -79,7 +79,24 @@ export function oracleThreePoint(
   return { Ts, Ls, P, To, Lo, errorAt, residual: residual(x) };
 }
 
-/** fmin's Nelder–Mead over the three points, worst error on a dense grid, each design by Newton. */
+/**
+ * Loss of a single tuned circuit of loaded Q at f to a signal at f + e, on a dense grid: the textbook
+ * universal resonance curve |H| = 1/√(1 + Q²(f_r/f − f/f_r)²), evaluated by mathjs-free plain arithmetic
+ * on the oracle's own error function.
+ */
+export function oracleWorstLossDb(errorAt: (kHz: number) => number, band: { lowKHz: number; highKHz: number }, loadedQ: number, n = 4001) {
+  let worst = { dB: 0, kHz: band.lowKHz };
+  for (let i = 0; i < n; i++) {
+    const f = band.lowKHz + ((band.highKHz - band.lowKHz) * i) / (n - 1);
+    const fr = f + errorAt(f);
+    const x = loadedQ * (fr / f - f / fr);
+    const dB = 20 * Math.log10(Math.sqrt(1 + x * x));
+    if (dB > worst.dB) worst = { dB, kHz: f };
+  }
+  return worst;
+}
+
+/** fmin's Nelder–Mead over the three points, worst error in kHz on a dense grid, each design by Newton. */
 export function oracleMinimax(
   band: { lowKHz: number; highKHz: number },
   ifKHz: number,
@@ -97,6 +114,47 @@ export function oracleMinimax(
   };
   const result = fmin.nelderMead(objective, start, { maxIterations: 3000, minErrorDelta: 1e-9 });
   return { points: result.x, maxAbsErrorKHz: result.fx };
+}
+
+/**
+ * Two-point oscillator with no padder (FM front ends): Newton on f_o(g_k) = f_k + f_IF for T_o and L_o,
+ * numeric.solve for each step.
+ */
+export function oracleTrimmerOnly(
+  band: { lowKHz: number; highKHz: number },
+  ifKHz: number,
+  gang: { minPF: number; maxPF: number },
+  points: [number, number],
+  start: [number, number],
+) {
+  const { Ts, Ls } = oracleSignalCircuit(band.lowKHz, band.highKHz, gang.minPF, gang.maxPF);
+  const g = points.map((f) => gangAt(Ls, Ts, f));
+  const osc = (To: number, Lo: number, gk: number) => fKHz(Lo, gk + To);
+  const residual = (x: number[]) => points.map((f, k) => osc(x[0], x[1], g[k]) - (f + ifKHz));
+  let x = [...start];
+  for (let iter = 0; iter < 100; iter++) {
+    const r = residual(x);
+    if (numeric.norm2(r) < 1e-10) break;
+    const J = [
+      [0, 0],
+      [0, 0],
+    ];
+    for (let j = 0; j < 2; j++) {
+      const h = Math.abs(x[j]) * 1e-7;
+      const xp = [...x];
+      xp[j] += h;
+      const rp = residual(xp);
+      for (let i = 0; i < 2; i++) J[i][j] = (rp[i] - r[i]) / h;
+    }
+    const dx = numeric.solve(
+      J,
+      r.map((v) => -v),
+    );
+    x = x.map((v, i) => v + dx[i]);
+  }
+  const [To, Lo] = x;
+  const errorAt = (kHz: number) => osc(To, Lo, gangAt(Ls, Ts, kHz)) - (kHz + ifKHz);
+  return { Ts, Ls, To, Lo, errorAt, residual: residual(x) };
 }
 
 export { evaluate };
