@@ -4,6 +4,7 @@ import { EngineError } from "@/lib/engine/engine-error";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import {
   alignmentRequestSchema,
+  parseAlignmentRequest,
   estimateRequestSchema,
   fieldErrors,
   invalidInputBody,
@@ -37,7 +38,12 @@ describe("alignment calculator request", () => {
     expect(r.design?.padderPF).toBeCloseTo(413.25, 2);
     expect(r.design?.maxAbsErrorKHz).toBeCloseTo(11.66, 2);
     expect(r.design?.errorCurve.length).toBeGreaterThan(100);
-    expect(r.design?.minimax?.maxAbsErrorKHz).toBeCloseTo(4.68, 2);
+    // Loaded Q 80 assumed; the least-loss points lose about 2.25 dB (REFERENCES.md, sensitivity lost to tracking error).
+    expect(r.design?.loadedQ).toBe(80);
+    expect(r.design?.loadedQAssumed).toBe(true);
+    expect(Math.abs((r.design?.minimax?.sensitivityLossDb ?? 0) - 2.25)).toBeLessThan(0.03);
+    expect(r.design?.sensitivityLossDb).toBeGreaterThan(r.design?.minimax?.sensitivityLossDb ?? Infinity);
+    expect(r.design?.comparisons.every((c) => !c.ok || c.sensitivityLossDb > 0)).toBe(true);
     expect(allNumbersFinite(r)).toBe(true);
   });
 
@@ -47,29 +53,82 @@ describe("alignment calculator request", () => {
     expect(r.bandKind).toBe("SW");
   });
 
+  const fieldsOf = (raw: unknown) => {
+    const r = alignmentRequestSchema.safeParse(raw);
+    return r.success ? {} : fieldErrors(r.error);
+  };
+
   test("bad input gives field-level messages", () => {
-    const r = alignmentRequestSchema.safeParse({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 4550, trackingPointsKHz: [600, 1000] });
-    expect(r.success).toBe(false);
-    const fields = r.success ? {} : fieldErrors(r.error);
-    expect(Object.keys(fields)).toEqual(expect.arrayContaining(["ifKHz", "trackingPointsKHz"]));
-    const order = alignmentRequestSchema.safeParse({
-      band: { lowKHz: 1600, highKHz: 540 },
-      ifKHz: 455,
-      trackingPointsKHz: [600, 1000, 1700],
-    });
-    expect(order.success ? {} : fieldErrors(order.error)).toEqual({
+    expect(Object.keys(fieldsOf({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, trackingPointsKHz: [600, 1000] }))).toEqual([
+      "trackingPointsKHz.2",
+    ]);
+    expect(Object.keys(fieldsOf({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 4550 }))).toEqual(["ifKHz"]);
+    expect(fieldsOf({ band: { lowKHz: 1600, highKHz: 540 }, ifKHz: 455, trackingPointsKHz: [600, 1000, 1700] })).toEqual({
       "band.highKHz": "The high end must be above the low end.",
-      "trackingPointsKHz.0": "Tracking points must lie on the band.",
-      "trackingPointsKHz.1": "Tracking points must lie on the band.",
+    });
+    expect(fieldsOf({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, trackingPointsKHz: [600, 1000, 1700] })).toEqual({
       "trackingPointsKHz.2": "Tracking points must lie on the band.",
     });
     expect(alignmentRequestSchema.safeParse({ band: { lowKHz: Number.POSITIVE_INFINITY, highKHz: 1600 }, ifKHz: 455 }).success).toBe(false);
   });
 
+  // Families of IF (REFERENCES.md, intermediate frequencies): 455-class for AM bands, 10.7 MHz for FM.
+  test("band and IF of different families are refused on the IF field; the kind comes from the band", () => {
+    expect(fieldsOf({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 10700 })["ifKHz"]).toMatch(/MW band needs an AM IF/);
+    expect(fieldsOf({ band: { lowKHz: 88000, highKHz: 108000 }, ifKHz: 455 })["ifKHz"]).toMatch(/FM band needs an FM IF/);
+    expect(fieldsOf({ band: { lowKHz: 88000, highKHz: 108000, kind: "MW" }, ifKHz: 455 })["band.kind"]).toMatch(/MW dial lies between/);
+    expect(runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 1600, highKHz: 4500 }, ifKHz: 455 })).bandKind).toBe("SW");
+    expect(runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 88000, highKHz: 108000 }, ifKHz: 10700 })).bandKind).toBe("FM");
+  });
+
+  test("frequency fields take a unit, and refuse what is not a frequency by name", () => {
+    const r = parseAlignmentRequest({ band: { lowKHz: "0.54 MHz", highKHz: "1600k" }, ifKHz: "455 kHz", trackingPointsKHz: ["600", 1000, "1.4M"] });
+    expect(r.basis.band).toMatchObject({ lowKHz: 540, highKHz: 1600, kind: "MW" });
+    expect(r.basis.ifKHz).toBe(455);
+    expect(r.trackingPointsKHz).toEqual([600, 1000, 1400]);
+    expect(fieldsOf({ band: { lowKHz: -540, highKHz: 1600 }, ifKHz: 455 })["band.lowKHz"]).toMatch(/above zero/);
+    expect(fieldsOf({ band: { lowKHz: 0.58, highKHz: 1600 }, ifKHz: 455 })["band.lowKHz"]).toMatch(/0\.58 MHz/);
+    expect(fieldsOf({ band: { lowKHz: "five", highKHz: 1600 }, ifKHz: 455 })["band.lowKHz"]).toMatch(/with its unit/);
+  });
+
+  // Common practice: an AC/DC set's chassis is tied to the mains; work on it through an isolation transformer.
+  test("a hot-chassis request opens the plan with the isolation-transformer caution", () => {
+    const r = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, hotChassis: true }));
+    expect(r.steps[0]?.text).toMatch(/isolation transformer/);
+    const plain = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455 }));
+    expect(plain.steps.some((s) => /isolation transformer/.test(s.text))).toBe(false);
+  });
+
+  // REFERENCES.md (tracking): a series padder cannot widen the oscillator's capacitance ratio, which a low LO needs.
+  test("low-side injection with a gang keeps the plan and designs what can be designed, saying why", () => {
+    const mw = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, injection: "low", gang: { minPF: 10, maxPF: 365 } }));
+    expect(mw.lo).toEqual({ lowKHz: 85, highKHz: 1145 });
+    expect(mw.steps.length).toBeGreaterThan(3);
+    expect(mw.design?.method).toBe("signal-only");
+    expect(mw.design?.signalInductanceUH).toBeCloseTo(216.82, 2);
+    expect(mw.design?.padderPF).toBeNull();
+    expect(mw.design?.notes.join(" ")).toMatch(/padder/);
+    const sw = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 5900, highKHz: 18000 }, ifKHz: 455, injection: "low", gang: { minPF: 12, maxPF: 365 } }));
+    expect(sw.design?.method).toBe("trimmer-only");
+    expect(sw.design?.padderPF).toBeNull();
+    expect(sw.design?.oscillatorInductanceUH).toBeGreaterThan(0);
+    expect(sw.design?.notes.length).toBeGreaterThan(0);
+  });
+
+  // Common practice: FM front ends track with the oscillator coil and trimmer; they use no padder.
+  test("FM designs have no padder and track at two points", () => {
+    const r = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 88000, highKHz: 108000 }, ifKHz: 10700, gang: { minPF: 5, maxPF: 20 } }));
+    expect(r.design?.method).toBe("trimmer-only");
+    expect(r.design?.padderPF).toBeNull();
+    expect(r.design?.minimax).toBeNull();
+    expect(r.design?.loadedQ).toBe(25);
+    expect(r.design?.notes.join(" ")).toMatch(/no padder/);
+  });
+
   test("the engine's refusal becomes the same 400 body", () => {
     let body: ReturnType<typeof invalidInputBody> = null;
     try {
-      runAlignmentTool(alignmentRequestSchema.parse({ band: { lowKHz: 150, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } }));
+      runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 150, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } }));
     } catch (e) {
       body = invalidInputBody(e);
     }

@@ -1,6 +1,8 @@
 import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import {
+  checkTrackingBasis,
+  checkTrackingPoints,
   designThreePoint,
   gangSettingPF,
   oscillatorKHzAt,
@@ -25,9 +27,7 @@ const mwDesign = fc
   .map((r) => {
     const at = (t: number) => Math.exp(Math.log(r.low) + t * (Math.log(r.high) - Math.log(r.low)));
     return {
-      band: { lowKHz: r.low, highKHz: r.high },
-      ifKHz: r.ifKHz,
-      gang: { minPF: r.minPF, maxPF: r.maxPF },
+      ...checkTrackingBasis({ band: { lowKHz: r.low, highKHz: r.high }, ifKHz: r.ifKHz, gang: { minPF: r.minPF, maxPF: r.maxPF } }),
       trackingPointsKHz: [at(r.a), at(r.b), at(r.c)],
     };
   });
@@ -83,14 +83,15 @@ describe("tracking properties", () => {
         }),
         (r) => {
           try {
-            const s = solveTracking({
+            // Through the door first, as every caller does; then the design on what passed.
+            const basis = checkTrackingBasis({
               band: { lowKHz: r.low, highKHz: r.high },
               ifKHz: r.ifKHz,
               injection: r.injection,
               gang: { minPF: r.minPF, maxPF: r.maxPF, strayPF: r.strayPF },
-              trackingPointsKHz: r.points,
-              samples: 11,
             });
+            const points = r.points ? checkTrackingPoints(r.points, basis.band) : undefined;
+            const s = solveTracking({ ...basis, ...(points ? { trackingPointsKHz: points } : {}), samples: 11 });
             const numbers = [
               s.padderPF,
               s.oscillatorFixedPF,

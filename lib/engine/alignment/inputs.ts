@@ -39,7 +39,9 @@ export function checkBand(band: DialRange & { kind?: BandKind }, prefix = "band"
   if (!isNum(band.highKHz) || band.highKHz <= 0) refuse("not-positive", "The high end of the band must be a frequency above zero.", `${prefix}.highKHz`);
   if (band.lowKHz >= band.highKHz) refuse("band-order", "The high end must be above the low end.", `${prefix}.highKHz`);
   // No receiver dial starts below LF or spans more than this; beyond it the figures are typing errors.
-  if (band.lowKHz < MIN_DIAL_KHZ) refuse("band-absurd", `A dial starts at ${MIN_DIAL_KHZ} kHz or above.`, `${prefix}.lowKHz`);
+  if (band.lowKHz < MIN_DIAL_KHZ) {
+    refuse("band-absurd", `A dial starts at ${MIN_DIAL_KHZ} kHz or above; for ${band.lowKHz} MHz type "${band.lowKHz} MHz".`, `${prefix}.lowKHz`);
+  }
   if (band.highKHz > MAX_DIAL_KHZ) refuse("band-absurd", `A dial ends at ${MAX_DIAL_KHZ} kHz or below.`, `${prefix}.highKHz`);
   if (band.highKHz / band.lowKHz > MAX_DIAL_RATIO) {
     refuse("band-absurd", `A single band spans at most ${MAX_DIAL_RATIO}:1 in frequency.`, `${prefix}.highKHz`);
