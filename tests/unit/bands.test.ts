@@ -1,5 +1,4 @@
 import fc from "fast-check";
-import { mod } from "mathjs";
 import { describe, expect, test } from "vitest";
 import {
   amAllocations,
@@ -20,6 +19,8 @@ import {
   plausibleIfRangeKHz,
   rasters,
   wavelengthMetres,
+  bandKindForRange,
+  parseFrequencyText,
 } from "@/lib/engine/bands";
 import { EngineError } from "@/lib/engine/engine-error";
 import { evaluate } from "./support/oracles";
@@ -74,24 +75,30 @@ describe("AM allocations and rasters", () => {
     expect(nearestCarrier(5000, rasters["mw-region-1-3"])).toBe(1602);
   });
 
-  test("property: every 540 + 10n up to 1700 is a carrier, every other whole kHz is not", () => {
+  test("US clear-channel frequencies are carriers; the odd-5 kHz frequencies between them are not (from memory: 47 CFR §73.25 clear channels)", () => {
     const r = rasters["mw-region-2"];
-    fc.assert(
-      fc.property(fc.integer({ min: 0, max: 3000 }), (f) => {
-        const expected = f >= 540 && f <= 1700 && f % 10 === 0;
-        expect(isCarrier(f, r)).toBe(expected);
-      }),
-    );
+    for (const f of [640, 650, 660, 670, 700, 720, 750, 760, 770, 780, 820, 830, 840, 850, 870, 880, 890, 1020, 1030, 1040, 1100, 1110, 1120, 1160, 1180, 1200, 1210, 1500, 1510]) {
+      expect(isCarrier(f, r)).toBe(true);
+      expect(isCarrier(f + 5, r)).toBe(false);
+    }
   });
 
-  test("property: Region 1/3 membership is exactly 531 + 9n for n = 0…119", () => {
+  test("Region 1 MW stations on 9 kHz channels: 693, 909, 1089, 1215 kHz are carriers; 1000 and 1010 are not (from memory: UK national MW frequencies)", () => {
     const r = rasters["mw-region-1-3"];
-    fc.assert(
-      fc.property(fc.integer({ min: -50, max: 200 }), (n) => {
-        expect(isCarrier(531 + 9 * n, r)).toBe(n >= 0 && n <= 119);
-        expect(isCarrier(531 + 9 * n + 4, r)).toBe(false);
-      }),
-    );
+    for (const f of [693, 909, 1089, 1215]) expect(isCarrier(f, r)).toBe(true);
+    for (const f of [1000, 1010, 694]) expect(isCarrier(f, r)).toBe(false);
+  });
+
+  test("property: the nearest carrier is a carrier, within half a step, for any frequency on the dial", () => {
+    for (const r of [rasters["mw-region-2"], rasters["mw-region-1-3"], rasters["fm-us"]]) {
+      fc.assert(
+        fc.property(fc.double({ min: r.firstKHz, max: r.lastKHz, noNaN: true }), (f) => {
+          const c = nearestCarrier(f, r);
+          expect(isCarrier(c, r)).toBe(true);
+          expect(Math.abs(c - f)).toBeLessThanOrEqual(r.stepKHz / 2 + 1e-9);
+        }),
+      );
+    }
   });
 
   test("property: non-integer and non-finite frequencies are never carriers", () => {
@@ -201,16 +208,25 @@ describe("IF presets", () => {
     expect(ifFamilyOf(4550)).toBeNull();
     for (const p of ifPresets) expect(isPlausibleIf(p.kHz, p.family)).toBe(true);
   });
+});
 
-  test("455 kHz is off both rasters: 455 mod 10 = 5, 455 mod 9 = 5 (computed; oracle: mathjs mod)", () => {
-    expect(mod(455, 10)).toBe(5);
-    expect(mod(455, 9)).toBe(5);
-    expect(455 % 10).toBe(5);
-    expect(455 % 9).toBe(5);
-    // Both MW rasters sit on whole multiples of their step, so a residue of 5 keeps 455 kHz off them.
-    for (const r of [rasters["mw-region-2"], rasters["mw-region-1-3"]]) {
-      expect(mod(r.firstKHz, r.stepKHz)).toBe(0);
-      expect(mod(455, r.stepKHz)).not.toBe(0);
-    }
+describe("band kinds", () => {
+  // Plausible printed dial ranges (REFERENCES.md, bands and rasters): LW ends by 520 kHz, MW runs to 1800 kHz,
+  // SW from 1.5 MHz, FM from 64 MHz; the IF plays no part in the kind.
+  test("the kind comes from the dial range: 540–1600 kHz MW, 1.6–4.5 MHz SW, 150–285 kHz LW, 88–108 MHz FM", () => {
+    expect(bandKindForRange({ lowKHz: 540, highKHz: 1600 })).toBe("MW");
+    expect(bandKindForRange({ lowKHz: 1600, highKHz: 4500 })).toBe("SW");
+    expect(bandKindForRange({ lowKHz: 150, highKHz: 285 })).toBe("LW");
+    expect(bandKindForRange({ lowKHz: 88000, highKHz: 108000 })).toBe("FM");
+  });
+
+  test("frequency text: units convert to kHz (definitions: 1 MHz = 1000 kHz)", () => {
+    expect(parseFrequencyText("1.49 MHz")).toBe(1490);
+    expect(parseFrequencyText("455 kHz")).toBe(455);
+    expect(parseFrequencyText("455k")).toBe(455);
+    expect(parseFrequencyText("10.7M")).toBe(10700);
+    expect(parseFrequencyText("98.1", "MHz")).toBe(98100);
+    expect(parseFrequencyText("")).toBeNull();
+    expect(parseFrequencyText("4 5 5")).toBeUndefined();
   });
 });

@@ -1,3 +1,4 @@
+import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { computeChecklist } from "@/lib/engine/checklist";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
@@ -8,9 +9,11 @@ import {
   judgeReadings,
   listRequiredReadings,
   parseReadingKey,
+  readingValueProblem,
   readingKey,
   type ReadingRequirement,
 } from "@/lib/engine/verdicts";
+import { parseReadingText } from "@/lib/validation/bench";
 import { aurelianTableSet, corvanePortable, haldaneConsole } from "./support/demo-sets";
 
 const req = (key: string, profile = aurelianTableSet): ReadingRequirement => {
@@ -22,7 +25,10 @@ const req = (key: string, profile = aurelianTableSet): ReadingRequirement => {
 describe("tolerances", () => {
   test("MW dial point within max(10 kHz, 1 % of reading) of the mark (common practice, a shop proposal)", () => {
     const low = req(readingKey.edgeLow(0));
-    expect(low.toleranceText).toBe("within ±10 kHz or 1 % of the mark, whichever is larger");
+    expect(low.toleranceText).toBe(
+      "within ±10 kHz or 1 % of the mark, whichever is larger; dial calibration, read as the received frequency",
+    );
+    expect(low.label).toMatch(/dial calibration at the low band edge/);
     expect(judgeReading(low, 550).verdict).toBe("pass");
     expect(judgeReading(low, 550.5).verdict).toBe("fail");
     const high = req(readingKey.edgeHigh(0));
@@ -30,17 +36,51 @@ describe("tolerances", () => {
     expect(judgeReading(high, 1617).verdict).toBe("fail");
   });
 
-  test("LO at an alignment point within ±2 kHz of mark + IF (common practice)", () => {
+  test("LO at a mark: the same dial-calibration window around mark + IF (REFERENCES.md tolerances: received = LO − IF, one error, one verdict)", () => {
     const lo = req(readingKey.loLow(0));
     expect(lo.nominal).toBe(580 + 455);
-    expect(lo.toleranceText).toBe("within ±2 kHz of the target (mark + IF 455 kHz)");
-    expect(judgeReading(lo, 1037).verdict).toBe("pass");
-    expect(judgeReading(lo, 1037.1).verdict).toBe("fail");
+    expect(lo.toleranceText).toBe(
+      "within ±10 kHz of the target (mark 580 kHz + IF 455 kHz); dial calibration at this mark, read on the LO (received = LO − IF)",
+    );
+    expect(lo.label).toMatch(/dial calibration at the 580 kHz mark, LO frequency/);
+    expect(judgeReading(lo, 1045).verdict).toBe("pass");
+    expect(judgeReading(lo, 1045.1).verdict).toBe("fail");
+  });
+
+  test("property: a dial error read as the received frequency and read on the LO gets one verdict, on MW and SW (REFERENCES.md tolerances)", () => {
+    for (const [profile, band] of [
+      [aurelianTableSet, 0],
+      [haldaneConsole, 1],
+    ] as const) {
+      const pairs = [
+        [readingKey.track(band, 0), readingKey.loLow(band)],
+        [readingKey.track(band, 2), readingKey.loHigh(band)],
+      ] as const;
+      for (const [trackKey, loKey] of pairs) {
+        const track = req(trackKey, profile);
+        const lo = req(loKey, profile);
+        const ifKHz = lo.nominal! - track.nominal!;
+        expect(profile.bands[band]!.ifKHz).toBe(ifKHz);
+        fc.assert(
+          fc.property(fc.double({ min: -0.05, max: 0.05, noNaN: true }), (fraction) => {
+            const error = fraction * track.nominal!;
+            expect(judgeReading(lo, track.nominal! + ifKHz + error).verdict).toBe(judgeReading(track, track.nominal! + error).verdict);
+          }),
+        );
+      }
+    }
+  });
+
+  test("the service manual's own tracking points, when the profile gives them, are the marks", () => {
+    const profile = { ...aurelianTableSet, bands: [{ ...aurelianTableSet.bands[0]!, trackingPointsKHz: [600, 1000, 1400] as [number, number, number] }] };
+    expect(req(readingKey.track(0, 1), profile).nominal).toBe(1000);
+    expect(req(readingKey.loHigh(0), profile).nominal).toBe(1400 + 455);
   });
 
   test("SW dial point within 2 % of reading (common practice)", () => {
     const edge = req(readingKey.edgeHigh(1), haldaneConsole);
-    expect(edge.toleranceText).toBe("within ±2 % of the mark");
+    expect(edge.toleranceText).toBe("within ±2 % of the mark; dial calibration, read as the received frequency");
+    expect(edge.entryUnit).toBe("MHz");
     expect(judgeReading(edge, 7300 * 1.02).verdict).toBe("pass");
     expect(judgeReading(edge, 7300 * 1.021).verdict).toBe("fail");
   });
@@ -65,8 +105,12 @@ describe("tolerances", () => {
     expect(judgeReading(r, Number.NaN).verdict).toBe("missing");
   });
 
-  test("B+ is recorded, or judged ±10 % against a schematic figure", () => {
-    expect(req(readingKey.bPlus).toleranceText).toBe("recorded, no limit");
+  test("B+ with no schematic figure is recorded, never passed; with one it is judged ±10 %; the mains at the time is recorded with it (common practice: B+ follows the mains)", () => {
+    const free = req(readingKey.bPlus);
+    expect(free.toleranceText).toBe("recorded, no figure to judge against");
+    expect(judgeReading(free, 250).verdict).toBe("recorded");
+    expect(judgeReading(req(readingKey.bPlusMains), 118).verdict).toBe("recorded");
+    expect(req(readingKey.bPlusMains).lineCode).toBe("test.voltages");
     const b = req(readingKey.bPlus, haldaneConsole);
     expect(b.toleranceText).toBe("within ±10 % of the schematic value");
     expect(judgeReading(b, 270).verdict).toBe("pass");
@@ -88,6 +132,7 @@ describe("reading keys and the bench sheet", () => {
     expect(parseReadingKey("band.1.track.2")).toEqual({ kind: "track", band: 1, point: 2 });
     expect(parseReadingKey("leakage.plug-b")).toEqual({ kind: "leakage", plug: "b" });
     expect(parseReadingKey("bplus")).toEqual({ kind: "bplus" });
+    expect(parseReadingKey("bplus.mains")).toEqual({ kind: "bplus-mains" });
     expect(parseReadingKey("band.x.edge.low")).toBeNull();
   });
 
@@ -112,5 +157,34 @@ describe("reading keys and the bench sheet", () => {
     const failing = judgeReadings(reqs, { ...good, [readingKey.leakagePlugA]: 0.9 });
     expect(failing.failing).toEqual([readingKey.leakagePlugA]);
     expect(failing.complete).toBe(false);
+  });
+});
+
+describe("readings are physical", () => {
+  // Common practice: a frequency, current or voltage reading is never below zero, and a reading typed in the
+  // wrong unit (0.58 for the 580 kHz mark) is a typing error, not an out-of-tolerance set.
+  test("negative or wrong-unit frequencies are bad input, naming what was meant", () => {
+    const mark = req(readingKey.track(0, 0));
+    expect(mark.nominal).toBe(580);
+    expect(readingValueProblem(mark, -580)).toMatch(/above zero/);
+    expect(readingValueProblem(mark, 0.58)).toMatch(/0\.58 MHz/);
+    expect(readingValueProblem(mark, 592)).toBeNull();
+    expect(judgeReading(mark, 592).verdict).toBe("fail");
+    expect(readingValueProblem(req(readingKey.leakagePlugA), -0.1)).toMatch(/not below zero/);
+    expect(readingValueProblem(req(readingKey.bPlusMains), 11.8)).toMatch(/50 and 300 V/);
+  });
+
+  test("frequency readings take units; SW and FM rows are typed in MHz and stored in kHz", () => {
+    const mw = req(readingKey.track(0, 0));
+    expect(parseReadingText("1.49 MHz", mw)).toBe(1490);
+    expect(parseReadingText("455 kHz", mw)).toBe(455);
+    expect(parseReadingText("455k", mw)).toBe(455);
+    expect(parseReadingText("1,003.5", mw)).toBe(1003.5);
+    expect(parseReadingText("12 parsecs", mw)).toBeUndefined();
+    const sw = req(readingKey.edgeHigh(1), haldaneConsole);
+    expect(parseReadingText("7.3", sw)).toBe(7300);
+    expect(parseReadingText("7300 kHz", sw)).toBe(7300);
+    expect(readingValueProblem(sw, parseReadingText("7300", sw)!)).toMatch(/takes MHz/);
+    expect(parseReadingText("0.21 mA", req(readingKey.leakagePlugA))).toBe(0.21);
   });
 });

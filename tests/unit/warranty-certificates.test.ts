@@ -19,6 +19,7 @@ import {
 import { computeChecklist } from "@/lib/engine/checklist";
 import { EngineError } from "@/lib/engine/engine-error";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { VERDICT_WORD } from "@/lib/engine/certificates/tables";
 import { listRequiredReadings } from "@/lib/engine/verdicts";
 import { adviseClaim, computeWarrantyTerm, coverageFromCertificate, exclusionCodes, isWithinTerm } from "@/lib/engine/warranty";
 import { aurelianTableSet } from "./support/demo-sets";
@@ -88,13 +89,26 @@ describe("what a certificate carries (published: 15 U.S.C. §2303; 16 CFR §701.
       nominal: 540,
       value: 540,
       verdict: "pass",
-      toleranceText: "within ±10 kHz or 1 % of the mark, whichever is larger",
+      toleranceText: "within ±10 kHz or 1 % of the mark, whichever is larger; dial calibration, read as the received frequency",
     });
     expect(c.readings.find((r) => r.key === "leakage.plug-a")).toMatchObject({
       value: 0.12,
       verdict: "pass",
       toleranceText: "at most 0.5 mA",
     });
+  });
+
+  // Common practice: a reading with no figure to judge it by is a record, not a pass.
+  test("B+ with no schematic figure prints Recorded, never Pass; the mains at the time goes with it", () => {
+    const bplus = c.readings.find((r) => r.key === "bplus");
+    expect(bplus?.verdict).toBe("recorded");
+    expect(VERDICT_WORD[bplus!.verdict]).toBe("Recorded");
+    expect(c.readings.find((r) => r.key === "bplus.mains")?.verdict).toBe("recorded");
+  });
+
+  test("the certificate says which reading a dial-calibration verdict came from", () => {
+    expect(c.readings.find((r) => r.key === "band.0.lo.low")?.toleranceText).toMatch(/read on the LO/);
+    expect(c.readings.find((r) => r.key === "band.0.track.1")?.toleranceText).toMatch(/read as the received frequency/);
   });
 });
 
