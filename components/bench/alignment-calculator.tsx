@@ -35,7 +35,11 @@ export function toAlignmentRequest(v: CalcForm): AlignmentRequest {
   const gangGiven = v.gang.minPF.trim() !== "" || v.gang.maxPF.trim() !== "";
   const q = num(v.loadedQ);
   return {
-    band: { lowKHz: freqText(v.band.lowKHz), highKHz: freqText(v.band.highKHz), ...(v.band.kind ? { kind: v.band.kind as Band["kind"] } : {}) },
+    band: {
+      lowKHz: freqText(v.band.lowKHz),
+      highKHz: freqText(v.band.highKHz),
+      ...(v.band.kind ? { kind: v.band.kind as Band["kind"] } : {}),
+    },
     ifKHz: freqText(v.ifKHz),
     ...(v.injection === "low" ? { injection: "low" as const } : {}),
     ...(gangGiven
@@ -149,8 +153,8 @@ function Result({ r, hotChassis }: { r: AlignmentResponse; hotChassis: boolean }
       {hotChassis ? (
         <Notice tone="caution" title="Hot chassis">
           <p data-caution="isolation-transformer">
-            This set&apos;s chassis is tied to one side of the mains. Power it only through an isolation transformer while the generator
-            and meters are connected, and follow local codes and licensed practice for work on live equipment.
+            This set&apos;s chassis is tied to one side of the mains. Power it only through an isolation transformer while the generator and
+            meters are connected, and follow local codes and licensed practice for work on live equipment.
           </p>
         </Notice>
       ) : null}
@@ -227,37 +231,37 @@ function Result({ r, hotChassis }: { r: AlignmentResponse; hotChassis: boolean }
             </p>
           ) : null}
           {d.comparisons.length ? (
-          <table className="dense-table">
-            <caption className="text-left text-xs text-bakelite-muted">Two-point designs, for comparison</caption>
-            <thead>
-              <tr>
-                <th scope="col">Method</th>
-                <th scope="col">Padder, pF</th>
-                <th scope="col">Oscillator fixed, pF</th>
-                <th scope="col">Oscillator L, µH</th>
-                <th scope="col">Largest error, kHz</th>
-                <th scope="col">Worst loss, dB</th>
-              </tr>
-            </thead>
-            <tbody>
-              {d.comparisons.map((c) => (
-                <tr key={c.method}>
-                  <td>{c.method === "padder-only" ? "Padder only" : "Trimmer only"}</td>
-                  {c.ok ? (
-                    <>
-                      <td className="figure">{c.padderPF === null ? "—" : f2(c.padderPF)}</td>
-                      <td className="figure">{f2(c.oscillatorFixedPF)}</td>
-                      <td className="figure">{f2(c.oscillatorInductanceUH)}</td>
-                      <td className="figure">{f2(c.maxAbsErrorKHz)}</td>
-                      <td className="figure">{f2(c.sensitivityLossDb)}</td>
-                    </>
-                  ) : (
-                    <td colSpan={5}>{c.reason}</td>
-                  )}
+            <table className="dense-table">
+              <caption className="text-left text-xs text-bakelite-muted">Two-point designs, for comparison</caption>
+              <thead>
+                <tr>
+                  <th scope="col">Method</th>
+                  <th scope="col">Padder, pF</th>
+                  <th scope="col">Oscillator fixed, pF</th>
+                  <th scope="col">Oscillator L, µH</th>
+                  <th scope="col">Largest error, kHz</th>
+                  <th scope="col">Worst loss, dB</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {d.comparisons.map((c) => (
+                  <tr key={c.method}>
+                    <td>{c.method === "padder-only" ? "Padder only" : "Trimmer only"}</td>
+                    {c.ok ? (
+                      <>
+                        <td className="figure">{c.padderPF === null ? "—" : f2(c.padderPF)}</td>
+                        <td className="figure">{f2(c.oscillatorFixedPF)}</td>
+                        <td className="figure">{f2(c.oscillatorInductanceUH)}</td>
+                        <td className="figure">{f2(c.maxAbsErrorKHz)}</td>
+                        <td className="figure">{f2(c.sensitivityLossDb)}</td>
+                      </>
+                    ) : (
+                      <td colSpan={5}>{c.reason}</td>
+                    )}
+                  </tr>
+                ))}
+              </tbody>
+            </table>
           ) : null}
         </section>
       ) : (

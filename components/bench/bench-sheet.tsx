@@ -71,7 +71,12 @@ function ReadingRow({
 }) {
   const text = useWatch({ control, name: `readings.${index}.text` }) ?? "";
   const parsed = parseReadingText(text, r);
-  const problem = parsed === undefined ? `Enter a number${r.unit === "kHz" ? ", with its unit if you like (1.49 MHz, 455 kHz)" : ""}.` : parsed === null ? null : readingValueProblem(r, parsed);
+  const problem =
+    parsed === undefined
+      ? `Enter a number${r.unit === "kHz" ? ", with its unit if you like (1.49 MHz, 455 kHz)" : ""}.`
+      : parsed === null
+        ? null
+        : readingValueProblem(r, parsed);
   const live = problem ? "invalid" : judgeReading(r, parsed).verdict;
   const savedText = r.value === null ? "" : shown(r, r.value);
   const dirty = text.trim() !== savedText;
@@ -199,8 +204,8 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
         Readings
       </h3>
       <p className="text-xs text-bakelite-muted">
-        Type a reading and press Enter to save it and move to the next; the verdict follows as you type. Frequencies take a unit
-        (1.49 MHz, 455 kHz, 455k); SW and FM rows are in MHz.
+        Type a reading and press Enter to save it and move to the next; the verdict follows as you type. Frequencies take a unit (1.49 MHz,
+        455 kHz, 455k); SW and FM rows are in MHz.
       </p>
       <table className="dense-table mt-2">
         <thead>

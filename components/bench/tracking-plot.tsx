@@ -118,9 +118,10 @@ export function TrackingPlot({
         {sensitivityLossDb !== null ? (
           <span data-plot-loss="chosen">
             {" "}
-            Worst sensitivity loss {formatNumber(sensitivityLossDb, 2)} dB{loadedQ !== undefined ? ` at loaded Q ${formatNumber(loadedQ)}` : ""}
-            {minimaxSensitivityLossDb !== null ? `; with the least-loss points ${formatNumber(minimaxSensitivityLossDb, 2)} dB` : ""}. The same
-            error costs more at the low end, where the antenna circuit is narrowest.
+            Worst sensitivity loss {formatNumber(sensitivityLossDb, 2)} dB
+            {loadedQ !== undefined ? ` at loaded Q ${formatNumber(loadedQ)}` : ""}
+            {minimaxSensitivityLossDb !== null ? `; with the least-loss points ${formatNumber(minimaxSensitivityLossDb, 2)} dB` : ""}. The
+            same error costs more at the low end, where the antenna circuit is narrowest.
           </span>
         ) : null}
       </figcaption>

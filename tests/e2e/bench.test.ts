@@ -1,6 +1,6 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runAlignmentTool } from "@/lib/engine/requests/alignment-request";
+import { parseAlignmentRequest, runAlignmentTool } from "@/lib/engine/requests/alignment-request";
 import { formatNumber } from "@/lib/engine/verdicts";
 import { DEMO } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
@@ -229,13 +229,15 @@ describe("the alignment calculator", () => {
     await page.getByRole("button", { name: "Calculate" }).click();
     await expect.poll(() => page.locator("[data-testid=alignment-result]").count()).toBe(1);
 
-    const engine = runAlignmentTool({ band: { lowKHz: 540, highKHz: 1600, kind: "MW" }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } });
+    const engine = runAlignmentTool(
+      parseAlignmentRequest({ band: { lowKHz: 540, highKHz: 1600, kind: "MW" }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } }),
+    );
     const design = engine.design!;
     await expect.poll(() => page.locator("[data-curve-point]").count()).toBe(design.errorCurve.length);
     expect(await page.locator("[data-tracking-point]").count()).toBe(3);
     expect(await page.locator("figure[data-points]").getAttribute("data-points")).toBe(String(design.errorCurve.length));
 
-    const figures: Record<string, number> = {
+    const figures: Record<string, number | null> = {
       "lo.lowKHz": engine.lo.lowKHz,
       "lo.highKHz": engine.lo.highKHz,
       "image.lowKHz": engine.image.lowKHz,
@@ -253,10 +255,14 @@ describe("the alignment calculator", () => {
       "design.oscillatorTrimmerPF": design.oscillatorTrimmerPF,
       "design.oscillatorInductanceUH": design.oscillatorInductanceUH,
       "design.maxAbsErrorKHz": design.maxAbsErrorKHz,
+      "design.sensitivityLossDb": design.sensitivityLossDb,
     };
     for (const [name, value] of Object.entries(figures)) {
-      expect(await page.locator(`[data-figure="${name}"]`).innerText(), name).toBe(formatNumber(value, 2));
+      expect(await page.locator(`[data-figure="${name}"]`).innerText(), name).toBe(formatNumber(value!, 2));
     }
+    expect(await page.locator('[data-figure="design.minimax.sensitivityLossDb"]').innerText()).toBe(
+      `${formatNumber(design.minimax!.sensitivityLossDb, 2)} dB`,
+    );
     const steps = await page.getByRole("heading", { name: "Order of adjustments" }).locator("xpath=following-sibling::ol/li").count();
     expect(steps).toBe(engine.steps.length);
     await snap(page, "bench-07-calculator");
@@ -290,9 +296,21 @@ describe("the alignment calculator", () => {
     await page.getByLabel("Gang maximum").fill("365");
     await page.getByRole("button", { name: "Calculate" }).click();
     await expect.poll(() => page.locator("[data-tracking-point]").count()).toBe(3);
-    const engine = runAlignmentTool({ band: { lowKHz: 5900, highKHz: 18000, kind: "SW" }, ifKHz: 455, gang: { minPF: 12, maxPF: 365 } });
+    const engine = runAlignmentTool(
+      parseAlignmentRequest({
+        band: { lowKHz: 5900, highKHz: 18000, kind: "SW" },
+        ifKHz: 455,
+        gang: { minPF: 12, maxPF: 365 },
+        hotChassis: true,
+      }),
+    );
     expect(await page.locator("[data-curve-point]").count()).toBe(engine.design!.errorCurve.length);
-    expect(await page.locator('[data-figure="design.padderPF"]').innerText()).toBe(formatNumber(engine.design!.padderPF, 2));
+    expect(await page.locator('[data-figure="design.padderPF"]').innerText()).toBe(formatNumber(engine.design!.padderPF!, 2));
+    // An AC/DC set: the isolation-transformer caution shows above the plan and opens it.
+    expect(await page.locator("[data-caution=isolation-transformer]").count()).toBe(1);
+    expect(
+      await page.getByRole("heading", { name: "Order of adjustments" }).locator("xpath=following-sibling::ol/li").first().innerText(),
+    ).toMatch(/isolation transformer/);
     await snap(page, "bench-08-job-alignment-panel");
     await context.close();
   });

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { runAlignmentTool } from "@/lib/engine/requests/alignment-request";
+import { parseAlignmentRequest, runAlignmentTool } from "@/lib/engine/requests/alignment-request";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool } from "../support/db";
 import { TestClient } from "../support/http";
@@ -24,7 +24,7 @@ describe("POST /api/tools/alignment", () => {
       const res = await client.post("/api/tools/alignment", MW);
       expect(res.status).toBe(200);
       const body = await res.json();
-      expect(body).toEqual(JSON.parse(JSON.stringify(runAlignmentTool(MW))));
+      expect(body).toEqual(JSON.parse(JSON.stringify(runAlignmentTool(parseAlignmentRequest(MW)))));
       expect(body.lo).toEqual({ lowKHz: 995, highKHz: 2055 });
       // 101 even samples across the band, with the tracking points themselves added.
       const curveKHz = (body.design.errorCurve as { kHz: number }[]).map((p) => p.kHz);
@@ -60,12 +60,39 @@ describe("POST /api/tools/alignment", () => {
     const n = (await narrow.json()) as { error: { fields: Record<string, string> } };
     expect(Object.keys(n.error.fields).length).toBeGreaterThan(0);
 
+    // A band and an IF of different families: refused on the IF field, as the set-profile form does.
+    const fmIf = await tech.post("/api/tools/alignment", { ...MW, ifKHz: 10700 });
+    expect(fmIf.status).toBe(400);
+    expect(((await fmIf.json()) as { error: { fields: Record<string, string> } }).error.fields.ifKHz).toMatch(/needs an AM IF/);
+
     const notJson = await tech.request("/api/tools/alignment", {
       method: "POST",
       body: "{not json",
       headers: { "content-type": "application/json" },
     });
     expect(notJson.status).toBe(400);
+  });
+});
+
+describe("POST /api/tools/alignment, what the door adds", () => {
+  it("keeps the plan with a low oscillator and a gang, takes units, and opens a hot-chassis plan with the caution", async () => {
+    const low = await tech.post("/api/tools/alignment", { ...MW, injection: "low" });
+    expect(low.status).toBe(200);
+    const body = (await low.json()) as { lo: unknown; steps: unknown[]; design: { method: string; notes: string[] } };
+    expect(body.lo).toEqual({ lowKHz: 85, highKHz: 1145 });
+    expect(body.design.method).toBe("signal-only");
+    expect(body.design.notes.length).toBeGreaterThan(0);
+
+    const units = await tech.post("/api/tools/alignment", {
+      band: { lowKHz: "0.54 MHz", highKHz: "1600k" },
+      ifKHz: "455 kHz",
+      hotChassis: true,
+    });
+    expect(units.status).toBe(200);
+    const u = (await units.json()) as { bandKind: string; lo: unknown; steps: { text: string }[] };
+    expect(u.bandKind).toBe("MW");
+    expect(u.lo).toEqual({ lowKHz: 995, highKHz: 2055 });
+    expect(u.steps[0]?.text).toMatch(/isolation transformer/);
   });
 });
 

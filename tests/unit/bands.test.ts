@@ -77,7 +77,10 @@ describe("AM allocations and rasters", () => {
 
   test("US clear-channel frequencies are carriers; the odd-5 kHz frequencies between them are not (from memory: 47 CFR §73.25 clear channels)", () => {
     const r = rasters["mw-region-2"];
-    for (const f of [640, 650, 660, 670, 700, 720, 750, 760, 770, 780, 820, 830, 840, 850, 870, 880, 890, 1020, 1030, 1040, 1100, 1110, 1120, 1160, 1180, 1200, 1210, 1500, 1510]) {
+    for (const f of [
+      640, 650, 660, 670, 700, 720, 750, 760, 770, 780, 820, 830, 840, 850, 870, 880, 890, 1020, 1030, 1040, 1100, 1110, 1120, 1160, 1180,
+      1200, 1210, 1500, 1510,
+    ]) {
       expect(isCarrier(f, r)).toBe(true);
       expect(isCarrier(f + 5, r)).toBe(false);
     }

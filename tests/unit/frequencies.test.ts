@@ -70,8 +70,14 @@ describe("superheterodyne relations", () => {
   });
 
   test("530–1650 kHz, IF 455: oscillator ratio 4.567 with the LO high, 253.87 with it low (textbook example: FOSSEE 1409 ex. 8.6)", () => {
-    expect(bandFrequencies(checkAlignmentBasis({ band: { lowKHz: 530, highKHz: 1650 }, ifKHz: 455, injection: "high" })).capacitanceRatio.oscillator).toBeCloseTo(4.567, 3);
-    expect(bandFrequencies(checkAlignmentBasis({ band: { lowKHz: 530, highKHz: 1650 }, ifKHz: 455, injection: "low" })).capacitanceRatio.oscillator).toBeCloseTo(253.87, 2);
+    expect(
+      bandFrequencies(checkAlignmentBasis({ band: { lowKHz: 530, highKHz: 1650 }, ifKHz: 455, injection: "high" })).capacitanceRatio
+        .oscillator,
+    ).toBeCloseTo(4.567, 3);
+    expect(
+      bandFrequencies(checkAlignmentBasis({ band: { lowKHz: 530, highKHz: 1650 }, ifKHz: 455, injection: "low" })).capacitanceRatio
+        .oscillator,
+    ).toBeCloseTo(253.87, 2);
   });
 
   test("LO and image ranges of a band", () => {

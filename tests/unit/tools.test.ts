@@ -82,7 +82,11 @@ describe("alignment calculator request", () => {
   });
 
   test("frequency fields take a unit, and refuse what is not a frequency by name", () => {
-    const r = parseAlignmentRequest({ band: { lowKHz: "0.54 MHz", highKHz: "1600k" }, ifKHz: "455 kHz", trackingPointsKHz: ["600", 1000, "1.4M"] });
+    const r = parseAlignmentRequest({
+      band: { lowKHz: "0.54 MHz", highKHz: "1600k" },
+      ifKHz: "455 kHz",
+      trackingPointsKHz: ["600", 1000, "1.4M"],
+    });
     expect(r.basis.band).toMatchObject({ lowKHz: 540, highKHz: 1600, kind: "MW" });
     expect(r.basis.ifKHz).toBe(455);
     expect(r.trackingPointsKHz).toEqual([600, 1000, 1400]);
@@ -101,14 +105,18 @@ describe("alignment calculator request", () => {
 
   // REFERENCES.md (tracking): a series padder cannot widen the oscillator's capacitance ratio, which a low LO needs.
   test("low-side injection with a gang keeps the plan and designs what can be designed, saying why", () => {
-    const mw = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, injection: "low", gang: { minPF: 10, maxPF: 365 } }));
+    const mw = runAlignmentTool(
+      parseAlignmentRequest({ band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, injection: "low", gang: { minPF: 10, maxPF: 365 } }),
+    );
     expect(mw.lo).toEqual({ lowKHz: 85, highKHz: 1145 });
     expect(mw.steps.length).toBeGreaterThan(3);
     expect(mw.design?.method).toBe("signal-only");
     expect(mw.design?.signalInductanceUH).toBeCloseTo(216.82, 2);
     expect(mw.design?.padderPF).toBeNull();
     expect(mw.design?.notes.join(" ")).toMatch(/padder/);
-    const sw = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 5900, highKHz: 18000 }, ifKHz: 455, injection: "low", gang: { minPF: 12, maxPF: 365 } }));
+    const sw = runAlignmentTool(
+      parseAlignmentRequest({ band: { lowKHz: 5900, highKHz: 18000 }, ifKHz: 455, injection: "low", gang: { minPF: 12, maxPF: 365 } }),
+    );
     expect(sw.design?.method).toBe("trimmer-only");
     expect(sw.design?.padderPF).toBeNull();
     expect(sw.design?.oscillatorInductanceUH).toBeGreaterThan(0);
@@ -117,7 +125,9 @@ describe("alignment calculator request", () => {
 
   // Common practice: FM front ends track with the oscillator coil and trimmer; they use no padder.
   test("FM designs have no padder and track at two points", () => {
-    const r = runAlignmentTool(parseAlignmentRequest({ band: { lowKHz: 88000, highKHz: 108000 }, ifKHz: 10700, gang: { minPF: 5, maxPF: 20 } }));
+    const r = runAlignmentTool(
+      parseAlignmentRequest({ band: { lowKHz: 88000, highKHz: 108000 }, ifKHz: 10700, gang: { minPF: 5, maxPF: 20 } }),
+    );
     expect(r.design?.method).toBe("trimmer-only");
     expect(r.design?.padderPF).toBeNull();
     expect(r.design?.minimax).toBeNull();

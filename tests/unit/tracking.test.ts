@@ -19,14 +19,7 @@ import {
   worstSensitivityLoss,
 } from "@/lib/engine/alignment";
 import { EngineError } from "@/lib/engine/engine-error";
-import {
-  evaluate,
-  oracleMinimax,
-  oracleSignalCircuit,
-  oracleThreePoint,
-  oracleTrimmerOnly,
-  oracleWorstLossDb,
-} from "./support/oracles";
+import { evaluate, oracleMinimax, oracleSignalCircuit, oracleThreePoint, oracleTrimmerOnly, oracleWorstLossDb } from "./support/oracles";
 
 function engineErrorOf(fn: () => unknown): EngineError {
   try {
@@ -75,7 +68,10 @@ describe("padder-only two-point design (textbook example: FOSSEE 1409 ch. 8 ex. 
 });
 
 describe("signal circuit: gang 12–432 pF, band 530–1620 kHz (computed; oracle: mathjs with units)", () => {
-  const s = designSignalCircuit({ lowKHz: 530, highKHz: 1620 }, checkTrackingBasis({ band: { lowKHz: 530, highKHz: 1620 }, ifKHz: 455, gang: { minPF: 12, maxPF: 432 } }).gang);
+  const s = designSignalCircuit(
+    { lowKHz: 530, highKHz: 1620 },
+    checkTrackingBasis({ band: { lowKHz: 530, highKHz: 1620 }, ifKHz: 455, gang: { minPF: 12, maxPF: 432 } }).gang,
+  );
   const oracle = oracleSignalCircuit(530, 1620, 12, 432);
 
   test("T_s = 50.34 pF (±0.3 pF), L_s = 191.72 µH (±1 µH) (computed)", () => {
@@ -353,18 +349,18 @@ describe("impossible or absurd inputs name the field, at the door or in the desi
     ["low ≥ high", () => checkTrackingBasis({ ...raw, band: { lowKHz: 1600, highKHz: 540 } }), "band.highKHz"],
     ["IF ≤ 0", () => checkTrackingBasis({ ...raw, ifKHz: 0 }), "ifKHz"],
     ["IF out of range", () => checkTrackingBasis({ ...raw, ifKHz: 4550 }), "ifKHz"],
-    ["a band the gang cannot cover", () => solveTracking(checkTrackingBasis({ ...raw, band: { lowKHz: 150, highKHz: 1600 } })), "gang.maxPF"],
+    [
+      "a band the gang cannot cover",
+      () => solveTracking(checkTrackingBasis({ ...raw, band: { lowKHz: 150, highKHz: 1600 } })),
+      "gang.maxPF",
+    ],
     ["non-finite low end", () => checkTrackingBasis({ ...raw, band: { lowKHz: Number.NaN, highKHz: 1600 } }), "band.lowKHz"],
     ["non-finite gang", () => checkTrackingBasis({ ...raw, gang: { minPF: 10, maxPF: Number.POSITIVE_INFINITY } }), "gang.maxPF"],
     ["gang max below min", () => checkTrackingBasis({ ...raw, gang: { minPF: 365, maxPF: 10 } }), "gang.maxPF"],
     ["negative stray", () => checkTrackingBasis({ ...raw, gang: { minPF: 10, maxPF: 365, strayPF: -1 } }), "gang.strayPF"],
     ["a point off the band", () => checkTrackingPoints([600, 1000, 1700], ok.band), "trackingPointsKHz.2"],
     ["coincident points", () => checkTrackingPoints([600, 600, 1400], ok.band), "trackingPointsKHz"],
-    [
-      "low-side LO on MW needs a negative padder",
-      () => solveTracking(checkTrackingBasis({ ...raw, injection: "low" })),
-      "injection",
-    ],
+    ["low-side LO on MW needs a negative padder", () => solveTracking(checkTrackingBasis({ ...raw, injection: "low" })), "injection"],
   ];
   test.each(cases)("%s", (_name, fn, field) => {
     const e = engineErrorOf(fn);
@@ -374,9 +370,7 @@ describe("impossible or absurd inputs name the field, at the door or in the desi
 
   test("strays that eat the needed trimmer make the band uncoverable", () => {
     const gang = checkTrackingBasis({ ...raw, gang: { minPF: 10, maxPF: 365, strayPF: 40 } }).gang;
-    expect(engineErrorOf(() => designSignalCircuit({ lowKHz: 540, highKHz: 1600 }, gang)).code).toBe(
-      "gang-cannot-cover",
-    );
+    expect(engineErrorOf(() => designSignalCircuit({ lowKHz: 540, highKHz: 1600 }, gang)).code).toBe("gang-cannot-cover");
   });
 
   test("the error curve is sampled across the band, points included", () => {

@@ -72,7 +72,10 @@ describe("tolerances", () => {
   });
 
   test("the service manual's own tracking points, when the profile gives them, are the marks", () => {
-    const profile = { ...aurelianTableSet, bands: [{ ...aurelianTableSet.bands[0]!, trackingPointsKHz: [600, 1000, 1400] as [number, number, number] }] };
+    const profile = {
+      ...aurelianTableSet,
+      bands: [{ ...aurelianTableSet.bands[0]!, trackingPointsKHz: [600, 1000, 1400] as [number, number, number] }],
+    };
     expect(req(readingKey.track(0, 1), profile).nominal).toBe(1000);
     expect(req(readingKey.loHigh(0), profile).nominal).toBe(1400 + 455);
   });

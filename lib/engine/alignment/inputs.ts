@@ -35,12 +35,18 @@ function refuse(code: string, message: string, field: string): never {
 
 /** The band as printed on the dial; its kind is the one stated, or the one its frequencies belong to. */
 export function checkBand(band: DialRange & { kind?: BandKind }, prefix = "band"): CheckedBand {
-  if (!isNum(band.lowKHz) || band.lowKHz <= 0) refuse("not-positive", "The low end of the band must be a frequency above zero.", `${prefix}.lowKHz`);
-  if (!isNum(band.highKHz) || band.highKHz <= 0) refuse("not-positive", "The high end of the band must be a frequency above zero.", `${prefix}.highKHz`);
+  if (!isNum(band.lowKHz) || band.lowKHz <= 0)
+    refuse("not-positive", "The low end of the band must be a frequency above zero.", `${prefix}.lowKHz`);
+  if (!isNum(band.highKHz) || band.highKHz <= 0)
+    refuse("not-positive", "The high end of the band must be a frequency above zero.", `${prefix}.highKHz`);
   if (band.lowKHz >= band.highKHz) refuse("band-order", "The high end must be above the low end.", `${prefix}.highKHz`);
   // No receiver dial starts below LF or spans more than this; beyond it the figures are typing errors.
   if (band.lowKHz < MIN_DIAL_KHZ) {
-    refuse("band-absurd", `A dial starts at ${MIN_DIAL_KHZ} kHz or above; for ${band.lowKHz} MHz type "${band.lowKHz} MHz".`, `${prefix}.lowKHz`);
+    refuse(
+      "band-absurd",
+      `A dial starts at ${MIN_DIAL_KHZ} kHz or above; for ${band.lowKHz} MHz type "${band.lowKHz} MHz".`,
+      `${prefix}.lowKHz`,
+    );
   }
   if (band.highKHz > MAX_DIAL_KHZ) refuse("band-absurd", `A dial ends at ${MAX_DIAL_KHZ} kHz or below.`, `${prefix}.highKHz`);
   if (band.highKHz / band.lowKHz > MAX_DIAL_RATIO) {
@@ -50,24 +56,47 @@ export function checkBand(band: DialRange & { kind?: BandKind }, prefix = "band"
   if (band.kind) {
     const r = plausibleBandRangeKHz[kind];
     if (band.lowKHz < r.min || band.highKHz > r.max) {
-      refuse("band-kind", `A ${kind} dial lies between ${r.min} and ${r.max} kHz; this range belongs to another band kind.`, `${prefix}.kind`);
+      refuse(
+        "band-kind",
+        `A ${kind} dial lies between ${r.min} and ${r.max} kHz; this range belongs to another band kind.`,
+        `${prefix}.kind`,
+      );
     }
   }
   return { lowKHz: band.lowKHz, highKHz: band.highKHz, kind } as CheckedBand;
 }
 
-/** The IF must be of the band's family: an AM IF for LW, MW and SW, 10.7 MHz-class for FM. */
-export function checkIfForBand(ifKHz: number, band: CheckedBand, field = "ifKHz"): CheckedIf {
+/** An IF of a known family (AM 455-class or FM 10.7 MHz-class); anything else is a typing error. */
+export function checkIf(ifKHz: number, field = "ifKHz"): CheckedIf {
   if (!isNum(ifKHz) || ifKHz <= 0) refuse("not-positive", "The IF must be a frequency above zero.", field);
   const family = ifFamilyOf(ifKHz);
   const { AM, FM } = plausibleIfRangeKHz;
   if (family === null) refuse("if-out-of-range", `The IF lies in ${AM.min}–${AM.max} kHz (AM) or ${FM.min}–${FM.max} kHz (FM).`, field);
-  const wanted = ifFamilyForBand(band.kind);
-  if (family !== wanted) {
-    const r = plausibleIfRangeKHz[wanted];
-    refuse("if-family", `A ${band.kind} band needs an ${wanted} IF (${r.min}–${r.max} kHz); ${ifKHz} kHz is an ${family} IF.`, field);
-  }
   return { kHz: ifKHz, family } as CheckedIf;
+}
+
+/** The IF must be of the band's family: an AM IF for LW, MW and SW, 10.7 MHz-class for FM. */
+export function checkIfForBand(ifKHz: number, band: CheckedBand, field = "ifKHz"): CheckedIf {
+  const checked = checkIf(ifKHz, field);
+  const wanted = ifFamilyForBand(band.kind);
+  if (checked.family !== wanted) {
+    const r = plausibleIfRangeKHz[wanted];
+    refuse(
+      "if-family",
+      `A ${band.kind} band needs an ${wanted} IF (${r.min}–${r.max} kHz); ${ifKHz} kHz is an ${checked.family} IF.`,
+      field,
+    );
+  }
+  return checked;
+}
+
+/** Joins a checked band and IF with the oscillator side: with the LO below the signal it must stay above zero. */
+export function alignmentBasis(band: CheckedBand, ifv: CheckedIf, injection: Injection = "high"): AlignmentBasis {
+  if (injection !== "high" && injection !== "low") refuse("injection", 'Injection must be "high" or "low".', "injection");
+  if (injection === "low" && band.lowKHz <= ifv.kHz) {
+    refuse("lo-below-zero", "With low-side injection the low end of the band must be above the IF.", "band.lowKHz");
+  }
+  return { band, ifKHz: ifv.kHz, ifFamily: ifv.family, injection } as AlignmentBasis;
 }
 
 export function checkGang(gang: Gang, prefix = "gang"): CheckedGang {
@@ -86,14 +115,7 @@ export type AlignmentBasisInput = { band: DialRange & { kind?: BandKind }; ifKHz
 /** The engine's one check of a band, its IF and the side of the oscillator. */
 export function checkAlignmentBasis(input: AlignmentBasisInput): AlignmentBasis {
   const band = checkBand(input.band);
-  const ifv = checkIfForBand(input.ifKHz, band);
-  const injection = input.injection ?? "high";
-  if (injection !== "high" && injection !== "low") refuse("injection", 'Injection must be "high" or "low".', "injection");
-  // With the LO below the signal it must stay above zero across the band.
-  if (injection === "low" && band.lowKHz <= ifv.kHz) {
-    refuse("lo-below-zero", "With low-side injection the low end of the band must be above the IF.", "band.lowKHz");
-  }
-  return { band, ifKHz: ifv.kHz, ifFamily: ifv.family, injection } as AlignmentBasis;
+  return alignmentBasis(band, checkIfForBand(input.ifKHz, band), input.injection);
 }
 
 /** checkAlignmentBasis plus the gang, for the tracking designs. */
@@ -111,7 +133,8 @@ export function checkTrackingPoints(points: readonly number[], band: DialRange, 
   const sorted = [...points].sort((a, b) => a - b);
   const minGap = (band.highKHz - band.lowKHz) * 1e-3;
   for (let i = 1; i < sorted.length; i++) {
-    if (sorted[i] - sorted[i - 1] < minGap) refuse("points-too-close", "Tracking points must be distinct and spread across the band.", field);
+    if (sorted[i] - sorted[i - 1] < minGap)
+      refuse("points-too-close", "Tracking points must be distinct and spread across the band.", field);
   }
   return sorted;
 }

@@ -175,7 +175,12 @@ export function designTrimmerOnly(input: TrackingInput & { trackingPointsKHz?: r
 const GOLDEN = (Math.sqrt(5) - 1) / 2;
 
 /** Largest |measure| on [a, b], assuming it is unimodal there (true between consecutive zeros of the error). */
-function peakOnSegment(design: TrackingDesign, a: number, b: number, measure: (f: number) => number = (f) => trackingErrorKHz(design, f)): number {
+function peakOnSegment(
+  design: TrackingDesign,
+  a: number,
+  b: number,
+  measure: (f: number) => number = (f) => trackingErrorKHz(design, f),
+): number {
   const abs = (f: number) => Math.abs(measure(f));
   let lo = a;
   let hi = b;

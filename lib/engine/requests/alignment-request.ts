@@ -3,8 +3,11 @@ import { bandKindSchema, injectionSchema, type BandKind } from "../bands/band";
 import { parseFrequencyText } from "../bands/frequency-text";
 import { EngineError } from "../engine-error";
 import {
-  checkAlignmentBasis,
+  alignmentBasis,
+  checkBand,
   checkGang,
+  checkIf,
+  checkIfForBand,
   checkTrackingPoints,
   type AlignmentBasis,
   type CheckedGang,
@@ -84,7 +87,11 @@ function attempt<T>(ctx: z.RefinementCtx, fn: () => T): T | undefined {
     return fn();
   } catch (e) {
     if (!(e instanceof EngineError)) throw e;
-    ctx.addIssue({ code: "custom", path: e.field ? e.field.split(".").map((p) => (/^\d+$/.test(p) ? Number(p) : p)) : [], message: e.message });
+    ctx.addIssue({
+      code: "custom",
+      path: e.field ? e.field.split(".").map((p) => (/^\d+$/.test(p) ? Number(p) : p)) : [],
+      message: e.message,
+    });
     return undefined;
   }
 }
@@ -94,7 +101,10 @@ function attempt<T>(ctx: z.RefinementCtx, fn: () => T): T | undefined {
  * kind, an IF of the band's family, a gang in order, points on the band); the computations trust them.
  */
 export const alignmentRequestSchema = alignmentRequestShape.transform((r, ctx): AlignmentJob => {
-  const basis = attempt(ctx, () => checkAlignmentBasis(r));
+  // Each part checked once; a bad band still lets the IF and the gang report their own fields.
+  const band = attempt(ctx, () => checkBand(r.band));
+  const ifv = attempt(ctx, () => (band ? checkIfForBand(r.ifKHz, band) : checkIf(r.ifKHz)));
+  const basis = band && ifv ? attempt(ctx, () => alignmentBasis(band, ifv, r.injection)) : undefined;
   const gang = r.gang ? attempt(ctx, () => checkGang(r.gang!)) : undefined;
   let points: [number, number, number] | undefined;
   if (r.trackingPointsKHz && basis) {
@@ -243,8 +253,7 @@ const why = (e: unknown): string => {
  */
 function designFor(input: TrackingBasis, points: [number, number, number], loadedQ: number, samples: number) {
   const notes: string[] = [];
-  const twoPoint = () =>
-    figures(designTrimmerOnly({ ...input, trackingPointsKHz: [points[0], points[2]] }), loadedQ, samples);
+  const twoPoint = () => figures(designTrimmerOnly({ ...input, trackingPointsKHz: [points[0], points[2]] }), loadedQ, samples);
   if (input.band.kind === "FM") {
     notes.push(
       `FM front ends use no padder: the oscillator coil sets the low point (${points[0] / 1000} MHz) and the trimmer the high point (${points[2] / 1000} MHz).`,

@@ -15,7 +15,10 @@ const LIMITS: Record<"mA" | "V", { max: number; what: string }> = {
 const fmtKHz = (kHz: number) => (kHz >= 10000 ? `${formatNumber(kHz / 1000)} MHz` : `${formatNumber(kHz)} kHz`);
 
 /** null when the value can be a reading of this requirement; otherwise the message for the value field. */
-export function readingValueProblem(r: Pick<ReadingRequirement, "unit" | "nominal" | "entryUnit" | "measures">, value: number): string | null {
+export function readingValueProblem(
+  r: Pick<ReadingRequirement, "unit" | "nominal" | "entryUnit" | "measures">,
+  value: number,
+): string | null {
   if (!Number.isFinite(value)) return "Enter a number.";
   if (r.unit === "kHz") {
     if (value <= 0) return "A frequency is above zero.";

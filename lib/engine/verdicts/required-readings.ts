@@ -32,8 +32,10 @@ export function listRequiredReadings(
   tolerances: ToleranceSettings,
 ): ReadingRequirement[] {
   const out: ReadingRequirement[] = [];
-  const push = (r: Omit<ReadingRequirement, "toleranceText">, context: { ifKHz?: number; injection?: "high" | "low"; suffix?: string } = {}) =>
-    out.push({ ...r, toleranceText: describeTolerance(r.tolerance, context) + (context.suffix ?? "") });
+  const push = (
+    r: Omit<ReadingRequirement, "toleranceText">,
+    context: { ifKHz?: number; injection?: "high" | "low"; suffix?: string } = {},
+  ) => out.push({ ...r, toleranceText: describeTolerance(r.tolerance, context) + (context.suffix ?? "") });
 
   for (const { ifKHz, kind } of distinctIfs(profile.bands)) {
     push({

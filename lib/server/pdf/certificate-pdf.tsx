@@ -233,8 +233,8 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
         <Text style={s.h2}>IF, dial calibration, leakage and supply readings</Text>
         <Text style={s.p}>
           Dial calibration is where the set receives against where the dial points. Each band has one tolerance for it, in received
-          frequency; a reading taken on the oscillator (LO) is judged by the same window around mark + IF. The tolerance column says
-          which reading each verdict came from. A reading with no figure to judge it by is marked Recorded.
+          frequency; a reading taken on the oscillator (LO) is judged by the same window around mark + IF. The tolerance column says which
+          reading each verdict came from. A reading with no figure to judge it by is marked Recorded.
         </Text>
         <ReadingsTable rows={others} />
 
