@@ -121,7 +121,9 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     const keys = sheet.requirements.map((r) => r.key);
     for (const [i, r] of sheet.requirements.entries()) {
       const input = page.locator(`tr[data-reading="${r.key}"] input`);
-      if (r.key !== "leakage.plug-a") await input.fill(String(r.unit === "mA" ? 0.12 : (r.nominal ?? 118)));
+      // Frequencies typed with their unit, which every row takes (SW and FM rows otherwise read MHz).
+      const typed = r.unit === "mA" ? "0.12" : r.unit === "kHz" ? `${r.nominal} kHz` : String(r.nominal ?? 118);
+      if (r.key !== "leakage.plug-a") await input.fill(typed);
       const saved = page.waitForResponse(
         (res) => res.url().endsWith(`/api/bench/jobs/${jobId}/readings`) && res.request().method() === "POST",
       );
