@@ -28,17 +28,20 @@ import {
 } from "../alignment/tracking";
 
 /*
- * POST /api/tools/alignment. Frequencies in kHz (FM too), capacitance in pF, inductance in µH.
+ * POST /api/tools/alignment. Frequencies in kHz (FM too), capacitance in pF, inductance in µH; a frequency
+ * may also be sent as text with its unit ("1.49 MHz", "455 kHz", "455k").
  *
  *   request:  { "band": { "lowKHz": 540, "highKHz": 1600 }, "ifKHz": 455,
  *               "gang": { "minPF": 10, "maxPF": 365 }, "trackingPointsKHz": [600, 1000, 1400] }
- *   response: { "lo": { "lowKHz": 995, "highKHz": 2055 }, "image": { "lowKHz": 1450, "highKHz": 2510 },
+ *   response: { "bandKind": "MW", "lo": { "lowKHz": 995, "highKHz": 2055 }, "image": { "lowKHz": 1450, "highKHz": 2510 },
  *               "capacitanceRatio": { "signal": 8.779, "oscillator": 4.266 },
  *               "trackingPointsKHz": [600, 1000, 1400], "steps": [{ "order": 1, "text": "…" }, …],
- *               "design": { "signalInductanceUH": 216.82, "signalFixedPF": 45.63, "padderPF": 413.25,
- *                           "oscillatorFixedPF": 55.99, "oscillatorInductanceUH": 123.03,
- *                           "maxAbsErrorKHz": 11.66, "errorCurve": [{ "kHz": 540, "errorKHz": … }, …],
- *                           "minimax": { "trackingPointsKHz": [596.7, 1010.5, 1513.5], "maxAbsErrorKHz": 4.68, … },
+ *               "design": { "method": "three-point", "signalInductanceUH": 216.82, "signalFixedPF": 45.63,
+ *                           "padderPF": 413.25, "oscillatorFixedPF": 55.99, "oscillatorInductanceUH": 123.03,
+ *                           "maxAbsErrorKHz": 11.66, "sensitivityLossDb": 4.51, "loadedQ": 80, "loadedQAssumed": true,
+ *                           "notes": [], "errorCurve": [{ "kHz": 540, "errorKHz": … }, …],
+ *                           "minimax": { "trackingPointsKHz": [579.3, 916.9, 1482.0], "sensitivityLossDb": 2.24,
+ *                                        "maxAbsErrorKHz": 8.19, … },
  *                           "comparisons": [{ "method": "padder-only", … }, { "method": "trimmer-only", … }] } }
  *
  * Without trackingPointsKHz the rule-of-thumb points are used; design is present whenever gang is.
