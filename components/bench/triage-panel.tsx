@@ -44,6 +44,7 @@ function defaultsFrom(detail: JobDetailJson): ProfileForm {
             highKHz: orBlank(b.highKHz),
             ifKHz: orBlank(b.ifKHz),
             injection: b.injection === "low" ? "low" : undefined,
+            trackingPointsKHz: Array.isArray(b.trackingPointsKHz) ? (b.trackingPointsKHz as number[]).join(", ") : "",
           }))
         : [{ kind: "MW", label: "", ...BAND_DEFAULTS.MW }],
       electrolytics: orBlank(p.electrolytics) === "" ? 0 : p.electrolytics,
@@ -169,6 +170,7 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                 <th scope="col">Dial high, kHz</th>
                 <th scope="col">IF, kHz</th>
                 <th scope="col">LO</th>
+                <th scope="col">Manual tracking points, kHz</th>
                 <th scope="col">
                   <span className="sr-only">Remove</span>
                 </th>
@@ -234,6 +236,25 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                         <option value="">above signal</option>
                         <option value="low">below signal</option>
                       </select>
+                    </td>
+                    <td>
+                      <label htmlFor={`tri-band-${i}-points`} className="sr-only">
+                        Band {i + 1} tracking points from the service manual (optional)
+                      </label>
+                      <input
+                        id={`tri-band-${i}-points`}
+                        className="field-input figure mt-0 w-36 py-1"
+                        placeholder="usual points"
+                        aria-invalid={be?.trackingPointsKHz ? true : undefined}
+                        aria-describedby={be?.trackingPointsKHz ? `tri-band-${i}-points-error` : undefined}
+                        {...register(`profile.bands.${i}.trackingPointsKHz`)}
+                      />
+                      {be?.trackingPointsKHz ? (
+                        <p id={`tri-band-${i}-points-error`} className="field-error">
+                          {(be.trackingPointsKHz as { message?: string }).message ??
+                            (be.trackingPointsKHz as { message?: string }[])?.find?.((x) => x?.message)?.message}
+                        </p>
+                      ) : null}
                     </td>
                     <td>
                       <button

@@ -1,6 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { computeChecklist } from "@/lib/engine/checklist";
+import { setProfileSchema } from "@/lib/engine/checklist/profile";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import {
   defaultTolerances,
@@ -78,6 +79,15 @@ describe("tolerances", () => {
     };
     expect(req(readingKey.track(0, 1), profile).nominal).toBe(1000);
     expect(req(readingKey.loHigh(0), profile).nominal).toBe(1400 + 455);
+    // As typed on the triage form, units allowed; out of order or off the band is refused on the field.
+    const band = { kind: "MW", lowKHz: 540, highKHz: 1600, ifKHz: 455 };
+    const parsed = setProfileSchema.parse({ ...aurelianTableSet, bands: [{ ...band, trackingPointsKHz: "600, 1000, 1.4 MHz" }] });
+    expect(parsed.bands[0]!.trackingPointsKHz).toEqual([600, 1000, 1400]);
+    expect(
+      setProfileSchema.parse({ ...aurelianTableSet, bands: [{ ...band, trackingPointsKHz: "" }] }).bands[0]!.trackingPointsKHz,
+    ).toBeUndefined();
+    const bad = setProfileSchema.safeParse({ ...aurelianTableSet, bands: [{ ...band, trackingPointsKHz: "1000, 600, 1400" }] });
+    expect(bad.success ? [] : bad.error.issues.map((i) => i.path.join("."))).toContain("bands.0.trackingPointsKHz.1");
   });
 
   test("SW dial point within 2 % of reading (common practice)", () => {

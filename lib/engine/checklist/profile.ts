@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { bandKindSchema, injectionSchema, plausibleBandRangeKHz, type Band, type BandKind } from "../bands/band";
 import { isPlausibleIf, ifFamilyForBand, plausibleIfRangeKHz } from "../bands/if-presets";
+import { parseFrequencyText } from "../bands/frequency-text";
 
 export const setKinds = ["tube-acdc", "tube-transformer", "transistor-battery", "transistor-mains"] as const;
 export type SetKind = (typeof setKinds)[number];
@@ -38,8 +39,19 @@ export const bandSchema = z
     ifKHz: kHz,
     label: z.string().trim().max(40).optional(),
     injection: injectionSchema.optional(),
-    /** The service manual's own tracking points, low to high, when it gives them. */
-    trackingPointsKHz: z.tuple([kHz, kHz, kHz]).optional(),
+    /** The service manual's own tracking points, low to high, when it gives them ("600, 1000, 1400" from a form). */
+    trackingPointsKHz: z.preprocess(
+      (v) => {
+        if (typeof v !== "string") return v;
+        if (v.trim() === "") return undefined;
+        return v
+          .split(/[;,]|\s(?=\d)/)
+          .map((p) => p.trim())
+          .filter(Boolean)
+          .map((p) => parseFrequencyText(p) ?? p);
+      },
+      z.tuple([kHz, kHz, kHz], { error: "Give the manual's three tracking points in kHz, low to high, e.g. 600, 1000, 1400." }).optional(),
+    ),
   })
   .superRefine((band, ctx) => {
     if (band.lowKHz >= band.highKHz) {
