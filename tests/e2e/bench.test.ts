@@ -269,6 +269,27 @@ describe("the alignment calculator", () => {
     expect(steps).toBe(engine.steps.length);
     await snap(page, "bench-07-calculator");
 
+    // FM (common practice: FM front ends use no padder): coils in nH to three figures, and no padder shown.
+    await page.getByLabel("Band kind").selectOption("FM");
+    await page.getByLabel("Dial low end").fill("88 MHz");
+    await page.getByLabel("Dial high end").fill("108 MHz");
+    await page.getByLabel("IF").fill("10.7 MHz");
+    await page.getByLabel("Gang minimum").fill("5");
+    await page.getByLabel("Gang maximum").fill("20");
+    await page.getByRole("button", { name: "Calculate" }).click();
+    const fm = runAlignmentTool(
+      parseAlignmentRequest({ band: { lowKHz: 88000, highKHz: 108000, kind: "FM" }, ifKHz: 10700, gang: { minPF: 5, maxPF: 20 } }),
+    );
+    await expect.poll(() => page.locator('[data-figure="design.signalInductanceNH"]').count()).toBe(1);
+    expect(await page.locator('[data-figure="design.signalInductanceNH"]').innerText()).toBe(
+      String(Number((fm.design!.signalInductanceUH * 1000).toPrecision(3))),
+    );
+    expect(await page.locator('[data-figure="design.padderPF"]').count()).toBe(0);
+    expect(await page.locator('[data-figure="design.signalInductanceUH"]').count()).toBe(0);
+    await page.getByLabel("Band kind").selectOption("MW");
+    await page.getByLabel("Dial low end").fill("540");
+    await page.getByLabel("IF").fill("455");
+
     // Bad input is refused field by field, before anything is computed.
     await page.getByLabel("Dial high end").fill("500");
     await page.getByRole("button", { name: "Calculate" }).click();
