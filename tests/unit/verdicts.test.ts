@@ -149,13 +149,35 @@ describe("reading keys and the bench sheet", () => {
     expect(parseReadingKey("band.x.edge.low")).toBeNull();
   });
 
-  test("every checklist reading has a requirement and every requirement belongs to a line", () => {
+  // Common practice: a band is aligned at three points and its dial checked there and at both edges; a mains
+  // set gets the leakage test both ways round; a tube set's B+ is read with the mains beside it.
+  test("every requirement sits on a line the checklist's rules produce, and each band gets its five dial readings and two LO readings", () => {
     for (const p of [aurelianTableSet, corvanePortable, haldaneConsole]) {
       const lines = computeChecklist(p, defaultShopPolicy);
       const reqs = listRequiredReadings(p, defaultTolerances);
-      expect(lines.flatMap((l) => l.readings)).toEqual(reqs.map((r) => r.key));
-      for (const r of reqs) expect(lines.find((l) => l.code === r.lineCode)?.readings).toContain(r.key);
+      for (const r of reqs)
+        expect(
+          lines.some((l) => l.code === r.lineCode),
+          r.key,
+        ).toBe(true);
       for (const r of reqs) expect(parseReadingKey(r.key)).not.toBeNull();
+      p.bands.forEach((_, i) => {
+        const keys = reqs.filter((r) => r.lineCode === `align.tracking.${i}` || r.lineCode === `align.dial.${i}`).map((r) => r.key);
+        expect(keys.sort()).toEqual(
+          [
+            `band.${i}.lo.low`,
+            `band.${i}.lo.high`,
+            `band.${i}.track.0`,
+            `band.${i}.track.1`,
+            `band.${i}.track.2`,
+            `band.${i}.edge.low`,
+            `band.${i}.edge.high`,
+          ].sort(),
+        );
+      });
+      const keys = reqs.map((r) => r.key);
+      expect(keys.includes("leakage.plug-a") && keys.includes("leakage.plug-b")).toBe(p.kind !== "transistor-battery");
+      expect(keys.includes("bplus.mains")).toBe(p.kind.startsWith("tube"));
     }
   });
 
