@@ -139,4 +139,3 @@ export function checkTrackingPoints(points: readonly number[], band: DialRange, 
   return sorted;
 }
 
-export { ifFamilyForBand };
