@@ -78,8 +78,8 @@ function ReadingRow({
         ? null
         : readingValueProblem(r, parsed);
   const live = problem ? "invalid" : judgeReading(r, parsed).verdict;
-  const savedText = r.value === null ? "" : shown(r, r.value);
-  const dirty = text.trim() !== savedText;
+  // Compared as numbers: "580 kHz" typed and 580 stored are the same reading.
+  const dirty = parsed === undefined || (parsed ?? null) !== r.value;
   const id = `rd-${r.key.replaceAll(".", "-")}`;
   const reg = register(`readings.${index}.text`);
   return (
