@@ -138,4 +138,3 @@ export function checkTrackingPoints(points: readonly number[], band: DialRange, 
   }
   return sorted;
 }
-
