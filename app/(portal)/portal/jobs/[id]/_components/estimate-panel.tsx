@@ -140,8 +140,8 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
           <h3 className="text-lg font-bold">What the warranty will cover</h3>
           {estimate.warranty.termDays ? (
             <p>
-              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty from the day it is
-              returned. It covers:
+              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty counted from the day
+              after it is returned. It covers:
             </p>
           ) : (
             <p>This shop does not offer a warranty on this work.</p>
