@@ -183,7 +183,7 @@ describe("settings", () => {
   it("refuses a currency change while the catalogue and open estimates are priced in the old currency, and saves nothing", async () => {
     const owner = await signedIn(DEMO.owner);
     const s = await settingsOf(owner);
-    const res = await put(owner, { ...s.values, currency: { code: "JPY", exponent: 0 } });
+    const res = await put(owner, { ...s.values, currency: { code: "EUR", exponent: 2 } });
     expect(res.status).toBe(409);
     const body = (await res.json()) as { error: { message: string; fields?: Record<string, string> } };
     expect(body.error.message).toMatch(/The currency stays USD: the parts catalogue \(\d+ parts\)/);
