@@ -301,12 +301,15 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
               ["dialCordBroken", "Dial cord broken or slipping"],
               ["batteryCorrosion", "Battery corrosion"],
             ] as const
-          ).map(([name, label]) => (
-            <label key={name} className="inline-flex items-center gap-1.5">
-              <input type="checkbox" {...register(`profile.${name}`)} />
-              {label}
-            </label>
-          ))}
+          )
+            // A battery set has no rectifier and no line cord.
+            .filter(([name]) => kind !== "transistor-battery" || (name !== "seleniumRectifier" && name !== "lineCordWorn"))
+            .map(([name, label]) => (
+              <label key={name} className="inline-flex items-center gap-1.5">
+                <input type="checkbox" {...register(`profile.${name}`)} />
+                {label}
+              </label>
+            ))}
         </div>
       </fieldset>
       <fieldset>
