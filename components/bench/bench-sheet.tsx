@@ -398,7 +398,7 @@ export function BenchSheetPanel({ jobId }: { jobId: string }) {
     return <Notice tone="caution">The set profile is incomplete: finish it in Triage before the bench sheet can list its readings.</Notice>;
   return (
     <div className="space-y-3">
-      <SafetyCautions kind={sheet.profile.kind} seleniumRectifier={sheet.profile.seleniumRectifier} />
+      <SafetyCautions profile={sheet.profile} />
       {!sheet.editable ? (
         <Notice tone="info">Readings and ticks are recorded while the set is on the bench or in final checks.</Notice>
       ) : null}

@@ -6,6 +6,7 @@ import { useState } from "react";
 import { useFieldArray, useForm, useWatch, type FieldPath } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
+import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { formatMinor } from "@/lib/engine/pricing/money";
 import { partCodes } from "@/lib/engine/pricing/parts";
 import type { ShopPolicy } from "@/lib/engine/shop-policy";
@@ -53,33 +54,39 @@ function Totals({ policy, lines }: { policy: ShopPolicy; lines: DraftLineInput[]
   }
   const t = result.priced.totals;
   return (
-    <dl
-      role="status"
-      aria-live="polite"
-      aria-label="Estimate totals"
-      className="grid grid-cols-2 gap-x-4 gap-y-0.5 text-sm sm:grid-cols-4 lg:grid-cols-8"
-    >
-      {(
-        [
-          ["Labour", t.labourMinor, `${t.billedMinutes} min billed`],
-          ["Parts", t.partsMinor, null],
-          ["Tax on labour", t.labourTaxMinor, `${policy.tax.labourBp / 100} %`],
-          ["Tax on parts", t.partsTaxMinor, `${policy.tax.partsBp / 100} %`],
-          ["Tax", t.taxMinor, null],
-          ["Total", t.totalMinor, null],
-          ["Deposit due", t.depositMinor, `${policy.deposit.percentBp / 100} %${policy.deposit.atLeastParts ? ", at least parts" : ""}`],
-          ["Balance after deposit", t.balanceMinor, null],
-        ] as const
-      ).map(([label, value, hint]) => (
-        <div key={label}>
-          <dt className="text-xs text-bakelite-muted">{label}</dt>
-          <dd className="figure font-semibold" data-total={label}>
-            {m(value)}
-            {hint ? <span className="block text-xs font-normal text-bakelite-muted">{hint}</span> : null}
-          </dd>
-        </div>
-      ))}
-    </dl>
+    <>
+      <dl
+        role="status"
+        aria-live="polite"
+        aria-label="Estimate totals"
+        className="grid grid-cols-2 gap-x-4 gap-y-0.5 text-sm sm:grid-cols-4 lg:grid-cols-8"
+      >
+        {(
+          [
+            ["Labour", t.labourMinor, `billed as ${t.billedMinutes} min`],
+            ["Parts", t.partsMinor, null],
+            ["Tax on labour", t.labourTaxMinor, `${policy.tax.labourBp / 100} %`],
+            ["Tax on parts", t.partsTaxMinor, `${policy.tax.partsBp / 100} %`],
+            ["Tax", t.taxMinor, null],
+            ["Total", t.totalMinor, null],
+            ["Deposit due", t.depositMinor, `${policy.deposit.percentBp / 100} %${policy.deposit.atLeastParts ? ", at least parts" : ""}`],
+            ["Balance after deposit", t.balanceMinor, null],
+          ] as const
+        ).map(([label, value, hint]) => (
+          <div key={label}>
+            <dt className="text-xs text-bakelite-muted">{label}</dt>
+            <dd className="figure font-semibold" data-total={label}>
+              {m(value)}
+              {hint ? <span className="block text-xs font-normal text-bakelite-muted">{hint}</span> : null}
+            </dd>
+          </div>
+        ))}
+      </dl>
+      <p className="text-xs text-bakelite-muted" data-testid="billing-note">
+        {billingNote(t)}
+        {t.roundingLabourMinor ? ` Rounding adds ${m(t.roundingLabourMinor)} to the labour, on no single line.` : ""}
+      </p>
+    </>
   );
 }
 

@@ -52,6 +52,7 @@ function defaultsFrom(detail: JobDetailJson): ProfileForm {
       tubes: p.tubes ?? undefined,
       transistors: p.transistors ?? undefined,
       ifTransformers: p.ifTransformers ?? undefined,
+      ifTransformersFm: p.ifTransformersFm ?? undefined,
       seleniumRectifier: p.seleniumRectifier === true,
       lineCordWorn: p.lineCordWorn === true,
       dialCordBroken: p.dialCordBroken === true,
@@ -87,6 +88,9 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
   const bands = useFieldArray({ control, name: "profile.bands" });
   const kind = useWatch({ control, name: "profile.kind" });
   const tube = kind === "tube-acdc" || kind === "tube-transformer";
+  const bandKindsWatched = (useWatch({ control, name: "profile.bands" }) ?? []).map((b) => b?.kind);
+  // An AM/FM set aligns two IF strips, each with its own transformers.
+  const twoStrips = bandKindsWatched.includes("FM") && bandKindsWatched.some((k) => k !== "FM");
   const save = useMutation({
     mutationFn: (body: ProfileOut) => api(`/api/bench/jobs/${jobId}/profile`, { method: "PUT", body }),
     onSuccess: () => {
@@ -290,7 +294,14 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
         {num("profile.electrolytics", "Electrolytic capacitors")}
         {num("profile.paperCapacitors", "Paper capacitors")}
         {tube ? num("profile.tubes", "Tubes", undefined, true) : num("profile.transistors", "Transistors", undefined, true)}
-        {num("profile.ifTransformers", "IF transformers", "Leave empty for the usual count.", true)}
+        {twoStrips ? (
+          <>
+            {num("profile.ifTransformers", "IF transformers, AM strip", "Leave empty for the usual two.", true)}
+            {num("profile.ifTransformersFm", "IF transformers, FM strip", "Leave empty for the usual three.", true)}
+          </>
+        ) : (
+          num("profile.ifTransformers", "IF transformers", "Leave empty for the usual count.", true)
+        )}
         {tube ? num("profile.bPlusVolts", "B+ on the schematic, V", "Gives the B+ reading a target.", true) : null}
         <Field id="tri-mains" label="Mains voltage" error={pe?.mainsVolts?.message}>
           <select id="tri-mains" className="field-input py-1" {...register("profile.mainsVolts", { setValueAs: blankToUndefined })}>
@@ -311,12 +322,15 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
               ["dialCordBroken", "Dial cord broken or slipping"],
               ["batteryCorrosion", "Battery corrosion"],
             ] as const
-          ).map(([name, label]) => (
-            <label key={name} className="inline-flex items-center gap-1.5">
-              <input type="checkbox" {...register(`profile.${name}`)} />
-              {label}
-            </label>
-          ))}
+          )
+            // A battery set has no rectifier and no line cord.
+            .filter(([name]) => kind !== "transistor-battery" || (name !== "seleniumRectifier" && name !== "lineCordWorn"))
+            .map(([name, label]) => (
+              <label key={name} className="inline-flex items-center gap-1.5">
+                <input type="checkbox" {...register(`profile.${name}`)} />
+                {label}
+              </label>
+            ))}
         </div>
       </fieldset>
       <fieldset>

@@ -11,6 +11,7 @@ import { checklistCategories, ruleCategory } from "@/lib/engine/checklist/rules"
 import type { SettingsSnapshot } from "@/lib/server/services/settings";
 import { coveredWording, exclusionWording, settingsFormSchema, type SettingsFormValues } from "@/lib/validation/office";
 import { coveredWordingKeys, exclusionCodes } from "@/lib/engine/warranty/exclusions";
+import { leakageCeilings } from "@/lib/engine/verdicts/tolerances";
 import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatWhen } from "./format";
 import { BAND_KIND_LABEL, CATEGORY_LABEL, RULE_LABEL } from "./labels";
@@ -295,7 +296,7 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
       <Section
         id="s-labour"
         title="Labour and billing"
-        intro={`Amounts in ${currency}, typed as on a price tag (90.00). Labour is billed in whole increments, rounded up.`}
+        intro={`Amounts in ${currency}, typed as on a price tag (90.00). Labour minutes are rounded up to the billing increment, once per job unless you choose each line.`}
       >
         <div className="grid gap-4 md:grid-cols-2">
           <TextField
@@ -315,9 +316,34 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
             number
             register={register}
             errors={errors}
-            hint="15 bills a 20-minute job as 30 minutes."
+            hint="15 bills 449 minutes of work as 450 when rounded once per job."
           />
         </div>
+        <fieldset className="space-y-2" aria-describedby="billing-rounding-hint">
+          <legend className="field-label">Rounding to the increment</legend>
+          <div className="flex items-start gap-2">
+            <input id="f-billing-rounding-job" type="radio" value="job" className="mt-1 h-4 w-4" {...register("billingRounding")} />
+            <label htmlFor="f-billing-rounding-job" className="text-sm">
+              <span className="font-semibold">Once, on the job&apos;s labour total</span> — the usual choice: the owner pays for the time
+              listed, rounded up once.
+            </label>
+          </div>
+          <div className="flex items-start gap-2">
+            <input id="f-billing-rounding-line" type="radio" value="line" className="mt-1 h-4 w-4" {...register("billingRounding")} />
+            <label htmlFor="f-billing-rounding-line" className="text-sm">
+              <span className="font-semibold">On each line</span> — every line is rounded up on its own, which bills more on a long
+              checklist.
+            </label>
+          </div>
+          <p id="billing-rounding-hint" className="text-xs text-bakelite-muted">
+            The owner&apos;s estimate says once how the minutes were rounded (“billed as N minutes”).
+          </p>
+          {errorAt(errors, "billingRounding") ? (
+            <p className="text-sm text-fail" role="alert">
+              {errorAt(errors, "billingRounding")}
+            </p>
+          ) : null}
+        </fieldset>
       </Section>
 
       <Section
@@ -748,6 +774,8 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         <Notice tone="caution" title="Leakage limits protect people">
           <p>
             The leakage limit is a safety figure: keep it at or below what local codes and licensed practice require for the supply voltage.
+            A limit may be made stricter, never looser than the published figure: {leakageCeilings.v120.limitMA} mA at 120 V (
+            {leakageCeilings.v120.source}) and {leakageCeilings.v230.limitMA} mA rms at 230 V ({leakageCeilings.v230.source}).
           </p>
         </Notice>
       </Section>

@@ -1,6 +1,6 @@
 import { and, desc, eq, sql } from "drizzle-orm";
 import { db, type Database } from "@/db";
-import { jobs, payments, radioSets, refunds, shopSettings, user } from "@/db/schema";
+import { estimates, jobs, payments, radioSets, refunds, shopSettings, user } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 
 // ─── Shop settings ───
@@ -9,6 +9,16 @@ export async function getShopSettingsRowForOwner({ tx = db, lock = false }: { tx
   const q = tx.select().from(shopSettings).where(eq(shopSettings.id, "shop")).limit(1);
   const [row] = lock ? await q.for("update") : await q;
   return row ?? null;
+}
+
+/** Jobs whose estimate is still open: priced in the shop's currency and not yet settled or closed. */
+export async function countOpenEstimatesForOwner({ tx = db }: { tx?: Database } = {}): Promise<number> {
+  const [row] = await tx
+    .select({ n: sql<number>`count(*)::int` })
+    .from(estimates)
+    .innerJoin(jobs, eq(jobs.id, estimates.jobId))
+    .where(sql`${jobs.state} not in ('paid_in_full', 'returned', 'declined_by_owner', 'declined_by_shop', 'cancelled')`);
+  return row?.n ?? 0;
 }
 
 export async function getSettingsEditorForOwner({ userId }: { userId: string | null }) {

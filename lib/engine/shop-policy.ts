@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { ruleCodeSchema, defaultMinutesPerRule } from "./checklist/rules";
 import { defaultPartsCatalogue, partCodeSchema } from "./pricing/parts";
+import { billingRoundings } from "./pricing/billing-rounding";
 import { defaultTolerances, toleranceSettingsSchema } from "./verdicts/tolerances";
 import { coveredWordingKeySchema, exclusionCodeSchema, exclusionCodes } from "./warranty/exclusions";
 
@@ -22,6 +23,8 @@ export const shopPolicySchema = z.object({
   }),
   labourRateMinorPerHour: minor,
   billingIncrementMinutes: z.number().int().min(1).max(240),
+  /** Round labour minutes up to the increment once on the job's total (default) or on every line. */
+  billingRounding: z.enum(billingRoundings),
   /** Standard minutes per unit for each checklist rule. */
   minutesPerRule: z.record(ruleCodeSchema, z.number().int().min(0).max(6000)),
   parts: z.object({
@@ -53,6 +56,7 @@ export const defaultShopPolicy: ShopPolicy = {
   currency: { code: "USD", exponent: 2 },
   labourRateMinorPerHour: 9000,
   billingIncrementMinutes: 15,
+  billingRounding: "job",
   minutesPerRule: { ...defaultMinutesPerRule },
   parts: { defaultMarkupBp: 3500, catalogue: structuredClone(defaultPartsCatalogue) },
   tax: { labourBp: 0, partsBp: 800 },

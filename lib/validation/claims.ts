@@ -28,6 +28,7 @@ export const SYMPTOM_LABEL: Record<ClaimSymptom, string> = {
   "noisy-controls": "Crackle when turning the knobs",
   "shock-or-tingle": "Tingle or shock from the cabinet, knobs or metal",
   "smoke-or-smell": "Smoke, burning smell or a part got hot",
+  "wear-item": "A tube, dial lamp or battery gave out",
   cosmetic: "Cabinet, finish, knobs or dial glass",
   other: "Something else",
 };

@@ -1,5 +1,6 @@
 import { z } from "zod";
 import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
+import { billingRoundings } from "@/lib/engine/pricing/billing-rounding";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
 import { partCodes, partCodeSchema } from "@/lib/engine/pricing/parts";
 import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
@@ -130,6 +131,7 @@ export const settingsFormSchema = z
     currency: z.object({ code: z.string().regex(/^[A-Z]{3}$/), exponent: z.number().int().min(0).max(3) }),
     labourRate: moneyText,
     billingIncrementMinutes: wholeNumber("Billing increment", 1, 240),
+    billingRounding: z.enum(billingRoundings, { error: "Choose whether labour is rounded once per job or on each line." }),
     minutesPerRule: z.array(z.object({ code: ruleCodeSchema, minutes: wholeNumber("Minutes", 0, 6000) })),
     parts: z.object({
       defaultMarkupPercent: percentText,
@@ -260,6 +262,7 @@ export function settingsToForm(shop: {
     currency: { ...p.currency },
     labourRate: formatMinor(p.labourRateMinorPerHour, exp),
     billingIncrementMinutes: p.billingIncrementMinutes,
+    billingRounding: p.billingRounding,
     minutesPerRule: ruleCodes.map((code) => ({ code, minutes: p.minutesPerRule[code] ?? 0 })),
     parts: {
       defaultMarkupPercent: pct(p.parts.defaultMarkupBp),
@@ -298,6 +301,7 @@ export function settingsFromForm(v: SettingsFormValues): { identity: ShopIdentit
     currency: { ...v.currency },
     labourRateMinorPerHour: toMinor(v.labourRate, exp, "labourRate"),
     billingIncrementMinutes: v.billingIncrementMinutes,
+    billingRounding: v.billingRounding,
     minutesPerRule: Object.fromEntries(v.minutesPerRule.map((r) => [r.code, r.minutes])) as ShopPolicy["minutesPerRule"],
     parts: {
       defaultMarkupBp: bpOf(v.parts.defaultMarkupPercent, "parts.defaultMarkupPercent"),

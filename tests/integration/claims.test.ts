@@ -38,9 +38,31 @@ describe("coverage advice on a new claim", () => {
     expect(row).toEqual({ status: "open", claimant_id: IDS.mira });
   });
 
+  it("a shock or tingle: stop using the set and inspect first, never likely covered, on the bench claims page too (common practice)", async () => {
+    const c = await createCertificate();
+    const owner = await signedIn(DEMO.customer);
+    const res = await owner.post("/api/claims", {
+      symptomCategory: "shock-or-tingle",
+      description: "A tingle from the tuning knob when touching the aerial wire.",
+      statements: [],
+      certificateId: c.certificateId,
+    });
+    expect(res.status).toBe(201);
+    const { claim } = (await res.clone().json()) as { claim: { id: string } };
+    const advice = await adviceOf(res);
+    expect(advice.outcome).toBe("inspect-first");
+    expect(advice.reasons[0]).toMatch(/Stop using the set; inspect first/);
+    const tech = await signedIn(DEMO.tech);
+    const page = await (await tech.get(`/bench/claims/${claim.id}`)).text();
+    expect(page).toContain("Stop using the set; inspect first");
+    expect(page).toContain("Inspect first");
+    expect(page).not.toContain("Likely covered");
+  });
+
   it("one day after the term: not covered, outside the term", async () => {
-    // A 90-day term starting 90 days ago ended yesterday.
-    const c = await createCertificate({ returnedDaysAgo: 90 });
+    // A 90-day term counts from the day after the return: returned 91 days ago, it ended yesterday
+    // (common legal convention for periods, from memory).
+    const c = await createCertificate({ returnedDaysAgo: 91 });
     const [{ content }] = (await sql<{ content: { warranty: { endsOn: string } } }>("select content from certificate where id = $1", [
       c.certificateId,
     ])) as [{ content: { warranty: { endsOn: string } } }];

@@ -367,6 +367,7 @@ const SHAPES: Record<string, Shape> = {
       "currency",
       "labourRate",
       "billingIncrementMinutes",
+      "billingRounding",
       "minutesPerRule",
       "parts",
       "tax",

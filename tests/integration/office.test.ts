@@ -21,6 +21,8 @@ type Snapshot = {
     identity: { phone: string };
     deposit: { processorMinimum: string; percent: string; atLeastParts: boolean };
     warranty: { designation: string; fullAcknowledged: boolean };
+    tolerances: Record<string, unknown>;
+    billingRounding: string;
   };
 };
 
@@ -166,6 +168,45 @@ describe("settings", () => {
 
     expect((await settingsOf(owner)).version).toBe(s.version);
     expect(await savesFromVersion(s.version)).toBe(0);
+  });
+
+  it("refuses a leakage limit above the published ceiling, naming the field (published: UL 101 two-wire 0.5 mA; IEC 60065 Annex D)", async () => {
+    const owner = await signedIn(DEMO.owner);
+    const s = await settingsOf(owner);
+    const res = await put(owner, { ...s.values, tolerances: { ...s.values.tolerances, leakageLimitMA: { v120: 10, v230: 0.49 } } });
+    expect(res.status).toBe(400);
+    const body = (await res.json()) as { error: { fields: Record<string, string> } };
+    expect(body.error.fields["tolerances.leakageLimitMA.v120"]).toMatch(/at most 0\.5 mA, the published limit/);
+    expect((await settingsOf(owner)).version).toBe(s.version);
+  });
+
+  it("refuses a currency change while the catalogue and open estimates are priced in the old currency, and saves nothing", async () => {
+    const owner = await signedIn(DEMO.owner);
+    const s = await settingsOf(owner);
+    const res = await put(owner, { ...s.values, currency: { code: "EUR", exponent: 2 } });
+    expect(res.status).toBe(409);
+    const body = (await res.json()) as { error: { message: string; fields?: Record<string, string> } };
+    expect(body.error.message).toMatch(/The currency stays USD: the parts catalogue \(\d+ parts\)/);
+    expect(body.error.message).toMatch(/without converting\. Nothing was saved\./);
+    expect((await settingsOf(owner)).version).toBe(s.version);
+  });
+
+  it("stores the shop's choice of per-line rounding", async () => {
+    const owner = await signedIn(DEMO.owner);
+    await rememberSettings(owner);
+    const s = await settingsOf(owner);
+    expect(s.values.billingRounding).toBe("job");
+    const res = await put(owner, { ...s.values, billingRounding: "line" });
+    expect(res.status).toBe(200);
+    const [row] = await sql<{ rounding: string }>(`select policy->>'billingRounding' as rounding from shop_settings where id = 'shop'`);
+    expect(row!.rounding).toBe("line");
+    const now = await settingsOf(owner);
+    expect((await put(owner, { ...now.values, billingRounding: "job" })).status).toBe(200);
+    const bad = await put(owner, { ...(await settingsOf(owner)).values, billingRounding: "never" });
+    expect(bad.status).toBe(400);
+    expect(((await bad.json()) as { error: { fields: Record<string, string> } }).error.fields.billingRounding).toMatch(
+      /once per job or on each line/,
+    );
   });
 
   it("answers 409 to a stale save, keeps the first save, and writes no audit row for the refused one", async () => {

@@ -95,9 +95,13 @@ describe("the owner's job page data", () => {
         total: { text: string };
         deposit: { text: string };
         warranty: { termDays: number; covers: string[] };
+        billing: { note: string; rounding: { minor: number } };
       };
     };
     expect(view.estimate.groups.map((g) => g.label)).toEqual(["Inspection", "Safety", "Recap", "Parts"]);
+    // The rounding is explained once: 30 + 20 + 40 minutes listed (worked by hand).
+    expect(view.estimate.billing.note).toMatch(/^Labour is billed as 90 minutes/);
+    expect(view.estimate.billing.rounding.minor).toBe(0);
     expect(view.estimate.groups[1]!.lines[0]!.reason).toMatch(/^AC\/DC set/);
     expect(view.estimate.total.text).toBe("$312.40");
     expect(view.estimate.deposit.text).toBe("$93.72");

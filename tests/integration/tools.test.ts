@@ -101,14 +101,32 @@ describe("POST /api/tools/estimate", () => {
     const res = await tech.post("/api/tools/estimate", { profile: AURELIAN_PROFILE });
     expect(res.status).toBe(200);
     const body = (await res.json()) as {
-      lines: { code: string; labourMinor: number; partsMinor: number }[];
-      totals: { totalMinor: number; labourMinor: number; partsMinor: number; taxMinor: number; depositMinor: number };
+      lines: { code: string; labourMinor: number; partsMinor: number; billedMinutes: number }[];
+      totals: {
+        totalMinor: number;
+        labourMinor: number;
+        partsMinor: number;
+        taxMinor: number;
+        depositMinor: number;
+        billingRounding: string;
+        workedMinutes: number;
+        billedMinutes: number;
+        billingIncrementMinutes: number;
+        roundingLabourMinor: number;
+        billingNote: string;
+      };
+      cautions: { id: string; text: string }[];
     };
     expect(body.lines.map((l) => l.code)).toEqual(expect.arrayContaining(["safety.isolation-bench", "safety.y-capacitor", "test.leakage"]));
-    expect(body.totals.labourMinor).toBe(body.lines.reduce((s, l) => s + l.labourMinor, 0));
-    expect(body.totals.partsMinor).toBe(body.lines.reduce((s, l) => s + l.partsMinor, 0));
-    expect(body.totals.totalMinor).toBe(body.totals.labourMinor + body.totals.partsMinor + body.totals.taxMinor);
-    expect(body.totals.depositMinor).toBeLessThanOrEqual(body.totals.totalMinor);
+    // The demo shop rounds once per job: the worked minutes rounded up to the increment once (common practice).
+    const t = body.totals;
+    expect(t.billingRounding).toBe("job");
+    expect(t.billedMinutes).toBe(Math.ceil(t.workedMinutes / t.billingIncrementMinutes) * t.billingIncrementMinutes);
+    expect(t.billedMinutes - t.workedMinutes).toBeLessThan(t.billingIncrementMinutes);
+    expect(t.billingNote).toContain(`billed as ${t.billedMinutes} minutes`);
+    expect(t.labourMinor).toBe(body.lines.reduce((s, l) => s + l.labourMinor, 0) + t.roundingLabourMinor);
+    expect(t.depositMinor).toBeLessThanOrEqual(t.totalMinor);
+    expect(body.cautions.map((c) => c.id)).toEqual(expect.arrayContaining(["isolation", "discharge", "heater-string", "first-power"]));
   });
 
   it("keeps others out and explains bad profiles field by field", async () => {

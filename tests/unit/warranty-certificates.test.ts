@@ -21,7 +21,15 @@ import { EngineError } from "@/lib/engine/engine-error";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import { VERDICT_WORD } from "@/lib/engine/certificates/tables";
 import { listRequiredReadings } from "@/lib/engine/verdicts";
-import { adviseClaim, computeWarrantyTerm, coverageFromCertificate, exclusionCodes, isWithinTerm } from "@/lib/engine/warranty";
+import {
+  adviseClaim,
+  computeWarrantyTerm,
+  coverageFromCertificate,
+  describeTerm,
+  exclusionCodes,
+  isWithinTerm,
+  type WarrantyCoverage,
+} from "@/lib/engine/warranty";
 import { aurelianTableSet } from "./support/demo-sets";
 
 const keys = generateKeyPairPem();
@@ -51,17 +59,66 @@ function demoCertificate(): CertificateContent {
   );
 }
 
-describe("warranty term", () => {
-  test("90 days from completion, the completion day included", () => {
+describe("warranty term: counted from the day after the return (REFERENCES: common legal convention for periods, from memory)", () => {
+  // Independent date arithmetic: Date.UTC normalises an overflowing day of the month itself, with no day numbers.
+  const plusDays = (iso: string, days: number) => {
+    const [y, m, d] = iso.split("-").map(Number);
+    return new Date(Date.UTC(y, m - 1, d + days)).toISOString().slice(0, 10);
+  };
+
+  test("90 days after a return on 1 March end on 30 May; the term starts on 2 March", () => {
     const t = computeWarrantyTerm("2025-03-01", 90);
-    expect(t).toEqual({ startsOn: "2025-03-01", endsOn: "2025-05-29", termDays: 90 });
-    expect(isWithinTerm(t, "2025-05-29")).toBe(true);
-    expect(isWithinTerm(t, "2025-05-30")).toBe(false);
+    expect(t).toMatchObject({ returnedOn: "2025-03-01", startsOn: "2025-03-02", endsOn: "2025-05-30", termDays: 90 });
+    expect(isWithinTerm(t, "2025-05-30")).toBe(true);
+    expect(isWithinTerm(t, "2025-05-31")).toBe(false);
+    expect(isWithinTerm(t, "2025-03-01")).toBe(true); // a fault on the day it came back
     expect(isWithinTerm(t, "2025-02-28")).toBe(false);
+  });
+
+  test.each([
+    // Known calendar facts, worked by hand: January 31 days; February 28, or 29 in a leap year.
+    ["2025-01-31", 30, "2025-03-02"], // over a 28-day February
+    ["2024-01-31", 30, "2024-03-01"], // over a 29-day February (2024 is a leap year)
+    ["2024-01-01", 90, "2024-03-31"],
+    ["2025-01-01", 90, "2025-04-01"],
+    ["2023-12-31", 366, "2024-12-31"], // a year's term over a leap year
+    ["2025-12-31", 365, "2026-12-31"],
+    ["2000-02-28", 1, "2000-02-29"], // 2000 is a leap year (divisible by 400)
+    ["2100-02-28", 1, "2100-03-01"], // 2100 is not (divisible by 100, not by 400)
+    ["2025-04-30", 1, "2025-05-01"],
+  ])("returned %s, %i days: ends %s (known calendar facts)", (returned, days, ends) => {
+    expect(computeWarrantyTerm(returned, days).endsOn).toBe(ends);
+    expect(plusDays(returned, days)).toBe(ends);
+  });
+
+  test("property: the end date agrees with Date.UTC day-overflow arithmetic across month ends and leap years", () => {
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1990, max: 2199 }),
+        fc.integer({ min: 1, max: 12 }),
+        fc.integer({ min: 1, max: 31 }),
+        fc.integer({ min: 1, max: 3650 }),
+        (y, m, d, days) => {
+          const dim = new Date(Date.UTC(y, m, 0)).getUTCDate();
+          fc.pre(d <= dim);
+          const iso = `${y}-${String(m).padStart(2, "0")}-${String(d).padStart(2, "0")}`;
+          const t = computeWarrantyTerm(iso, days);
+          expect(t.endsOn).toBe(plusDays(iso, days));
+          expect(t.startsOn).toBe(plusDays(iso, 1));
+        },
+      ),
+    );
+  });
+
+  test("both dates in words", () => {
+    expect(describeTerm(computeWarrantyTerm("2025-03-01", 90), "2025-03-01")).toBe(
+      "90 days after the set was returned on 2025-03-01: from 2025-03-02 to 2025-05-30, both days included.",
+    );
   });
 
   test("bad dates are the engine's error", () => {
     expect(() => computeWarrantyTerm("2025-02-30", 90)).toThrow(EngineError);
+    expect(() => computeWarrantyTerm("2025-02-29", 90)).toThrow(EngineError);
     expect(() => computeWarrantyTerm("01/03/2025", 90)).toThrow(EngineError);
   });
 });
@@ -78,7 +135,7 @@ describe("what a certificate carries (published: 15 U.S.C. §2303; 16 CFR §701.
     expect(c.parts.map((p) => p.code)).toContain("cap.y2");
     expect(c.warranty.covered.length).toBeGreaterThan(0);
     expect(c.warranty.excluded.map((e) => e.code)).toEqual([...exclusionCodes]);
-    expect(c.warranty).toMatchObject({ startsOn: "2025-03-01", termDays: 90, endsOn: "2025-05-29" });
+    expect(c.warranty).toMatchObject({ startsOn: "2025-03-02", termDays: 90, endsOn: "2025-05-30" });
     expect(c.shop).toEqual({ name: "Kestrel Lane Wireless", address: "14 Kestrel Lane, Port Alder", phone: "555-0142" });
   });
 
@@ -147,10 +204,40 @@ describe("claim advice", () => {
     expect(adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["dial-cord"] }).outcome).toBe("inspect-first");
   });
 
-  test("shock or smoke always carries the stop-using advice", () => {
+  test("a shock or tingle is always 'stop using the set; inspect first', never likely covered, even with the safety work on the certificate (common practice: treat the set as live until inspected)", () => {
+    expect(coverage.workCodes).toContain("safety.y-capacitor");
     const a = adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["shock-or-tingle"] });
-    expect(a.reasons[0]).toMatch(/unplug the set/);
-    expect(a.outcome).toBe("likely-covered");
+    expect(a.outcome).toBe("inspect-first");
+    expect(a.reasons[0]).toMatch(/^Safety: Stop using the set; inspect first\./);
+    // Outside the term too: the safety advice comes first and the outcome stays "inspect first".
+    const late = adviseClaim(coverage, { reportedOn: "2026-01-10", symptoms: ["shock-or-tingle"] });
+    expect(late.outcome).toBe("inspect-first");
+    expect(late.reasons[0]).toMatch(/Stop using the set/);
+    expect(adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["smoke-or-smell"] }).outcome).toBe("inspect-first");
+  });
+
+  test("tubes, dial lamps and batteries wear out in use: excluded unless the shop says otherwise (common practice)", () => {
+    const worn = adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["wear-item"] });
+    expect(worn.outcome).toBe("not-covered");
+    expect(worn.reasons.join(" ")).toMatch(/tubes, dial lamps and batteries/);
+    const shopCoversWear: WarrantyCoverage = { ...coverage, excluded: coverage.excluded.filter((c) => c !== "excl.wear-items") };
+    expect(adviseClaim(shopCoversWear, { reportedOn: "2025-04-10", symptoms: ["wear-item"] }).outcome).toBe("inspect-first");
+  });
+
+  test("covered only when the symptom matches work that could cause it, with the reason", () => {
+    const hum = adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["hum"] });
+    expect(hum.reasons.join(" ")).toMatch(/hum: could come from recap\.electrolytic.*since the filter capacitors fitted smooth the supply/);
+    // Inspections and tests cannot cause a fault: a set whose certificate lists only them is inspected first.
+    const checkedOnly: WarrantyCoverage = {
+      ...coverage,
+      workCodes: ["inspect.intake", "inspect.fault-find", "test.voltages", "safety.isolation-bench", "test.leakage"],
+      partCodes: [],
+    };
+    for (const symptom of ["no-sound", "smoke-or-smell", "no-power"] as const) {
+      const a = adviseClaim(checkedOnly, { reportedOn: "2025-04-10", symptoms: [symptom] });
+      expect(a.outcome).toBe("inspect-first");
+      expect(a.matchedWork).toEqual([]);
+    }
   });
 });
 

@@ -78,7 +78,7 @@ export type CertificateFacts = {
   termsText: string;
 };
 
-/** Assembles the content from the finished job and the policy in force; the term starts on completion. */
+/** Assembles the content from the finished job and the policy in force; the term starts the day after the return. */
 export function buildCertificateContent(facts: CertificateFacts, policy: Pick<ShopPolicy, "warranty">): CertificateContent {
   const term = computeWarrantyTerm(facts.completedOn, policy.warranty.termDays);
   return {

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { describeTerm } from "../warranty/term";
 import { certificateContentSchema, type CertificateContent } from "./content";
 
 // The written warranty as carried in the signed content, and the signed document itself. The schema here is
@@ -32,6 +33,7 @@ export function composeTermsText(
   terms: CertificateTerms,
   warranty: { designation: "limited" | "full"; termDays: number; startsOn: string; endsOn: string },
   shop: WarrantorContact,
+  returnedOn: string = warranty.startsOn,
 ): string {
   const title = `${warranty.designation === "full" ? "Full" : "Limited"} ${warranty.termDays}-day warranty`;
   const contact = [shop.name, ...shop.addressLines, shop.phone, shop.email].filter((x) => x.trim().length > 0).join(", ");
@@ -41,7 +43,7 @@ export function composeTermsText(
     terms.transferable
       ? "If the set changes hands during the term, the new owner is covered for the rest of the term."
       : "The coverage does not pass to a later owner of the set.",
-    `Term: from ${warranty.startsOn}, the day the set was returned, to ${warranty.endsOn} (${warranty.termDays} days).`,
+    `Term: ${describeTerm(warranty, returnedOn)}`,
     `What we will do: ${terms.whatWeWillDo}`,
     `What we will not do: ${terms.whatWeWillNotDo}`,
     "How to make a claim:",

@@ -84,7 +84,10 @@ export const setProfileSchema = z.object({
   paperCapacitors: count(120),
   tubes: count(40).optional(),
   transistors: count(60).optional(),
+  /** IF transformers in the AM strip, or in the only strip of a single-IF set. */
   ifTransformers: count(12).optional(),
+  /** IF transformers in the 10.7 MHz FM strip of a set that also has an AM strip; each strip is aligned on its own. */
+  ifTransformersFm: count(12).optional(),
   seleniumRectifier: formBoolean.optional(),
   lineCordWorn: formBoolean.optional(),
   dialCordBroken: formBoolean.optional(),
@@ -112,8 +115,30 @@ export function isTubeSet(kind: SetKind): boolean {
   return kind === "tube-acdc" || kind === "tube-transformer";
 }
 
+/** Usual transformer counts when the profile gives none: two in an AM strip, three in an FM strip. */
+export const usualIfTransformers = { AM: 2, FM: 3 } as const;
+
+/**
+ * The IF strips of a set, in band order, each with the number of transformers aligned in it. The AM strip
+ * (455 kHz family) takes `ifTransformers`; the FM strip (10.7 MHz) takes `ifTransformersFm`, or
+ * `ifTransformers` when it is the set's only strip. A count is never charged to two strips.
+ */
+export function ifStrips(
+  profile: Pick<SetProfile, "ifTransformers" | "ifTransformersFm"> & {
+    bands: readonly Pick<SetProfile["bands"][number], "kind" | "ifKHz">[];
+  },
+): { ifKHz: number; kind: BandKind; transformers: number }[] {
+  const ifs = distinctIfs(profile.bands);
+  const hasAm = ifs.some((i) => i.kind !== "FM");
+  return ifs.map(({ ifKHz, kind }) => {
+    const fm = kind === "FM";
+    const given = fm ? (profile.ifTransformersFm ?? (hasAm ? undefined : profile.ifTransformers)) : profile.ifTransformers;
+    return { ifKHz, kind, transformers: given ?? (fm ? usualIfTransformers.FM : usualIfTransformers.AM) };
+  });
+}
+
 /** Distinct IFs in band order, each with the kind of the first band that uses it. */
-export function distinctIfs(bands: readonly Band[]): { ifKHz: number; kind: BandKind }[] {
+export function distinctIfs(bands: readonly Pick<Band, "kind" | "ifKHz">[]): { ifKHz: number; kind: BandKind }[] {
   const seen = new Map<number, BandKind>();
   for (const b of bands) if (!seen.has(b.ifKHz)) seen.set(b.ifKHz, b.kind);
   return [...seen].map(([ifKHz, kind]) => ({ ifKHz, kind }));

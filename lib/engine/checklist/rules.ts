@@ -4,17 +4,17 @@ export const checklistCategories = ["inspection", "safety", "recap", "alignment"
 export type ChecklistCategory = (typeof checklistCategories)[number];
 
 /**
- * Rule codes, in checklist order. Minutes in the shop policy are keyed by these; a line's own code is the
- * rule code, with ".<ifKHz>" or ".<bandIndex>" appended for rules that repeat per IF or per band.
+ * Rule codes, in the order the work is done at the bench: intake inspection; make the set safe to work on
+ * (isolation, discharge); safety parts and the cord; the recap; the battery compartment; only then the
+ * first power-up through a limiter, fault finding and the powered checks; the mechanics the dial depends
+ * on; alignment; the tests; burn-in last. Minutes in the shop policy are keyed by these; a line's own code
+ * is the rule code, with ".<ifKHz>" or ".<bandIndex>" appended for rules that repeat per IF or per band.
  */
 export const ruleCodes = [
   "inspect.intake",
-  "inspect.tubes",
-  "inspect.transistors",
-  "inspect.fault-find",
   "safety.isolation-bench",
   "safety.discharge-filter-caps",
-  "safety.current-limited-power-up",
+  "inspect.tubes",
   "safety.y-capacitor",
   "safety.polarized-plug-fuse",
   "safety.fuse",
@@ -22,13 +22,16 @@ export const ruleCodes = [
   "safety.selenium",
   "recap.electrolytic",
   "recap.paper",
+  "mech.battery-compartment",
+  "safety.current-limited-power-up",
+  "inspect.transistors",
+  "inspect.fault-find",
+  "mech.clean-controls",
+  "mech.dial-cord",
   "align.if",
   "align.fm-detector",
   "align.tracking",
   "align.dial",
-  "mech.clean-controls",
-  "mech.dial-cord",
-  "mech.battery-compartment",
   "test.voltages",
   "test.leakage",
   "test.burn-in",

@@ -26,3 +26,26 @@ export function leakageNetworkVolts(currentMA: number, networkKOhm = 1.5): numbe
   requireFinite(currentMA, "currentMA", "Current");
   return currentMA * networkKOhm;
 }
+
+/**
+ * What the filter capacitors of a tube set charge to, for the discharge caution. An AC/DC set rectifies
+ * the mains directly, so they sit near its peak; a transformer set's sit at the peak of the high-voltage
+ * winding, commonly 250–450 V (common practice), so the schematic's B+ is used when the profile has it.
+ */
+export function filterChargeText(profile: {
+  kind: "tube-acdc" | "tube-transformer" | "transistor-battery" | "transistor-mains";
+  mainsVolts?: number;
+  bPlusVolts?: number;
+}): string {
+  const b = profile.bPlusVolts;
+  if (profile.kind === "tube-acdc") {
+    const volts = profile.mainsVolts ?? 120;
+    const peak = Math.round(peakVolts(volts));
+    return b === undefined
+      ? `a ${volts} V supply charges them to about ${peak} V, the peak of the mains`
+      : `about ${b} V, the set's B+ from the schematic, and up to about ${peak} V, the peak of the ${volts} V mains, with the tubes cold`;
+  }
+  return b === undefined
+    ? "on a transformer set they charge to the peak of the high-voltage winding, commonly 250–450 V; the schematic gives the set's B+"
+    : `about ${b} V, the set's B+ from the schematic, and more with the tubes cold or removed: up to the peak of the high-voltage winding`;
+}

@@ -1,5 +1,8 @@
 import { z } from "zod";
+import { computeCautions, type Caution } from "../checklist/cautions";
 import { computeChecklist } from "../checklist/compute-checklist";
+import { billingNote } from "../pricing/billing-note";
+import type { BillingRounding } from "../pricing/billing-rounding";
 import type { ChecklistCategory } from "../checklist/rules";
 import { setProfileSchema } from "../checklist/profile";
 import { priceEstimate, type PricedPart } from "../pricing/price-estimate";
@@ -19,7 +22,11 @@ import type { ReadingRequirement } from "../verdicts/judge-reading";
  *               "totals": { "currency": "USD", "labourMinor": 63000, "partsMinor": 6051, "taxMinor": 484,
  *                           "totalMinor": 69535, "depositMinor": 20861, "balanceMinor": 48674 } }
  *
- * Each line's minutes are per unit; its labour is minutes × quantity rounded up to the billing increment.
+ * Each line's minutes are per unit. Labour minutes are rounded up to the billing increment once on the
+ * job's total by default ("billingRounding": "job"; the rounding's labour is in totals.roundingLabourMinor
+ * and on no line), or on each line when the shop chooses "line". Added fields: totals.billingRounding,
+ * billingIncrementMinutes, workedMinutes, billedMinutes, roundingMinutes, roundingLabourMinor, billingNote,
+ * and "cautions": [{ "id", "text" }] for the set.
  */
 export const estimateRequestSchema = z.object({ profile: setProfileSchema });
 export type EstimateRequest = z.infer<typeof estimateRequestSchema>;
@@ -51,8 +58,16 @@ export type EstimateResponse = {
     totalMinor: number;
     depositMinor: number;
     balanceMinor: number;
+    billingRounding: BillingRounding;
+    billingIncrementMinutes: number;
+    workedMinutes: number;
+    billedMinutes: number;
+    roundingMinutes: number;
+    roundingLabourMinor: number;
+    billingNote: string;
   };
   readings: ReadingRequirement[];
+  cautions: Caution[];
 };
 
 /** Set profile → checklist → priced estimate, with the shop policy in force. */
@@ -85,7 +100,15 @@ export function runEstimateTool(input: EstimateRequest, policy: ShopPolicy): Est
       totalMinor: t.totalMinor,
       depositMinor: t.depositMinor,
       balanceMinor: t.balanceMinor,
+      billingRounding: t.billingRounding,
+      billingIncrementMinutes: t.billingIncrementMinutes,
+      workedMinutes: t.workedMinutes,
+      billedMinutes: t.billedMinutes,
+      roundingMinutes: t.roundingMinutes,
+      roundingLabourMinor: t.roundingLabourMinor,
+      billingNote: billingNote(t),
     },
     readings: listRequiredReadings(input.profile, policy.tolerances),
+    cautions: computeCautions(input.profile),
   };
 }

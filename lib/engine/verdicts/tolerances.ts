@@ -19,10 +19,34 @@ export const bandTolerancesSchema = z.object({
 });
 export type BandTolerances = z.infer<typeof bandTolerancesSchema>;
 
+/**
+ * The published ceilings for leakage from exposed metal of a two-wire set, in mA rms: a shop may set a
+ * stricter limit, never a looser one.
+ *  - 120 V: 0.5 mA, the UL 101 two-wire limit that US service manuals check as 0.75 V rms across
+ *    1.5 kΩ ∥ 0.15 µF.
+ *  - 230 V: IEC 60065 Annex D, touch current not hazardous up to 0.7 mA peak; on a sine that is
+ *    0.7 / √2 = 0.495 mA rms, taken down to 0.49 so that the figure kept never exceeds the standard's.
+ */
+export const leakageCeilings = {
+  v120: { limitMA: 0.5, source: "UL 101 two-wire limit (US service-manual hot check)" },
+  v230: { limitMA: 0.49, source: "IEC 60065 Annex D (0.7 mA peak)" },
+} as const;
+
+const leakageLimit = (volts: "120" | "230") => {
+  const c = leakageCeilings[`v${volts}`];
+  return z
+    .number({ error: `Leakage limit at ${volts} V: enter a number of mA.` })
+    .positive(`Leakage limit at ${volts} V: more than 0 mA.`)
+    .max(
+      c.limitMA,
+      `Leakage limit at ${volts} V: at most ${c.limitMA} mA, the published limit (${c.source}); a shop may only be stricter.`,
+    );
+};
+
 export const toleranceSettingsSchema = z.object({
   byBandKind: z.object({ LW: bandTolerancesSchema, MW: bandTolerancesSchema, SW: bandTolerancesSchema, FM: bandTolerancesSchema }),
   /** Leakage limits in mA by mains voltage of a two-wire set. */
-  leakageLimitMA: z.object({ v120: z.number().positive().max(10), v230: z.number().positive().max(10) }),
+  leakageLimitMA: z.object({ v120: leakageLimit("120"), v230: leakageLimit("230") }),
   /** B+ against the schematic figure, when the profile gives one. */
   bPlusPercent: z.number().min(0).max(50),
 });
@@ -30,8 +54,8 @@ export type ToleranceSettings = z.infer<typeof toleranceSettingsSchema>;
 
 /**
  * Defaults: MW dial calibration within max(10 kHz, 1 %) of the mark; SW within 2 %; both read either as
- * the received frequency or as the LO against mark + IF;
- * leakage 0.5 mA at 120 V and 0.233 mA at 230 V. LW and FM figures are the shop's own choice.
+ * the received frequency or as the LO against mark + IF; leakage at the published ceilings (0.5 mA at
+ * 120 V, 0.49 mA rms at 230 V). LW and FM figures are the shop's own choice.
  */
 export const defaultTolerances: ToleranceSettings = {
   byBandKind: {
@@ -40,7 +64,7 @@ export const defaultTolerances: ToleranceSettings = {
     SW: { dial: { absKHz: 0, percent: 2 }, ifPeak: { absKHz: 2, percent: 0 } },
     FM: { dial: { absKHz: 200, percent: 0.5 }, ifPeak: { absKHz: 50, percent: 0 } },
   },
-  leakageLimitMA: { v120: 0.5, v230: 0.233 },
+  leakageLimitMA: { v120: leakageCeilings.v120.limitMA, v230: leakageCeilings.v230.limitMA },
   bPlusPercent: 10,
 };
 

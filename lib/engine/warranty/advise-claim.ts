@@ -13,38 +13,77 @@ export const claimSymptoms = [
   "noisy-controls",
   "shock-or-tingle",
   "smoke-or-smell",
+  "wear-item",
   "cosmetic",
   "other",
 ] as const;
 export type ClaimSymptom = (typeof claimSymptoms)[number];
 export const claimSymptomSchema = z.enum(claimSymptoms);
 
-/** Which work (line-code prefixes) and parts (part-code prefixes) could be behind each symptom. */
-const symptomCoverage: Record<ClaimSymptom, { work: string[]; parts: string[] }> = {
-  "no-power": {
-    work: ["safety.fuse", "safety.polarized-plug-fuse", "safety.line-cord", "safety.selenium", "recap.electrolytic"],
-    parts: ["fuse", "cord.line", "diode.silicon", "plug.polarized"],
-  },
-  "no-sound": { work: ["recap", "inspect.fault-find", "test.voltages"], parts: ["cap."] },
-  hum: { work: ["recap.electrolytic", "safety.selenium"], parts: ["cap.electrolytic", "diode.silicon"] },
-  "weak-reception": { work: ["align", "recap.paper"], parts: ["cap.film"] },
-  "dial-off-calibration": { work: ["align.tracking", "align.dial", "mech.dial-cord"], parts: ["cord.dial"] },
-  "dial-cord": { work: ["mech.dial-cord"], parts: ["cord.dial"] },
-  intermittent: { work: ["inspect.fault-find", "mech.clean-controls", "recap"], parts: ["cap."] },
-  "noisy-controls": { work: ["mech.clean-controls"], parts: [] },
-  "shock-or-tingle": {
-    work: ["safety.y-capacitor", "safety.polarized-plug-fuse", "safety.line-cord", "test.leakage"],
-    parts: ["cap.y2", "plug.polarized", "cord.line"],
-  },
-  "smoke-or-smell": { work: ["recap", "safety"], parts: ["cap.", "diode.silicon"] },
-  cosmetic: { work: [], parts: [] },
-  other: { work: [], parts: [] },
+/** A piece of work (line-code prefix) or a part (part-code prefix) that could cause a symptom, and why. */
+type Cause = { work?: string; part?: string; why: string };
+
+/**
+ * Which work and parts could cause each symptom (common practice at the bench). Inspections and tests are
+ * left out: checking a set cannot make it fail.
+ */
+const symptomCauses: Record<ClaimSymptom, Cause[]> = {
+  "no-power": [
+    { work: "safety.fuse", part: "fuse", why: "the fuse fitted opens on a fault" },
+    { work: "safety.polarized-plug-fuse", part: "plug.polarized", why: "the plug and fuse fitted carry the supply" },
+    { work: "safety.line-cord", part: "cord.line", why: "the new line cord carries the supply" },
+    { work: "safety.selenium", part: "diode.silicon", why: "the silicon rectifier fitted feeds the supply" },
+    { work: "recap.electrolytic", part: "cap.electrolytic", why: "a shorted new filter capacitor takes the supply down" },
+  ],
+  "no-sound": [
+    { work: "recap.paper", part: "cap.film", why: "the film capacitors fitted couple the signal between stages" },
+    { work: "recap.electrolytic", part: "cap.electrolytic", why: "the electrolytic capacitors fitted feed and bypass the stages" },
+  ],
+  hum: [
+    { work: "recap.electrolytic", part: "cap.electrolytic", why: "the filter capacitors fitted smooth the supply; a faulty one hums" },
+    { work: "safety.selenium", part: "diode.silicon", why: "the rectifier fitted feeds the filter" },
+  ],
+  "weak-reception": [
+    { work: "align", why: "the alignment done sets the gain of the IF and RF stages" },
+    { work: "recap.paper", part: "cap.film", why: "the film capacitors fitted bypass and couple the RF and IF stages" },
+  ],
+  "dial-off-calibration": [
+    { work: "align.tracking", why: "the oscillator setting done places the stations on the dial" },
+    { work: "align.dial", why: "the dial calibration was checked at the band edges" },
+    { work: "mech.dial-cord", part: "cord.dial", why: "the dial cord fitted moves the pointer" },
+  ],
+  "dial-cord": [{ work: "mech.dial-cord", part: "cord.dial", why: "the dial cord fitted moves the pointer" }],
+  intermittent: [
+    { work: "mech.clean-controls", why: "the controls and switch contacts cleaned can make poor contact" },
+    { work: "recap", part: "cap.", why: "a joint on a capacitor fitted can be intermittent" },
+  ],
+  "noisy-controls": [{ work: "mech.clean-controls", why: "the controls cleaned can crackle again" }],
+  "shock-or-tingle": [
+    { work: "safety.y-capacitor", part: "cap.y2", why: "the line-to-chassis capacitor fitted bears on leakage to the cabinet" },
+    { work: "safety.polarized-plug-fuse", part: "plug.polarized", why: "the polarized plug fitted keeps the chassis at neutral" },
+    { work: "safety.line-cord", part: "cord.line", why: "the new line cord carries the mains" },
+  ],
+  "smoke-or-smell": [
+    { work: "recap", part: "cap.", why: "a capacitor fitted can fail and overheat" },
+    { work: "safety.selenium", part: "diode.silicon", why: "the rectifier and series resistor fitted carry the supply current" },
+  ],
+  "wear-item": [],
+  cosmetic: [],
+  other: [],
 };
 
 /** Symptoms that are themselves an exclusion, whatever else the claim says. */
-const symptomExclusion: Partial<Record<ClaimSymptom, ExclusionCode>> = { cosmetic: "excl.cosmetic" };
+const symptomExclusion: Partial<Record<ClaimSymptom, ExclusionCode>> = { cosmetic: "excl.cosmetic", "wear-item": "excl.wear-items" };
 
+/** Symptoms where the set may be dangerous: the owner stops using it and it is inspected first, whatever the cover. */
 const SAFETY_SYMPTOMS: readonly ClaimSymptom[] = ["shock-or-tingle", "smoke-or-smell"];
+
+export function isSafetySymptom(symptom: string): boolean {
+  return (SAFETY_SYMPTOMS as readonly string[]).includes(symptom);
+}
+
+export const SAFETY_ADVICE =
+  "Stop using the set; inspect first. Ask the owner to unplug it and not use it until the shop has inspected it.";
 
 export type WarrantyCoverage = {
   term: WarrantyTerm;
@@ -79,39 +118,44 @@ export type ClaimAdvice = {
 const matches = (code: string, prefix: string) => code === prefix || code.startsWith(prefix.endsWith(".") ? prefix : `${prefix}.`);
 
 /**
- * Advice for staff on a claim; staff decide. Order of reasoning: the term, then exclusions the
- * certificate names, then whether the symptom plausibly comes from the work and parts listed.
+ * Advice for staff on a claim; staff decide. A shock or tingle (or smoke) is never "likely covered": the
+ * owner stops using the set and it is inspected first. Otherwise, in order: the term, the exclusions the
+ * certificate names (wear items among them unless the shop removed them), then whether each symptom
+ * matches work or parts on the certificate that could cause it, each match with its reason.
  */
 export function adviseClaim(coverage: WarrantyCoverage, claim: ClaimFacts): ClaimAdvice {
   const reasons: string[] = [];
   const insideTerm = isWithinTerm(coverage.term, claim.reportedOn);
   const excluded = new Set(coverage.excluded);
-  const findings = [
-    ...(claim.findings ?? []),
-    ...claim.symptoms.flatMap((s): ClaimFinding[] => {
-      const code = symptomExclusion[s];
-      return code ? [{ code, status: "confirmed" }] : [];
-    }),
-  ].filter((f) => excluded.has(f.code));
+  const symptomFindings = claim.symptoms.flatMap((s): ClaimFinding[] => {
+    const code = symptomExclusion[s];
+    return code ? [{ code, status: "confirmed" }] : [];
+  });
+  const findings = [...(claim.findings ?? []), ...symptomFindings].filter((f) => excluded.has(f.code));
 
   const matchedWork = new Set<string>();
   const matchedParts = new Set<string>();
+  const links: string[] = [];
   const unmatched: ClaimSymptom[] = [];
   for (const s of claim.symptoms) {
-    const c = symptomCoverage[s];
-    const work = coverage.workCodes.filter((w) => c.work.some((p) => matches(w, p)));
-    const parts = coverage.partCodes.filter((p) => c.parts.some((q) => matches(p, q)));
-    work.forEach((w) => matchedWork.add(w));
-    parts.forEach((p) => matchedParts.add(p));
-    if (work.length === 0 && parts.length === 0 && !symptomExclusion[s]) unmatched.push(s);
+    let found = false;
+    for (const cause of symptomCauses[s]) {
+      const work = cause.work ? coverage.workCodes.filter((w) => matches(w, cause.work!)) : [];
+      const parts = cause.part ? coverage.partCodes.filter((p) => matches(p, cause.part!)) : [];
+      if (work.length + parts.length === 0) continue;
+      found = true;
+      work.forEach((w) => matchedWork.add(w));
+      parts.forEach((p) => matchedParts.add(p));
+      links.push(`${s}: could come from ${[...work, ...parts].join(", ")}, since ${cause.why}.`);
+    }
+    if (!found && !symptomExclusion[s]) unmatched.push(s);
   }
 
-  if (claim.symptoms.some((s) => SAFETY_SYMPTOMS.includes(s))) {
-    reasons.push("Safety: ask the owner to unplug the set and not use it until it has been inspected.");
-  }
+  const safety = claim.symptoms.some((s) => SAFETY_SYMPTOMS.includes(s));
+  if (safety) reasons.push(`Safety: ${SAFETY_ADVICE}`);
 
   const advice = (outcome: ClaimAdvice["outcome"]): ClaimAdvice => ({
-    outcome,
+    outcome: safety ? "inspect-first" : outcome,
     reasons,
     insideTerm,
     matchedWork: [...matchedWork],
@@ -126,21 +170,25 @@ export function adviseClaim(coverage: WarrantyCoverage, claim: ClaimFacts): Clai
     );
     return advice("not-covered");
   }
-  reasons.push(`Reported on ${claim.reportedOn}, inside the term ending ${coverage.term.endsOn}.`);
+  reasons.push(`Reported on ${claim.reportedOn}, inside the term ${coverage.term.startsOn} to ${coverage.term.endsOn}.`);
 
   const confirmed = findings.filter((f) => f.status === "confirmed");
   if (confirmed.length > 0) {
     for (const f of confirmed) reasons.push(`Excluded: ${exclusionWording[f.code]}`);
     return advice("not-covered");
   }
+  for (const s of claim.symptoms) {
+    const code = symptomExclusion[s];
+    if (code && !excluded.has(code)) reasons.push(`${s}: this certificate does not exclude it; judge it on the bench.`);
+  }
   const suspected = findings.filter((f) => f.status === "suspected");
   for (const f of suspected) reasons.push(`Possible exclusion, to confirm on the bench: ${exclusionWording[f.code]}`);
 
-  if (matchedWork.size > 0) reasons.push(`Linked to work on the certificate: ${[...matchedWork].join(", ")}.`);
-  if (matchedParts.size > 0) reasons.push(`Linked to parts on the certificate: ${[...matchedParts].join(", ")}.`);
-  if (unmatched.length > 0) reasons.push(`Not obviously linked to the work or parts listed: ${unmatched.join(", ")}.`);
+  reasons.push(...links);
+  if (unmatched.length > 0) reasons.push(`No work or part on the certificate could cause: ${unmatched.join(", ")}.`);
 
-  if (suspected.length > 0 || unmatched.length > 0 || matchedWork.size + matchedParts.size === 0) {
+  const unexcludedSymptom = claim.symptoms.some((s) => symptomExclusion[s] && !excluded.has(symptomExclusion[s]!));
+  if (suspected.length > 0 || unmatched.length > 0 || unexcludedSymptom || matchedWork.size + matchedParts.size === 0) {
     if (claim.symptoms.length === 0) reasons.push("No symptom was given.");
     return advice("inspect-first");
   }

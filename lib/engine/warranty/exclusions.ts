@@ -6,6 +6,7 @@ export const exclusionCodes = [
   "excl.battery-leakage",
   "excl.wrong-supply",
   "excl.cosmetic",
+  "excl.wear-items",
 ] as const;
 export type ExclusionCode = (typeof exclusionCodes)[number];
 export const exclusionCodeSchema = z.enum(exclusionCodes);
@@ -17,6 +18,7 @@ export const exclusionWording: Record<ExclusionCode, string> = {
   "excl.battery-leakage": "Damage from batteries left in the set, including corrosion from leaking cells.",
   "excl.wrong-supply": "Damage from connecting the set to the wrong supply voltage, battery or adapter.",
   "excl.cosmetic": "Cosmetic wear: cabinet, finish, dial glass, knobs and grille cloth.",
+  "excl.wear-items": "Parts that wear out in use: tubes, dial lamps and batteries.",
 };
 
 export const coveredWordingKeys = ["covered.workmanship", "covered.parts-replaced", "covered.alignment", "covered.safety-work"] as const;

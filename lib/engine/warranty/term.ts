@@ -25,22 +25,47 @@ export function addDays(isoDate: string, days: number, field = "date"): string {
   return isoFromDayNumber(dayNumber(isoDate, field) + days);
 }
 
-export type WarrantyTerm = { startsOn: string; endsOn: string; termDays: number };
+export type WarrantyTerm = {
+  /** First day of cover. */
+  startsOn: string;
+  /** Last day of cover, included. */
+  endsOn: string;
+  termDays: number;
+  /** The day the set was returned, when known; a fault on that day itself is inside the cover too. */
+  returnedOn?: string;
+};
 
 /**
- * The term starts on the completion (return) day and runs termDays calendar days including that day:
- * a 90-day term starting 2025-03-01 ends on 2025-05-29.
+ * The term counts from the day after the return, the day of the event left out as periods are usually
+ * counted: a 90-day term after a return on 2025-03-01 runs from 2025-03-02 to 2025-05-30, both included.
  */
-export function computeWarrantyTerm(completedOn: string, termDays: number): WarrantyTerm {
+export function computeWarrantyTerm(returnedOn: string, termDays: number): WarrantyTerm & { returnedOn: string } {
   if (!Number.isSafeInteger(termDays) || termDays < 0) {
     throw new EngineError("not-whole", "The warranty term is a whole number of days.", "termDays");
   }
-  const start = dayNumber(completedOn, "completedOn");
-  return { startsOn: completedOn, endsOn: isoFromDayNumber(start + Math.max(termDays - 1, 0)), termDays };
+  const returned = dayNumber(returnedOn, "completedOn");
+  return {
+    returnedOn,
+    startsOn: isoFromDayNumber(returned + 1),
+    endsOn: isoFromDayNumber(returned + termDays),
+    termDays,
+  };
 }
 
 export function isWithinTerm(term: WarrantyTerm, onDate: string): boolean {
   if (term.termDays === 0) return false;
   const d = dayNumber(onDate, "reportedOn");
-  return d >= dayNumber(term.startsOn, "startsOn") && d <= dayNumber(term.endsOn, "endsOn");
+  const from = Math.min(dayNumber(term.startsOn, "startsOn"), term.returnedOn ? dayNumber(term.returnedOn, "returnedOn") : Infinity);
+  return d >= from && d <= dayNumber(term.endsOn, "endsOn");
+}
+
+/**
+ * The term in words, with both dates. Certificates signed before the term counted from the day after
+ * the return start on the return day itself and are described as they were signed.
+ */
+export function describeTerm(term: { termDays: number; startsOn: string; endsOn: string }, returnedOn: string): string {
+  if (term.termDays === 0) return "No warranty term.";
+  return term.startsOn === returnedOn
+    ? `${term.termDays} days from ${term.startsOn}, the day the set was returned, to ${term.endsOn}.`
+    : `${term.termDays} days after the set was returned on ${returnedOn}: from ${term.startsOn} to ${term.endsOn}, both days included.`;
 }

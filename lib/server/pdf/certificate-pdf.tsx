@@ -4,6 +4,7 @@ import { join } from "node:path";
 import { Document, Font, Image, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
 import QRCode from "qrcode";
 import { setKindLabels } from "@/lib/engine/checklist/profile";
+import { describeTerm } from "@/lib/engine/warranty/term";
 import type { CertificateDocument, CertificateReading } from "@/lib/engine/certificates/document";
 import { woffToSfnt } from "@/lib/server/pdf/woff";
 import { bandEdgeRows, formatReading, otherReadings, VERDICT_WORD } from "@/lib/engine/certificates/tables";
@@ -195,7 +196,8 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           <Fact label="Serial" value={d.set.serial ?? "not recorded"} />
           <Fact label="Issued to" value={d.owner.name || "—"} />
           <Fact label="Technician" value={d.technician.name} />
-          <Fact label="Completed (term starts)" value={d.completedOn} />
+          <Fact label="Returned" value={d.completedOn} />
+          <Fact label="Term starts" value={d.warranty.startsOn} />
           <Fact label="Term ends" value={d.warranty.endsOn} />
           <Fact label="Issued" value={d.issuedOn} />
         </View>
@@ -254,7 +256,7 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           <View style={s.col}>
             <Text style={s.p}>
               <Text style={{ fontWeight: 700 }}>Term. </Text>
-              {d.warranty.termDays} days from {d.warranty.startsOn}, the day the set was returned, to {d.warranty.endsOn}.
+              {describeTerm(d.warranty, d.completedOn)}
             </Text>
             <Text style={s.p}>
               <Text style={{ fontWeight: 700 }}>Who is covered. </Text>

@@ -199,7 +199,7 @@ function buildDocument(
     });
   }
   const terms = readCertificateTerms(shop);
-  const termsText = composeTermsText(terms, content.warranty, shop);
+  const termsText = composeTermsText(terms, content.warranty, shop, content.completedOn);
   const doc: CertificateDocument = {
     ...content,
     readings,

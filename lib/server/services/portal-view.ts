@@ -8,6 +8,7 @@ import {
   listTimelineForCustomer,
 } from "@/db/queries/portal";
 import type { JobState } from "@/lib/engine/jobs/states";
+import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { AppError } from "@/lib/server/errors";
 import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
 import { coveredWording, exclusionWording, type CoveredWordingKey, type ExclusionCode } from "@/lib/engine/warranty/exclusions";
@@ -35,6 +36,27 @@ function warrantyOf(p: Record<string, unknown>) {
     designation: w.designation === "full" ? "full" : "limited",
     covers: covered.map((k) => coveredWording[k]),
     excludes: excluded.map((k) => exclusionWording[k]),
+  };
+}
+
+/**
+ * How the revision's labour minutes were rounded, as priced when it was sent. Revisions sent before the
+ * rounding was recorded were rounded on each line.
+ */
+function billingOf(
+  pricing: Record<string, unknown>,
+  lines: readonly { minutes: number; quantity: number; coveredByWarranty: number }[],
+): { note: string; roundingLabourMinor: number } {
+  const worked = lines.reduce((s, l) => s + (l.coveredByWarranty > 0 ? 0 : l.minutes * l.quantity), 0);
+  const billed = pricingNumber(pricing, "billedMinutes", worked);
+  return {
+    note: billingNote({
+      billingRounding: pricing.billingRounding === "job" ? "job" : "line",
+      billingIncrementMinutes: pricingNumber(pricing, "billingIncrementMinutes", 15),
+      workedMinutes: pricingNumber(pricing, "workedMinutes", worked),
+      billedMinutes: billed,
+    }),
+    roundingLabourMinor: pricingNumber(pricing, "roundingLabourMinor", 0),
   };
 }
 
@@ -94,6 +116,10 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
           };
         }).filter((g) => g.lines.length > 0),
         labour: m(current.labourMinor),
+        billing: (() => {
+          const b = billingOf(current.pricing, current.lines);
+          return { note: b.note, rounding: m(b.roundingLabourMinor) };
+        })(),
         parts: m(current.partsMinor),
         labourTax: m(pricingNumber(current.pricing, "labourTaxMinor")),
         partsTax: m(pricingNumber(current.pricing, "partsTaxMinor")),

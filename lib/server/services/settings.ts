@@ -1,8 +1,14 @@
 import "server-only";
-import { getSettingsEditorForOwner, getShopSettingsRowForOwner, updateShopSettingsIfVersion } from "@/db/queries/office";
+import {
+  countOpenEstimatesForOwner,
+  getSettingsEditorForOwner,
+  getShopSettingsRowForOwner,
+  updateShopSettingsIfVersion,
+} from "@/db/queries/office";
 import { transaction } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { isEngineError } from "@/lib/engine/engine-error";
+import { currencyChangeRefusal } from "@/lib/engine/pricing/currency-change";
 import { AppError } from "@/lib/server/errors";
 import { getShop } from "@/lib/server/services/shop";
 import { settingsFromForm, settingsToForm, type SettingsFormValues } from "@/lib/validation/office";
@@ -67,12 +73,11 @@ export async function saveSettings({ values, actorId }: { values: SettingsFormVa
     const current = await getShopSettingsRowForOwner({ tx: ctx.tx, lock: true });
     if (!current) throw new AppError("not_found", "The shop settings row is missing; run the seed first.");
     const stored = await getShop(ctx.tx);
-    if (
-      stored.policy.currency.code !== converted.policy.currency.code ||
-      stored.policy.currency.exponent !== converted.policy.currency.exponent
-    ) {
-      throw new AppError("conflict", `Prices are kept in ${stored.policy.currency.code}; the currency cannot be changed from this screen.`);
-    }
+    const refusal = currencyChangeRefusal(stored.policy.currency, converted.policy.currency, {
+      catalogueParts: Object.keys(stored.policy.parts.catalogue).length,
+      openEstimates: await countOpenEstimatesForOwner({ tx: ctx.tx }),
+    });
+    if (refusal) throw new AppError("conflict", refusal, { "currency.code": refusal });
     if (current.version !== values.version) {
       const who = (await getSettingsEditorForOwner({ userId: current.updatedBy })) ?? "someone";
       const when = current.updatedAt.toISOString().replace("T", " ").slice(0, 16);

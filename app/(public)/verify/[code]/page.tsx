@@ -104,7 +104,8 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
         </div>
         {status === "valid" ? (
           <p>
-            {designation} warranty of {d.warranty.termDays} days, in force until <strong className="figure">{d.warranty.endsOn}</strong>.
+            {designation} warranty of {d.warranty.termDays} days, in force from <strong className="figure">{d.warranty.startsOn}</strong>{" "}
+            until <strong className="figure">{d.warranty.endsOn}</strong>.
           </p>
         ) : null}
         {status === "expired" ? (

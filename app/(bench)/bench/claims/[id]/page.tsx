@@ -9,6 +9,7 @@ import { jobNumber } from "@/lib/engine/jobs/states";
 import { can } from "@/lib/engine/permissions";
 import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
 import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
+import { isSafetySymptom } from "@/lib/engine/warranty/advise-claim";
 import { requirePermission } from "@/lib/server/session";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
 import { exclusionWording, type ClaimSymptom } from "@/lib/engine/warranty";
@@ -22,6 +23,8 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
   if (!row) notFound();
   const photos = await listClaimPhotos({ claimId: id });
   const advice = row.claim.advice as unknown as StoredAdvice;
+  // A shock, tingle or smoke is never "likely covered", also on advice stored before that rule.
+  const safetyClaim = (advice.symptoms ?? []).some((s) => isSafetySymptom(s));
   const { status, document: d } = certificateStatus(row.certificate);
   const st = CLAIM_STATUS_LABEL[row.claim.status];
   const undecided = row.claim.status === "open" || row.claim.status === "inspecting";
@@ -37,8 +40,8 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
           {st.staff}
         </span>
       </div>
-      {(advice.symptoms ?? []).some((s) => s === "shock-or-tingle" || s === "smoke-or-smell") ? (
-        <Notice tone="caution" title="Safety first">
+      {safetyClaim ? (
+        <Notice tone="caution" title="Stop using the set; inspect first">
           <p>
             Ask the owner to unplug the set and not use it. Treat the chassis as live until it is checked on the isolation transformer;
             follow local codes and licensed practice.
@@ -88,7 +91,7 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
         </section>
         <section className="card space-y-2 p-4" aria-labelledby="advice-h">
           <h2 id="advice-h" className="font-semibold">
-            Coverage advice: {OUTCOME_LABEL[advice.outcome]}
+            Coverage advice: {OUTCOME_LABEL[safetyClaim ? "inspect-first" : advice.outcome]}
           </h2>
           <ul className="list-disc space-y-1 pl-5 text-sm">
             {advice.reasons.map((r, i) => (

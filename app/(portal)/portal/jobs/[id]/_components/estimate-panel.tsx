@@ -77,7 +77,7 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
                     {l.quantity > 1 ? <span className="font-normal text-bakelite-muted"> × {l.quantity}</span> : null}
                   </p>
                   {l.reason ? <p className="text-sm text-bakelite-soft">Why: {l.reason}</p> : null}
-                  {l.minutes ? <p className="text-xs text-bakelite-muted">About {minutes(l.minutes)} of bench time</p> : null}
+                  {l.minutes ? <p className="text-xs text-bakelite-muted">About {minutes(l.minutes * l.quantity)} of bench time</p> : null}
                 </div>
                 <div className="figure text-right text-sm sm:min-w-32">
                   {l.coveredByWarranty ? (
@@ -102,6 +102,16 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
           <div className="flex justify-between">
             <dt>Labour</dt>
             <dd>{estimate.labour.text}</dd>
+          </div>
+          {estimate.billing.rounding.minor ? (
+            <div className="flex justify-between text-sm text-bakelite-soft">
+              <dt>of which rounding up to the billing increment</dt>
+              <dd>{estimate.billing.rounding.text}</dd>
+            </div>
+          ) : null}
+          <div className="text-sm text-bakelite-soft" data-testid="estimate-billing-note">
+            <dt className="sr-only">How labour is billed</dt>
+            <dd>{estimate.billing.note}</dd>
           </div>
           <div className="flex justify-between">
             <dt>Parts</dt>
@@ -130,8 +140,8 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
           <h3 className="text-lg font-bold">What the warranty will cover</h3>
           {estimate.warranty.termDays ? (
             <p>
-              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty from the day it is
-              returned. It covers:
+              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty counted from the day
+              after it is returned. It covers:
             </p>
           ) : (
             <p>This shop does not offer a warranty on this work.</p>
