@@ -106,8 +106,10 @@ function withSecurityHeaders(request: NextRequest): NextResponse {
   requestHeaders.set("content-security-policy", policy);
   const response = NextResponse.next({ request: { headers: requestHeaders } });
   response.headers.set("content-security-policy", policy);
-  // Browsers remember HSTS only from HTTPS answers; the app's own address says whether it is served so.
-  if (new URL(env().APP_URL).protocol === "https:") {
+  // Browsers heed HSTS only on HTTPS answers (and ignore it over plain HTTP): sent when the app's own
+  // address is HTTPS or the TLS-terminating proxy in front says the request came over HTTPS.
+  const https = new URL(env().APP_URL).protocol === "https:" || request.headers.get("x-forwarded-proto") === "https";
+  if (https) {
     response.headers.set("strict-transport-security", "max-age=63072000; includeSubDomains");
   }
   return response;
