@@ -32,7 +32,9 @@ function fingerprint(publicKey) {
 function rotate(values) {
   if (!values.CERT_SIGNING_KEY) throw new Error("CERT_SIGNING_KEY is not set: there is no current key to retire.");
   const oldId = values.CERT_KEY_ID || "k1";
-  const oldPublicPem = createPublicKey(createPrivateKey(pemOf(values.CERT_SIGNING_KEY))).export({ type: "spki", format: "pem" }).toString();
+  const oldPublicPem = createPublicKey(createPrivateKey(pemOf(values.CERT_SIGNING_KEY)))
+    .export({ type: "spki", format: "pem" })
+    .toString();
   const retired = (values.CERT_RETIRED_KEYS ?? "").split(/[\s,]+/).filter(Boolean);
   const ids = new Set(retired.map((e) => e.slice(0, e.indexOf(":"))));
   if (!ids.has(oldId)) retired.push(`${oldId}:${Buffer.from(oldPublicPem).toString("base64")}`);
@@ -51,7 +53,9 @@ function rotate(values) {
 function main() {
   if (print) {
     const next = rotate(process.env);
-    process.stdout.write(`CERT_SIGNING_KEY=${next.CERT_SIGNING_KEY}\nCERT_KEY_ID=${next.CERT_KEY_ID}\nCERT_RETIRED_KEYS=${next.CERT_RETIRED_KEYS}\n`);
+    process.stdout.write(
+      `CERT_SIGNING_KEY=${next.CERT_SIGNING_KEY}\nCERT_KEY_ID=${next.CERT_KEY_ID}\nCERT_RETIRED_KEYS=${next.CERT_RETIRED_KEYS}\n`,
+    );
     return;
   }
   if (!existsSync(envFile)) throw new Error(`${envFile} does not exist: run npm start once, or pass --env-file or --print.`);

@@ -13,7 +13,14 @@ import { certificateStatus, verifyStoredCertificate } from "@/lib/server/service
 import { sql } from "../support/db";
 import { createCertificate, stopQueue } from "./certificates-fixtures";
 
-type Row = { id: string; content: Record<string, unknown>; signature: string; keyId: string; revokedAt: Date | null; supersededById: string | null };
+type Row = {
+  id: string;
+  content: Record<string, unknown>;
+  signature: string;
+  keyId: string;
+  revokedAt: Date | null;
+  supersededById: string | null;
+};
 
 async function loadRow(id: string): Promise<Row> {
   const [row] = await sql<Row>(
@@ -46,7 +53,11 @@ function signedBy(row: Row, privateKeyBase64: string): boolean {
 }
 
 const settings = env();
-const original = { CERT_SIGNING_KEY: settings.CERT_SIGNING_KEY, CERT_KEY_ID: settings.CERT_KEY_ID, CERT_RETIRED_KEYS: settings.CERT_RETIRED_KEYS };
+const original = {
+  CERT_SIGNING_KEY: settings.CERT_SIGNING_KEY,
+  CERT_KEY_ID: settings.CERT_KEY_ID,
+  CERT_RETIRED_KEYS: settings.CERT_RETIRED_KEYS,
+};
 const dir = mkdtempSync(join(tmpdir(), "bandedge-keys-"));
 
 afterAll(async () => {
@@ -72,7 +83,11 @@ describe("rotating the certificate signing key", () => {
     expect(Buffer.from(once.CERT_RETIRED_KEYS!.split(":")[1]!, "base64").toString("utf8")).toContain("BEGIN PUBLIC KEY");
 
     // The app restarted with the rotated file.
-    Object.assign(settings, { CERT_SIGNING_KEY: once.CERT_SIGNING_KEY, CERT_KEY_ID: once.CERT_KEY_ID, CERT_RETIRED_KEYS: once.CERT_RETIRED_KEYS });
+    Object.assign(settings, {
+      CERT_SIGNING_KEY: once.CERT_SIGNING_KEY,
+      CERT_KEY_ID: once.CERT_KEY_ID,
+      CERT_RETIRED_KEYS: once.CERT_RETIRED_KEYS,
+    });
     const second = await loadRow((await createCertificate()).certificateId);
     expect(second.keyId).toBe(once.CERT_KEY_ID);
     expect(signedBy(second, once.CERT_SIGNING_KEY!)).toBe(true);
@@ -89,7 +104,11 @@ describe("rotating the certificate signing key", () => {
 
     // A second rotation keeps both earlier keys.
     const twice = rotate(file);
-    Object.assign(settings, { CERT_SIGNING_KEY: twice.CERT_SIGNING_KEY, CERT_KEY_ID: twice.CERT_KEY_ID, CERT_RETIRED_KEYS: twice.CERT_RETIRED_KEYS });
+    Object.assign(settings, {
+      CERT_SIGNING_KEY: twice.CERT_SIGNING_KEY,
+      CERT_KEY_ID: twice.CERT_KEY_ID,
+      CERT_RETIRED_KEYS: twice.CERT_RETIRED_KEYS,
+    });
     const third = await loadRow((await createCertificate()).certificateId);
     expect(third.keyId).toBe(twice.CERT_KEY_ID);
     for (const row of [first, second, third]) expect(certificateStatus(row).status, row.keyId).toBe("valid");

@@ -28,9 +28,10 @@ type Row = {
 };
 
 async function loadRow(id: string): Promise<Row> {
-  const [row] = await sql<Row>(`select id, code, content, signature, key_id, key_id as "keyId", term_ends_at, customer_id from certificate where id = $1`, [
-    id,
-  ]);
+  const [row] = await sql<Row>(
+    `select id, code, content, signature, key_id, key_id as "keyId", term_ends_at, customer_id from certificate where id = $1`,
+    [id],
+  );
   return row!;
 }
 
@@ -155,7 +156,9 @@ describe("signatures", () => {
         } catch {
           return true; // not even JSON: nothing a row could hold
         }
-        return verifyStoredCertificate({ content: content as Record<string, unknown>, signature: row.signature, keyId: row.keyId }) === false;
+        return (
+          verifyStoredCertificate({ content: content as Record<string, unknown>, signature: row.signature, keyId: row.keyId }) === false
+        );
       }),
       { numRuns: 300 },
     );

@@ -102,7 +102,11 @@ export function parseKeyring(text: string): Map<string, string> {
     const at = entry.indexOf(":");
     const id = at > 0 ? entry.slice(0, at) : "";
     if (!KEY_ID.test(id))
-      throw new EngineError("key-invalid", `A retired key entry must start with a key id and a colon: "${entry.slice(0, 24)}…".`, "keyring");
+      throw new EngineError(
+        "key-invalid",
+        `A retired key entry must start with a key id and a colon: "${entry.slice(0, 24)}…".`,
+        "keyring",
+      );
     const pem = Buffer.from(entry.slice(at + 1), "base64").toString("utf8");
     parsePublicKey(pem);
     if (ring.has(id) && ring.get(id) !== pem) throw new EngineError("key-invalid", `The key id ${id} names two different keys.`, "keyring");
@@ -113,7 +117,8 @@ export function parseKeyring(text: string): Map<string, string> {
 
 /** One keyring entry, as parseKeyring reads it. */
 export function keyringEntry(keyId: string, publicKeyPem: string): string {
-  if (!KEY_ID.test(keyId)) throw new EngineError("key-invalid", "A key id is 1 to 64 letters, digits, dots, dashes or underscores.", "keyId");
+  if (!KEY_ID.test(keyId))
+    throw new EngineError("key-invalid", "A key id is 1 to 64 letters, digits, dots, dashes or underscores.", "keyId");
   return `${keyId}:${Buffer.from(publicKeyPem, "utf8").toString("base64")}`;
 }
 

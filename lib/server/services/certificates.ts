@@ -77,7 +77,10 @@ function verificationKeys(): Keyring {
   const current = publicKeyPemFromPrivate(signingKeyPem());
   const clash = keys.get(settings.CERT_KEY_ID);
   if (clash && clash !== current)
-    throw new AppError("unavailable", `Certificate keys are misconfigured: the current key id ${settings.CERT_KEY_ID} also names a retired key.`);
+    throw new AppError(
+      "unavailable",
+      `Certificate keys are misconfigured: the current key id ${settings.CERT_KEY_ID} also names a retired key.`,
+    );
   keys.set(settings.CERT_KEY_ID, current);
   ring = { source, keys };
   return keys;
