@@ -37,7 +37,7 @@ describe("pages under the Content Security Policy", () => {
     await page.goto("/sign-in");
     // The sign-in form is handled by script (a plain form would reload /sign-in): hydration worked.
     await signInPage(page, DEMO.customer.email, DEMO.customer.password);
-    await expect.poll(() => page.getByRole("heading", { name: "My sets" }).count()).toBe(1);
+    await expect.poll(() => page.getByRole("heading", { name: "My jobs" }).count()).toBe(1);
     await page.getByRole("button", { name: "Sign out" }).click();
     await page.waitForURL((u) => u.pathname === "/");
 
