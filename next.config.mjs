@@ -3,26 +3,12 @@ import { buildPdfWorker, pdfWorkerFile } from "./scripts/build-pdf-worker.mjs";
 
 const distDir = process.env.NEXT_DIST_DIR || ".next";
 
+// The Content Security Policy is set per request in proxy.ts: it carries a fresh nonce each time.
 const securityHeaders = [
   { key: "X-Content-Type-Options", value: "nosniff" },
   { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
   { key: "X-Frame-Options", value: "DENY" },
   { key: "Permissions-Policy", value: "camera=(), microphone=(), geolocation=()" },
-  {
-    key: "Content-Security-Policy",
-    value: [
-      "default-src 'self'",
-      "script-src 'self' 'unsafe-inline'",
-      "style-src 'self' 'unsafe-inline'",
-      "img-src 'self' data: blob: http://127.0.0.1:* http://localhost:* https:",
-      "font-src 'self'",
-      "connect-src 'self' http://127.0.0.1:* http://localhost:* https:",
-      "form-action 'self' http://127.0.0.1:* http://localhost:* https:",
-      "frame-ancestors 'none'",
-      "object-src 'none'",
-      "base-uri 'none'",
-    ].join("; "),
-  },
 ];
 
 /** @type {import('next').NextConfig} */

@@ -11,7 +11,21 @@ const globalForDb = globalThis as unknown as { bandedgePool?: Pool; bandedgeDb?:
 
 export function pool(): Pool {
   if (!globalForDb.bandedgePool) {
-    globalForDb.bandedgePool = new Pool({ connectionString: env().DATABASE_URL, max: 10 });
+    const settings = env();
+    // A stopped server fails fast (connect timeout); a frozen one cannot run the server-side timeouts, so
+    // the client gives up on a query a little after the statement timeout would have ended it.
+    const created = new Pool({
+      connectionString: settings.DATABASE_URL,
+      max: 10,
+      connectionTimeoutMillis: settings.DB_CONNECT_TIMEOUT_MS,
+      statement_timeout: settings.DB_STATEMENT_TIMEOUT_MS,
+      query_timeout: settings.DB_STATEMENT_TIMEOUT_MS + 2_000,
+      idle_in_transaction_session_timeout: settings.DB_IDLE_IN_TRANSACTION_TIMEOUT_MS,
+      keepAlive: true,
+    });
+    // An idle connection dropped by a restarting server must not take the process down; the pool replaces it.
+    created.on("error", (e) => console.error("[bandedge] idle database connection lost:", e.message));
+    globalForDb.bandedgePool = created;
   }
   return globalForDb.bandedgePool;
 }
@@ -30,3 +44,23 @@ export const db: Database = new Proxy({} as Database, {
 });
 
 export { schema };
+
+/**
+ * One trivial round trip, bounded: true when PostgreSQL answers within the time. (A probe left waiting on a
+ * frozen server ends with the pool's own query timeout, which discards its connection.)
+ */
+export async function databaseReachable(timeoutMs = 2_000): Promise<boolean> {
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  const timeout = new Promise<false>((resolve) => {
+    timer = setTimeout(() => resolve(false), timeoutMs);
+  });
+  try {
+    const probe = pool()
+      .query("select 1")
+      .then(() => true as const)
+      .catch(() => false as const);
+    return await Promise.race([probe, timeout]);
+  } finally {
+    clearTimeout(timer);
+  }
+}

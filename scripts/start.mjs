@@ -8,6 +8,8 @@ import {
   bin,
   ensureDatabase,
   ensureDependencies,
+  ensureRoles,
+  ensureRoleSecrets,
   ensurePostgres,
   generateSecrets,
   log,
@@ -73,6 +75,17 @@ async function main() {
     password: secrets.PG_PASSWORD,
   });
   ensureDatabase({ bin: pgBin, port: pgPort, password: secrets.PG_PASSWORD, name: "bandedge" });
+
+  // Database roles: the app runs as a role with only the rights it needs, migrations as the owner.
+  if (ensureRoleSecrets(secrets)) writeEnvFile(envFile, secrets);
+  ensureRoles({
+    bin: pgBin,
+    port: pgPort,
+    password: secrets.PG_PASSWORD,
+    name: "bandedge",
+    ownerPassword: secrets.PG_OWNER_PASSWORD,
+    appPassword: secrets.PG_APP_PASSWORD,
+  });
 
   const env = serviceEnv({ secrets, pgPort, appPort, mailPort, stripePort, uploadPort, stateDir });
   log("Applying database migrations…");

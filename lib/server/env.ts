@@ -26,6 +26,24 @@ const envSchema = z.object({
     .enum(["0", "1"])
     .default("1")
     .transform((v) => v === "1"),
+
+  // --- Database resilience and roles ---
+  // Timeouts of the app's connection pool (milliseconds): a stopped or frozen PostgreSQL answers 503 in
+  // seconds instead of hanging requests.
+  DB_CONNECT_TIMEOUT_MS: z.coerce.number().int().positive().default(3_000),
+  DB_STATEMENT_TIMEOUT_MS: z.coerce.number().int().positive().default(8_000),
+  DB_IDLE_IN_TRANSACTION_TIMEOUT_MS: z.coerce.number().int().positive().default(10_000),
+  // Graceful shutdown: how long in-flight requests and the queue worker get after SIGTERM.
+  SHUTDOWN_GRACE_MS: z.coerce.number().int().positive().default(10_000),
+
+  // --- Certificate key ring ---
+  // Retired verification keys, "id:base64-of-SPKI-PEM" separated by commas (written by npm run cert:rotate).
+  CERT_RETIRED_KEYS: z.string().default(""),
+
+  // --- Content Security Policy sources ---
+  // Where photos are uploaded to and shown from; unset means the hosted upload service's hosts.
+  UPLOADTHING_INGEST_URL: z.string().url().optional(),
+  UPLOADTHING_UFS_HOST: z.string().optional(),
 });
 
 export type Env = z.infer<typeof envSchema>;

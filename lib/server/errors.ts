@@ -1,4 +1,5 @@
 import "server-only";
+import { isDatabaseUnavailable } from "@/db/availability";
 // The one error type the app shows to people: a code, an HTTP status derived from it, and a safe message.
 export const ERROR_STATUS = {
   invalid_input: 400,
@@ -74,10 +75,34 @@ function isUnstorableText(e: unknown): boolean {
   return code === "22021" || code === "22P05";
 }
 
+// The innermost cause's code and message: a wrapped query error's own message carries the query's
+// parameters (session tokens among them), which must not reach the log.
+function rootCause(e: unknown): string {
+  let inner: unknown = e;
+  for (let depth = 0; depth < 6 && (inner as { cause?: unknown } | null)?.cause; depth++) inner = (inner as { cause: unknown }).cause;
+  const code = (inner as { code?: unknown } | null)?.code;
+  const message = inner instanceof Error ? inner.message : String(inner);
+  return code ? `${String(code)} ${message}` : message;
+}
+
+/** Seconds a client is asked to wait (Retry-After) when the database is not answering. */
+export const DATABASE_RETRY_AFTER_SECONDS = 15;
+
+export const DATABASE_UNAVAILABLE_MESSAGE =
+  "The workshop's records cannot be reached right now. Nothing was changed; please try again in a minute.";
+
+export function databaseUnavailable(): AppError {
+  return new AppError("unavailable", DATABASE_UNAVAILABLE_MESSAGE);
+}
+
 // Anything that is not an AppError is logged and shown as a generic message.
 export function toAppError(e: unknown): AppError {
   if (isAppError(e)) return e;
   if (isUnstorableText(e)) return new AppError("invalid_input", NUL_MESSAGE);
+  if (isDatabaseUnavailable(e)) {
+    console.error("[bandedge] database unavailable:", rootCause(e));
+    return databaseUnavailable();
+  }
   console.error("[bandedge] unexpected error", e);
   return new AppError("internal", "Something went wrong on our side. Please try again.");
 }

@@ -24,3 +24,13 @@ export function getBoss(): Promise<PgBoss> {
   }
   return g.bandedgeBoss;
 }
+
+/** Graceful stop for shutdown: active jobs finish (up to timeoutMs); unfinished ones are failed for a retry. */
+export async function stopBoss(timeoutMs: number): Promise<void> {
+  const pending = g.bandedgeBoss;
+  if (!pending) return;
+  const boss = await pending.catch(() => undefined);
+  g.bandedgeBoss = undefined;
+  if (!boss) return;
+  await boss.stop({ graceful: true, wait: true, timeout: timeoutMs });
+}

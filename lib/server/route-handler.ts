@@ -1,7 +1,7 @@
 import "server-only";
 import type { z } from "zod";
 import { env } from "./env";
-import { AppError, NUL_MESSAGE, nulCharacterPath, toAppError } from "./errors";
+import { AppError, DATABASE_RETRY_AFTER_SECONDS, NUL_MESSAGE, nulCharacterPath, toAppError } from "./errors";
 import { can, type Permission } from "@/lib/engine/permissions";
 import { viewerFromHeaders, type Viewer } from "./session";
 
@@ -26,7 +26,9 @@ export function json(data: unknown, init: ResponseInit = {}): Response {
 
 export function errorResponse(error: unknown): Response {
   const e = toAppError(error);
-  return json(e.toJSON(), { status: e.status });
+  // Unavailable is temporary: say when to come back.
+  const headers = e.status === 503 ? { "retry-after": String(DATABASE_RETRY_AFTER_SECONDS) } : undefined;
+  return json(e.toJSON(), { status: e.status, headers });
 }
 
 // State-changing requests must come from our own pages (Next checks this only for server actions).

@@ -6,8 +6,10 @@ export function argValue(flag) {
   return i >= 0 ? process.argv[i + 1] : undefined;
 }
 
-// DATABASE_URL when set; otherwise the database npm start created.
+// The owner role's DATABASE_OWNER_URL or DATABASE_URL when set (a backup must read every schema, a restore
+// creates a database: the app role may do neither); otherwise the database npm start created.
 export function databaseUrl() {
+  if (process.env.DATABASE_OWNER_URL) return process.env.DATABASE_OWNER_URL;
   if (process.env.DATABASE_URL) return process.env.DATABASE_URL;
   const state = process.env.BANDEDGE_STATE_DIR ?? join(ROOT, ".bandedge");
   const secrets = readEnvFile(join(state, "local.env"));

@@ -9,6 +9,7 @@ import {
   ensureDatabase,
   ensureDependencies,
   ensurePostgres,
+  ensureRoles,
   freePort,
   generateSecrets,
   log,
@@ -64,6 +65,14 @@ export async function bootScratchStack({
       fast: !durable,
     });
     ensureDatabase({ bin: pgBin, port: pgPort, password: secrets.PG_PASSWORD, name: "bandedge" });
+    ensureRoles({
+      bin: pgBin,
+      port: pgPort,
+      password: secrets.PG_PASSWORD,
+      name: "bandedge",
+      ownerPassword: secrets.PG_OWNER_PASSWORD,
+      appPassword: secrets.PG_APP_PASSWORD,
+    });
     const env = serviceEnv({
       secrets,
       pgPort,

@@ -28,8 +28,14 @@ async function fingerprint(url: string) {
   return out;
 }
 
+// Backups and restores are the owner role's work (the app role may not read every schema or create a database).
 afterAll(async () => {
-  await sql(`drop database if exists "${target}" with (force)`).catch(() => undefined);
+  const admin = new URL(testEnv.ownerDatabaseUrl);
+  admin.pathname = "/postgres";
+  const client = new pg.Client({ connectionString: admin.toString() });
+  await client.connect();
+  await client.query(`drop database if exists "${target}" with (force)`).catch(() => undefined);
+  await client.end();
 });
 
 describe("backup and restore", () => {
@@ -42,10 +48,10 @@ describe("backup and restore", () => {
     }
     const b = spawnSync("node", ["scripts/db-backup.mjs", "--out", dump], { encoding: "utf8", env: process.env });
     expect(b.status, b.stderr).toBe(0);
-    const before = await fingerprint(testEnv.databaseUrl);
+    const before = await fingerprint(testEnv.ownerDatabaseUrl);
     const r = spawnSync("node", ["scripts/db-restore.mjs", dump, "--target", target], { encoding: "utf8", env: process.env });
     expect(r.status, r.stderr).toBe(0);
-    const url = new URL(testEnv.databaseUrl);
+    const url = new URL(testEnv.ownerDatabaseUrl);
     url.pathname = `/${target}`;
     const after = await fingerprint(url.toString());
     expect(Object.keys(before).length).toBeGreaterThan(15);

@@ -22,14 +22,16 @@ type Row = {
   content: CertificateDocument;
   signature: string;
   key_id: string;
+  keyId: string;
   term_ends_at: Date;
   customer_id: string;
 };
 
 async function loadRow(id: string): Promise<Row> {
-  const [row] = await sql<Row>("select id, code, content, signature, key_id, term_ends_at, customer_id from certificate where id = $1", [
-    id,
-  ]);
+  const [row] = await sql<Row>(
+    `select id, code, content, signature, key_id, key_id as "keyId", term_ends_at, customer_id from certificate where id = $1`,
+    [id],
+  );
   return row!;
 }
 
@@ -139,7 +141,7 @@ describe("signatures", () => {
       fc.property(fc.nat({ max: sig.length - 1 }), fc.integer({ min: 1, max: 255 }), (i, mask) => {
         const flipped = Buffer.from(sig);
         flipped[i] = flipped[i]! ^ mask;
-        return verifyStoredCertificate({ content: row.content, signature: flipped.toString("base64url") }) === false;
+        return verifyStoredCertificate({ content: row.content, signature: flipped.toString("base64url"), keyId: row.keyId }) === false;
       }),
       { numRuns: 300 },
     );
@@ -154,7 +156,9 @@ describe("signatures", () => {
         } catch {
           return true; // not even JSON: nothing a row could hold
         }
-        return verifyStoredCertificate({ content: content as Record<string, unknown>, signature: row.signature }) === false;
+        return (
+          verifyStoredCertificate({ content: content as Record<string, unknown>, signature: row.signature, keyId: row.keyId }) === false
+        );
       }),
       { numRuns: 300 },
     );

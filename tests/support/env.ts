@@ -15,6 +15,10 @@ export const testEnv = {
   get databaseUrl() {
     return need("DATABASE_URL");
   },
+  /** The owner role's connection (migrations, backups); the app's own connection is databaseUrl. */
+  get ownerDatabaseUrl() {
+    return need("DATABASE_OWNER_URL");
+  },
   get chromium() {
     return process.env.CHROMIUM_PATH ?? "/usr/bin/chromium";
   },

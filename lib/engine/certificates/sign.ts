@@ -86,3 +86,48 @@ export function verifyCertificate(content: unknown, signature: string, publicKey
   }
   return verify(null, bytes, key, Buffer.from(signature, "base64url"));
 }
+
+/** Verification keys by key id: the current key and every retired one. */
+export type Keyring = ReadonlyMap<string, string>;
+
+const KEY_ID = /^[A-Za-z0-9._-]{1,64}$/;
+
+/**
+ * Reads retired verification keys written as "id:base64-of-SPKI-PEM", separated by commas or white space
+ * (one line of an env file). A malformed entry is a configuration fault and throws, naming the entry.
+ */
+export function parseKeyring(text: string): Map<string, string> {
+  const ring = new Map<string, string>();
+  for (const entry of text.split(/[\s,]+/).filter(Boolean)) {
+    const at = entry.indexOf(":");
+    const id = at > 0 ? entry.slice(0, at) : "";
+    if (!KEY_ID.test(id))
+      throw new EngineError(
+        "key-invalid",
+        `A retired key entry must start with a key id and a colon: "${entry.slice(0, 24)}…".`,
+        "keyring",
+      );
+    const pem = Buffer.from(entry.slice(at + 1), "base64").toString("utf8");
+    parsePublicKey(pem);
+    if (ring.has(id) && ring.get(id) !== pem) throw new EngineError("key-invalid", `The key id ${id} names two different keys.`, "keyring");
+    ring.set(id, pem);
+  }
+  return ring;
+}
+
+/** One keyring entry, as parseKeyring reads it. */
+export function keyringEntry(keyId: string, publicKeyPem: string): string {
+  if (!KEY_ID.test(keyId))
+    throw new EngineError("key-invalid", "A key id is 1 to 64 letters, digits, dots, dashes or underscores.", "keyId");
+  return `${keyId}:${Buffer.from(publicKeyPem, "utf8").toString("base64")}`;
+}
+
+/**
+ * True only for an intact certificate signed by the key its row names: the key id selects the public key,
+ * so a retired key still verifies what it signed, and a certificate claiming an unknown key does not verify.
+ */
+export function verifyWithKeyring(content: unknown, signature: string, keyId: string, keyring: Keyring): boolean {
+  const pem = keyring.get(keyId);
+  if (!pem) return false;
+  return verifyCertificate(content, signature, pem);
+}

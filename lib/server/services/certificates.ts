@@ -7,9 +7,11 @@ import { audit } from "@/lib/server/audit";
 import {
   buildCertificateContent,
   generateCertificateCode,
+  parseKeyring,
   publicKeyPemFromPrivate,
   signCertificate,
-  verifyCertificate,
+  verifyWithKeyring,
+  type Keyring,
 } from "@/lib/engine/certificates";
 import { setProfileSchema } from "@/lib/engine/checklist/profile";
 import { partCodeSchema } from "@/lib/engine/pricing/parts";
@@ -63,20 +65,35 @@ function signingKeyPem(): string {
   return Buffer.from(raw, "base64").toString("utf8");
 }
 
-let publicPem: string | undefined;
-function verificationKeyPem(): string {
-  publicPem ??= publicKeyPemFromPrivate(signingKeyPem());
-  return publicPem;
+// The key ring: the current key (CERT_SIGNING_KEY, named CERT_KEY_ID) signs; it and every retired key
+// (CERT_RETIRED_KEYS, public halves only) verify what they signed. `npm run cert:rotate` moves the current
+// key into the retired list and makes a new one. Built once per distinct setting.
+let ring: { source: string; keys: Keyring } | undefined;
+function verificationKeys(): Keyring {
+  const settings = env();
+  const source = `${settings.CERT_KEY_ID}\n${settings.CERT_SIGNING_KEY}\n${settings.CERT_RETIRED_KEYS}`;
+  if (ring?.source === source) return ring.keys;
+  const keys = parseKeyring(settings.CERT_RETIRED_KEYS);
+  const current = publicKeyPemFromPrivate(signingKeyPem());
+  const clash = keys.get(settings.CERT_KEY_ID);
+  if (clash && clash !== current)
+    throw new AppError(
+      "unavailable",
+      `Certificate keys are misconfigured: the current key id ${settings.CERT_KEY_ID} also names a retired key.`,
+    );
+  keys.set(settings.CERT_KEY_ID, current);
+  ring = { source, keys };
+  return keys;
 }
 
-/** True only when the stored content is exactly what the shop signed. */
-export function verifyStoredCertificate(row: Pick<Certificate, "content" | "signature">): boolean {
-  return verifyCertificate(row.content, row.signature, verificationKeyPem());
+/** True only when the stored content is exactly what the shop signed, with the key the row names. */
+export function verifyStoredCertificate(row: Pick<Certificate, "content" | "signature" | "keyId">): boolean {
+  return verifyWithKeyring(row.content, row.signature, row.keyId, verificationKeys());
 }
 
 /** Status for people: an altered row is "unverifiable" whatever its columns say. */
 export function certificateStatus(
-  row: Pick<Certificate, "content" | "signature" | "revokedAt" | "supersededById">,
+  row: Pick<Certificate, "content" | "signature" | "keyId" | "revokedAt" | "supersededById">,
   today = todayIso(),
 ): {
   status: CertificateStatus;
