@@ -31,7 +31,7 @@ const STAND_INS = ["RESEND_BASE_URL", "MAILBOX_URL", "STRIPE_API_BASE", "UPLOADT
 /** Starts one more instance of the test build; resolves when it answers or exits. */
 async function startApp(env: Record<string, string | undefined>, hostname = "127.0.0.1") {
   const port = await freePort();
-  const merged = { ...process.env, WORKER_ENABLED: "0", ...env } as Record<string, string>;
+  const merged: NodeJS.ProcessEnv = { ...process.env, WORKER_ENABLED: "0", ...env };
   for (const [k, v] of Object.entries(env)) if (v === undefined) delete merged[k];
   const child = spawn(join(process.cwd(), "node_modules", ".bin", "next"), ["start", "--hostname", hostname, "--port", String(port)], {
     cwd: process.cwd(),
