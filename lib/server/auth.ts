@@ -69,19 +69,8 @@ function createAuth() {
       },
       resetPasswordTokenExpiresIn: 60 * 60,
       password: { hash: hashPassword, verify: verifyPassword },
+      // Always the password-reset message: staff invitations are their own tokens (services/staff-invitations.ts).
       sendResetPassword: async ({ user, url }) => {
-        const callback = new URL(url).searchParams.get("callbackURL") ?? "";
-        const welcome = callback.includes("welcome=");
-        if (welcome) {
-          const roleLabel = (user as { role?: string }).role === "owner" ? "Shop owner" : "Technician";
-          await queueEmailNow({
-            to: user.email,
-            template: "staff-invite",
-            props: { name: user.name, url, roleLabel, invitedBy: "the shop owner" },
-            dedupeKey: `invite:${user.id}:${url}`,
-          });
-          return;
-        }
         await queueEmailNow({
           to: user.email,
           template: "reset-password",

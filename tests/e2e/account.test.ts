@@ -3,6 +3,7 @@ import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
+import { sql } from "../support/db";
 import { firstLink, waitForMail } from "../support/mail";
 
 let browser: Browser;
@@ -71,21 +72,29 @@ describe("the owner manages staff", () => {
     const invite = await waitForMail(email, "invited");
     const techCtx = await newContext(browser);
     const tech = await techCtx.newPage();
-    await tech.goto(firstLink(invite, "reset-password"));
+    await tech.goto(firstLink(invite, "/welcome?token="));
     await tech.getByLabel("New password").fill("solder-sucker-77");
     await tech.getByLabel("Type it again").fill("solder-sucker-77");
-    await tech.getByRole("button", { name: "Set new password" }).click();
-    await expect.poll(() => tech.getByText("Password changed").count()).toBe(1);
+    await tech.getByRole("button", { name: "Set my password" }).click();
+    await expect.poll(() => tech.getByText("Password set").count()).toBe(1);
     await signInPage(tech, email, "solder-sucker-77");
     expect(new URL(tech.url()).pathname).toBe("/bench");
 
     await owner.reload();
     await owner.getByRole("button", { name: "Deactivate Felix Apprentice" }).click();
+    // Deactivating asks first, naming what happens and who is told; nothing changes until the owner confirms.
+    await expect
+      .poll(() => owner.getByRole("alertdialog").textContent())
+      .toMatch(new RegExp(`signed out everywhere at once.+We e-mail ${email.replace(/[.+]/g, "\\$&")}`));
+    expect((await sql<{ banned: boolean }>(`select banned from "user" where email = $1`, [email]))[0]!.banned).toBe(false);
+    await owner.getByRole("button", { name: "Yes, deactivate Felix Apprentice" }).click();
     await expect.poll(() => owner.getByRole("button", { name: "Reactivate Felix Apprentice" }).count()).toBe(1);
     await snap(owner, "staff-01-deactivated");
 
     await tech.goto("/bench");
     await tech.waitForURL(/\/sign-in/);
+    const notice = await waitForMail(email, "Your workshop access was turned off");
+    expect(notice.html).toContain("signed out everywhere");
     await ownerCtx.close();
     await techCtx.close();
   });

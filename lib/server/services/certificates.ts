@@ -18,6 +18,7 @@ import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
 import { getShop, type Shop } from "@/lib/server/services/shop";
+import { queueRevocationNotice } from "./notices";
 import { listRequiredReadings, parseReadingKey, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { parseWarrantyTerms } from "@/lib/validation/office";
 import { dayNumber } from "@/lib/engine/warranty";
@@ -348,6 +349,7 @@ export async function revokeCertificate(
     before: { revokedAt: null },
     after: { revokedAt: revokedAt.toISOString(), reason },
   });
+  await queueRevocationNotice(ctx, { certificateId, reason });
   return { certificateId };
 }
 

@@ -67,6 +67,13 @@ export const ROUTES: RouteEntry[] = [
   { method: "GET", route: "/api/health", action: "health", rules: everyone },
   {
     method: "POST",
+    route: "/api/staff-invitations/accept",
+    action: "staff.invitation.accept (single-use token, not session)",
+    rules: everyone,
+    body: () => ({ token: "not-a-real-invitation", password: "valve-glow-1948-x" }),
+  },
+  {
+    method: "POST",
     route: "/api/webhooks/stripe",
     action: "payment.webhook (signature, not session)",
     rules: everyone,
@@ -278,6 +285,7 @@ export const PAGES: PageEntry[] = [
   { route: "/sign-in", rules: everyone },
   { route: "/sign-up", rules: everyone },
   { route: "/reset-password", rules: everyone },
+  { route: "/welcome", rules: everyone },
   { route: "/verify", rules: everyone },
   { route: "/verify/[code]", rules: everyone, params: () => ({ code: "KL-NOPE-0000" }) },
   { route: "/after-sign-in", rules: { anonymous: "deny", customerA: "allow", customerB: "allow", technician: "allow", owner: "allow" } },
