@@ -103,7 +103,8 @@ describe("every page, development pages included", () => {
         else if ((want === "allow" || want === "public") && (toSignIn || [401, 403, 404].includes(res.status)))
           problems.push(`${role}: expected the page, got ${res.status} ${location}`);
         else if (want === "deny" && role === "anonymous" && !toSignIn) problems.push(`anonymous: expected sign-in, got ${res.status}`);
-        else if (want === "deny" && role !== "anonymous" && res.status !== 404) problems.push(`${role}: expected 404, got ${res.status} ${location}`);
+        else if (want === "deny" && role !== "anonymous" && res.status !== 404)
+          problems.push(`${role}: expected 404, got ${res.status} ${location}`);
       }
       expect(problems).toEqual([]);
     });
