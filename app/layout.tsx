@@ -20,7 +20,11 @@ export default function RootLayout({ children }: { children: ReactNode }) {
         </a>
         {children}
         {env().BANDEDGE_LOCAL_DEMO ? (
-          <aside aria-label="Local demo" data-local-demo className="border-t border-brass bg-brass-light px-4 py-1 text-center text-2xs text-bakelite">
+          <aside
+            aria-label="Local demo"
+            data-local-demo
+            className="border-t border-brass bg-brass-light px-4 py-1 text-center text-2xs text-bakelite"
+          >
             Local demo: mail, payments and uploads go to stand-ins on this computer, and the demo sign-ins are public.
           </aside>
         ) : null}
