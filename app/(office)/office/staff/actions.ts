@@ -21,6 +21,9 @@ export const changeStaffRole = action("staff.manage", staffRoleSchema, async (in
   await transaction(async (ctx) => {
     const target = await getUserById(ctx, { userId: input.userId });
     if (!target) throw new AppError("not_found", "That account was not found.");
+    // A set owner becomes staff only through the invitation, which names what the account holds.
+    if (target.role === "customer" && input.role !== "customer")
+      throw new AppError("conflict", "A set owner's account becomes staff only through an invitation with its confirmation.");
     await setUserRole(ctx, { userId: input.userId, role: input.role });
     await audit(ctx, {
       actorId: viewer.id,
