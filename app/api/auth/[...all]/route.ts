@@ -6,8 +6,8 @@ import { endSessionPastLifetime } from "@/lib/server/session";
 // Far above any real sign-in body; the field limits (lib/server/auth-guards.ts) answer the precise error.
 const BODY_LIMIT_BYTES = 1024 * 1024;
 
-async function readCapped(request: Request): Promise<Uint8Array | null> {
-  if (!request.body) return new Uint8Array();
+async function readCapped(request: Request): Promise<Uint8Array<ArrayBuffer> | null> {
+  if (!request.body) return new Uint8Array(new ArrayBuffer(0));
   const reader = request.body.getReader();
   const chunks: Uint8Array[] = [];
   let size = 0;
@@ -21,7 +21,7 @@ async function readCapped(request: Request): Promise<Uint8Array | null> {
     }
     chunks.push(value);
   }
-  const out = new Uint8Array(size);
+  const out = new Uint8Array(new ArrayBuffer(size));
   let at = 0;
   for (const c of chunks) {
     out.set(c, at);
