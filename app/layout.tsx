@@ -1,6 +1,7 @@
 import type { Metadata, Viewport } from "next";
 import { connection } from "next/server";
 import type { ReactNode } from "react";
+import { env } from "@/lib/server/env";
 import { plexMono, plexSans, sourceSerif } from "./fonts";
 import "./globals.css";
 
@@ -21,6 +22,15 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
           Skip to content
         </a>
         {children}
+        {env().BANDEDGE_LOCAL_DEMO ? (
+          <aside
+            aria-label="Local demo"
+            data-local-demo
+            className="border-t border-brass bg-brass-light px-4 py-1 text-center text-2xs text-bakelite"
+          >
+            Local demo: mail, payments and uploads go to stand-ins on this computer, and the demo sign-ins are public.
+          </aside>
+        ) : null}
       </body>
     </html>
   );

@@ -2,6 +2,7 @@ import { render } from "@react-email/render";
 import { createElement, type ComponentType } from "react";
 import CertificateIssued, { type CertificateIssuedProps } from "./certificate-issued";
 import ClaimDecision, { type ClaimDecisionProps } from "./claim-decision";
+import AccountNotice, { type AccountNoticeProps } from "./account-notice";
 import BalanceDue, { type BalanceDueProps } from "./balance-due";
 import EstimateReady, { type EstimateReadyProps } from "./estimate-ready";
 import EstimateRevised from "./estimate-revised";
@@ -42,6 +43,10 @@ export const TEMPLATES = {
   "reset-password": define<{ name: string; url: string }>({
     component: ResetPassword,
     subject: () => "Choose a new password",
+  }),
+  "account-notice": define<AccountNoticeProps>({
+    component: AccountNotice,
+    subject: (p) => p.subject,
   }),
   "staff-invite": define<{ name: string; url: string; roleLabel: string; invitedBy: string }>({
     component: StaffInvite,

@@ -5,7 +5,7 @@ export type StaffInviteProps = { name: string; url: string; roleLabel: string; i
 
 export default function StaffInvite({
   name = "Tomas",
-  url = "http://127.0.0.1:3000/reset-password?token=example",
+  url = "http://127.0.0.1:3000/welcome?token=example",
   roleLabel = "Technician",
   invitedBy = "Odile Marchetti",
 }: Partial<StaffInviteProps>) {
@@ -18,7 +18,7 @@ export default function StaffInvite({
       <Button href={url} style={mailStyles.button}>
         Set my password
       </Button>
-      <Text style={mailStyles.small}>The link expires in one hour; ask the shop owner for a new one if it has.</Text>
+      <Text style={mailStyles.small}>The link works once and expires in seven days; ask the shop owner for a new one if it has.</Text>
     </MailLayout>
   );
 }

@@ -5,6 +5,7 @@ import { useRouter } from "next/navigation";
 import { useState, type FormEvent } from "react";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
+import { safeNextPath } from "@/lib/validation/next-path";
 import { checkSignIn, type SignInErrors } from "@/lib/validation/sign-in";
 
 // Two fields and no form library: the sign-in page stays the lightest page a visitor loads.
@@ -47,7 +48,7 @@ export function SignInForm({ next }: { next?: string }) {
         else setProblem("That e-mail and password do not match an account.");
         return;
       }
-      router.push(next && next.startsWith("/") && !next.startsWith("//") ? next : "/after-sign-in");
+      router.push(safeNextPath(next, window.location.origin));
       router.refresh();
     } finally {
       setSubmitting(false);

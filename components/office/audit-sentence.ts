@@ -72,6 +72,29 @@ const TEXT: Record<string, (row: Row, money: string | null) => string> = {
   "certificate.issue": () => "issued a warranty certificate",
   "certificate.reissue": () => "reissued a warranty certificate",
   "certificate.revoke": () => "revoked a warranty certificate",
+  "staff.convert_customer": (r) =>
+    typeof r.after?.email === "string"
+      ? `converted the set owner's account ${r.after.email} to staff`
+      : "converted a set owner's account to staff",
+  "staff.invitation_accepted": () => "set a password with a staff invitation",
+  "staff.deactivate": () => "deactivated a staff member",
+  "staff.reactivate": () => "reactivated a staff member",
+  "auth.sign_in": () => "signed in",
+  "auth.sign_in_failed": () => "was refused at sign-in (wrong e-mail or password)",
+  "auth.sign_out": () => "signed out",
+  "auth.password_reset_requested": () => "asked for a password-reset link",
+  "auth.password_reset": () => "set a new password with a reset link",
+  "auth.admin.create-user": () => "created an account through the sign-in service",
+  "auth.admin.update-user": () => "changed an account through the sign-in service",
+  "auth.admin.set-role": (r) => (typeof r.after?.role === "string" ? `set an account's role to ${r.after.role}` : "set an account's role"),
+  "auth.admin.ban-user": () => "banned an account",
+  "auth.admin.unban-user": () => "lifted an account's ban",
+  "auth.admin.remove-user": () => "removed an account",
+  "auth.admin.set-user-password": () => "set an account's password",
+  "auth.admin.revoke-user-session": () => "ended one of an account's sessions",
+  "auth.admin.revoke-user-sessions": () => "ended all of an account's sessions",
+  "auth.admin.impersonate-user": () => "started acting as another account",
+  "auth.admin.stop-impersonating": () => "stopped acting as another account",
 };
 
 /** Where the record lives for the office, when it has a page of its own. */

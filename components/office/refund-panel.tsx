@@ -36,6 +36,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
     refetchIntervalInBackground: true,
   });
   const [outcome, setOutcome] = useState<{ tone: "success" | "error"; text: string } | null>(null);
+  // A refund cannot be undone: the form asks, then this names what will happen and waits for a yes.
+  const [confirming, setConfirming] = useState<RefundFormValues | null>(null);
   const left = payment.amountMinor - payment.refundedMinor - payment.inFlightMinor;
   const refundable = payment.status === "paid" && left > 0;
 
@@ -168,7 +170,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
             className="mt-3 space-y-3"
             onSubmit={handleSubmit((v) => {
               setOutcome(null);
-              refund.mutate(v);
+              setConfirming(v);
             })}
           >
             <div className="space-y-0.5">
@@ -214,9 +216,32 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                 </p>
               ) : null}
             </div>
-            <button type="submit" className="btn-primary w-full" disabled={refund.isPending}>
+            <button type="submit" className="btn-primary w-full" disabled={refund.isPending || confirming !== null}>
               {refund.isPending ? "Sending to the processor…" : "Refund this amount"}
             </button>
+            {confirming ? (
+              <div role="alertdialog" aria-labelledby="refund-confirm" className="space-y-2 rounded-card border border-fail p-3">
+                <p id="refund-confirm" className="text-sm">
+                  Refund {currency.code} {confirming.amount} of {payment.customerName}&apos;s payment for job {jobNumber(payment.jobNumber)}
+                  ? A refund cannot be undone. We e-mail {payment.customerName} that it is on its way.
+                </p>
+                <div className="flex flex-wrap gap-2">
+                  <button
+                    type="button"
+                    className="btn-primary"
+                    onClick={() => {
+                      refund.mutate(confirming);
+                      setConfirming(null);
+                    }}
+                  >
+                    Yes, refund {currency.code} {confirming.amount}
+                  </button>
+                  <button type="button" className="btn-quiet" onClick={() => setConfirming(null)}>
+                    Cancel
+                  </button>
+                </div>
+              </div>
+            ) : null}
           </form>
         ) : (
           <p className="mt-2 text-sm text-bakelite-soft">

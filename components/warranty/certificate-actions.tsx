@@ -30,6 +30,8 @@ function ReasonForm({
     defaultValues: { reason: "" },
   });
   const fieldId = `${action}-${id}`;
+  // Revoking cannot be undone: the reason is asked for, then what will happen is named and confirmed.
+  const [confirming, setConfirming] = useState<Reason | null>(null);
   const mutation = useMutation({
     mutationFn: (v: Reason) => postJson(`/api/certificates/${id}/${action}`, v),
     onSuccess: onDone,
@@ -38,7 +40,11 @@ function ReasonForm({
   });
   const error = formState.errors.reason?.message;
   return (
-    <form onSubmit={handleSubmit((v) => mutation.mutate(v))} className="mt-2 space-y-2" noValidate>
+    <form
+      onSubmit={handleSubmit((v) => (action === "revoke" ? setConfirming(v) : mutation.mutate(v)))}
+      className="mt-2 space-y-2"
+      noValidate
+    >
       <Field id={fieldId} label={label} error={error} hint={hint}>
         <input
           id={fieldId}
@@ -51,6 +57,30 @@ function ReasonForm({
       <button type="submit" className={action === "revoke" ? "btn-secondary" : "btn-primary"} disabled={mutation.isPending}>
         {action === "revoke" ? "Revoke the certificate" : "Issue the corrected certificate"}
       </button>
+      {confirming ? (
+        <div role="alertdialog" aria-labelledby={`${fieldId}-confirm`} className="space-y-2 rounded-card border border-fail p-3">
+          <p id={`${fieldId}-confirm`} className="text-sm">
+            Revoke this certificate? It cannot be undone: the public verification page will show it as revoked with your reason, and we
+            e-mail the owner of the set.
+          </p>
+          <div className="flex flex-wrap gap-2">
+            <button
+              type="button"
+              className="btn-primary"
+              disabled={mutation.isPending}
+              onClick={() => {
+                mutation.mutate(confirming);
+                setConfirming(null);
+              }}
+            >
+              Yes, revoke the certificate
+            </button>
+            <button type="button" className="btn-quiet" onClick={() => setConfirming(null)}>
+              Cancel
+            </button>
+          </div>
+        </div>
+      ) : null}
     </form>
   );
 }

@@ -79,3 +79,24 @@ export const rateLimit = pgTable("rate_limit", {
 
 export type User = typeof user.$inferSelect;
 export type Session = typeof session.$inferSelect;
+
+// An invitation to the staff, created only by the owner's invite action: a single-use token (kept as its
+// SHA-256) that lets the invited person set a password. Distinct from the password-reset link anyone can ask for.
+export const staffInvitation = pgTable(
+  "staff_invitation",
+  {
+    id: text("id").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    role: text("role").notNull(),
+    invitedBy: text("invited_by")
+      .notNull()
+      .references(() => user.id),
+    createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
+    expiresAt: timestamp("expires_at", { withTimezone: true }).notNull(),
+    usedAt: timestamp("used_at", { withTimezone: true }),
+  },
+  (t) => [index("staff_invitation_user_idx").on(t.userId)],
+);

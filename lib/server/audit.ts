@@ -1,4 +1,5 @@
 import "server-only";
+import { db } from "@/db";
 import { auditEvents } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 
@@ -14,6 +15,18 @@ export type AuditInput = {
 // Audit rows are written inside the transaction of the change they describe.
 export async function audit(ctx: TxContext, input: AuditInput): Promise<void> {
   await ctx.tx.insert(auditEvents).values({
+    actorId: input.actorId,
+    action: input.action,
+    entity: input.entity,
+    entityId: input.entityId,
+    before: input.before ?? null,
+    after: input.after ?? null,
+  });
+}
+
+/** For events with no transaction of their own (sign-in, sign-out, the sign-in service's admin calls). */
+export async function auditNow(input: AuditInput): Promise<void> {
+  await db.insert(auditEvents).values({
     actorId: input.actorId,
     action: input.action,
     entity: input.entity,

@@ -1,6 +1,6 @@
 import "server-only";
 import { betterAuth } from "better-auth";
-import { APIError, createAuthMiddleware } from "better-auth/api";
+import { APIError, createAuthMiddleware, getSessionFromCtx } from "better-auth/api";
 import { drizzleAdapter } from "better-auth/adapters/drizzle";
 import { nextCookies } from "better-auth/next-js";
 import { admin } from "better-auth/plugins";
@@ -13,6 +13,27 @@ import { queueEmailNow } from "./mail";
 import { isCommonPassword } from "./common-passwords";
 import { NUL_MESSAGE, nulCharacterPath } from "./errors";
 import { hashPassword, verifyPassword } from "./password";
+import { auditNow } from "./audit";
+import { ACCOUNT_FAILURE_LIMIT, emailKey, oversizedField, recentFailures, recordFailedSignIn, withoutSecrets } from "./auth-guards";
+import { CLIENT_ADDRESS_HEADER } from "./client-address";
+
+// The sign-in service's own account-administration endpoints that change something: each leaves an audit row.
+const ADMIN_CHANGES = new Set([
+  "/admin/create-user",
+  "/admin/update-user",
+  "/admin/set-role",
+  "/admin/ban-user",
+  "/admin/unban-user",
+  "/admin/remove-user",
+  "/admin/set-user-password",
+  "/admin/revoke-user-session",
+  "/admin/revoke-user-sessions",
+  "/admin/impersonate-user",
+  "/admin/stop-impersonating",
+]);
+
+// The same answer as the per-address limiter gives, for a known or an unknown e-mail alike.
+const TOO_MANY = "Too many requests. Please try again later.";
 
 // better-auth's own admin endpoints: only the shop owner may use them.
 const ac = createAccessControl(defaultStatements);
@@ -43,21 +64,13 @@ function createAuth() {
       minPasswordLength: 8,
       maxPasswordLength: 128,
       revokeSessionsOnPasswordReset: true,
+      onPasswordReset: async ({ user }) => {
+        await auditNow({ actorId: user.id, action: "auth.password_reset", entity: "user", entityId: user.id });
+      },
       resetPasswordTokenExpiresIn: 60 * 60,
       password: { hash: hashPassword, verify: verifyPassword },
+      // Always the password-reset message: staff invitations are their own tokens (services/staff-invitations.ts).
       sendResetPassword: async ({ user, url }) => {
-        const callback = new URL(url).searchParams.get("callbackURL") ?? "";
-        const welcome = callback.includes("welcome=");
-        if (welcome) {
-          const roleLabel = (user as { role?: string }).role === "owner" ? "Shop owner" : "Technician";
-          await queueEmailNow({
-            to: user.email,
-            template: "staff-invite",
-            props: { name: user.name, url, roleLabel, invitedBy: "the shop owner" },
-            dedupeKey: `invite:${user.id}:${url}`,
-          });
-          return;
-        }
         await queueEmailNow({
           to: user.email,
           template: "reset-password",
@@ -98,7 +111,8 @@ function createAuth() {
       },
     },
     advanced: {
-      ipAddress: { ipAddressHeaders: [e.TRUSTED_IP_HEADER] },
+      // Set by app/api/auth/[...all]/route.ts from the trusted proxies only (lib/server/client-address.ts).
+      ipAddress: { ipAddressHeaders: [CLIENT_ADDRESS_HEADER] },
       useSecureCookies: appUrl.protocol === "https:",
     },
     databaseHooks: {
@@ -117,6 +131,23 @@ function createAuth() {
         if (nulCharacterPath(ctx.body ?? null) || nulCharacterPath(ctx.query ?? null)) {
           throw new APIError("BAD_REQUEST", { code: "INVALID_CHARACTER", message: NUL_MESSAGE });
         }
+        // Every field has a server-side limit, whatever the browser forms check.
+        const oversized = oversizedField(ctx.body ?? null) ?? oversizedField(ctx.query ?? null);
+        if (oversized) throw new APIError("BAD_REQUEST", { code: "FIELD_TOO_LONG", message: oversized.message });
+        if (ctx.path === "/sign-in/email") {
+          const email = (ctx.body as { email?: unknown } | undefined)?.email;
+          if (typeof email === "string" && (await recentFailures(email)) >= ACCOUNT_FAILURE_LIMIT) {
+            throw new APIError("TOO_MANY_REQUESTS", { message: TOO_MANY });
+          }
+          return;
+        }
+        if (ctx.path === "/sign-out") {
+          const current = await getSessionFromCtx(ctx).catch(() => null);
+          if (current) {
+            await auditNow({ actorId: current.user.id, action: "auth.sign_out", entity: "user", entityId: current.user.id });
+          }
+          return;
+        }
         if (ctx.path !== "/sign-up/email" && ctx.path !== "/reset-password" && ctx.path !== "/change-password") return;
         const body = (ctx.body ?? {}) as { password?: unknown; newPassword?: unknown };
         const candidate = typeof body.newPassword === "string" ? body.newPassword : body.password;
@@ -124,6 +155,48 @@ function createAuth() {
           throw new APIError("BAD_REQUEST", {
             code: "PASSWORD_TOO_COMMON",
             message: "That password is on the list of the most commonly used passwords. Please choose another.",
+          });
+        }
+      }),
+      after: createAuthMiddleware(async (ctx) => {
+        const address = ctx.headers?.get(CLIENT_ADDRESS_HEADER) ?? null;
+        const returned = ctx.context.returned;
+        const failed = returned instanceof APIError;
+        if (ctx.path === "/sign-in/email") {
+          const email = (ctx.body as { email?: unknown } | undefined)?.email;
+          if (typeof email !== "string") return;
+          if (failed) {
+            await recordFailedSignIn(email, address, returned.body?.code ?? returned.status.toString());
+          } else if (ctx.context.newSession) {
+            const id = ctx.context.newSession.user.id;
+            await auditNow({ actorId: id, action: "auth.sign_in", entity: "user", entityId: id, after: { address } });
+          }
+          return;
+        }
+        if (ctx.path === "/request-password-reset" && !failed) {
+          const email = (ctx.body as { email?: unknown } | undefined)?.email;
+          if (typeof email === "string") {
+            await auditNow({
+              actorId: null,
+              action: "auth.password_reset_requested",
+              entity: "sign_in",
+              entityId: emailKey(email),
+              after: { address },
+            });
+          }
+          return;
+        }
+        if (ADMIN_CHANGES.has(ctx.path)) {
+          const actor = await getSessionFromCtx(ctx).catch(() => null);
+          const body = withoutSecrets(ctx.body);
+          const created = (returned as { user?: { id?: string } } | undefined)?.user?.id;
+          const target = typeof body.userId === "string" ? body.userId : (created ?? "unknown");
+          await auditNow({
+            actorId: actor?.user.id ?? null,
+            action: `auth.admin.${ctx.path.slice("/admin/".length)}`,
+            entity: "user",
+            entityId: target,
+            after: { ...body, outcome: failed ? `refused (${returned.status})` : "done" },
           });
         }
       }),

@@ -22,6 +22,27 @@ const envSchema = z.object({
   AUTH_RATE_LIMIT_MAX: z.coerce.number().int().positive().default(5),
   AUTH_RATE_LIMIT_WINDOW_SECONDS: z.coerce.number().int().positive().default(60),
   TRUSTED_IP_HEADER: z.string().default("x-forwarded-for"),
+  // Which proxies in front of the app may say who the client is (lib/server/client-address.ts): their
+  // addresses or CIDR ranges, comma-separated, or the number of proxies. Neither: the header is ignored.
+  TRUSTED_PROXIES: z
+    .string()
+    .default("")
+    .transform((v) =>
+      v
+        .split(",")
+        .map((s) => s.trim())
+        .filter(Boolean),
+    )
+    .pipe(z.array(z.union([z.ipv4(), z.ipv6(), z.cidrv4(), z.cidrv6()], { error: "TRUSTED_PROXIES: addresses or CIDR ranges" }))),
+  TRUSTED_PROXY_HOPS: z.coerce.number().int().min(0).max(10).default(0),
+  // The local demo (npm start, the test command): stand-ins, the mailbox page, loopback only.
+  BANDEDGE_LOCAL_DEMO: z
+    .enum(["0", "1"])
+    .default("0")
+    .transform((v) => v === "1"),
+  // Read by the upload SDK itself; named here so a stand-in address cannot slip into a real deployment.
+  UPLOADTHING_API_URL: z.string().url().optional(),
+  UPLOADTHING_INGEST_URL: z.string().url().optional(),
   WORKER_ENABLED: z
     .enum(["0", "1"])
     .default("1")
@@ -42,8 +63,31 @@ const envSchema = z.object({
 
   // --- Content Security Policy sources ---
   // Where photos are uploaded to and shown from; unset means the hosted upload service's hosts.
-  UPLOADTHING_INGEST_URL: z.string().url().optional(),
   UPLOADTHING_UFS_HOST: z.string().optional(),
+});
+
+const STAND_IN_URLS = ["RESEND_BASE_URL", "MAILBOX_URL", "STRIPE_API_BASE", "UPLOADTHING_API_URL", "UPLOADTHING_INGEST_URL"] as const;
+const LOOPBACK_HOSTS = new Set(["127.0.0.1", "localhost", "[::1]"]);
+
+// Stand-ins exist only in the local demo, the local demo runs only on this machine and only with local keys:
+// a real deployment that inherits a stand-in address (and would send a password-reset link to a page
+// anyone can read) refuses to start instead.
+const checkedEnvSchema = envSchema.superRefine((e, ctx) => {
+  if (!e.BANDEDGE_LOCAL_DEMO) {
+    for (const name of STAND_IN_URLS) {
+      if (e[name])
+        ctx.addIssue({
+          code: "custom",
+          path: [name],
+          message: "a stand-in address is allowed only in the local demo (BANDEDGE_LOCAL_DEMO=1, set by npm start); unset it",
+        });
+    }
+    return;
+  }
+  if (!LOOPBACK_HOSTS.has(new URL(e.APP_URL).hostname))
+    ctx.addIssue({ code: "custom", path: ["APP_URL"], message: "the local demo serves only this machine: use http://127.0.0.1:<port>" });
+  if (/^(sk|rk)_live_/.test(e.STRIPE_SECRET_KEY))
+    ctx.addIssue({ code: "custom", path: ["STRIPE_SECRET_KEY"], message: "the local demo refuses a live payment key" });
 });
 
 export type Env = z.infer<typeof envSchema>;
@@ -52,7 +96,7 @@ let cached: Env | undefined;
 
 export function env(): Env {
   if (!cached) {
-    const parsed = envSchema.safeParse(process.env);
+    const parsed = checkedEnvSchema.safeParse(process.env);
     if (!parsed.success) {
       const problems = parsed.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("; ");
       throw new Error(`Invalid environment: ${problems}`);

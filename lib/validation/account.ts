@@ -20,6 +20,13 @@ export const staffInviteSchema = z.object({
   name: z.string().trim().min(1, "Enter the person's name.").max(120),
   email: emailSchema,
   role: z.enum(["technician", "owner"]),
+  // Converting a set owner's account: only with this flag and the holdings the owner was shown, repeated.
+  convertCustomer: z.boolean().optional(),
+  holdings: z.string().max(200).optional(),
+});
+export const staffInvitationAcceptSchema = z.object({
+  token: z.string().min(1, "The invitation link is incomplete.").max(200),
+  password: passwordSchema,
 });
 export const staffRoleSchema = z.object({ userId: z.string().min(1), role: z.enum(["customer", "technician", "owner"]) });
 export const staffDeactivateSchema = z.object({ userId: z.string().min(1), active: z.boolean() });

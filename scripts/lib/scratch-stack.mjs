@@ -89,6 +89,8 @@ export async function bootScratchStack({
         PG_PORT: String(pgPort),
         TEST_ARTIFACTS: join(ROOT, "test-results"),
         TEST_SCRATCH: scratch,
+        // The test client plays the one reverse proxy in front of the app: it appends the client address.
+        TRUSTED_PROXY_HOPS: "1",
         ...extraEnv,
       },
     });

@@ -1,8 +1,9 @@
 import { randomUUID } from "node:crypto";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO } from "../support/accounts";
+import { DEMO, newCustomer } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
+import { sql } from "../support/db";
 import { firstLink, waitForMail } from "../support/mail";
 
 let browser: Browser;
@@ -71,22 +72,63 @@ describe("the owner manages staff", () => {
     const invite = await waitForMail(email, "invited");
     const techCtx = await newContext(browser);
     const tech = await techCtx.newPage();
-    await tech.goto(firstLink(invite, "reset-password"));
+    await tech.goto(firstLink(invite, "/welcome?token="));
     await tech.getByLabel("New password").fill("solder-sucker-77");
     await tech.getByLabel("Type it again").fill("solder-sucker-77");
-    await tech.getByRole("button", { name: "Set new password" }).click();
-    await expect.poll(() => tech.getByText("Password changed").count()).toBe(1);
+    await tech.getByRole("button", { name: "Set my password" }).click();
+    await expect.poll(() => tech.getByText("Password set").count()).toBe(1);
     await signInPage(tech, email, "solder-sucker-77");
     expect(new URL(tech.url()).pathname).toBe("/bench");
 
     await owner.reload();
     await owner.getByRole("button", { name: "Deactivate Felix Apprentice" }).click();
+    // Deactivating asks first, naming what happens and who is told; nothing changes until the owner confirms.
+    await expect
+      .poll(() => owner.getByRole("alertdialog").textContent())
+      .toMatch(new RegExp(`signed out everywhere at once.+We e-mail ${email.replace(/[.+]/g, "\\$&")}`));
+    expect((await sql<{ banned: boolean }>(`select banned from "user" where email = $1`, [email]))[0]!.banned).toBe(false);
+    await owner.getByRole("button", { name: "Yes, deactivate Felix Apprentice" }).click();
     await expect.poll(() => owner.getByRole("button", { name: "Reactivate Felix Apprentice" }).count()).toBe(1);
     await snap(owner, "staff-01-deactivated");
 
     await tech.goto("/bench");
     await tech.waitForURL(/\/sign-in/);
+    const notice = await waitForMail(email, "Your workshop access was turned off");
+    expect(notice.html).toContain("signed out everywhere");
     await ownerCtx.close();
     await techCtx.close();
+  });
+
+  it("refuses to make a set owner's account staff unless the owner confirms what it holds", async () => {
+    const ownerCtx = await newContext(browser);
+    const owner = await ownerCtx.newPage();
+    await signInPage(owner, DEMO.owner.email, DEMO.owner.password);
+    await owner.goto("/office/staff");
+
+    // A customer with jobs: refused with a clear message; the account is untouched.
+    await owner.getByLabel("Name").fill("Mira Holloway");
+    await owner.getByLabel("E-mail").fill(DEMO.customer.email);
+    await owner.getByRole("button", { name: "Send invitation" }).click();
+    await expect
+      .poll(() => owner.getByText(/belongs to a set owner's account \(\d+ jobs?, \d+ certificates?.+\d+ claims?\)/).count())
+      .toBeGreaterThan(0);
+    const [mira] = await sql<{ role: string }>(`select role from "user" where email = $1`, [DEMO.customer.email]);
+    expect(mira!.role).toBe("customer");
+    await owner.getByRole("button", { name: "Cancel" }).click();
+
+    // Converting on purpose: the confirmation names what the account holds, then the invitation goes out.
+    const { email } = await newCustomer("convert");
+    await owner.getByLabel("Name").fill("Converted Customer");
+    await owner.getByLabel("E-mail").fill(email);
+    await owner.getByRole("button", { name: "Send invitation" }).click();
+    await expect.poll(() => owner.getByRole("alertdialog").textContent()).toMatch(/It holds 0 jobs, 0 certificates and 0 claims/);
+    await snap(owner, "staff-02-convert-confirmation");
+    await owner.getByRole("button", { name: "Yes, convert the account holding 0 jobs, 0 certificates and 0 claims" }).click();
+    await expect.poll(() => owner.getByText(`Invitation sent to ${email}.`).count()).toBe(1);
+    const [converted] = await sql<{ role: string }>(`select role from "user" where email = $1`, [email]);
+    expect(converted!.role).toBe("technician");
+    const invite = await waitForMail(email, "invited");
+    expect(firstLink(invite, "/welcome?token=")).toContain("/welcome?token=");
+    await ownerCtx.close();
   });
 });

@@ -104,9 +104,18 @@ describe("the shop owner runs the office", () => {
     await fill(page.getByLabel(/Amount to refund/), "200.00");
     await fill(page.getByLabel("Reason"), "Customer kept the original cord");
     await page.getByRole("button", { name: "Refund this amount" }).click();
+    await page.getByRole("button", { name: "Yes, refund USD 200.00" }).click();
     await expect.poll(() => page.getByText(/At most USD 150\.00/).count()).toBeGreaterThan(0);
     await fill(page.getByLabel(/Amount to refund/), "35.00");
     await page.getByRole("button", { name: "Refund this amount" }).click();
+    // Nothing is sent until the owner confirms a message that names the amount, the customer and the e-mail.
+    const confirm = page.getByRole("alertdialog");
+    await expect
+      .poll(() => confirm.textContent())
+      .toMatch(/Refund USD 35\.00 of .+'s payment for job KL-\d+\? A refund cannot be undone\. We e-mail/);
+    const [before] = await sql<{ n: number }>("select count(*)::int as n from refund where payment_id = $1", [paymentId]);
+    expect(before!.n).toBe(0);
+    await page.getByRole("button", { name: "Yes, refund USD 35.00" }).click();
     await expect.poll(() => page.getByText(/Refund of USD 35\.00 sent to the processor/).count()).toBe(1);
     await expect.poll(() => page.getByTestId("refunded-so-far").textContent(), { timeout: 20_000 }).toBe("USD 35.00");
     await expect.poll(() => page.getByRole("cell", { name: /Refunded/ }).count()).toBe(1);

@@ -93,6 +93,10 @@ describe("a certificate from issue to claim", () => {
     await row.getByRole("button", { name: "Revoke…" }).click();
     await row.getByLabel("Reason for revoking").fill("Chassis swapped before return");
     await row.getByRole("button", { name: "Revoke the certificate" }).click();
+    // Revoking waits for a confirmation that says what will happen.
+    await expect.poll(() => row.getByRole("alertdialog").textContent()).toMatch(/cannot be undone.+verification page.+e-mail the owner/);
+    expect((await sql<{ r: Date | null }>("select revoked_at as r from certificate where code = $1", [c.code]))[0]!.r).toBeNull();
+    await row.getByRole("button", { name: "Yes, revoke the certificate" }).click();
     await expect.poll(() => office.getByRole("row").filter({ hasText: c.code }).getByText("Revoked").count(), { timeout: 15_000 }).toBe(1);
     await snap(office, "warranty-08-office-certificates");
     await office.goto(`/verify/${c.code}`);

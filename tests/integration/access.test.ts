@@ -5,8 +5,8 @@ import { DEMO } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
 import { fixturesFromSeed, pathOf } from "./access/fixtures";
-import { actionInventory, routeInventory } from "./access/inventory";
-import { ACTIONS, ROUTES, type Fixtures, type Role, type RouteEntry } from "./access/matrix";
+import { actionInventory, pageInventory, routeInventory } from "./access/inventory";
+import { ACTIONS, LOCAL_DEMO_PAGES, PAGES, ROUTES, type Fixtures, type Role, type RouteEntry } from "./access/matrix";
 
 const ROLES: Role[] = ["anonymous", "customerA", "customerB", "technician", "owner"];
 const LOGINS: Record<Exclude<Role, "anonymous">, { email: string; password: string }> = {
@@ -69,6 +69,46 @@ describe("the access matrix covers the whole app", () => {
       expect([...granted].sort()).toEqual(entry.roles.filter((r) => r !== "anonymous").sort());
     }
   });
+});
+
+describe("every page, development pages included", () => {
+  it("is listed in the page matrix", () => {
+    const listed = new Set(PAGES.map((p) => p.route));
+    const found = pageInventory();
+    expect(
+      found.filter((p) => !listed.has(p.route)).map((p) => p.file),
+      "pages missing from PAGES in tests/integration/access/matrix.ts",
+    ).toEqual([]);
+    expect(PAGES.map((p) => p.route).filter((r) => !found.some((p) => p.route === r))).toEqual([]);
+    // Development pages live in the (dev) group and are all marked as local-demo pages.
+    for (const p of found.filter((f) => f.file.includes("(dev)"))) expect(LOCAL_DEMO_PAGES.has(p.route), p.file).toBe(true);
+  });
+
+  let byRole: Record<Role, TestClient>;
+  beforeAll(async () => {
+    byRole = await clients({});
+  });
+  for (const entry of PAGES) {
+    it(`${entry.route} answers each role as listed`, async () => {
+      const problems: string[] = [];
+      let path = entry.route;
+      for (const [k, v] of Object.entries(entry.params?.(fixtures) ?? {})) path = path.replace(`[${k}]`, encodeURIComponent(v));
+      for (const role of ROLES) {
+        const res = await byRole[role].get(path);
+        const location = res.headers.get("location") ?? "";
+        const toSignIn = res.status >= 300 && res.status < 400 && location.includes("/sign-in");
+        const rule = entry.rules[role];
+        const want = rule === "own" ? (role === "customerA" ? "allow" : "deny") : rule;
+        if (res.status >= 500) problems.push(`${role}: ${res.status}`);
+        else if ((want === "allow" || want === "public") && (toSignIn || [401, 403, 404].includes(res.status)))
+          problems.push(`${role}: expected the page, got ${res.status} ${location}`);
+        else if (want === "deny" && role === "anonymous" && !toSignIn) problems.push(`anonymous: expected sign-in, got ${res.status}`);
+        else if (want === "deny" && role !== "anonymous" && res.status !== 404)
+          problems.push(`${role}: expected 404, got ${res.status} ${location}`);
+      }
+      expect(problems).toEqual([]);
+    });
+  }
 });
 
 for (const variant of [

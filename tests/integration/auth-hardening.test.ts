@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import { describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 import { SESSION_ABSOLUTE_SECONDS } from "@/lib/server/auth";
 import { DEMO, newCustomer } from "../support/accounts";
 import { sql } from "../support/db";
@@ -293,6 +293,12 @@ describe("a deactivated account", () => {
 });
 
 describe("the sign-in limiter", () => {
+  // An account of its own: the per-account failure throttle must not lock a demo account other tests use.
+  let target: { email: string; password: string };
+  beforeAll(async () => {
+    const made = await newCustomer("limiter");
+    target = { email: made.email, password: made.password };
+  });
   const ipA = `198.51.100.${10 + Math.floor(Math.random() * 100)}`;
   const ipB = `198.51.100.${120 + Math.floor(Math.random() * 100)}`;
 
@@ -308,13 +314,13 @@ describe("the sign-in limiter", () => {
     const before = Date.now();
     for (let i = 0; i < 3; i++) {
       const res = await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", {
-        email: DEMO.customer.email,
+        email: target.email,
         password: `wrong-${i}-password`,
       });
       expect(res.status).toBe(401);
     }
     const res = await new TestClient({ ip: ipB }).post("/api/auth/sign-in/email", {
-      email: DEMO.customer.email,
+      email: target.email,
       password: "wrong-b-password",
     });
     expect(res.status).toBe(401);
@@ -329,7 +335,7 @@ describe("the sign-in limiter", () => {
     let refusedAt = -1;
     for (let i = 0; i < 10 && refusedAt < 0; i++) {
       const res = await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", {
-        email: DEMO.customer.email,
+        email: target.email,
         password: `wrong-more-${i}`,
       });
       if (res.status === 429) refusedAt = i;
@@ -337,9 +343,9 @@ describe("the sign-in limiter", () => {
     }
     expect(refusedAt).toBeGreaterThanOrEqual(0);
     // Even the right password is refused from the throttled address for the rest of the window.
-    expect((await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", DEMO.customer)).status).toBe(429);
+    expect((await new TestClient({ ip: ipA }).post("/api/auth/sign-in/email", target)).status).toBe(429);
     // The other address still has its own allowance left.
-    expect((await new TestClient({ ip: ipB }).post("/api/auth/sign-in/email", DEMO.customer)).status).toBe(200);
+    expect((await new TestClient({ ip: ipB }).post("/api/auth/sign-in/email", target)).status).toBe(200);
     expect((await counter(ipB))?.count).toBe(2);
   });
 
@@ -352,10 +358,10 @@ describe("the sign-in limiter", () => {
       `${ip}|/sign-in/email`,
       Date.now(),
     ]);
-    expect((await new TestClient({ ip }).post("/api/auth/sign-in/email", DEMO.customer)).status).toBe(429);
+    expect((await new TestClient({ ip }).post("/api/auth/sign-in/email", target)).status).toBe(429);
     // An old counter (outside the window) does not hold anyone back.
     await sql("update rate_limit set last_request = $2 where key = $1", [`${ip}|/sign-in/email`, Date.now() - 3_600_000]);
-    expect((await new TestClient({ ip }).post("/api/auth/sign-in/email", DEMO.customer)).status).toBe(200);
+    expect((await new TestClient({ ip }).post("/api/auth/sign-in/email", target)).status).toBe(200);
     expect((await counter(ip))?.count).toBe(1);
   });
 
@@ -430,5 +436,163 @@ describe("the session check on every request", () => {
     await sql("update session set expires_at = now() - interval '1 minute' where token = $1", [token]);
     expect((await client.get("/api/portal/jobs")).status).toBe(401);
     expect(await sql("select 1 from session where token = $1", [token])).toHaveLength(0);
+  });
+});
+
+describe("the client address behind the proxy", () => {
+  // X-Forwarded-For is a list the client starts and each proxy appends to (RFC 7239 §5.2 describes the same
+  // chain for Forwarded); the test stack runs with one trusted proxy hop, whose entry is the last one.
+  const real = () => `203.0.113.${1 + Math.floor(Math.random() * 250)}`;
+  const spoofed = (i: number) => `198.18.${i}.${1 + Math.floor(Math.random() * 250)}`;
+
+  it("counts a client by the address the proxy appended, however it varies its own header", async () => {
+    const attacker = real();
+    const { email } = await newCustomer("spoof");
+    const statuses: number[] = [];
+    for (let i = 0; i < 12; i++) {
+      const res = await new TestClient({ ip: `${spoofed(i)}, ${attacker}` }).post("/api/auth/sign-in/email", {
+        email,
+        password: `wrong-guess-${i}`,
+      });
+      statuses.push(res.status);
+    }
+    expect(statuses.slice(0, 5)).toEqual([401, 401, 401, 401, 401]);
+    expect(
+      statuses.slice(5).every((s) => s === 429),
+      statuses.join(","),
+    ).toBe(true);
+    const [row] = await sql<{ count: number }>("select count from rate_limit where key = $1", [`${attacker}|/sign-in/email`]);
+    expect(row?.count).toBeGreaterThanOrEqual(5);
+    // Someone else behind the same proxy, whose own software also sent the header, is not held back.
+    const other = await new TestClient({ ip: `${spoofed(99)}, ${real()}` }).post("/api/auth/sign-in/email", DEMO.customer2);
+    expect(other.status).toBe(200);
+  });
+
+  it("throttles failed sign-ins per e-mail from any address, and answers an unknown e-mail the same way", async () => {
+    const { email, password } = await newCustomer("account-throttle");
+    const unknown = `nobody-${randomUUID().slice(0, 8)}@example.com`;
+    const run = async (target: string) => {
+      const out: { status: number; body: unknown }[] = [];
+      for (let i = 0; i < 12; i++) {
+        // A fresh address for every attempt, as from many machines.
+        const res = await new TestClient({ ip: real() }).post("/api/auth/sign-in/email", { email: target, password: `wrong-${i}-guess` });
+        out.push({ status: res.status, body: await res.json() });
+      }
+      return out;
+    };
+    const known = await run(email);
+    const stranger = await run(unknown);
+    expect(known.map((a) => a.status)).toEqual([...Array(10).fill(401), 429, 429]);
+    expect(stranger).toEqual(known);
+    // Even the right password waits out the window, so the refusal reveals nothing about it.
+    expect((await new TestClient({ ip: real() }).post("/api/auth/sign-in/email", { email, password })).status).toBe(429);
+    // Another account is unaffected.
+    expect((await new TestClient({ ip: real() }).post("/api/auth/sign-in/email", DEMO.customer2)).status).toBe(200);
+  });
+});
+
+describe("server-side limits on every field of the sign-in service", () => {
+  it("refuses an over-long name at sign-up, in an account change and from the owner's admin call, naming the field", async () => {
+    const email = `longname-${randomUUID().slice(0, 8)}@example.com`;
+    const huge = "N".repeat(200_000);
+    const signUp = await new TestClient().signUp(huge, email, "superhet-stage-4422");
+    expect(signUp.status).toBe(400);
+    expect(((await signUp.json()) as { message: string }).message).toBe("name: use at most 120 characters.");
+    expect(await sql(`select 1 from "user" where email = $1`, [email])).toHaveLength(0);
+    // 120 characters, the limit the sign-up form shows, are accepted.
+    expect((await new TestClient().signUp("N".repeat(120), email, "superhet-stage-4422")).status).toBe(200);
+
+    const { client, email: mine } = await newCustomer("longname-update");
+    const change = await client.post("/api/auth/update-user", { name: "M".repeat(121) });
+    expect(change.status).toBe(400);
+    const [row] = await sql<{ name: string }>(`select name from "user" where email = $1`, [mine]);
+    expect(row!.name.length).toBeLessThanOrEqual(120);
+
+    const owner = new TestClient();
+    await owner.signIn(DEMO.owner.email, DEMO.owner.password);
+    const id = await userIdOf(mine);
+    const admin = await owner.post("/api/auth/admin/update-user", { userId: id, data: { name: "A".repeat(5000) } });
+    expect(admin.status).toBe(400);
+    const blank = await new TestClient().signUp("   ", `blank-${randomUUID().slice(0, 8)}@example.com`, "superhet-stage-4422");
+    expect(blank.status).toBe(400);
+  });
+
+  it("refuses over-long e-mails and unknown fields' long values", async () => {
+    const long = `${"a".repeat(300)}@example.com`;
+    expect((await new TestClient().signUp("Fine Name", long, "superhet-stage-4422")).status).toBe(400);
+    const res = await new TestClient().post("/api/auth/sign-up/email", {
+      name: "Fine Name",
+      email: `extra-${randomUUID().slice(0, 8)}@example.com`,
+      password: "superhet-stage-4422",
+      image: `https://example.com/${"x".repeat(5000)}`,
+    });
+    expect(res.status).toBe(400);
+  });
+});
+
+describe("the audit log of sign-in events and the owner's account administration", () => {
+  async function auditRows(action: string, since: Date) {
+    return sql<{ actor_id: string | null; entity: string; entity_id: string; after: Record<string, unknown> | null }>(
+      "select actor_id, entity, entity_id, after from audit_event where action = $1 and at >= $2 order by id",
+      [action, since],
+    );
+  }
+
+  it("records sign-in, failed sign-in, sign-out and password reset, without the password or the reset token", async () => {
+    const since = new Date(Date.now() - 1000);
+    const { client, email, password } = await newCustomer("audited");
+    const id = await userIdOf(email);
+    const wrong = "definitely-wrong-secret-77";
+    expect((await new TestClient().post("/api/auth/sign-in/email", { email, password: wrong })).status).toBe(401);
+    expect((await client.post("/api/auth/sign-out", {})).status).toBe(200);
+
+    const started = Date.now();
+    await requestReset(email);
+    const token = await resetTokenFor(email, started);
+    const newPassword = "crystal-earpiece-2207";
+    expect((await new TestClient().post("/api/auth/reset-password", { newPassword, token })).status).toBe(200);
+
+    expect((await auditRows("auth.sign_in", since)).some((r) => r.actor_id === id && r.entity_id === id)).toBe(true);
+    const failed = await auditRows("auth.sign_in_failed", since);
+    expect(failed.length).toBeGreaterThanOrEqual(1);
+    expect((await auditRows("auth.sign_out", since)).some((r) => r.actor_id === id)).toBe(true);
+    expect((await auditRows("auth.password_reset_requested", since)).length).toBeGreaterThanOrEqual(1);
+    expect((await auditRows("auth.password_reset", since)).some((r) => r.entity_id === id)).toBe(true);
+
+    const all = JSON.stringify(await sql("select * from audit_event where at >= $1", [since]));
+    for (const secret of [password, wrong, newPassword, token]) expect(all).not.toContain(secret);
+  });
+
+  it("records the owner's calls to the admin endpoints with who did what to whom, and no password", async () => {
+    const since = new Date(Date.now() - 1000);
+    const owner = new TestClient();
+    await owner.signIn(DEMO.owner.email, DEMO.owner.password);
+    const ownerId = await userIdOf(DEMO.owner.email);
+    const newPassword = "bench-created-5521";
+    const created = await owner.post("/api/auth/admin/create-user", {
+      email: `made-${randomUUID().slice(0, 8)}@example.com`,
+      password: newPassword,
+      name: "Made By Owner",
+      role: "customer",
+    });
+    expect(created.status).toBe(200);
+    const targetId = ((await created.json()) as { user: { id: string } }).user.id;
+    for (const [path, body] of [
+      ["/api/auth/admin/update-user", { userId: targetId, data: { name: "Renamed By Owner" } }],
+      ["/api/auth/admin/set-role", { userId: targetId, role: "technician" }],
+      ["/api/auth/admin/ban-user", { userId: targetId, banReason: "Left the shop" }],
+      ["/api/auth/admin/unban-user", { userId: targetId }],
+    ] as const) {
+      expect((await owner.post(path, body)).status, path).toBe(200);
+    }
+    for (const action of ["create-user", "update-user", "set-role", "ban-user", "unban-user"]) {
+      const rows = await auditRows(`auth.admin.${action}`, since);
+      expect(rows, action).toHaveLength(1);
+      expect(rows[0]!.actor_id).toBe(ownerId);
+      expect(rows[0]!.entity_id).toBe(targetId);
+    }
+    const all = JSON.stringify(await sql("select * from audit_event where at >= $1", [since]));
+    expect(all).not.toContain(newPassword);
+    expect(all).toContain("Left the shop");
   });
 });

@@ -48,9 +48,11 @@ describe("sign-in rate limit (production mode)", () => {
   it("refuses a sixth attempt from one address within the window", async () => {
     const ip = "203.0.113.77";
     const statuses: number[] = [];
+    // A throwaway e-mail: the per-account throttle must not lock a demo account used by other tests.
+    const target = `limit-${Date.now()}@example.com`;
     for (let i = 0; i < 7; i++) {
       const res = await new TestClient({ ip }).post("/api/auth/sign-in/email", {
-        email: DEMO.customer.email,
+        email: target,
         password: `wrong-${i}-password`,
       });
       statuses.push(res.status);

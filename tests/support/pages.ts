@@ -8,7 +8,7 @@ export const AUDIENCES: {
   follow?: { from: string; link: RegExp }[];
   certificatePage?: boolean;
 }[] = [
-  { who: "anonymous", pages: ["/", "/sign-in", "/sign-up", "/reset-password", "/verify", "/mailbox"], certificatePage: true },
+  { who: "anonymous", pages: ["/", "/sign-in", "/sign-up", "/reset-password", "/welcome", "/verify", "/mailbox"], certificatePage: true },
   {
     who: "set owner",
     login: DEMO.customer,

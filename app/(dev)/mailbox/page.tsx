@@ -9,10 +9,11 @@ export const dynamic = "force-dynamic";
 
 type Message = { id: string; from: string; to: string[]; subject: string; html: string; createdAt: string };
 
-// Development only: what the local mail stand-in received. Absent when no stand-in is configured.
+// Local demo only: what the local mail stand-in received, sign-in links included, for anyone who opens it.
+// It exists only in the local-demo mode (which listens on loopback only); anywhere else it is not found.
 export default async function MailboxPage({ searchParams }: { searchParams: Promise<{ to?: string; id?: string }> }) {
   const base = env().MAILBOX_URL;
-  if (!base) notFound();
+  if (!env().BANDEDGE_LOCAL_DEMO || !base) notFound();
   const { to, id } = await searchParams;
   const url = new URL("/messages", base);
   if (to) url.searchParams.set("to", to);

@@ -3,7 +3,9 @@ import Link from "next/link";
 import { redirect } from "next/navigation";
 import { SignInForm } from "@/components/auth/sign-in-form";
 import { homeFor } from "@/lib/engine/permissions";
+import { env } from "@/lib/server/env";
 import { getViewer } from "@/lib/server/session";
+import { safeNextPath } from "@/lib/validation/next-path";
 
 export const metadata: Metadata = { title: "Sign in" };
 
@@ -15,7 +17,8 @@ export default async function SignInPage({ searchParams }: { searchParams: Promi
     <div className="mx-auto max-w-md space-y-6">
       <h1 className="text-3xl font-bold">Sign in</h1>
       <div className="card p-6">
-        <SignInForm next={next} />
+        {/* Checked here and again in the browser against the origin the page was served from. */}
+        <SignInForm next={safeNextPath(next, new URL(env().APP_URL).origin, "")} />
       </div>
       <p className="text-sm">
         New here? <Link href="/sign-up">Create an account to request a quote</Link>.

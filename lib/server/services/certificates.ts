@@ -20,6 +20,7 @@ import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
 import { getShop, type Shop } from "@/lib/server/services/shop";
+import { queueRevocationNotice } from "./notices";
 import { listRequiredReadings, parseReadingKey, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { parseWarrantyTerms } from "@/lib/validation/office";
 import { dayNumber } from "@/lib/engine/warranty";
@@ -365,24 +366,12 @@ export async function revokeCertificate(
     before: { revokedAt: null },
     after: { revokedAt: revokedAt.toISOString(), reason },
   });
+  await queueRevocationNotice(ctx, { certificateId, reason });
   return { certificateId };
 }
 
 /** Verification views allowed per client address per minute. */
 export const VERIFY_LIMIT_PER_MINUTE = 60;
-
-/**
- * The client address from the one header the proxy in front of the app sets (env TRUSTED_IP_HEADER).
- * With x-forwarded-for the last entry is the one our proxy appended; earlier entries are the client's own claim.
- */
-export function clientIpFrom(h: Headers): string {
-  const raw = h.get(env().TRUSTED_IP_HEADER) ?? "";
-  const parts = raw
-    .split(",")
-    .map((p) => p.trim())
-    .filter(Boolean);
-  return parts.at(-1)?.slice(0, 64) ?? "unknown";
-}
 
 export function isUuid(value: string): boolean {
   return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);

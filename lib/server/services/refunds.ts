@@ -8,6 +8,7 @@ import { isEngineError } from "@/lib/engine/engine-error";
 import { AppError } from "@/lib/server/errors";
 import { stripe } from "@/lib/server/payments";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
+import { queueRefundNotice } from "@/lib/server/services/notices";
 import { getShop } from "@/lib/server/services/shop";
 import type { RefundFormValues } from "@/lib/validation/office";
 
@@ -72,6 +73,7 @@ export async function requestRefund({
       before: { refundedMinor: p.refundedMinor, inFlightMinor },
       after: { refundId, amountMinor, reason: input.reason, status: "requested" },
     });
+    await queueRefundNotice(ctx, { paymentId, refundId, amountMinor });
     return p;
   });
 

@@ -49,3 +49,10 @@ export function actionInventory(): { file: string; name: string; wrappedWith: st
   }
   return out;
 }
+
+/** Every page (page.tsx) under app/, development pages included, as its URL. */
+export function pageInventory(): { route: string; file: string }[] {
+  return walk(APP)
+    .filter((f) => /[/\\]page\.tsx?$/.test(f))
+    .map((file) => ({ route: urlOf(file), file: relative(process.cwd(), file) }));
+}

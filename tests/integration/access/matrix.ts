@@ -67,6 +67,13 @@ export const ROUTES: RouteEntry[] = [
   { method: "GET", route: "/api/health", action: "health", rules: everyone },
   {
     method: "POST",
+    route: "/api/staff-invitations/accept",
+    action: "staff.invitation.accept (single-use token, not session)",
+    rules: everyone,
+    body: () => ({ token: "not-a-real-invitation", password: "valve-glow-1948-x" }),
+  },
+  {
+    method: "POST",
     route: "/api/webhooks/stripe",
     action: "payment.webhook (signature, not session)",
     rules: everyone,
@@ -266,3 +273,43 @@ export const ACTIONS: { file: string; name: string; permission: string; roles: R
   { file: "app/(office)/office/staff/actions.ts", name: "changeStaffRole", permission: "staff.manage", roles: ["owner"] },
   { file: "app/(office)/office/staff/actions.ts", name: "setStaffActive", permission: "staff.manage", roles: ["owner"] },
 ];
+
+// Every page, who may open it, and the ids of pages with a parameter. "local-demo" pages exist only in the
+// local-demo mode (npm start and the test command); tests/integration/local-demo.test.ts shows they are not
+// found anywhere else. Expected answers: allow — 200; deny — anonymous is sent to sign-in, anyone else
+// signed in gets 404 or is sent to their own home; public — 200 for everyone.
+export type PageEntry = { route: string; rules: Record<Role, Rule>; params?: (f: Fixtures) => Record<string, string> };
+const pageStaff: Record<Role, Rule> = staff();
+export const PAGES: PageEntry[] = [
+  { route: "/", rules: everyone },
+  { route: "/sign-in", rules: everyone },
+  { route: "/sign-up", rules: everyone },
+  { route: "/reset-password", rules: everyone },
+  { route: "/welcome", rules: everyone },
+  { route: "/verify", rules: everyone },
+  { route: "/verify/[code]", rules: everyone, params: () => ({ code: "KL-NOPE-0000" }) },
+  { route: "/after-sign-in", rules: { anonymous: "deny", customerA: "allow", customerB: "allow", technician: "allow", owner: "allow" } },
+  { route: "/mailbox", rules: everyone },
+  { route: "/portal", rules: customers },
+  { route: "/portal/request", rules: customers },
+  { route: "/portal/claims", rules: customers },
+  { route: "/portal/claims/new", rules: customers },
+  { route: "/portal/claims/[id]", rules: customerOwn, params: (f) => ({ id: f.claimA }) },
+  { route: "/portal/jobs/[id]", rules: customerOwn, params: (f) => ({ id: f.jobA }) },
+  { route: "/portal/jobs/[id]/payment", rules: customerOwn, params: (f) => ({ id: f.jobOpenA }) },
+  { route: "/bench", rules: pageStaff },
+  { route: "/bench/calculator", rules: pageStaff },
+  { route: "/bench/claims", rules: pageStaff },
+  { route: "/bench/claims/[id]", rules: pageStaff, params: (f) => ({ id: f.claimA }) },
+  { route: "/bench/jobs/[id]", rules: pageStaff, params: (f) => ({ id: f.jobOpenA }) },
+  { route: "/office", rules: ownerOnly },
+  { route: "/office/audit", rules: ownerOnly },
+  { route: "/office/certificates", rules: ownerOnly },
+  { route: "/office/payments", rules: ownerOnly },
+  { route: "/office/payments/[paymentId]", rules: ownerOnly, params: (f) => ({ paymentId: f.paymentA }) },
+  { route: "/office/reports", rules: ownerOnly },
+  { route: "/office/settings", rules: ownerOnly },
+  { route: "/office/staff", rules: ownerOnly },
+];
+/** Pages that exist only in the local-demo mode. */
+export const LOCAL_DEMO_PAGES = new Set(["/mailbox"]);

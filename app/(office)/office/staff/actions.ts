@@ -1,39 +1,19 @@
 "use server";
 
-import { randomUUID } from "node:crypto";
 import { revalidatePath } from "next/cache";
-import { getUserById, getUserByEmail, setUserActive, setUserRole } from "@/db/queries/staff";
-import { user } from "@/db/schema";
+import { getUserById, setUserActive, setUserRole } from "@/db/queries/staff";
 import { transaction } from "@/db/transaction";
 import { action } from "@/lib/server/server-action";
 import { audit } from "@/lib/server/audit";
-import { auth } from "@/lib/server/auth";
+import { queueStaffAccessNotice } from "@/lib/server/services/notices";
+import { inviteStaffMember } from "@/lib/server/services/staff-invitations";
 import { AppError } from "@/lib/server/errors";
 import { staffDeactivateSchema, staffInviteSchema, staffRoleSchema } from "@/lib/validation/account";
 
 export const inviteStaff = action("staff.manage", staffInviteSchema, async (input, viewer) => {
-  const existing = await getUserByEmail({ email: input.email });
-  if (existing && existing.role !== "customer") throw new AppError("conflict", "That person is already on the staff list.");
-  const userId = existing?.id ?? randomUUID();
-  await transaction(async (ctx) => {
-    if (existing) {
-      await setUserRole(ctx, { userId, role: input.role });
-    } else {
-      await ctx.tx.insert(user).values({ id: userId, name: input.name, email: input.email, emailVerified: true, role: input.role });
-    }
-    await audit(ctx, {
-      actorId: viewer.id,
-      action: "staff.invite",
-      entity: "user",
-      entityId: userId,
-      before: existing ? { role: existing.role } : null,
-      after: { role: input.role, email: input.email },
-    });
-  });
-  // The welcome link is a password-setting link; the mail template says it is an invitation.
-  await auth().api.requestPasswordReset({ body: { email: input.email, redirectTo: "/reset-password?welcome=1" } });
+  const result = await inviteStaffMember({ input, actorId: viewer.id });
   revalidatePath("/office/staff");
-  return { userId };
+  return result;
 });
 
 export const changeStaffRole = action("staff.manage", staffRoleSchema, async (input, viewer) => {
@@ -41,6 +21,9 @@ export const changeStaffRole = action("staff.manage", staffRoleSchema, async (in
   await transaction(async (ctx) => {
     const target = await getUserById(ctx, { userId: input.userId });
     if (!target) throw new AppError("not_found", "That account was not found.");
+    // A set owner becomes staff only through the invitation, which names what the account holds.
+    if (target.role === "customer" && input.role !== "customer")
+      throw new AppError("conflict", "A set owner's account becomes staff only through an invitation with its confirmation.");
     await setUserRole(ctx, { userId: input.userId, role: input.role });
     await audit(ctx, {
       actorId: viewer.id,
@@ -69,6 +52,7 @@ export const setStaffActive = action("staff.manage", staffDeactivateSchema, asyn
       before: { banned: !!target.banned },
       after: { banned: !input.active },
     });
+    await queueStaffAccessNotice(ctx, { userId: input.userId, active: input.active });
   });
   revalidatePath("/office/staff");
   return { ok: true };

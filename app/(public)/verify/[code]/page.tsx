@@ -9,7 +9,8 @@ import { countVerifyRequest, getCertificateByCode, getCertificateById } from "@/
 import { normaliseCertificateCode } from "@/lib/engine/certificates";
 import { setKindLabels } from "@/lib/engine/checklist/profile";
 import { EngineError } from "@/lib/engine/engine-error";
-import { certificateStatus, clientIpFrom, VERIFY_LIMIT_PER_MINUTE } from "@/lib/server/services/certificates";
+import { clientAddressKey } from "@/lib/server/client-address";
+import { certificateStatus, VERIFY_LIMIT_PER_MINUTE } from "@/lib/server/services/certificates";
 import { maskSerial } from "@/lib/engine/certificates/document";
 
 export const dynamic = "force-dynamic";
@@ -28,7 +29,7 @@ function Shell({ children }: { children: React.ReactNode }) {
 
 export default async function VerifyCodePage({ params }: { params: Promise<{ code: string }> }) {
   const { code: rawCode } = await params;
-  const count = await countVerifyRequest({ ip: clientIpFrom(await headers()), windowSeconds: 60 });
+  const count = await countVerifyRequest({ ip: clientAddressKey(await headers()), windowSeconds: 60 });
   if (count > VERIFY_LIMIT_PER_MINUTE) {
     return (
       <Shell>

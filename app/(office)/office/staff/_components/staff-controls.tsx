@@ -18,6 +18,8 @@ export function StaffRow({ person, self }: { person: Person; self: boolean }) {
   const router = useRouter();
   const [pending, start] = useTransition();
   const [problem, setProblem] = useState<string | null>(null);
+  // Deactivating signs the person out everywhere at once: it is asked for, named, and confirmed.
+  const [confirming, setConfirming] = useState(false);
   const run = (fn: () => Promise<{ ok: boolean; error?: { message: string } }>) =>
     start(async () => {
       setProblem(null);
@@ -55,12 +57,36 @@ export function StaffRow({ person, self }: { person: Person; self: boolean }) {
           <button
             type="button"
             className="btn-secondary px-2 py-1"
-            disabled={pending}
-            onClick={() => run(() => setStaffActive({ userId: person.id, active: !person.active }))}
+            disabled={pending || confirming}
+            onClick={() => (person.active ? setConfirming(true) : run(() => setStaffActive({ userId: person.id, active: true })))}
           >
             {person.active ? `Deactivate ${person.name}` : `Reactivate ${person.name}`}
           </button>
         )}
+        {confirming ? (
+          <div role="alertdialog" aria-labelledby={`deactivate-${person.id}`} className="mt-2 max-w-sm space-y-2 text-left">
+            <p id={`deactivate-${person.id}`} className="text-sm">
+              Deactivate {person.name}? They are signed out everywhere at once and cannot sign in until you reactivate them. We e-mail{" "}
+              {person.email} to tell them.
+            </p>
+            <div className="flex gap-2">
+              <button
+                type="button"
+                className="btn-primary px-2 py-1"
+                disabled={pending}
+                onClick={() => {
+                  setConfirming(false);
+                  run(() => setStaffActive({ userId: person.id, active: false }));
+                }}
+              >
+                Yes, deactivate {person.name}
+              </button>
+              <button type="button" className="btn-quiet px-2 py-1" onClick={() => setConfirming(false)}>
+                Cancel
+              </button>
+            </div>
+          </div>
+        ) : null}
         {problem ? (
           <span role="alert" className="text-fail">
             {problem}
@@ -79,14 +105,22 @@ export function InviteForm() {
     defaultValues: { role: "technician" },
   });
   const { errors } = formState;
-  const onSubmit = handleSubmit(async (values) => {
+  // A set owner's e-mail is refused; converting that account needs its own confirmation naming what it holds.
+  const [conversion, setConversion] = useState<{ values: z.input<typeof staffInviteSchema>; holdings: string } | null>(null);
+  const send = async (values: z.input<typeof staffInviteSchema>) => {
     const r = await inviteStaff(values);
     if (r.ok) {
+      setConversion(null);
       setMessage({ tone: "success", text: `Invitation sent to ${values.email}.` });
       reset({ name: "", email: "", role: "technician" });
       router.refresh();
-    } else setMessage({ tone: "error", text: r.error.message });
-  });
+      return;
+    }
+    setMessage({ tone: "error", text: r.error.message });
+    const holdings = r.error.fields?.holdings;
+    setConversion(holdings ? { values: { ...values, convertCustomer: undefined, holdings: undefined }, holdings } : null);
+  };
+  const onSubmit = handleSubmit((values) => send(values));
   return (
     <form onSubmit={onSubmit} noValidate className="grid gap-3 sm:grid-cols-2">
       <Field id="invite-name" label="Name" error={errors.name?.message}>
@@ -124,6 +158,27 @@ export function InviteForm() {
           <Notice tone={message.tone} live>
             <p>{message.text}</p>
           </Notice>
+        </div>
+      ) : null}
+      {conversion ? (
+        <div role="alertdialog" aria-labelledby="convert-account" className="space-y-2 rounded-card border border-fail p-3 sm:col-span-2">
+          <p id="convert-account" className="text-sm">
+            Convert the set owner&apos;s account {conversion.values.email} into a staff account? It holds {conversion.holdings}. They keep
+            their records, which staff reach from the bench and the office, but lose their customer portal and gain staff access to every
+            customer&apos;s jobs.
+          </p>
+          <div className="flex flex-wrap gap-2">
+            <button
+              type="button"
+              className="btn-secondary"
+              onClick={() => send({ ...conversion.values, convertCustomer: true, holdings: conversion.holdings })}
+            >
+              Yes, convert the account holding {conversion.holdings}
+            </button>
+            <button type="button" className="btn-quiet" onClick={() => setConversion(null)}>
+              Cancel
+            </button>
+          </div>
         </div>
       ) : null}
     </form>
