@@ -11,7 +11,9 @@ const globalForDb = globalThis as unknown as { bandedgePool?: Pool; bandedgeDb?:
 
 export function pool(): Pool {
   if (!globalForDb.bandedgePool) {
-    globalForDb.bandedgePool = new Pool({ connectionString: env().DATABASE_URL, max: 10 });
+    // A request waits at most this long for a connection (pg-pool applies it to acquiring a pooled client as
+    // well as to connecting): a busy moment answers a retryable 503 instead of hanging every page.
+    globalForDb.bandedgePool = new Pool({ connectionString: env().DATABASE_URL, max: 10, connectionTimeoutMillis: 5_000 });
   }
   return globalForDb.bandedgePool;
 }

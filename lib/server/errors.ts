@@ -78,6 +78,15 @@ function isUnstorableText(e: unknown): boolean {
 export function toAppError(e: unknown): AppError {
   if (isAppError(e)) return e;
   if (isUnstorableText(e)) return new AppError("invalid_input", NUL_MESSAGE);
+  if (isPoolTimeout(e)) {
+    console.error("[bandedge] no database connection within the acquire timeout", e);
+    return new AppError("unavailable", "Bandedge is very busy right now. Nothing was changed; please try again in a moment.");
+  }
   console.error("[bandedge] unexpected error", e);
   return new AppError("internal", "Something went wrong on our side. Please try again.");
+}
+
+// pg-pool's error when no connection frees up within `connectionTimeoutMillis` (db/index.ts).
+function isPoolTimeout(e: unknown): boolean {
+  return e instanceof Error && /timeout exceeded when trying to connect|Connection terminated due to connection timeout/i.test(e.message);
 }
