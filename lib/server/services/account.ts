@@ -1,6 +1,7 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
 import type { Database } from "@/db";
+import { listOwedBackCandidates } from "@/db/queries/owed-back";
 import { estimateRevisions, jobs, payments, refunds } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 import { accountOf, type Account } from "@/lib/engine/pricing/account";
@@ -77,4 +78,32 @@ export async function settleIfNothingOwed(ctx: TxContext, jobId: string): Promis
       : "Nothing left to pay";
   await transitionJob(ctx, { jobId, to: "paid_in_full", actor: "system", actorId: null, note });
   return { account, movedOn: true };
+}
+
+export type OwedBackRow = {
+  jobId: string;
+  jobNumber: number;
+  state: string;
+  customerName: string;
+  currency: string;
+  owedBackMinor: number;
+  /** Money arrived for a checkout that had been superseded. */
+  stalePayment: boolean;
+};
+
+/** For the office: jobs where the shop holds more than the total, or money arrived for a superseded checkout. */
+export async function listOwedBack(): Promise<OwedBackRow[]> {
+  const rows = await listOwedBackCandidates();
+  return rows
+    .map((r) => ({ r, account: accountOf({ totalMinor: r.totalMinor, payments: r.payments, refunds: r.refunds }) }))
+    .filter(({ r, account }) => account.owedBackMinor > 0 || r.anyStale)
+    .map(({ r, account }) => ({
+      jobId: r.jobId,
+      jobNumber: r.jobNumber,
+      state: r.state,
+      customerName: r.customerName,
+      currency: r.currency,
+      owedBackMinor: account.owedBackMinor,
+      stalePayment: r.anyStale,
+    }));
 }
