@@ -39,6 +39,15 @@ function warrantyOf(p: Record<string, unknown>) {
   };
 }
 
+// The timeline tells what happened, in the past: the state labels speak of what is asked now ("send the set").
+function timelineLabel(from: JobState | null, to: JobState, depositPaid: boolean): string {
+  if (to === "deposit_paid") return depositPaid ? "Deposit received" : "Nothing to pay before the work";
+  if (to === "bench_revision") return "A change to the work was proposed; the set stayed on the bench";
+  if (to === "on_bench" && from === "bench_revision") return "Change answered; back to work on the bench";
+  if (to === "on_bench") return "Set received; work started";
+  return STATE_LABEL[to].owner;
+}
+
 const CATEGORY_ORDER: DraftCategory[] = ["inspection", "safety", "recap", "alignment", "mechanical", "test", "parts"];
 
 export async function getPortalJobView({ jobId, customerId }: { jobId: string; customerId: string }) {
@@ -141,7 +150,7 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
     timeline: timeline.map((t) => ({
       id: t.id,
       state: t.toState as JobState,
-      label: STATE_LABEL[t.toState].owner,
+      label: timelineLabel(t.fromState, t.toState, paidDeposits > 0),
       icon: STATE_LABEL[t.toState].icon,
       at: t.at.toISOString(),
     })),
