@@ -46,7 +46,8 @@ describe("a warranty job, from the claim to its certificate", () => {
     await expect.poll(() => page.getByText("No charge (warranty)").count()).toBeGreaterThan(0);
     await snap(page, "job-ends-01-warranty-estimate");
     await page.getByRole("button", { name: /Approve this estimate/ }).click();
-    await expect.poll(() => page.getByText(/Nothing to pay before the work/).count(), { timeout: 15_000 }).toBe(1);
+    const next = page.locator('section[aria-labelledby="next-title"]');
+    await expect.poll(() => next.getByText(/Nothing to pay before the work/).count(), { timeout: 15_000 }).toBe(1);
     expect(await page.getByRole("button", { name: /Pay the/ }).count()).toBe(0);
 
     const done = await finishAtBench(tech, jobId);
