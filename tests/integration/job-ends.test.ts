@@ -5,6 +5,8 @@ import { closeTestPool, sql } from "../support/db";
 import type { TestClient } from "../support/http";
 import { waitForMail } from "../support/mail";
 import { failNextStripeCalls, payOnStandin, sessionIdFrom, stripeClient, waitForEvent } from "../fixtures/stripe";
+import pg from "pg";
+import { toAppError } from "@/lib/server/errors";
 import { testEnv } from "../support/env";
 import { createJob } from "./bench-fixtures";
 import { createCertificate, stopQueue } from "./certificates-fixtures";
@@ -361,4 +363,28 @@ describe("no network call inside a transaction", () => {
     const again = await owner.post("/api/payments/checkout", { jobId, purpose: "deposit" });
     expect(again.status).toBe(200);
   }, 60_000);
+});
+
+describe("the database pool's acquire timeout", () => {
+  it("turns a wait for a connection that never frees into a retryable 503", async () => {
+    // pg-pool's own behaviour (the registry package, not our code): with every client taken, connect()
+    // rejects after connectionTimeoutMillis instead of waiting for ever.
+    const pool = new pg.Pool({ connectionString: testEnv.databaseUrl, max: 1, connectionTimeoutMillis: 300 });
+    const held = await pool.connect();
+    try {
+      const started = Date.now();
+      const error = await pool.connect().then(
+        () => null,
+        (e: unknown) => e,
+      );
+      expect(error).toBeInstanceOf(Error);
+      expect(Date.now() - started).toBeLessThan(5_000);
+      const app = toAppError(error);
+      expect(app.status).toBe(503);
+      expect(app.message).toMatch(/try again/);
+    } finally {
+      held.release();
+      await pool.end();
+    }
+  });
 });
