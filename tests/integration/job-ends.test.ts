@@ -343,6 +343,39 @@ describe("stale checkout sessions", () => {
   });
 });
 
+describe("a completed payment closes the job's other checkouts", () => {
+  it("expires another open session of the job at the processor once the deposit is paid", async () => {
+    const { client: owner, email } = await newCustomer("other-session");
+    const { jobId } = await createJob({ customerEmail: email, state: "in_triage", technicianEmail: DEMO.tech.email });
+    const rev = await sendLines(jobId, (await draft(jobId)).lines);
+    expect((await owner.post(`/api/portal/jobs/${jobId}/estimate/approve`, { revisionId: rev.id })).status).toBe(200);
+    const { url } = (await (await owner.post("/api/payments/checkout", { jobId, purpose: "deposit" })).json()) as { url: string };
+    // A second session for the same job, still open at the processor (as an older amount would be).
+    const other = await stripeClient().checkout.sessions.create({
+      mode: "payment",
+      line_items: [{ quantity: 1, price_data: { currency: "usd", unit_amount: 1234, product_data: { name: "Older amount" } } }],
+      metadata: { jobId, revisionId: rev.id, purpose: "deposit" },
+      success_url: `${testEnv.appUrl}/portal/jobs/${jobId}/payment?session_id={CHECKOUT_SESSION_ID}`,
+      cancel_url: `${testEnv.appUrl}/portal/jobs/${jobId}`,
+    });
+    await sql(
+      "insert into payment (job_id, revision_id, purpose, amount_minor, currency, status, checkout_session_id, idempotency_key) values ($1, $2, 'deposit', 1234, 'USD', 'open', $3, $4)",
+      [jobId, rev.id, other.id, `test-other-${randomUUID()}`],
+    );
+    await payOnStandin(sessionIdFrom(url), "succeed");
+    expect(await waitForState(jobId, "deposit_paid")).toBe("deposit_paid");
+    const deadline = Date.now() + 15_000;
+    let status = (await stripeClient().checkout.sessions.retrieve(other.id)).status;
+    while (status !== "expired" && Date.now() < deadline) {
+      await new Promise((r) => setTimeout(r, 250));
+      status = (await stripeClient().checkout.sessions.retrieve(other.id)).status;
+    }
+    expect(status).toBe("expired");
+    const [row] = await sql<{ status: string }>("select status from payment where checkout_session_id = $1", [other.id]);
+    expect(row!.status).toBe("expired");
+  });
+});
+
 describe("no network call inside a transaction", () => {
   it("keeps the job unlocked while the processor is slow, then answers a retryable 503 and leaves nothing behind", async () => {
     const { client: owner, email } = await newCustomer("slow");
