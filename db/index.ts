@@ -12,7 +12,8 @@ const globalForDb = globalThis as unknown as { bandedgePool?: Pool; bandedgeDb?:
 export function pool(): Pool {
   if (!globalForDb.bandedgePool) {
     const settings = env();
-    // A stopped server fails fast (connect timeout); a frozen one cannot run the server-side timeouts, so
+    // A stopped server fails fast (connect timeout; pg-pool applies it to acquiring a pooled client too, so a
+    // busy moment answers a retryable 503 instead of hanging every page); a frozen one cannot run the server-side timeouts, so
     // the client gives up on a query a little after the statement timeout would have ended it.
     const created = new Pool({
       connectionString: settings.DATABASE_URL,

@@ -9,6 +9,8 @@ export type EstimateReadyProps = {
   totalText: string;
   depositText: string;
   changeSummary?: string;
+  /** A change asked while the set is on the bench: no deposit, the difference goes into the balance. */
+  atBench?: boolean;
 };
 
 export default function EstimateReady({

@@ -78,7 +78,8 @@ export const TEMPLATES = {
   }),
   "balance-due": define<BalanceDueProps>({
     component: BalanceDue,
-    subject: (p) => `Your ${p.setName} is finished: balance due (${p.jobNumber})`,
+    subject: (p) =>
+      p.settled ? `Your ${p.setName} is finished (${p.jobNumber})` : `Your ${p.setName} is finished: balance due (${p.jobNumber})`,
   }),
   "set-returned": define<SetReturnedProps>({
     component: SetReturned,

@@ -122,12 +122,19 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
   const [result, setResult] = useState<string | null>(null);
   const act = useMutation({
     mutationFn: (path: "start-bench" | "final-checks" | "back-to-bench" | "complete") =>
-      api<{ balanceMinor?: number; currency?: string; exponent?: number }>(`/api/bench/jobs/${jobId}/${path}`, { method: "POST" }),
+      api<{ balanceMinor?: number; owedBackMinor?: number; movedOn?: boolean; currency?: string; exponent?: number }>(
+        `/api/bench/jobs/${jobId}/${path}`,
+        { method: "POST" },
+      ),
     onSuccess: (res) => {
       setRefusal(null);
       setResult(
         res.balanceMinor !== undefined && res.currency
-          ? `Completed. The owner has been asked to pay the balance of ${moneyText(res.balanceMinor, res.currency, res.exponent ?? 2)}.`
+          ? res.movedOn
+            ? `Completed. Nothing is left to pay, so the job moved on to its return.${
+                res.owedBackMinor ? ` ${moneyText(res.owedBackMinor, res.currency, res.exponent ?? 2)} is owed back to the owner.` : ""
+              }`
+            : `Completed. The owner has been asked to pay the balance of ${moneyText(res.balanceMinor, res.currency, res.exponent ?? 2)}.`
           : null,
       );
       onChange();
@@ -210,6 +217,9 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
           </>
         ) : null}
       </div>
+      {state === "bench_revision" ? (
+        <Notice tone="info">A revision is waiting for the owner. The set stays on the bench; the approved work can go on.</Notice>
+      ) : null}
       {state === "balance_due" ? <Notice tone="info">Waiting for the owner to pay the balance online.</Notice> : null}
       {state === "paid_in_full" ? <ReturnPanel jobId={jobId} /> : null}
       {state === "returned" ? (

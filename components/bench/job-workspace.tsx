@@ -29,7 +29,7 @@ type TabId = (typeof TABS)[number]["id"];
 function tabFor(state: JobState): TabId {
   if (state === "requested" || state === "in_triage" || state === "awaiting_owner") return "triage";
   if (state === "estimate_sent" || state === "approved") return "estimate";
-  if (state === "on_bench") return "sheet";
+  if (state === "on_bench" || state === "bench_revision") return "sheet";
   return "completion";
 }
 

@@ -1,6 +1,6 @@
 import { and, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Database } from "@/db";
-import { estimateRevisions, jobs, payments } from "@/db/schema";
+import { estimateRevisions, jobs, payments, refunds } from "@/db/schema";
 
 // Payments of one customer's job; another customer's job gives an empty list.
 export async function listPaymentsForCustomer({ jobId, customerId }: { jobId: string; customerId: string }) {
@@ -20,6 +20,16 @@ export async function listPaymentsForCustomer({ jobId, customerId }: { jobId: st
     .innerJoin(jobs, eq(jobs.id, payments.jobId))
     .where(and(eq(payments.jobId, jobId), eq(jobs.customerId, customerId)))
     .orderBy(desc(payments.createdAt));
+}
+
+// Refunds on one customer's job (amount and status only), for the job's account.
+export async function listRefundsForCustomer({ jobId, customerId }: { jobId: string; customerId: string }) {
+  return db
+    .select({ amountMinor: refunds.amountMinor, status: refunds.status })
+    .from(refunds)
+    .innerJoin(payments, eq(payments.id, refunds.paymentId))
+    .innerJoin(jobs, eq(jobs.id, payments.jobId))
+    .where(and(eq(payments.jobId, jobId), eq(jobs.customerId, customerId)));
 }
 
 export async function getPaymentForCustomer({ paymentId, customerId }: { paymentId: string; customerId: string }) {
@@ -61,14 +71,6 @@ export async function getLatestApprovedRevision(tx: Database, { jobId }: { jobId
     .orderBy(desc(estimateRevisions.revision))
     .limit(1);
   return row ?? null;
-}
-
-export async function paidTotalForJob(tx: Database, { jobId }: { jobId: string }): Promise<number> {
-  const [row] = await tx
-    .select({ total: sql<string>`coalesce(sum(${payments.amountMinor}), 0)` })
-    .from(payments)
-    .where(and(eq(payments.jobId, jobId), eq(payments.status, "paid")));
-  return Number(row?.total ?? 0);
 }
 
 // Open or in-flight checkouts for one revision and purpose (a double click reuses them).

@@ -20,6 +20,7 @@ export async function getPortalJobForCustomer({ jobId, customerId }: { jobId: st
       returnMethod: jobs.returnMethod,
       carrier: jobs.carrier,
       trackingNumber: jobs.trackingNumber,
+      settledTotalMinor: jobs.settledTotalMinor,
       createdAt: jobs.createdAt,
       updatedAt: jobs.updatedAt,
       set: {

@@ -52,6 +52,9 @@ export const jobs = pgTable(
     receivedAt: timestamp("received_at", { withTimezone: true }),
     completedAt: timestamp("completed_at", { withTimezone: true }),
     returnedAt: timestamp("returned_at", { withTimezone: true }),
+    // Set when the owner declines a scope change at the bench and has the set returned as is: the work
+    // stops and this (what had been paid) replaces the approved total in the job's account.
+    settledTotalMinor: integer("settled_total_minor"),
     version: integer("version").notNull().default(1),
     idempotencyKey: text("idempotency_key"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),

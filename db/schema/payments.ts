@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { boolean, index, integer, pgTable, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { user } from "./auth";
 import { paymentPurpose, paymentStatus, refundStatus } from "./enums";
 import { estimateRevisions } from "./estimates";
@@ -24,6 +24,9 @@ export const payments = pgTable(
     paymentIntentId: text("payment_intent_id"),
     idempotencyKey: text("idempotency_key").notNull().unique(),
     refundedMinor: integer("refunded_minor").notNull().default(0),
+    // Paid for a checkout that had been superseded (a newer revision, an old amount) or after the job moved
+    // on: counted in the account and shown to the office, which refunds it or keeps it against the balance.
+    arrivedStale: boolean("arrived_stale").notNull().default(false),
     createdBy: text("created_by").references(() => user.id),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     paidAt: timestamp("paid_at", { withTimezone: true }),

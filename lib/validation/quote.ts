@@ -92,5 +92,12 @@ export const approveSchema = z.object({ revisionId: z.string().uuid() });
 export const declineSchema = z.object({
   revisionId: z.string().uuid(),
   reason: z.string().trim().min(3, "Tell the shop briefly why, so they can help.").max(2000, "Keep the reason under 2000 characters."),
+  // Only for a change asked while the set is on the bench: go on with the scope approved before, or stop
+  // the work and have the set returned as it is.
+  afterDecline: z
+    .enum(["approved-scope", "return-as-is"], {
+      message: 'Choose "carry on with the work I approved before" or "return my set as it is".',
+    })
+    .optional(),
 });
 export const checkoutSchema = z.object({ jobId: z.string().uuid(), purpose: z.enum(["deposit", "balance"]) });

@@ -16,11 +16,12 @@ import {
   startBenchWork,
   startTriage,
 } from "@/lib/server/services/bench";
-import { openClaim } from "@/lib/server/services/claims";
+import { decideClaim, openClaim } from "@/lib/server/services/claims";
 import { buildDraft, saveDraft, sendRevision } from "@/lib/server/services/estimates";
 import { recordJobCreated, transitionJob } from "@/lib/server/services/jobs";
 import { getShop } from "@/lib/server/services/shop";
 import { judgeReading } from "@/lib/engine/verdicts";
+import type { DraftLine } from "@/lib/validation/estimate";
 
 const TOMAS = "demo-tech-tomas";
 const PRIYA = "demo-tech-priya";
@@ -81,10 +82,41 @@ type DemoJob = {
   target: JobState;
   daysAgo: number;
   claim?: boolean;
+  /** A scope change sent while the set is on the bench, approved by the owner and settled in the balance. */
+  benchRevision?: boolean;
+  /** After the return, a claim accepted and its warranty job taken all the way to its own certificate. */
+  warrantyJob?: boolean;
 };
 
 // One set for every state a job can be in, all from the invented makers of the demo shop.
 const DEMO_JOBS: DemoJob[] = [
+  {
+    key: "demo-warranty-source",
+    customerId: "demo-cust-jonah",
+    technicianId: TOMAS,
+    maker: "Aurelian",
+    model: "Model 5T-50 Mantel",
+    year: 1950,
+    serial: "AU50-207716",
+    profile: AURELIAN_5T,
+    symptoms: "Dead: the pilot lamp glows but there is no sound at all.",
+    target: "returned",
+    daysAgo: 70,
+    warrantyJob: true,
+  },
+  {
+    key: "demo-bench-revision",
+    customerId: "demo-cust-mira",
+    technicianId: PRIYA,
+    maker: "Corvane",
+    model: "Skylark Five",
+    year: 1961,
+    profile: CORVANE_7,
+    symptoms: "Plays for a minute, then fades to a whisper.",
+    target: "paid_in_full",
+    daysAgo: 18,
+    benchRevision: true,
+  },
   {
     key: "demo-returned",
     customerId: "demo-cust-mira",
@@ -387,6 +419,7 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
   await recordDemoPayment(ctx, { id: job.id, key: job.key }, "deposit", "deposit_paid");
   if (!reached(t, "on_bench")) return;
   await startBenchWork(ctx, { jobId: job.id, actorId: tech });
+  if (job.benchRevision) await benchScopeChange(ctx, job.id, job.customerId, tech);
   if (!reached(t, "final_checks")) return;
   await passAllReadings(ctx, job.id, tech);
   await beginFinalChecks(ctx, { jobId: job.id, actorId: tech });
@@ -400,6 +433,7 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
     actorId: tech,
     input: { method: "shipped", carrier: "Port Alder Parcel", trackingNumber: "PAP 2026 0417" },
   });
+  if (job.warrantyJob) await warrantyToCertificate(ctx, { certificateId, customerId: job.customerId, tech });
   if (job.claim) {
     await openClaim(ctx, {
       claimantId: job.customerId,
@@ -410,6 +444,65 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
       photos: [],
     } as Parameters<typeof openClaim>[1]);
   }
+}
+
+// The dial cord parts during the work: a revision sent from the bench, approved; the set never leaves it.
+async function benchScopeChange(ctx: TxContext, jobId: string, customerId: string, tech: string) {
+  const [est] = await ctx.tx
+    .select({ version: estimates.version, draft: estimates.draft })
+    .from(estimates)
+    .where(eq(estimates.jobId, jobId));
+  const lines = (est!.draft as { lines: DraftLine[] }).lines;
+  const base = lines.find((l) => l.kind === "labour")!;
+  const restring: DraftLine = {
+    ...base,
+    key: "mech.dial-cord-restring",
+    code: "mech.dial-cord-restring",
+    title: "Restring the dial cord",
+    category: "mechanical",
+    minutes: 45,
+    quantity: 1,
+    reason: "The dial cord parted while the gang was being cleaned.",
+    readings: [],
+  };
+  await saveDraft(ctx, { jobId, actorId: tech, version: est!.version, lines: [...lines, restring] });
+  const { revisionId } = await sendRevision(ctx, {
+    jobId,
+    actorId: tech,
+    changeSummary: "The dial cord parted while the gang was being cleaned; it needs restringing (45 minutes).",
+  });
+  await approveRevision(ctx, { jobId, customerId, revisionId });
+}
+
+// A claim on the returned set, accepted: its warranty job (covered lines at no charge) goes through the bench,
+// moves on by itself with nothing to pay, and is returned with a certificate of its own.
+async function warrantyToCertificate(
+  ctx: TxContext,
+  { certificateId, customerId, tech }: { certificateId: string; customerId: string; tech: string },
+) {
+  const claim = await openClaim(ctx, {
+    claimantId: customerId,
+    certificateId,
+    symptomCategory: "hum",
+    description: "A hum came back after a few weeks of evening listening.",
+    statements: [],
+    photos: [],
+  } as Parameters<typeof openClaim>[1]);
+  const { warrantyJobId } = await decideClaim(ctx, {
+    claimId: claim.id,
+    actorId: tech,
+    decision: "accept",
+    reason: "One of the filter capacitors we fitted has failed early.",
+    findings: [],
+  });
+  const jobId = warrantyJobId!;
+  const { revisionId } = await sendRevision(ctx, { jobId, actorId: tech });
+  await approveRevision(ctx, { jobId, customerId, revisionId });
+  await startBenchWork(ctx, { jobId, actorId: tech });
+  await passAllReadings(ctx, jobId, tech);
+  await beginFinalChecks(ctx, { jobId, actorId: tech });
+  await completeJob(ctx, { jobId, actorId: tech });
+  await recordReturn(ctx, { jobId, actorId: tech, input: { method: "pick-up" } });
 }
 
 // Spreads the demo history over past weeks so lists, timelines and reports look lived-in; the latest

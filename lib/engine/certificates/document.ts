@@ -63,6 +63,9 @@ export function composeTermsText(
 export const certificateDocumentSchema = certificateContentSchema.extend({
   terms: certificateTermsSchema,
   correction: z.object({ supersedesCode: z.string(), reason: z.string() }).optional(),
+  // Warranty work: the certificate and the claim this job answers. The work and parts listed are the new
+  // work done under the claim, and the term runs afresh for them.
+  answers: z.object({ certificateCode: z.string(), claimId: z.string(), claimOpenedOn: z.string() }).optional(),
 });
 export type CertificateDocument = z.infer<typeof certificateDocumentSchema>;
 export type CertificateReading = CertificateContent["readings"][number];

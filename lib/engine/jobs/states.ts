@@ -7,6 +7,7 @@ export const JOB_STATES = [
   "approved",
   "deposit_paid",
   "on_bench",
+  "bench_revision",
   "final_checks",
   "balance_due",
   "paid_in_full",
@@ -27,8 +28,13 @@ export const TRANSITIONS: Record<JobState, Partial<Record<JobState, Actor>>> = {
   estimate_sent: { approved: "customer", declined_by_owner: "customer", estimate_sent: "staff" },
   approved: { deposit_paid: "system", estimate_sent: "staff" },
   deposit_paid: { on_bench: "staff" },
-  on_bench: { estimate_sent: "staff", final_checks: "staff" },
+  // A scope change while the set is on the bench keeps it there: the owner approves the revision (back to the
+  // bench), declines it and keeps the approved scope (back to the bench), or declines it and has the set
+  // returned as is (the work stops and what was paid settles it).
+  on_bench: { bench_revision: "staff", final_checks: "staff" },
+  bench_revision: { bench_revision: "staff", on_bench: "customer", balance_due: "customer" },
   final_checks: { balance_due: "staff", on_bench: "staff" },
+  // "system" also covers a job with nothing left to pay, which moves on by itself at completion.
   balance_due: { paid_in_full: "system" },
   paid_in_full: { returned: "staff" },
   returned: {},
@@ -54,6 +60,11 @@ export const STATE_LABEL: Record<JobState, { owner: string; staff: string; icon:
   approved: { owner: "Approved — deposit due", staff: "Approved, no deposit yet", icon: "✓" },
   deposit_paid: { owner: "Deposit received — send the set", staff: "Deposit in, awaiting set", icon: "⛁" },
   on_bench: { owner: "On the bench", staff: "On the bench", icon: "⚒" },
+  bench_revision: {
+    owner: "A change to the work needs your answer — the set stays on the bench",
+    staff: "Revision out, set on the bench",
+    icon: "✎",
+  },
   final_checks: { owner: "Final checks", staff: "Final checks", icon: "⌁" },
   balance_due: { owner: "Ready — balance due", staff: "Balance due", icon: "⛀" },
   paid_in_full: { owner: "Paid — on its way back", staff: "Paid, to return", icon: "⛁" },

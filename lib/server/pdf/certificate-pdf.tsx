@@ -173,6 +173,12 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
             </Text>
             <Text style={s.title}>Certificate of restoration and alignment</Text>
             <Text style={s.code}>Code {d.code}</Text>
+            {d.answers ? (
+              <Text style={s.small}>
+                Warranty work under certificate {d.answers.certificateCode}, claim of {d.answers.claimOpenedOn} (ref.{" "}
+                {d.answers.claimId.slice(0, 8)}). Covers the work and parts listed here.
+              </Text>
+            ) : null}
             {d.correction ? (
               <Text style={s.small}>
                 Corrects certificate {d.correction.supersedesCode}: {d.correction.reason}

@@ -1,9 +1,11 @@
 import "server-only";
-import { and, desc, eq, sql } from "drizzle-orm";
-import { estimateRevisions, jobs, payments } from "@/db/schema";
+import { and, desc, eq } from "drizzle-orm";
+import { estimateLines, estimateRevisions, jobs } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { AppError } from "@/lib/server/errors";
+import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
+import { syncTasks } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
 
 type DecisionInput = { jobId: string; customerId: string; revisionId: string };
@@ -33,7 +35,7 @@ async function pendingRevision(ctx: TxContext, input: DecisionInput) {
     if (!asked) throw new AppError("not_found", "That estimate was not found.");
     throw new AppError("stale", "The shop has sent a newer revision of this estimate. Please read it before deciding.");
   }
-  if (job.state !== "estimate_sent" || latest.status !== "sent") {
+  if ((job.state !== "estimate_sent" && job.state !== "bench_revision") || latest.status !== "sent") {
     throw new AppError("conflict", "This estimate has already been decided.");
   }
   return { job, revision: latest };
@@ -41,7 +43,9 @@ async function pendingRevision(ctx: TxContext, input: DecisionInput) {
 
 /**
  * The owner approves the current revision. When deposits already paid on this job cover the new revision's
- * deposit (a revision sent during the work), the job goes straight on: there is nothing new to collect.
+ * deposit (a revision sent before the set came in), the job goes straight on: there is nothing new to collect.
+ * A revision sent while the set is on the bench sends it back to the bench: no deposit is asked and the
+ * difference is settled in the balance (or owed back).
  */
 export async function approveRevision(ctx: TxContext, input: DecisionInput) {
   const { job, revision } = await pendingRevision(ctx, input);
@@ -50,13 +54,6 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     .update(estimateRevisions)
     .set({ status: "approved", decidedBy: input.customerId, decidedAt: now })
     .where(eq(estimateRevisions.id, revision.id));
-  await transitionJob(ctx, {
-    jobId: job.id,
-    to: "approved",
-    actor: "customer",
-    actorId: input.customerId,
-    note: `Revision ${revision.revision} approved`,
-  });
   await audit(ctx, {
     actorId: input.customerId,
     action: "estimate.approve",
@@ -65,41 +62,107 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     before: { status: "sent" },
     after: { status: "approved", totalMinor: revision.totalMinor, depositMinor: revision.depositMinor },
   });
-  const depositDue = revision.depositMinor - (await paidDeposits(ctx, job.id));
+  if (job.state === "bench_revision") {
+    await syncTasksToRevision(ctx, job.id, revision.id);
+    await transitionJob(ctx, {
+      jobId: job.id,
+      to: "on_bench",
+      actor: "customer",
+      actorId: input.customerId,
+      note: `Revision ${revision.revision} approved at the bench; the difference is settled in the balance`,
+    });
+    return { revisionId: revision.id, depositDueMinor: 0 };
+  }
+  await transitionJob(ctx, {
+    jobId: job.id,
+    to: "approved",
+    actor: "customer",
+    actorId: input.customerId,
+    note: `Revision ${revision.revision} approved`,
+  });
+  const depositDue = revision.depositMinor - (await loadJobAccount(ctx.tx, job.id)).paidDepositsMinor;
   if (depositDue <= 0) {
     await transitionJob(ctx, {
       jobId: job.id,
       to: "deposit_paid",
       actor: "system",
       actorId: null,
-      note: "Deposit already covered by an earlier payment",
+      note: revision.depositMinor === 0 ? "No deposit to pay" : "Deposit already covered by an earlier payment",
     });
   }
   return { revisionId: revision.id, depositDueMinor: Math.max(0, depositDue) };
 }
 
-export async function declineRevision(ctx: TxContext, input: DecisionInput & { reason: string }) {
+export type AfterDecline = "approved-scope" | "return-as-is";
+
+/**
+ * The owner declines the current revision. Before the work, that ends the job. At the bench the owner also
+ * chooses: carry on with the scope approved before (back to the bench, the checklist as it was), or stop the
+ * work and have the set returned as it is — what has been paid settles the job, and it moves on to its return.
+ */
+export async function declineRevision(ctx: TxContext, input: DecisionInput & { reason: string; afterDecline?: AfterDecline }) {
   const { job, revision } = await pendingRevision(ctx, input);
+  const atBench = job.state === "bench_revision";
+  if (atBench && !input.afterDecline) {
+    throw new AppError("invalid_input", "Your set is on the bench: choose how to go on.", {
+      afterDecline: 'Choose "carry on with the work I approved before" or "return my set as it is".',
+    });
+  }
   await ctx.tx
     .update(estimateRevisions)
     .set({ status: "declined", decidedBy: input.customerId, decidedAt: new Date(), declineReason: input.reason })
     .where(eq(estimateRevisions.id, revision.id));
-  await transitionJob(ctx, { jobId: job.id, to: "declined_by_owner", actor: "customer", actorId: input.customerId, note: input.reason });
   await audit(ctx, {
     actorId: input.customerId,
     action: "estimate.decline",
     entity: "estimate_revision",
     entityId: revision.id,
     before: { status: "sent" },
-    after: { status: "declined", reason: input.reason },
+    after: { status: "declined", reason: input.reason, ...(atBench ? { afterDecline: input.afterDecline } : {}) },
   });
+  if (!atBench) {
+    await transitionJob(ctx, { jobId: job.id, to: "declined_by_owner", actor: "customer", actorId: input.customerId, note: input.reason });
+    return { revisionId: revision.id };
+  }
+  if (input.afterDecline === "approved-scope") {
+    const approved = await latestApproved(ctx, job.id);
+    if (approved) await syncTasksToRevision(ctx, job.id, approved.id);
+    await transitionJob(ctx, {
+      jobId: job.id,
+      to: "on_bench",
+      actor: "customer",
+      actorId: input.customerId,
+      note: `Revision ${revision.revision} declined (${input.reason}); the work goes on as approved before`,
+    });
+    return { revisionId: revision.id };
+  }
+  // Returned as is: the work stops here and what the shop holds is what it cost.
+  const { account } = await loadJobAccount(ctx.tx, job.id);
+  await transitionJob(ctx, {
+    jobId: job.id,
+    to: "balance_due",
+    actor: "customer",
+    actorId: input.customerId,
+    note: `Revision ${revision.revision} declined (${input.reason}); the owner asked for the set back as it is`,
+    patch: { settledTotalMinor: Math.max(0, account.heldMinor), completedAt: new Date() },
+  });
+  await settleIfNothingOwed(ctx, job.id);
   return { revisionId: revision.id };
 }
 
-export async function paidDeposits(ctx: TxContext, jobId: string): Promise<number> {
+async function latestApproved(ctx: TxContext, jobId: string) {
   const [row] = await ctx.tx
-    .select({ total: sql<string>`coalesce(sum(${payments.amountMinor}), 0)` })
-    .from(payments)
-    .where(and(eq(payments.jobId, jobId), eq(payments.purpose, "deposit"), eq(payments.status, "paid")));
-  return Number(row?.total ?? 0);
+    .select()
+    .from(estimateRevisions)
+    .where(and(eq(estimateRevisions.jobId, jobId), eq(estimateRevisions.status, "approved")))
+    .orderBy(desc(estimateRevisions.revision))
+    .limit(1);
+  return row ?? null;
+}
+
+// The checklist ticked at the bench follows the labour lines of the scope the owner agreed to; ticked lines stay.
+async function syncTasksToRevision(ctx: TxContext, jobId: string, revisionId: string) {
+  const lines = await ctx.tx.select().from(estimateLines).where(eq(estimateLines.revisionId, revisionId));
+  const labour = lines.filter((l) => l.category !== "parts" && l.partCostMinor === null);
+  await syncTasks(ctx, jobId, labour);
 }

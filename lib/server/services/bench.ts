@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq, sql } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { db, type Database } from "@/db";
 import {
   getJobDetailForStaff,
@@ -9,7 +9,7 @@ import {
   listPhotosForStaff,
 } from "@/db/queries/bench";
 import { getApprovedRevisionWithLines, getLatestRevisionWithLines } from "@/db/queries/estimates";
-import { jobs, jobTasks, messages, payments, radioSets, readings, user } from "@/db/schema";
+import { jobs, jobTasks, messages, radioSets, readings, user } from "@/db/schema";
 import type { JobState } from "@/lib/engine/jobs/states";
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
@@ -18,10 +18,10 @@ import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
 import { queueEmail } from "@/lib/server/mail";
-import { computeBalance } from "@/lib/engine/pricing/deposit";
 import { issueCertificate } from "@/lib/server/services/certificates";
 import { checkProfile } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
+import { settleIfNothingOwed } from "@/lib/server/services/account";
 import { findKeyedMessage } from "@/lib/server/services/messages";
 import { getShop } from "@/lib/server/services/shop";
 import { judgeReading, judgeReadings, listRequiredReadings, readingValueProblem, type ReadingRequirement } from "@/lib/engine/verdicts";
@@ -214,7 +214,8 @@ async function sheetBasis(tx: Database, jobId: string, set: { profile: Record<st
   return { profile: profile.profile, requirements, lines: (labour ?? []).map((l) => ({ code: l.code, title: l.title, kind: l.category })) };
 }
 
-const READING_STATES: readonly JobState[] = ["on_bench", "final_checks"];
+// While a revision waits for the owner the set stays on the bench and the approved work goes on.
+const READING_STATES: readonly JobState[] = ["on_bench", "bench_revision", "final_checks"];
 
 /** Stores one reading with its verdict against the tolerance in force; re-measuring overwrites it. */
 export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ReadingInput }) {
@@ -359,14 +360,6 @@ export async function returnToBench(ctx: TxContext, { jobId, actorId }: { jobId:
   return transitionJob(ctx, { jobId, to: "on_bench", actor: "staff", actorId, note: "Back to the bench from final checks" });
 }
 
-async function paidMinor(tx: Database, jobId: string): Promise<number> {
-  const [row] = await tx
-    .select({ paid: sql<number>`coalesce(sum(${payments.amountMinor} - ${payments.refundedMinor}), 0)::int` })
-    .from(payments)
-    .where(and(eq(payments.jobId, jobId), eq(payments.status, "paid")));
-  return row?.paid ?? 0;
-}
-
 /**
  * Completion: refused with every reason while a required reading is missing or failing or a line is
  * open; otherwise the job moves to "balance due" and the owner is asked for the balance.
@@ -383,8 +376,6 @@ export async function completeJob(ctx: TxContext, { jobId, actorId }: { jobId: s
   }
   const approved = await getApprovedRevisionWithLines({ jobId }, ctx.tx);
   if (!approved) throw new AppError("conflict", "No approved estimate was found for this job.");
-  const paid = await paidMinor(ctx.tx, jobId);
-  const balanceMinor = computeBalance({ totalMinor: approved.revision.totalMinor, paidMinor: paid });
   const exponent = typeof approved.revision.pricing.exponent === "number" ? approved.revision.pricing.exponent : 2;
   await transitionJob(ctx, {
     jobId,
@@ -394,6 +385,9 @@ export async function completeJob(ctx: TxContext, { jobId, actorId }: { jobId: s
     note: "Completed: every required reading passes",
     patch: { completedAt: new Date() },
   });
+  // Warranty work and jobs already paid for have nothing to collect: they move on by themselves.
+  const { account, movedOn } = await settleIfNothingOwed(ctx, jobId);
+  const currency = approved.revision.currency;
   await queueEmail(ctx, {
     to: customer.email,
     template: "balance-due",
@@ -402,11 +396,19 @@ export async function completeJob(ctx: TxContext, { jobId, actorId }: { jobId: s
       jobNumber: jobNumber(job.number),
       setName: setName(set),
       url: portalUrl(jobId),
-      balanceText: moneyText(balanceMinor, approved.revision.currency, exponent),
+      balanceText: moneyText(account.owedMinor, currency, exponent),
+      ...(movedOn ? { settled: true } : {}),
+      ...(account.owedBackMinor > 0 ? { owedBackText: moneyText(account.owedBackMinor, currency, exponent) } : {}),
     },
     dedupeKey: `balance-due:${jobId}:r${approved.revision.revision}`,
   });
-  return { balanceMinor, currency: approved.revision.currency, exponent };
+  return {
+    balanceMinor: account.owedMinor,
+    owedBackMinor: account.owedBackMinor,
+    movedOn,
+    currency: approved.revision.currency,
+    exponent,
+  };
 }
 
 /** The set goes back to its owner (paid in full): the return is recorded and the certificate issued together. */

@@ -1,7 +1,7 @@
 import "server-only";
 import { eq } from "drizzle-orm";
 import { getCurrentCertificateForJob, getUserName, loadCertificateSources, lockCertificate } from "@/db/queries/certificates";
-import { certificates, jobs, type Certificate } from "@/db/schema";
+import { certificates, claims, jobs, type Certificate } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import {
@@ -149,6 +149,7 @@ function buildDocument(
   code: string,
   technicianName: string,
   correction?: CertificateDocument["correction"],
+  answers?: CertificateDocument["answers"],
 ): CertificateDocument {
   const profile = setProfileSchema.safeParse(src.set.profile);
   if (!profile.success)
@@ -224,6 +225,7 @@ function buildDocument(
     warranty: { ...content.warranty, termsText },
     terms,
     ...(correction ? { correction } : {}),
+    ...(answers ? { answers } : {}),
   };
   // Round-trip through the schema so nothing unsignable or unexpected reaches the row.
   return certificateDocumentSchema.parse(doc);
@@ -282,6 +284,22 @@ async function queueIssuedMail(ctx: TxContext, src: Sources, row: Certificate, d
   });
 }
 
+// A warranty job's certificate names the certificate and the claim it answers.
+async function answersOf(
+  ctx: TxContext,
+  job: { isWarranty: boolean; certificateId: string | null; claimId: string | null },
+): Promise<CertificateDocument["answers"]> {
+  if (!job.isWarranty || !job.certificateId || !job.claimId) return undefined;
+  const [original] = await ctx.tx
+    .select({ code: certificates.code })
+    .from(certificates)
+    .where(eq(certificates.id, job.certificateId))
+    .limit(1);
+  const [claim] = await ctx.tx.select({ createdAt: claims.createdAt }).from(claims).where(eq(claims.id, job.claimId)).limit(1);
+  if (!original || !claim) return undefined;
+  return { certificateCode: original.code, claimId: job.claimId, claimOpenedOn: claim.createdAt.toISOString().slice(0, 10) };
+}
+
 /**
  * Issues the certificate of a returned job, inside the caller's transaction (the one that records the
  * return). Issuing twice for the same job hands back the certificate already in force.
@@ -302,7 +320,7 @@ export async function issueCertificate(
   const shop = await getShop(ctx.tx);
   const technicianName =
     src.technician?.name ?? (actorId ? (await getUserName({ tx: ctx.tx, userId: actorId }))?.name : undefined) ?? shop.name;
-  const doc = buildDocument(src, shop, generateCertificateCode(), technicianName);
+  const doc = buildDocument(src, shop, generateCertificateCode(), technicianName, undefined, await answersOf(ctx, src.job));
   const row = await insertSigned(ctx, src, doc, null);
   await audit(ctx, {
     actorId,
@@ -333,7 +351,14 @@ export async function reissueCertificate(
   if (!src) throw new AppError("not_found", "The job of this certificate was not found.");
   const shop = await getShop(ctx.tx);
   const technicianName = src.technician?.name ?? oldDoc?.technician.name ?? shop.name;
-  const doc = buildDocument(src, shop, generateCertificateCode(), technicianName, { supersedesCode: old.code, reason });
+  const doc = buildDocument(
+    src,
+    shop,
+    generateCertificateCode(),
+    technicianName,
+    { supersedesCode: old.code, reason },
+    await answersOf(ctx, src.job),
+  );
   // The term runs from the original completion, whatever day the correction is made.
   const row = await insertSigned(ctx, src, doc, old.id);
   await ctx.tx.update(certificates).set({ supersededById: row.id }).where(eq(certificates.id, old.id));

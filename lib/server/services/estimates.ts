@@ -21,9 +21,19 @@ import { fieldErrors } from "@/lib/engine/requests/field-errors";
 import { draftSchema, effectiveMarkupBp, moneyText, tryPriceDraft, type DraftLine } from "@/lib/validation/estimate";
 
 // States from which a revision may be sent (see lib/jobs/states.ts).
-export const SENDABLE_STATES: readonly JobState[] = ["in_triage", "estimate_sent", "approved", "on_bench"];
+export const SENDABLE_STATES: readonly JobState[] = ["in_triage", "estimate_sent", "approved", "on_bench", "bench_revision"];
+// A revision sent from these states is a scope change at the bench: the set stays there.
+const AT_BENCH: readonly JobState[] = ["on_bench", "bench_revision"];
 // While a job is in these states, its estimate may still be edited.
-export const EDITABLE_STATES: readonly JobState[] = ["requested", "in_triage", "awaiting_owner", "estimate_sent", "approved", "on_bench"];
+export const EDITABLE_STATES: readonly JobState[] = [
+  "requested",
+  "in_triage",
+  "awaiting_owner",
+  "estimate_sent",
+  "approved",
+  "on_bench",
+  "bench_revision",
+];
 
 export type ProfileCheck = { ok: true; profile: SetProfile } | { ok: false; fields: Record<string, string> };
 
@@ -254,7 +264,9 @@ export type SendRevisionInput = {
 
 /**
  * Sends the saved draft as revision N+1: lines and totals frozen, the previous sent revision superseded,
- * the job moved to "estimate sent", the checklist tasks brought in line, and the owner e-mailed.
+ * the job moved to "estimate sent", the checklist tasks brought in line, and the owner e-mailed. From the
+ * bench the set stays on the bench ("revision at the bench") and the checklist keeps the approved scope
+ * until the owner answers.
  */
 export async function sendRevision(ctx: TxContext, input: SendRevisionInput) {
   const { tx } = ctx;
@@ -355,27 +367,25 @@ export async function sendRevision(ctx: TxContext, input: SendRevisionInput) {
 
   await tx.update(estimates).set({ currentRevision: revision }).where(eq(estimates.id, estimate.id));
 
+  const atBench = AT_BENCH.includes(job.state);
   await transitionJob(ctx, {
     jobId: input.jobId,
-    to: "estimate_sent",
+    to: atBench ? "bench_revision" : "estimate_sent",
     actor: "staff",
     actorId: input.actorId,
-    note: revision === 1 ? "Estimate sent" : `Revision ${revision} sent: ${changeSummary}`,
+    note:
+      revision === 1 ? "Estimate sent" : `Revision ${revision} sent${atBench ? " while the set is on the bench" : ""}: ${changeSummary}`,
     patch: job.technicianId ? undefined : { technicianId: input.actorId },
   });
 
-  // The checklist to tick at the bench follows the labour lines of the newest revision.
-  const labour = lines.filter((l) => l.kind === "labour");
-  for (const l of labour) {
-    await tx
-      .insert(jobTasks)
-      .values({ jobId: input.jobId, code: l.code, title: l.title })
-      .onConflictDoUpdate({ target: [jobTasks.jobId, jobTasks.code], set: { title: l.title } });
-  }
-  const keep = labour.map((l) => l.code);
-  await tx
-    .delete(jobTasks)
-    .where(and(eq(jobTasks.jobId, input.jobId), isNull(jobTasks.doneAt), keep.length ? notInArray(jobTasks.code, keep) : undefined));
+  // The checklist to tick at the bench follows the labour lines of the newest revision (at the bench, of
+  // the revision the owner approves).
+  if (!atBench)
+    await syncTasks(
+      ctx,
+      input.jobId,
+      lines.filter((l) => l.kind === "labour"),
+    );
 
   await audit(ctx, {
     actorId: input.actorId,
@@ -400,9 +410,23 @@ export async function sendRevision(ctx: TxContext, input: SendRevisionInput) {
     await queueEmail(ctx, {
       to: customer.email,
       template: "estimate-revised",
-      props: { ...props, changeSummary: changeSummary ?? undefined },
+      props: { ...props, changeSummary: changeSummary ?? undefined, ...(atBench ? { atBench: true } : {}) },
       dedupeKey: `estimate:${job.id}:r${revision}`,
     });
   }
   return { revisionId: rev!.id, revision, totals: t };
+}
+
+/** Brings the bench checklist in line with a scope: its labour lines are added, open lines not in it removed. */
+export async function syncTasks(ctx: TxContext, jobId: string, labour: readonly { code: string; title: string }[]) {
+  for (const l of labour) {
+    await ctx.tx
+      .insert(jobTasks)
+      .values({ jobId, code: l.code, title: l.title })
+      .onConflictDoUpdate({ target: [jobTasks.jobId, jobTasks.code], set: { title: l.title } });
+  }
+  const keep = labour.map((l) => l.code);
+  await ctx.tx
+    .delete(jobTasks)
+    .where(and(eq(jobTasks.jobId, jobId), isNull(jobTasks.doneAt), keep.length ? notInArray(jobTasks.code, keep) : undefined));
 }

@@ -1,7 +1,8 @@
 import "server-only";
-import { and, eq, ne } from "drizzle-orm";
+import { and, eq, isNotNull, isNull, ne } from "drizzle-orm";
+import { db } from "@/db";
 import type Stripe from "stripe";
-import { countCheckouts, getLatestApprovedRevision, listLiveCheckouts, paidTotalForJob } from "@/db/queries/payments";
+import { countCheckouts, listLiveCheckouts } from "@/db/queries/payments";
 import { estimateRevisions, jobs, paymentEvents, payments, radioSets, refunds, user } from "@/db/schema";
 import type { JobState } from "@/lib/engine/jobs/states";
 import { transaction, type TxContext } from "@/db/transaction";
@@ -11,7 +12,7 @@ import { AppError } from "@/lib/server/errors";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { queueEmail } from "@/lib/server/mail";
 import { stripe } from "@/lib/server/payments";
-import { paidDeposits } from "@/lib/server/services/approvals";
+import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { moneyText } from "@/lib/validation/estimate";
 
@@ -19,7 +20,7 @@ export type PaymentPurpose = "deposit" | "balance";
 type PaymentRow = typeof payments.$inferSelect;
 type PaymentStatus = PaymentRow["status"];
 
-// Which job state a payment of each purpose settles, and where the job goes once the money is in.
+// Which job state a payment of each purpose is asked in, and where the job goes once the money is in.
 const SETTLES: Record<PaymentPurpose, { from: JobState; to: JobState }> = {
   deposit: { from: "approved", to: "deposit_paid" },
   balance: { from: "balance_due", to: "paid_in_full" },
@@ -35,130 +36,233 @@ function exponentOf(revision: { pricing: Record<string, unknown> }): number {
 
 export type CheckoutResult = { kind: "redirect"; url: string; paymentId: string } | { kind: "confirming"; paymentId: string };
 
+type CheckoutPlan =
+  | { kind: "confirming"; paymentId: string }
+  | { kind: "check"; paymentId: string; sessionId: string }
+  | {
+      kind: "create";
+      paymentId: string;
+      idempotencyKey: string;
+      params: Stripe.Checkout.SessionCreateParams;
+      amountMinor: number;
+      currency: string;
+      revisionId: string;
+    };
+
 /**
- * Opens (or reopens) a hosted checkout for the deposit or the balance. The amount comes only from the stored
- * approved revision; the job row is locked so a double click waits and then reuses the same session, and our
- * own idempotency key makes a retried create call return the same session at the processor. A failing or slow
- * processor rolls everything back.
+ * Opens (or reopens) a hosted checkout for the deposit or the balance. Three short steps, none of which holds
+ * a transaction across the network: (1) under the job's row lock, work out the amount from the job's account
+ * and reserve a payment row with our idempotency key (a double click finds the reservation and uses the same
+ * key); (2) ask the processor, outside any transaction; (3) record the session on the row. A failing or slow
+ * processor releases the reservation and answers a retryable 503: nothing is charged and nothing changes,
+ * and because the key is derived from the reservations left, a retry asks with the same key and gets the
+ * same session back if the processor did make one.
  */
 export async function startCheckout(input: { jobId: string; customerId: string; purpose: PaymentPurpose }): Promise<CheckoutResult> {
-  return transaction(async (ctx) => {
-    const { tx } = ctx;
-    const [row] = await tx
-      .select({ job: jobs, set: radioSets, email: user.email })
-      .from(jobs)
-      .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
-      .innerJoin(user, eq(user.id, jobs.customerId))
-      .where(and(eq(jobs.id, input.jobId), eq(jobs.customerId, input.customerId)))
-      .for("update", { of: jobs })
-      .limit(1);
-    if (!row) throw new AppError("not_found", "That job was not found.");
-    const { job, set } = row;
-    if (job.state !== SETTLES[input.purpose].from) {
-      throw new AppError(
-        "conflict",
-        input.purpose === "deposit"
-          ? "There is no deposit to pay on this job right now."
-          : "There is no balance to pay on this job right now.",
-      );
-    }
-    const revision = await getLatestApprovedRevision(tx, { jobId: job.id });
-    if (!revision) throw new AppError("conflict", "This job has no approved estimate yet.");
-
-    // Deposit: the approved revision's deposit less deposits already paid (a revision sent during the work
-    // asks only for the difference). Balance: the approved total less everything paid so far.
-    const amountMinor =
-      input.purpose === "deposit"
-        ? revision.depositMinor - (await paidDeposits(ctx, job.id))
-        : revision.totalMinor - (await paidTotalForJob(tx, { jobId: job.id }));
-    if (amountMinor <= 0) throw new AppError("conflict", "Nothing is left to pay on this job.");
-    const currency = revision.currency.toLowerCase();
-
-    for (const live of await listLiveCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) {
-      if (live.status === "paid" || live.status === "processing") return { kind: "confirming", paymentId: live.id };
-      if (live.amountMinor !== amountMinor || !live.checkoutSessionId) continue;
+  for (let round = 0; round < 3; round++) {
+    const plan = await transaction((ctx) => planCheckout(ctx, input));
+    if (plan.kind === "confirming") return plan;
+    if (plan.kind === "check") {
       let session: Stripe.Checkout.Session;
       try {
-        session = await stripe().checkout.sessions.retrieve(live.checkoutSessionId);
+        session = await stripe().checkout.sessions.retrieve(plan.sessionId);
       } catch (error) {
         console.error("[bandedge] checkout retrieve failed", error);
         throw new AppError("unavailable", UNAVAILABLE);
       }
-      if (session.status === "open" && session.url) return { kind: "redirect", url: session.url, paymentId: live.id };
-      if (session.status === "complete") return { kind: "confirming", paymentId: live.id };
+      if (session.status === "open" && session.url) return { kind: "redirect", url: session.url, paymentId: plan.paymentId };
+      if (session.status === "complete") return { kind: "confirming", paymentId: plan.paymentId };
       // Expired at the processor: the webhook may not have told us yet.
-      await tx
+      await db
         .update(payments)
         .set({ status: "expired" })
-        .where(and(eq(payments.id, live.id), eq(payments.status, "open")));
+        .where(and(eq(payments.id, plan.paymentId), eq(payments.status, "open")));
+      continue;
     }
-
-    const attempt = (await countCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) + 1;
-    const idempotencyKey = `bandedge:${input.purpose}:${revision.id}:${attempt}`;
-    const base = env().APP_URL;
-    const label = input.purpose === "deposit" ? "Deposit" : "Balance";
     let session: Stripe.Checkout.Session;
     try {
-      session = await stripe().checkout.sessions.create(
-        {
-          mode: "payment",
-          line_items: [
-            {
-              quantity: 1,
-              price_data: {
-                currency,
-                unit_amount: amountMinor,
-                product_data: {
-                  name: `${label} for ${jobNumber(job.number)} — ${set.maker} ${set.model} (estimate revision ${revision.revision})`,
-                },
-              },
-            },
-          ],
-          client_reference_id: job.id,
-          customer_email: row.email,
-          metadata: { jobId: job.id, revisionId: revision.id, purpose: input.purpose },
-          payment_intent_data: { metadata: { jobId: job.id, revisionId: revision.id, purpose: input.purpose } },
-          success_url: `${base}/portal/jobs/${job.id}/payment?session_id={CHECKOUT_SESSION_ID}`,
-          cancel_url: `${base}/portal/jobs/${job.id}?payment=cancelled`,
-        },
-        { idempotencyKey },
-      );
+      session = await stripe().checkout.sessions.create(plan.params, { idempotencyKey: plan.idempotencyKey });
     } catch (error) {
       console.error("[bandedge] checkout create failed", error);
+      await releaseReservation(plan.paymentId);
       throw new AppError("unavailable", UNAVAILABLE);
     }
-    if (session.amount_total !== amountMinor || session.currency !== currency || !session.url) {
+    if (session.amount_total !== plan.amountMinor || session.currency !== plan.currency.toLowerCase() || !session.url) {
       console.error("[bandedge] checkout session does not match what we asked for", {
         sessionId: session.id,
         amount: session.amount_total,
       });
+      await releaseReservation(plan.paymentId);
       throw new AppError("unavailable", UNAVAILABLE);
     }
-    const [payment] = await tx
-      .insert(payments)
-      .values({
-        jobId: job.id,
-        revisionId: revision.id,
-        purpose: input.purpose,
-        amountMinor,
-        currency: revision.currency,
-        status: "open",
-        checkoutSessionId: session.id,
-        checkoutUrl: session.url,
-        idempotencyKey,
-        createdBy: input.customerId,
-      })
-      .returning({ id: payments.id });
-    await audit(ctx, {
-      actorId: input.customerId,
-      action: "payment.checkout",
-      entity: "payment",
-      entityId: payment!.id,
-      before: null,
-      after: { purpose: input.purpose, amountMinor, currency: revision.currency, revisionId: revision.id, sessionId: session.id },
+    const url = session.url;
+    return transaction(async (ctx) => {
+      // Two clicks may both have asked with the same key: the row is keyed by it, so both record one session.
+      const [row] = await ctx.tx
+        .insert(payments)
+        .values({
+          jobId: input.jobId,
+          revisionId: plan.revisionId,
+          purpose: input.purpose,
+          amountMinor: plan.amountMinor,
+          currency: plan.currency,
+          status: "open",
+          checkoutSessionId: session.id,
+          checkoutUrl: url,
+          idempotencyKey: plan.idempotencyKey,
+          createdBy: input.customerId,
+        })
+        .onConflictDoUpdate({ target: payments.idempotencyKey, set: { checkoutSessionId: session.id, checkoutUrl: url } })
+        .returning({ id: payments.id, status: payments.status });
+      await audit(ctx, {
+        actorId: input.customerId,
+        action: "payment.checkout",
+        entity: "payment",
+        entityId: row!.id,
+        before: null,
+        after: {
+          purpose: input.purpose,
+          amountMinor: plan.amountMinor,
+          currency: plan.currency,
+          revisionId: plan.revisionId,
+          sessionId: session.id,
+        },
+      });
+      return { kind: "redirect" as const, url, paymentId: row!.id };
     });
-    return { kind: "redirect", url: session.url, paymentId: payment!.id };
-  });
+  }
+  throw new AppError("unavailable", UNAVAILABLE);
+}
+
+// A reservation the processor never turned into a session is removed, so nothing half done remains.
+async function releaseReservation(paymentId: string): Promise<void> {
+  await db
+    .delete(payments)
+    .where(and(eq(payments.id, paymentId), isNull(payments.checkoutSessionId), eq(payments.status, "open")))
+    .catch((error: unknown) => console.error("[bandedge] could not release a checkout reservation", paymentId, error));
+}
+
+async function planCheckout(ctx: TxContext, input: { jobId: string; customerId: string; purpose: PaymentPurpose }): Promise<CheckoutPlan> {
+  const { tx } = ctx;
+  const [row] = await tx
+    .select({ job: jobs, set: radioSets, email: user.email })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .where(and(eq(jobs.id, input.jobId), eq(jobs.customerId, input.customerId)))
+    .for("update", { of: jobs })
+    .limit(1);
+  if (!row) throw new AppError("not_found", "That job was not found.");
+  const { job, set } = row;
+  if (job.state !== SETTLES[input.purpose].from) {
+    throw new AppError(
+      "conflict",
+      input.purpose === "deposit"
+        ? "There is no deposit to pay on this job right now."
+        : "There is no balance to pay on this job right now.",
+    );
+  }
+  const { account, revision, paidDepositsMinor } = await loadJobAccount(tx, job.id);
+  if (!revision) throw new AppError("conflict", "This job has no approved estimate yet.");
+
+  // Deposit: the approved revision's deposit less deposits already paid (a revision sent before the set
+  // came in asks only for the difference), never more than what is owed. Balance: what the account says is
+  // owed (payments less refunds, against the approved total).
+  const amountMinor =
+    input.purpose === "deposit" ? Math.min(revision.depositMinor - paidDepositsMinor, account.owedMinor) : account.owedMinor;
+  if (amountMinor <= 0) throw new AppError("conflict", "Nothing is left to pay on this job.");
+  const currency = revision.currency;
+
+  for (const live of await listLiveCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) {
+    if (live.status === "paid" || live.status === "processing") return { kind: "confirming", paymentId: live.id };
+    if (live.amountMinor !== amountMinor) continue;
+    if (live.checkoutSessionId) return { kind: "check", paymentId: live.id, sessionId: live.checkoutSessionId };
+    // Reserved by a click still talking to the processor: ask with the same key, get the same session.
+    return createPlan(live.id, live.idempotencyKey);
+  }
+
+  const attempt = (await countCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) + 1;
+  const idempotencyKey = `bandedge:${input.purpose}:${revision.id}:${attempt}`;
+  const [reserved] = await tx
+    .insert(payments)
+    .values({
+      jobId: job.id,
+      revisionId: revision.id,
+      purpose: input.purpose,
+      amountMinor,
+      currency,
+      status: "open",
+      idempotencyKey,
+      createdBy: input.customerId,
+    })
+    .returning({ id: payments.id });
+  return createPlan(reserved!.id, idempotencyKey);
+
+  function createPlan(paymentId: string, key: string): CheckoutPlan {
+    const base = env().APP_URL;
+    const label = input.purpose === "deposit" ? "Deposit" : "Balance";
+    return {
+      kind: "create",
+      paymentId,
+      idempotencyKey: key,
+      amountMinor,
+      currency,
+      revisionId: revision!.id,
+      params: {
+        mode: "payment",
+        line_items: [
+          {
+            quantity: 1,
+            price_data: {
+              currency: currency.toLowerCase(),
+              unit_amount: amountMinor,
+              product_data: {
+                name: `${label} for ${jobNumber(job.number)} — ${set.maker} ${set.model} (estimate revision ${revision!.revision})`,
+              },
+            },
+          },
+        ],
+        client_reference_id: job.id,
+        customer_email: row!.email,
+        metadata: { jobId: job.id, revisionId: revision!.id, purpose: input.purpose },
+        payment_intent_data: { metadata: { jobId: job.id, revisionId: revision!.id, purpose: input.purpose } },
+        success_url: `${base}/portal/jobs/${job.id}/payment?session_id={CHECKOUT_SESSION_ID}`,
+        cancel_url: `${base}/portal/jobs/${job.id}?payment=cancelled`,
+      },
+    };
+  }
+}
+
+/**
+ * Closes a job's checkouts that can no longer be right — every open session but `keep` — at the processor
+ * (the SDK's expire call) and in our rows, so an owner cannot pay for a superseded revision or an old amount.
+ * Called after the commit of the change that made them stale, never inside a transaction. A session the
+ * processor will not expire (already paid or expired) is left to its webhook; if money still arrives for it,
+ * it is recorded and shows as owed back.
+ */
+export async function expireStaleCheckouts(jobId: string, { keep }: { keep?: string } = {}): Promise<number> {
+  const open = await db
+    .select({ id: payments.id, sessionId: payments.checkoutSessionId })
+    .from(payments)
+    .where(and(eq(payments.jobId, jobId), eq(payments.status, "open"), isNotNull(payments.checkoutSessionId)));
+  let expired = 0;
+  for (const p of open) {
+    if (p.id === keep || !p.sessionId) continue;
+    try {
+      const session = await stripe().checkout.sessions.expire(p.sessionId);
+      if (session.status !== "expired") continue;
+    } catch (error) {
+      console.error("[bandedge] could not expire a stale checkout session", { paymentId: p.id, error: String(error) });
+      continue;
+    }
+    const [row] = await db
+      .update(payments)
+      .set({ status: "expired" })
+      .where(and(eq(payments.id, p.id), eq(payments.status, "open")))
+      .returning({ id: payments.id });
+    if (row) expired++;
+  }
+  return expired;
 }
 
 // ---- webhooks ----
@@ -176,7 +280,7 @@ export const HANDLED_EVENTS = new Set([
 // A payment only moves forward: paid never goes back, whatever order the events arrive in.
 const RANK: Record<PaymentStatus, number> = { open: 0, processing: 1, failed: 2, expired: 2, paid: 3 };
 
-export type WebhookOutcome = { outcome: string };
+export type WebhookOutcome = { outcome: string; /** The job whose payment completed: its other checkouts are stale. */ paidJobId?: string };
 
 /** Applies one verified processor event exactly once: its id is stored in the same transaction as its effect. */
 export async function handleStripeEvent(event: Stripe.Event): Promise<WebhookOutcome> {
@@ -256,7 +360,8 @@ async function onCheckoutEvent(ctx: TxContext, eventId: string, type: string, se
 
   const paid = session.payment_status === "paid";
   if (type === "checkout.session.completed" || type === "checkout.session.async_payment_succeeded") {
-    if (paid) return finish(ctx, eventId, await markPaid(ctx, payment, idOf(session.payment_intent)));
+    if (paid)
+      return { ...(await finish(ctx, eventId, await markPaid(ctx, payment, idOf(session.payment_intent)))), paidJobId: payment.jobId };
     if (type === "checkout.session.completed") return finish(ctx, eventId, await advance(ctx, payment, "processing"));
     return finish(ctx, eventId, "not-paid");
   }
@@ -325,22 +430,38 @@ async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: st
     .innerJoin(user, eq(user.id, jobs.customerId))
     .innerJoin(estimateRevisions, eq(estimateRevisions.id, payment.revisionId))
     .where(eq(jobs.id, payment.jobId))
+    .for("update", { of: jobs })
     .limit(1);
   if (!row) return "paid";
   let outcome = "paid";
-  const move = SETTLES[payment.purpose];
-  if (row.job.state === move.from) {
+  const { account, revision: current, paidDepositsMinor } = await loadJobAccount(tx, row.job.id);
+  const stale = !current || current.id !== payment.revisionId || row.job.state !== SETTLES[payment.purpose].from;
+  if (stale) {
+    // Money for a checkout that was superseded (a newer revision, an old amount) or for a job that moved on:
+    // recorded and counted in the account, never lost, and flagged for the office to refund or credit.
+    outcome = "paid-superseded";
+    await tx.update(payments).set({ arrivedStale: true }).where(eq(payments.id, payment.id));
+    console.error("[bandedge] payment received for a superseded checkout", { paymentId: payment.id, state: row.job.state });
+    await audit(ctx, {
+      actorId: null,
+      action: "payment.superseded",
+      entity: "payment",
+      entityId: payment.id,
+      before: { jobState: row.job.state },
+      after: { revisionId: payment.revisionId, currentRevisionId: current?.id ?? null, owedBackMinor: account.owedBackMinor },
+    });
+  }
+  const amountText = moneyText(payment.amountMinor, payment.currency, exponentOf(row.revision));
+  if (row.job.state === "approved" && current && (paidDepositsMinor >= current.depositMinor || account.owedMinor === 0)) {
     await transitionJob(ctx, {
       jobId: row.job.id,
-      to: move.to,
+      to: "deposit_paid",
       actor: "system",
       actorId: null,
-      note: `${payment.purpose === "deposit" ? "Deposit" : "Balance"} of ${moneyText(payment.amountMinor, payment.currency, exponentOf(row.revision))} received`,
+      note: `${payment.purpose === "deposit" ? "Deposit" : "Payment"} of ${amountText} received`,
     });
-  } else {
-    // Money arrived for a job that moved on (e.g. a revision was sent meanwhile): recorded, job left alone.
-    outcome = "paid-job-not-waiting";
-    console.error("[bandedge] payment received while the job was not waiting for it", { paymentId: payment.id, state: row.job.state });
+  } else if (row.job.state === "balance_due") {
+    await settleIfNothingOwed(ctx, row.job.id);
   }
   await queueEmail(ctx, {
     to: row.email,

@@ -1,5 +1,6 @@
 import "server-only";
-import { listPaymentsForCustomer } from "@/db/queries/payments";
+import { listPaymentsForCustomer, listRefundsForCustomer } from "@/db/queries/payments";
+import { accountOf } from "@/lib/engine/pricing/account";
 import {
   getPortalJobForCustomer,
   listMessagesForCustomer,
@@ -60,16 +61,26 @@ function billingOf(
   };
 }
 
+// The timeline tells what happened, in the past: the state labels speak of what is asked now ("send the set").
+function timelineLabel(from: JobState | null, to: JobState, depositPaid: boolean): string {
+  if (to === "deposit_paid") return depositPaid ? "Deposit received" : "Nothing to pay before the work";
+  if (to === "bench_revision") return "A change to the work was proposed; the set stayed on the bench";
+  if (to === "on_bench" && from === "bench_revision") return "Change answered; back to work on the bench";
+  if (to === "on_bench") return "Set received; work started";
+  return STATE_LABEL[to].owner;
+}
+
 const CATEGORY_ORDER: DraftCategory[] = ["inspection", "safety", "recap", "alignment", "mechanical", "test", "parts"];
 
 export async function getPortalJobView({ jobId, customerId }: { jobId: string; customerId: string }) {
   const job = await getPortalJobForCustomer({ jobId, customerId });
   if (!job) throw new AppError("not_found", "That job was not found.");
-  const [timeline, photoRows, revisions, paymentRows] = await Promise.all([
+  const [timeline, photoRows, revisions, paymentRows, refundRows] = await Promise.all([
     listTimelineForCustomer({ jobId, customerId }),
     listPhotosForCustomer({ jobId, customerId }),
     listRevisionsForCustomer({ jobId, customerId }),
     listPaymentsForCustomer({ jobId, customerId }),
+    listRefundsForCustomer({ jobId, customerId }),
   ]);
 
   const current = revisions[0];
@@ -78,13 +89,17 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
   const m = (minor: number): Money => ({ minor, text: moneyText(minor, currency, exponent) });
 
   const paidDeposits = paymentRows.filter((p) => p.status === "paid" && p.purpose === "deposit").reduce((s, p) => s + p.amountMinor, 0);
-  const paidTotal = paymentRows.filter((p) => p.status === "paid").reduce((s, p) => s + p.amountMinor, 0);
   const approved = revisions.find((r) => r.status === "approved");
+  // The one account of the job: what is still owed and what the shop owes back.
+  const account = accountOf({
+    totalMinor: job.settledTotalMinor ?? approved?.totalMinor ?? 0,
+    payments: paymentRows,
+    refunds: refundRows,
+  });
   let due: { purpose: "deposit" | "balance"; amount: Money } | null = null;
-  if (approved && job.state === "approved" && approved.depositMinor - paidDeposits > 0)
-    due = { purpose: "deposit", amount: m(approved.depositMinor - paidDeposits) };
-  if (approved && job.state === "balance_due" && approved.totalMinor - paidTotal > 0)
-    due = { purpose: "balance", amount: m(approved.totalMinor - paidTotal) };
+  const depositDue = approved ? Math.min(approved.depositMinor - paidDeposits, account.owedMinor) : 0;
+  if (approved && job.state === "approved" && depositDue > 0) due = { purpose: "deposit", amount: m(depositDue) };
+  if (approved && job.state === "balance_due" && account.owedMinor > 0) due = { purpose: "balance", amount: m(account.owedMinor) };
   const inFlight = paymentRows.find((p) => p.status === "processing");
 
   const estimate = current
@@ -96,7 +111,10 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
         decidedAt: current.decidedAt?.toISOString() ?? null,
         changeSummary: current.changeSummary,
         declineReason: current.declineReason,
-        decidable: job.state === "estimate_sent" && current.status === "sent",
+        decidable: (job.state === "estimate_sent" || job.state === "bench_revision") && current.status === "sent",
+        // A change asked while the set is on the bench: no deposit, the difference goes into the balance.
+        atBench: job.state === "bench_revision" && current.status === "sent",
+        approvedTotal: approved && approved.id !== current.id ? m(approved.totalMinor) : null,
         groups: CATEGORY_ORDER.map((category) => {
           const lines = current.lines.filter((l) => l.category === category);
           return {
@@ -158,7 +176,7 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
     timeline: timeline.map((t) => ({
       id: t.id,
       state: t.toState as JobState,
-      label: STATE_LABEL[t.toState].owner,
+      label: timelineLabel(t.fromState, t.toState, paidDeposits > 0),
       icon: STATE_LABEL[t.toState].icon,
       at: t.at.toISOString(),
     })),
@@ -182,6 +200,14 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
         paidAt: p.paidAt?.toISOString() ?? null,
       })),
     due,
+    account: {
+      total: m(account.totalMinor),
+      paid: m(account.paidMinor),
+      refunded: m(account.refundedMinor),
+      refundPending: m(account.refundPendingMinor),
+      owed: m(account.owedMinor),
+      owedBack: m(account.owedBackMinor),
+    },
     confirming: Boolean(inFlight),
   };
 }

@@ -2,7 +2,9 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { formatMoney, formatWhen } from "@/components/office/format";
 import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL } from "@/components/office/labels";
+import { OwedBackList } from "@/components/office/owed-back-list";
 import { listPaymentsForOffice } from "@/db/queries/office";
+import { listOwedBack } from "@/lib/server/services/account";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { getShop } from "@/lib/server/services/shop";
 import { requirePermission } from "@/lib/server/session";
@@ -21,7 +23,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
   const sp = await searchParams;
   const page = Math.max(1, Math.min(100_000, Number.parseInt(String(sp.page ?? "1"), 10) || 1));
   const status = FILTERS.find((f) => f.value === sp.status)?.value ?? "all";
-  const [{ rows, hasMore }, shop] = await Promise.all([listPaymentsForOffice({ page, status }), getShop()]);
+  const [{ rows, hasMore }, shop, owedBack] = await Promise.all([listPaymentsForOffice({ page, status }), getShop(), listOwedBack()]);
   const currency = shop.policy.currency;
   const href = (p: number) => `/office/payments?${new URLSearchParams({ status, page: String(p) })}`;
   return (
@@ -32,6 +34,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
           Deposits and balances paid through the processor. Open a payment to refund part or all of it.
         </p>
       </div>
+      <OwedBackList rows={owedBack} currency={currency} />
       <nav aria-label="Show payments" className="flex gap-3 text-sm">
         {FILTERS.map((f) =>
           f.value === status ? (

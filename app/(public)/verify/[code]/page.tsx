@@ -138,6 +138,12 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
           </Notice>
         ) : null}
         {d.correction ? <p className="text-sm">This certificate corrects an earlier one ({d.correction.supersedesCode}).</p> : null}
+        {d.answers ? (
+          <p className="text-sm" data-testid="answers">
+            Warranty work under certificate {d.answers.certificateCode} (claim of {d.answers.claimOpenedOn}): it covers the work and parts
+            listed here.
+          </p>
+        ) : null}
         <dl className="grid grid-cols-1 gap-x-6 gap-y-2 sm:grid-cols-2">
           <div>
             <dt className="field-label">Set</dt>

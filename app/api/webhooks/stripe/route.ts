@@ -2,7 +2,7 @@ import type Stripe from "stripe";
 import { json } from "@/lib/server/route-handler";
 import { env } from "@/lib/server/env";
 import { stripe } from "@/lib/server/payments";
-import { handleStripeEvent } from "@/lib/server/services/payments";
+import { expireStaleCheckouts, handleStripeEvent } from "@/lib/server/services/payments";
 
 export const dynamic = "force-dynamic";
 
@@ -26,7 +26,9 @@ export async function POST(request: Request): Promise<Response> {
   }
 
   try {
-    const { outcome } = await handleStripeEvent(event);
+    const { outcome, paidJobId } = await handleStripeEvent(event);
+    // Once money is in, any other open checkout of the job asks for an amount that is no longer right.
+    if (paidJobId) await expireStaleCheckouts(paidJobId).catch((e: unknown) => console.error("[bandedge] expiring checkouts failed", e));
     return json({ received: true, outcome });
   } catch (error) {
     // Not handled yet: a non-2xx makes the processor deliver again later.

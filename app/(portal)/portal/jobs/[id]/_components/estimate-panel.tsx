@@ -42,8 +42,11 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
     onSuccess: refresh,
   });
   const decline = useMutation({
-    mutationFn: (reason: string) =>
-      api(`/api/portal/jobs/${jobId}/estimate/decline`, { method: "POST", body: { revisionId: estimate.id, reason } }),
+    mutationFn: ({ reason, afterDecline }: { reason: string; afterDecline?: string }) =>
+      api(`/api/portal/jobs/${jobId}/estimate/decline`, {
+        method: "POST",
+        body: { revisionId: estimate.id, reason, ...(afterDecline ? { afterDecline } : {}) },
+      }),
     onSuccess: refresh,
   });
 
@@ -60,7 +63,12 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
         <Notice tone="info" title="What changed since the last estimate">
           <p className="whitespace-pre-line">{estimate.changeSummary}</p>
           {estimate.earlier[0] ? (
-            <p>The previous total was {estimate.earlier[0].total.text}. This revision needs your approval before work goes on.</p>
+            <p>
+              The previous total was {estimate.earlier[0].total.text}.{" "}
+              {estimate.atBench
+                ? "Your set stays on our bench. If you approve, the difference is settled in the balance when the work is done (or refunded if you have paid more than the new total)."
+                : "This revision needs your approval before work goes on."}
+            </p>
           ) : null}
         </Notice>
       ) : null}
@@ -127,14 +135,25 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
             <dt>Total</dt>
             <dd data-testid="estimate-total">{estimate.total.text}</dd>
           </div>
-          <div className="flex justify-between font-semibold text-ember-dark">
-            <dt>Deposit to start the work</dt>
-            <dd data-testid="estimate-deposit">{estimate.deposit.text}</dd>
-          </div>
-          <div className="flex justify-between text-bakelite-muted">
-            <dt>Balance when the set is finished</dt>
-            <dd>{estimate.balanceAfterDeposit.text}</dd>
-          </div>
+          {estimate.atBench ? (
+            estimate.approvedTotal ? (
+              <div className="flex justify-between text-bakelite-muted">
+                <dt>Total you approved before</dt>
+                <dd data-testid="estimate-approved-total">{estimate.approvedTotal.text}</dd>
+              </div>
+            ) : null
+          ) : (
+            <>
+              <div className="flex justify-between font-semibold text-ember-dark">
+                <dt>Deposit to start the work</dt>
+                <dd data-testid="estimate-deposit">{estimate.deposit.text}</dd>
+              </div>
+              <div className="flex justify-between text-bakelite-muted">
+                <dt>Balance when the set is finished</dt>
+                <dd>{estimate.balanceAfterDeposit.text}</dd>
+              </div>
+            </>
+          )}
         </dl>
         <div className="card space-y-2 p-5">
           <h3 className="text-lg font-bold">What the warranty will cover</h3>
@@ -186,16 +205,29 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
                 disabled={approve.isPending}
                 onClick={() => approve.mutate()}
               >
-                {approve.isPending ? "Approving…" : `Approve this estimate (${estimate.total.text})`}
+                {approve.isPending
+                  ? "Approving…"
+                  : estimate.atBench
+                    ? `Approve the change (new total ${estimate.total.text})`
+                    : `Approve this estimate (${estimate.total.text})`}
               </button>
               <button type="button" className="btn-secondary px-6 py-3 text-base" onClick={() => setDeclining(true)}>
                 Decline…
               </button>
             </div>
           ) : (
-            <DeclineForm pending={decline.isPending} onDecline={(reason) => decline.mutate(reason)} onBack={() => setDeclining(false)} />
+            <DeclineForm
+              pending={decline.isPending}
+              atBench={estimate.atBench}
+              onDecline={(reason, afterDecline) => decline.mutate({ reason, afterDecline })}
+              onBack={() => setDeclining(false)}
+            />
           )}
-          <p className="text-sm text-bakelite-muted">Approving does not charge you; the deposit is a separate step.</p>
+          <p className="text-sm text-bakelite-muted">
+            {estimate.atBench
+              ? "Approving does not charge you now; the difference is settled with the balance."
+              : "Approving does not charge you; the deposit is a separate step."}
+          </p>
         </div>
       ) : null}
 

@@ -20,6 +20,8 @@ const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
   approved: "Thank you for approving. The deposit below lets us reserve bench time and order parts.",
   deposit_paid: "Deposit received. Please send or bring the set: remove batteries, wrap the chassis and the dial glass well.",
   on_bench: "Your set is on the bench. We will write if anything changes.",
+  bench_revision:
+    "While working on your set we found something that changes the work. Your set stays on our bench: read the change below, then approve it or tell us how to go on.",
   final_checks: "The work is done; the final measurements are being checked.",
   balance_due: "Your set is finished. Once the balance is paid, we return it.",
   paid_in_full: "Paid in full. We are preparing the set for its return.",
@@ -104,7 +106,11 @@ export function JobView({
           <h2 id="next-title" className="text-xl font-bold">
             What happens next
           </h2>
-          <p className="mt-1 text-lg">{NEXT_STEP[v.job.state]}</p>
+          <p className="mt-1 text-lg">
+            {v.job.state === "deposit_paid" && v.account.paid.minor === 0
+              ? "Nothing to pay before the work. Please send or bring the set: remove batteries, wrap the chassis and the dial glass well."
+              : NEXT_STEP[v.job.state]}
+          </p>
           {v.job.state === "returned" && v.job.returnMethod === "shipped" && v.job.trackingNumber ? (
             <p className="mt-1">
               Shipped with {v.job.carrier ?? "the carrier"}, tracking number <span className="figure">{v.job.trackingNumber}</span>.
@@ -121,6 +127,41 @@ export function JobView({
         </Notice>
       ) : null}
       {v.due ? <PayButton jobId={jobId} purpose={v.due.purpose} amountText={v.due.amount.text} /> : null}
+      {v.account.owedBack.minor > 0 ? (
+        <Notice tone="info" title="We owe you money back">
+          <p data-testid="owed-back">
+            You have paid {v.account.owedBack.text} more than the total of {v.account.total.text}. The shop will refund it to the card you
+            paid with.
+          </p>
+        </Notice>
+      ) : null}
+      {v.account.total.minor > 0 || v.account.paid.minor > 0 ? (
+        <dl
+          className="card figure grid grid-cols-2 gap-x-6 gap-y-1 p-5 sm:grid-cols-4"
+          aria-label="Your account for this job"
+          data-testid="account"
+        >
+          <div>
+            <dt className="text-sm text-bakelite-muted">Total</dt>
+            <dd>{v.account.total.text}</dd>
+          </div>
+          <div>
+            <dt className="text-sm text-bakelite-muted">Paid</dt>
+            <dd>{v.account.paid.text}</dd>
+          </div>
+          <div>
+            <dt className="text-sm text-bakelite-muted">Refunded</dt>
+            <dd>
+              {v.account.refunded.text}
+              {v.account.refundPending.minor > 0 ? ` (+ ${v.account.refundPending.text} on its way)` : ""}
+            </dd>
+          </div>
+          <div>
+            <dt className="text-sm text-bakelite-muted">{v.account.owedBack.minor > 0 ? "Owed back to you" : "Still to pay"}</dt>
+            <dd data-testid="account-owed">{v.account.owedBack.minor > 0 ? v.account.owedBack.text : v.account.owed.text}</dd>
+          </div>
+        </dl>
+      ) : null}
 
       {v.estimate ? <EstimatePanel jobId={jobId} estimate={v.estimate} /> : null}
 

@@ -9,6 +9,14 @@ export const POST = route<{ id: string }, typeof declineSchema>(
   { permission: "estimate.approve", body: declineSchema },
   async ({ viewer, params, body }) => {
     const jobId = idFrom(params.id);
-    return transaction((ctx) => declineRevision(ctx, { jobId, customerId: viewer.id, revisionId: body.revisionId, reason: body.reason }));
+    return transaction((ctx) =>
+      declineRevision(ctx, {
+        jobId,
+        customerId: viewer.id,
+        revisionId: body.revisionId,
+        reason: body.reason,
+        afterDecline: body.afterDecline,
+      }),
+    );
   },
 );
