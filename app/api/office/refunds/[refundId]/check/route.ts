@@ -1,0 +1,10 @@
+import { z } from "zod";
+import { route } from "@/lib/server/route-handler";
+import { notFound } from "@/lib/server/errors";
+import { reconcileRefund } from "@/lib/server/services/refunds";
+
+// Asks the processor what became of a refund still open: read back, or asked again with the same key.
+export const POST = route<{ refundId: string }>({ permission: "payment.refund" }, async ({ params, viewer }) => {
+  if (!z.uuid().safeParse(params.refundId).success) throw notFound("That refund");
+  return reconcileRefund({ refundId: params.refundId, actorId: viewer.id });
+});
