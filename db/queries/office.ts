@@ -74,7 +74,11 @@ export const PAYMENTS_PAGE_SIZE = 30;
 
 export async function listPaymentsForOffice({ page = 1, status }: { page?: number; status?: "paid" | "open" | "all" }) {
   const where =
-    status === "paid" ? sql`${payments.status} in ('paid','duplicate')` : status === "open" ? sql`${payments.status} in ('open','processing')` : undefined;
+    status === "paid"
+      ? sql`${payments.status} in ('paid','duplicate')`
+      : status === "open"
+        ? sql`${payments.status} in ('open','processing')`
+        : undefined;
   const rows = await db
     .select(paymentColumns)
     .from(payments)
@@ -138,7 +142,10 @@ export async function insertRefund(
 }
 
 /** Records the processor's id for a refund still waiting for its webhook (the webhook may have come first). */
-export async function setRefundProcessorId(ctx: TxContext, { refundId, processorRefundId }: { refundId: string; processorRefundId: string }) {
+export async function setRefundProcessorId(
+  ctx: TxContext,
+  { refundId, processorRefundId }: { refundId: string; processorRefundId: string },
+) {
   await ctx.tx
     .update(refunds)
     .set({ processorRefundId })
@@ -178,7 +185,10 @@ export async function settleRefundRow(
 }
 
 /** Marks a requested refund pending: the processor's answer is not known (or it answered "pending"). */
-export async function markRefundPending(ctx: TxContext, { refundId, processorRefundId }: { refundId: string; processorRefundId: string | null }) {
+export async function markRefundPending(
+  ctx: TxContext,
+  { refundId, processorRefundId }: { refundId: string; processorRefundId: string | null },
+) {
   const [row] = await ctx.tx
     .update(refunds)
     .set({ status: "pending", ...(processorRefundId ? { processorRefundId } : {}) })

@@ -23,11 +23,7 @@ export async function queueEmail<T extends TemplateName>(ctx: TxContext, args: Q
     .returning({ id: emailOutbox.id });
   if (!row) return; // already queued by an earlier attempt
   const boss = await getBoss();
-  await boss.send(
-    QUEUES.email,
-    { outboxId: row.id },
-    { db: ctx.raw, ...DELIVERY_OPTIONS },
-  );
+  await boss.send(QUEUES.email, { outboxId: row.id }, { db: ctx.raw, ...DELIVERY_OPTIONS });
 }
 
 export async function queueEmailNow<T extends TemplateName>(args: QueueArgs<T>): Promise<void> {
@@ -44,7 +40,13 @@ function resend(): Resend {
 export const MAIL_RETRY_LIMIT = MAIL_RETRY_LIMIT_OPTION;
 
 // Refusals that no retry can change: the message itself is wrong (an address the provider rejects, a bad field).
-const PERMANENT = new Set(["validation_error", "missing_required_field", "invalid_from_address", "invalid_parameter", "invalid_attachment"]);
+const PERMANENT = new Set([
+  "validation_error",
+  "missing_required_field",
+  "invalid_from_address",
+  "invalid_parameter",
+  "invalid_attachment",
+]);
 
 export type DeliveryOutcome = "sent" | "retry" | "failed" | "skipped";
 
@@ -84,10 +86,17 @@ export async function deliverOutboxEmail(outboxId: string, { lastTry = false }: 
   if (error) {
     const reason = `${error.name}: ${error.message}`;
     if (PERMANENT.has(error.name) || lastTry) {
-      await markFailed(row.id, attempts, PERMANENT.has(error.name) ? `Refused by the mail provider — ${reason}` : `Gave up after ${attempts} tries — ${reason}`);
+      await markFailed(
+        row.id,
+        attempts,
+        PERMANENT.has(error.name) ? `Refused by the mail provider — ${reason}` : `Gave up after ${attempts} tries — ${reason}`,
+      );
       return "failed";
     }
-    await db.update(emailOutbox).set({ attempts, lastError: reason.slice(0, 500) }).where(eq(emailOutbox.id, row.id));
+    await db
+      .update(emailOutbox)
+      .set({ attempts, lastError: reason.slice(0, 500) })
+      .where(eq(emailOutbox.id, row.id));
     return "retry";
   }
   await db

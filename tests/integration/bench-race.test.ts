@@ -24,9 +24,9 @@ afterAll(async () => {
 async function jobInFinalChecks(): Promise<{ jobId: string; tasks: string[] }> {
   const { jobId } = await createJob({ state: "in_triage", technicianEmail: DEMO.tech.email });
   const draft = (await (await tech.get(`/api/bench/jobs/${jobId}/estimate`)).json()) as { lines: unknown[] };
-  expect((await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: draft.lines } })).status).toBe(
-    200,
-  );
+  expect(
+    (await tech.request(`/api/bench/jobs/${jobId}/estimate`, { method: "PUT", json: { version: 0, lines: draft.lines } })).status,
+  ).toBe(200);
   expect((await tech.post(`/api/bench/jobs/${jobId}/estimate/send`, { version: 1 })).status).toBe(200);
   await approveAndPayDeposit(jobId);
   expect((await tech.post(`/api/bench/jobs/${jobId}/start-bench`)).status).toBe(200);

@@ -22,11 +22,12 @@ export type Actor = "customer" | "staff" | "system";
 // Every legal move of a job. The server refuses anything not listed here (409) and leaves the job as it was.
 export const TRANSITIONS: Record<JobState, Partial<Record<JobState, Actor>>> = {
   requested: { in_triage: "staff", cancelled: "customer" },
-  in_triage: { awaiting_owner: "staff", estimate_sent: "staff", declined_by_shop: "staff" },
-  awaiting_owner: { in_triage: "customer" },
-  estimate_sent: { approved: "customer", declined_by_owner: "customer", estimate_sent: "staff" },
-  approved: { deposit_paid: "system", estimate_sent: "staff" },
-  deposit_paid: { on_bench: "staff" },
+  // Until the set is on the bench the shop may call the job off (cancelled); money held goes back.
+  in_triage: { awaiting_owner: "staff", estimate_sent: "staff", declined_by_shop: "staff", cancelled: "staff" },
+  awaiting_owner: { in_triage: "customer", cancelled: "staff" },
+  estimate_sent: { approved: "customer", declined_by_owner: "customer", estimate_sent: "staff", cancelled: "staff" },
+  approved: { deposit_paid: "system", estimate_sent: "staff", cancelled: "staff" },
+  deposit_paid: { on_bench: "staff", cancelled: "staff" },
   on_bench: { estimate_sent: "staff", final_checks: "staff" },
   final_checks: { balance_due: "staff", on_bench: "staff" },
   balance_due: { paid_in_full: "system" },

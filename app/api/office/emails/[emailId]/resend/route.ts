@@ -9,6 +9,7 @@ export const POST = route<{ emailId: string }>({ permission: "email.resend" }, a
   if (!z.uuid().safeParse(params.emailId).success) throw notFound("That message");
   const row = await getOutboxRowForOffice({ outboxId: params.emailId });
   if (!row) throw notFound("That message");
-  if (!(await resendFailedEmail(row.id, viewer.id))) throw new AppError("conflict", "Only a message that failed can be sent again; this one is already queued or sent.");
+  if (!(await resendFailedEmail(row.id, viewer.id)))
+    throw new AppError("conflict", "Only a message that failed can be sent again; this one is already queued or sent.");
   return json({ id: row.id, status: "queued" }, { status: 202 });
 });
