@@ -42,6 +42,9 @@ export function canTransition(from: JobState, to: JobState, actor: Actor): boole
   return TRANSITIONS[from]?.[to] === actor;
 }
 
+/** The states from which the shop may still call a job off (the set is not on the bench yet). */
+export const SHOP_CANCELLABLE: readonly JobState[] = JOB_STATES.filter((s) => TRANSITIONS[s].cancelled === "staff");
+
 export function isTerminal(state: JobState): boolean {
   return Object.keys(TRANSITIONS[state]).length === 0;
 }

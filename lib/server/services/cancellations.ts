@@ -4,7 +4,7 @@ import { jobs, messages, payments, refunds } from "@/db/schema";
 import { transaction } from "@/db/transaction";
 import { accountOf, type Account } from "@/lib/engine/pricing/account";
 import { formatMinor } from "@/lib/engine/pricing/money";
-import { STATE_LABEL, type JobState } from "@/lib/engine/jobs/states";
+import { SHOP_CANCELLABLE, STATE_LABEL, type JobState } from "@/lib/engine/jobs/states";
 import { AppError } from "@/lib/server/errors";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { requestRefund, type RefundOutcome } from "@/lib/server/services/refunds";
@@ -39,9 +39,6 @@ export async function withdrawQuote({ jobId, customerId, reason }: { jobId: stri
   });
 }
 
-/** The states in which the shop may still call a job off: the set is not on the bench yet. */
-export const CANCELLABLE: readonly JobState[] = ["in_triage", "awaiting_owner", "estimate_sent", "approved", "deposit_paid"];
-
 export type CancelResult = {
   state: JobState;
   /** The job's account after cancelling: nothing is owed for work that was never done. */
@@ -71,7 +68,7 @@ export async function cancelJobByShop({
   const { state, paid } = await transaction(async (ctx) => {
     const [job] = await ctx.tx.select().from(jobs).where(eq(jobs.id, jobId)).for("update").limit(1);
     if (!job) throw new AppError("not_found", "That job was not found.");
-    if (!CANCELLABLE.includes(job.state)) {
+    if (!SHOP_CANCELLABLE.includes(job.state)) {
       throw new AppError(
         "invalid_transition",
         `Only a job that is not on the bench yet can be cancelled; this one is "${STATE_LABEL[job.state].staff}".`,
