@@ -147,6 +147,10 @@ export function JobView({
                     <span className="text-pass">
                       <span aria-hidden="true">✓ </span>Paid{p.paidAt ? ` on ${when(p.paidAt)}` : ""}
                     </span>
+                  ) : p.status === "duplicate" ? (
+                    <span>
+                      <span aria-hidden="true">⧉ </span>Paid twice — the shop gives this one back
+                    </span>
                   ) : p.status === "processing" ? (
                     <span>
                       <span aria-hidden="true">◔ </span>Being confirmed
