@@ -3,6 +3,7 @@
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Notice } from "@/components/ui/notice";
+import { TableScroll } from "@/components/ui/table-scroll";
 import type { listFailedEmailsForOffice } from "@/db/queries/office";
 import { officeFetch } from "@/lib/client/office-api";
 import { formatWhen, type Jsonify } from "./format";
@@ -32,7 +33,7 @@ export function FailedMailList({ rows }: { rows: FailedMail[] }) {
   if (rows.length === 0) return <p className="text-sm text-bakelite-soft">Every e-mail has gone out or is on its way.</p>;
   return (
     <div className="space-y-3">
-      <div className="overflow-x-auto">
+      <TableScroll label="E-mail that could not be sent">
         <table className="dense-table">
           <thead>
             <tr>
@@ -70,7 +71,7 @@ export function FailedMailList({ rows }: { rows: FailedMail[] }) {
             ))}
           </tbody>
         </table>
-      </div>
+      </TableScroll>
       {outcome ? (
         <Notice tone={outcome.tone} live>
           <p>{outcome.text}</p>
