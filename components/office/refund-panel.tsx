@@ -6,6 +6,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { describedBy } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
+import { TableScroll } from "@/components/ui/table-scroll";
 import type { getPaymentForOffice } from "@/db/queries/office";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { refundFormSchema, type RefundFormValues } from "@/lib/validation/office";
@@ -142,51 +143,53 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
           </dl>
         </section>
 
-        <section aria-labelledby="refund-history" className="card overflow-x-auto p-5">
+        <section aria-labelledby="refund-history" className="card p-5">
           <h2 id="refund-history" className="mb-2 text-xl font-semibold">
             Refunds
           </h2>
           {payment.refunds.length === 0 ? (
             <p className="text-sm text-bakelite-soft">No refunds on this payment.</p>
           ) : (
-            <table className="dense-table">
-              <thead>
-                <tr>
-                  <th scope="col">Asked</th>
-                  <th scope="col" className="text-right">
-                    Amount
-                  </th>
-                  <th scope="col">Status</th>
-                  <th scope="col">Reason</th>
-                  <th scope="col">By</th>
-                </tr>
-              </thead>
-              <tbody>
-                {payment.refunds.map((r) => (
-                  <tr key={r.id}>
-                    <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
-                    <td className="figure whitespace-nowrap text-right">{formatMoney(r.amountMinor, currency)}</td>
-                    <td>
-                      <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
-                      {REFUND_STATUS_LABEL[r.status].text}
-                      {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt)}</span> : null}
-                      {r.status === "pending" ? (
-                        <button
-                          type="button"
-                          className="btn-secondary mt-1 block text-xs"
-                          disabled={check.isPending}
-                          onClick={() => check.mutate(r.id)}
-                        >
-                          Check with the processor
-                        </button>
-                      ) : null}
-                    </td>
-                    <td className="max-w-xs whitespace-pre-wrap break-words">{r.reason}</td>
-                    <td>{r.createdByName ?? "—"}</td>
+            <TableScroll label="Refunds">
+              <table className="dense-table">
+                <thead>
+                  <tr>
+                    <th scope="col">Asked</th>
+                    <th scope="col" className="text-right">
+                      Amount
+                    </th>
+                    <th scope="col">Status</th>
+                    <th scope="col">Reason</th>
+                    <th scope="col">By</th>
                   </tr>
-                ))}
-              </tbody>
-            </table>
+                </thead>
+                <tbody>
+                  {payment.refunds.map((r) => (
+                    <tr key={r.id}>
+                      <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
+                      <td className="figure whitespace-nowrap text-right">{formatMoney(r.amountMinor, currency)}</td>
+                      <td>
+                        <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
+                        {REFUND_STATUS_LABEL[r.status].text}
+                        {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt)}</span> : null}
+                        {r.status === "pending" ? (
+                          <button
+                            type="button"
+                            className="btn-secondary mt-1 block text-xs"
+                            disabled={check.isPending}
+                            onClick={() => check.mutate(r.id)}
+                          >
+                            Check with the processor
+                          </button>
+                        ) : null}
+                      </td>
+                      <td className="max-w-xs whitespace-pre-wrap break-words">{r.reason}</td>
+                      <td>{r.createdByName ?? "—"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </TableScroll>
           )}
         </section>
       </div>
