@@ -7,7 +7,7 @@ import { Notice } from "@/components/ui/notice";
 import type { Band } from "@/lib/engine/bands/band";
 import { setKindLabels, setKinds, type SetKind } from "@/lib/engine/checklist/profile";
 import type { JobState } from "@/lib/engine/jobs/states";
-import { STATE_LABEL } from "@/lib/engine/jobs/states";
+import { SHOP_CANCELLABLE, STATE_LABEL } from "@/lib/engine/jobs/states";
 import { AlignmentCalculator } from "./alignment-calculator";
 import { api, errorText } from "@/lib/client/bench-api";
 import { BenchSheetPanel } from "./bench-sheet";
@@ -15,6 +15,7 @@ import { CompletionPanel } from "./completion-panel";
 import { EstimatePanel } from "./estimate-builder";
 import { benchKeys } from "@/lib/client/bench-query-keys";
 import { TriagePanel } from "./triage-panel";
+import { CancelJobPanel } from "./cancel-job-panel";
 import type { JobDetailJson } from "./types";
 
 const TABS = [
@@ -46,7 +47,7 @@ function profileBands(detail: JobDetailJson): Band[] {
   );
 }
 
-export function JobWorkspace({ jobId }: { jobId: string }) {
+export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canCancel?: boolean }) {
   const q = useQuery({ queryKey: benchKeys.job(jobId), queryFn: () => api<JobDetailJson>(`/api/bench/jobs/${jobId}`) });
   const [tab, setTab] = useState<TabId | null>(null);
   const tabRefs = useRef<Record<string, HTMLButtonElement | null>>({});
@@ -118,6 +119,10 @@ export function JobWorkspace({ jobId }: { jobId: string }) {
         {current === "alignment" ? <AlignmentCalculator bands={profileBands(d)} hotChassis={d.set.kind === "tube-acdc"} /> : null}
         {current === "completion" ? <CompletionPanel detail={d} /> : null}
       </div>
+
+      {canCancel && (SHOP_CANCELLABLE.includes(d.job.state) || d.job.state === "cancelled") ? (
+        <CancelJobPanel jobId={jobId} cancelled={d.job.state === "cancelled"} />
+      ) : null}
 
       <details className="card p-3 text-sm">
         <summary className="cursor-pointer font-semibold">History</summary>

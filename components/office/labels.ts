@@ -45,10 +45,12 @@ export const PAYMENT_STATUS_LABEL = {
   paid: { text: "Received", icon: "✓" },
   failed: { text: "Failed", icon: "✕" },
   expired: { text: "Expired", icon: "⌛" },
+  duplicate: { text: "Duplicate charge — owed back", icon: "⧉" },
 } as const;
 
 export const REFUND_STATUS_LABEL = {
   requested: { text: "Waiting for the processor", icon: "◔" },
+  pending: { text: "Pending — outcome not known yet", icon: "⧗" },
   succeeded: { text: "Refunded", icon: "✓" },
   failed: { text: "Failed — nothing refunded", icon: "✕" },
 } as const;

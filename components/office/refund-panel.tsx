@@ -6,6 +6,7 @@ import { useState } from "react";
 import { useForm } from "react-hook-form";
 import { describedBy } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
+import { TableScroll } from "@/components/ui/table-scroll";
 import type { getPaymentForOffice } from "@/db/queries/office";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { refundFormSchema, type RefundFormValues } from "@/lib/validation/office";
@@ -15,6 +16,10 @@ import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL, REFUND_STATUS_LABEL } from "./labe
 import { officeKeys } from "@/lib/client/office-query-keys";
 
 export type PaymentDetail = Jsonify<NonNullable<Awaited<ReturnType<typeof getPaymentForOffice>>>>;
+type RefundAnswer = { refundId: string; amountMinor: number; status: keyof typeof REFUND_STATUS_LABEL };
+
+// A refund asked for and not settled either way yet.
+const OPEN = new Set<string>(["requested", "pending"]);
 
 export function RefundPanel({ initial, currency }: { initial: PaymentDetail; currency: Currency }) {
   const queryClient = useQueryClient();
@@ -29,8 +34,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
     refetchInterval: (q) => {
       const refunds = q.state.data?.refunds ?? [];
       const waiting =
-        refunds.some((r) => r.status === "requested") ||
-        (awaiting !== null && !refunds.some((r) => r.id === awaiting && r.status !== "requested"));
+        refunds.some((r) => OPEN.has(r.status)) || (awaiting !== null && !refunds.some((r) => r.id === awaiting && !OPEN.has(r.status)));
       return waiting ? 1500 : false;
     },
     refetchIntervalInBackground: true,
@@ -39,7 +43,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
   // A refund cannot be undone: the form asks, then this names what will happen and waits for a yes.
   const [confirming, setConfirming] = useState<RefundFormValues | null>(null);
   const left = payment.amountMinor - payment.refundedMinor - payment.inFlightMinor;
-  const refundable = payment.status === "paid" && left > 0;
+  const refundable = (payment.status === "paid" || payment.status === "duplicate") && left > 0;
 
   const { register, handleSubmit, formState, setError, reset } = useForm<RefundFormValues>({
     resolver: zodResolver(refundFormSchema),
@@ -49,16 +53,23 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
 
   const refund = useMutation({
     mutationFn: (values: RefundFormValues) =>
-      officeFetch<{ refundId: string; amountMinor: number }>(`/api/office/payments/${payment.id}/refunds`, {
+      officeFetch<RefundAnswer>(`/api/office/payments/${payment.id}/refunds`, {
         method: "POST",
         json: values,
       }),
     onSuccess: (r) => {
       setAwaiting(r.refundId);
-      setOutcome({
-        tone: "success",
-        text: `Refund of ${formatMoney(r.amountMinor, currency)} sent to the processor. It shows as refunded once the processor confirms it.`,
-      });
+      setOutcome(
+        r.status === "pending"
+          ? {
+              tone: "error",
+              text: `The processor did not answer in time about the refund of ${formatMoney(r.amountMinor, currency)}. It is pending: it may already have been made, so do not refund it again. Bandedge checks with the processor and shows the outcome here.`,
+            }
+          : {
+              tone: "success",
+              text: `Refund of ${formatMoney(r.amountMinor, currency)} sent to the processor. It shows as refunded once the processor confirms it.`,
+            },
+      );
       reset({ amount: "", reason: "" });
     },
     onError: (e) => {
@@ -75,6 +86,19 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
       void queryClient.invalidateQueries({ queryKey: key, exact: true });
       void queryClient.invalidateQueries({ queryKey: officeKeys.payments(), exact: true });
     },
+  });
+
+  // Reads an open refund back from the processor (or asks again with the same idempotency key).
+  const check = useMutation({
+    mutationFn: (refundId: string) => officeFetch<RefundAnswer>(`/api/office/refunds/${refundId}/check`, { method: "POST" }),
+    onSuccess: (r) =>
+      setOutcome(
+        OPEN.has(r.status)
+          ? { tone: "error", text: "The processor has not settled this refund yet. It stays pending; Bandedge keeps checking." }
+          : { tone: "success", text: `The processor says: ${REFUND_STATUS_LABEL[r.status].text.toLowerCase()}.` },
+      ),
+    onError: (e) => setOutcome({ tone: "error", text: e instanceof Error ? e.message : "The processor could not be asked. Try again." }),
+    onSettled: () => void queryClient.invalidateQueries({ queryKey: key, exact: true }),
   });
 
   const status = PAYMENT_STATUS_LABEL[payment.status];
@@ -121,41 +145,53 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
           </dl>
         </section>
 
-        <section aria-labelledby="refund-history" className="card overflow-x-auto p-5">
+        <section aria-labelledby="refund-history" className="card p-5">
           <h2 id="refund-history" className="mb-2 text-xl font-semibold">
             Refunds
           </h2>
           {payment.refunds.length === 0 ? (
             <p className="text-sm text-bakelite-soft">No refunds on this payment.</p>
           ) : (
-            <table className="dense-table">
-              <thead>
-                <tr>
-                  <th scope="col">Asked</th>
-                  <th scope="col" className="text-right">
-                    Amount
-                  </th>
-                  <th scope="col">Status</th>
-                  <th scope="col">Reason</th>
-                  <th scope="col">By</th>
-                </tr>
-              </thead>
-              <tbody>
-                {payment.refunds.map((r) => (
-                  <tr key={r.id}>
-                    <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
-                    <td className="figure whitespace-nowrap text-right">{formatMoney(r.amountMinor, currency)}</td>
-                    <td>
-                      <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
-                      {REFUND_STATUS_LABEL[r.status].text}
-                      {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt)}</span> : null}
-                    </td>
-                    <td className="max-w-xs whitespace-pre-wrap break-words">{r.reason}</td>
-                    <td>{r.createdByName ?? "—"}</td>
+            <TableScroll label="Refunds">
+              <table className="dense-table">
+                <thead>
+                  <tr>
+                    <th scope="col">Asked</th>
+                    <th scope="col" className="text-right">
+                      Amount
+                    </th>
+                    <th scope="col">Status</th>
+                    <th scope="col">Reason</th>
+                    <th scope="col">By</th>
                   </tr>
-                ))}
-              </tbody>
-            </table>
+                </thead>
+                <tbody>
+                  {payment.refunds.map((r) => (
+                    <tr key={r.id}>
+                      <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
+                      <td className="figure whitespace-nowrap text-right">{formatMoney(r.amountMinor, currency)}</td>
+                      <td>
+                        <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
+                        {REFUND_STATUS_LABEL[r.status].text}
+                        {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt)}</span> : null}
+                        {r.status === "pending" ? (
+                          <button
+                            type="button"
+                            className="btn-secondary mt-1 block text-xs"
+                            disabled={check.isPending}
+                            onClick={() => check.mutate(r.id)}
+                          >
+                            Check with the processor
+                          </button>
+                        ) : null}
+                      </td>
+                      <td className="max-w-xs whitespace-pre-wrap break-words">{r.reason}</td>
+                      <td>{r.createdByName ?? "—"}</td>
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </TableScroll>
           )}
         </section>
       </div>
@@ -245,7 +281,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
           </form>
         ) : (
           <p className="mt-2 text-sm text-bakelite-soft">
-            {payment.status !== "paid"
+            {payment.status !== "paid" && payment.status !== "duplicate"
               ? "Only a received payment can be refunded."
               : "Everything paid has been refunded or is waiting for the processor."}
           </p>

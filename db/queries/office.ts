@@ -1,6 +1,6 @@
-import { and, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Database } from "@/db";
-import { estimates, jobs, payments, radioSets, refunds, shopSettings, user } from "@/db/schema";
+import { emailOutbox, estimates, jobs, payments, radioSets, refunds, shopSettings, user } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 
 // ─── Shop settings ───
@@ -58,7 +58,7 @@ export async function updateShopSettingsIfVersion(
 // ─── Payments and refunds ───
 
 const refundSums = {
-  inFlightMinor: sql<number>`coalesce((select sum(r.amount_minor) from refund r where r.payment_id = ${payments.id} and r.status = 'requested'), 0)::int`,
+  inFlightMinor: sql<number>`coalesce((select sum(r.amount_minor) from refund r where r.payment_id = ${payments.id} and r.status in ('requested','pending')), 0)::int`,
   refundCount: sql<number>`(select count(*) from refund r where r.payment_id = ${payments.id})::int`,
 };
 
@@ -84,7 +84,11 @@ export const PAYMENTS_PAGE_SIZE = 30;
 
 export async function listPaymentsForOffice({ page = 1, status }: { page?: number; status?: "paid" | "open" | "all" }) {
   const where =
-    status === "paid" ? eq(payments.status, "paid") : status === "open" ? sql`${payments.status} in ('open','processing')` : undefined;
+    status === "paid"
+      ? sql`${payments.status} in ('paid','duplicate')`
+      : status === "open"
+        ? sql`${payments.status} in ('open','processing')`
+        : undefined;
   const rows = await db
     .select(paymentColumns)
     .from(payments)
@@ -132,7 +136,7 @@ export async function lockPaymentForRefund(ctx: TxContext, { paymentId }: { paym
   const [sums] = await ctx.tx
     .select({ inFlightMinor: sql<number>`coalesce(sum(${refunds.amountMinor}), 0)::int` })
     .from(refunds)
-    .where(and(eq(refunds.paymentId, paymentId), eq(refunds.status, "requested")));
+    .where(and(eq(refunds.paymentId, paymentId), inArray(refunds.status, ["requested", "pending"])));
   return { payment: row, inFlightMinor: sums?.inFlightMinor ?? 0 };
 }
 
@@ -148,18 +152,56 @@ export async function insertRefund(
 }
 
 /** Records the processor's id for a refund still waiting for its webhook (the webhook may have come first). */
-export async function setRefundProcessorId({ refundId, processorRefundId }: { refundId: string; processorRefundId: string }) {
-  await db
+export async function setRefundProcessorId(
+  ctx: TxContext,
+  { refundId, processorRefundId }: { refundId: string; processorRefundId: string },
+) {
+  await ctx.tx
     .update(refunds)
     .set({ processorRefundId })
     .where(and(eq(refunds.id, refundId), sql`${refunds.processorRefundId} is null`));
 }
 
-/** Marks a refund failed only while it is still requested: a webhook that already settled it wins. */
-export async function markRefundFailed(ctx: TxContext, { refundId }: { refundId: string }) {
+/** Locks a refund row that may still change: one settlement at a time, whoever brings the news. */
+export async function lockRefund(ctx: TxContext, { refundId }: { refundId: string }) {
+  const [row] = await ctx.tx.select().from(refunds).where(eq(refunds.id, refundId)).for("update").limit(1);
+  return row ?? null;
+}
+
+/**
+ * Settles a refund that is still open (requested or pending) and, when it succeeded, raises the payment's
+ * refunded figure in the same statement set, so the refund row and the payment never tell two stories.
+ * Null when it was already settled.
+ */
+export async function settleRefundRow(
+  ctx: TxContext,
+  { refundId, status, processorRefundId }: { refundId: string; status: "succeeded" | "failed"; processorRefundId: string | null },
+) {
   const [row] = await ctx.tx
     .update(refunds)
-    .set({ status: "failed", settledAt: new Date() })
+    .set({ status, settledAt: new Date(), ...(processorRefundId ? { processorRefundId } : {}) })
+    .where(and(eq(refunds.id, refundId), inArray(refunds.status, ["requested", "pending"])))
+    .returning();
+  if (!row) return null;
+  if (status === "succeeded") {
+    await ctx.tx
+      .update(payments)
+      .set({
+        refundedMinor: sql`greatest(${payments.refundedMinor}, (select coalesce(sum(r.amount_minor), 0) from refund r where r.payment_id = ${payments.id} and r.status = 'succeeded'))::int`,
+      })
+      .where(eq(payments.id, row.paymentId));
+  }
+  return row;
+}
+
+/** Marks a requested refund pending: the processor's answer is not known (or it answered "pending"). */
+export async function markRefundPending(
+  ctx: TxContext,
+  { refundId, processorRefundId }: { refundId: string; processorRefundId: string | null },
+) {
+  const [row] = await ctx.tx
+    .update(refunds)
+    .set({ status: "pending", ...(processorRefundId ? { processorRefundId } : {}) })
     .where(and(eq(refunds.id, refundId), eq(refunds.status, "requested")))
     .returning();
   return row ?? null;
@@ -167,6 +209,61 @@ export async function markRefundFailed(ctx: TxContext, { refundId }: { refundId:
 
 export async function getRefundForOffice({ refundId }: { refundId: string }) {
   const [row] = await db.select().from(refunds).where(eq(refunds.id, refundId)).limit(1);
+  return row ?? null;
+}
+
+export async function getPaymentRowForOffice({ paymentId }: { paymentId: string }) {
+  const [row] = await db.select().from(payments).where(eq(payments.id, paymentId)).limit(1);
+  return row ?? null;
+}
+
+/** Refunds not settled yet, oldest first, with what the office needs to find them. */
+export async function listOpenRefundsForOffice({ olderThanSeconds = 0, limit = 50 }: { olderThanSeconds?: number; limit?: number } = {}) {
+  return db
+    .select({
+      id: refunds.id,
+      paymentId: refunds.paymentId,
+      amountMinor: refunds.amountMinor,
+      status: refunds.status,
+      reason: refunds.reason,
+      createdAt: refunds.createdAt,
+      jobNumber: jobs.number,
+      customerName: user.name,
+    })
+    .from(refunds)
+    .innerJoin(payments, eq(payments.id, refunds.paymentId))
+    .innerJoin(jobs, eq(jobs.id, payments.jobId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .where(
+      and(
+        inArray(refunds.status, ["requested", "pending"]),
+        sql`${refunds.createdAt} <= now() - make_interval(secs => ${olderThanSeconds})`,
+      ),
+    )
+    .orderBy(asc(refunds.createdAt))
+    .limit(limit);
+}
+
+// ─── E-mail that could not be sent ───
+
+export async function listFailedEmailsForOffice({ limit = 50 }: { limit?: number } = {}) {
+  return db
+    .select({
+      id: emailOutbox.id,
+      toAddress: emailOutbox.toAddress,
+      template: emailOutbox.template,
+      attempts: emailOutbox.attempts,
+      lastError: emailOutbox.lastError,
+      createdAt: emailOutbox.createdAt,
+    })
+    .from(emailOutbox)
+    .where(eq(emailOutbox.status, "failed"))
+    .orderBy(desc(emailOutbox.createdAt))
+    .limit(limit);
+}
+
+export async function getOutboxRowForOffice({ outboxId }: { outboxId: string }) {
+  const [row] = await db.select().from(emailOutbox).where(eq(emailOutbox.id, outboxId)).limit(1);
   return row ?? null;
 }
 
@@ -188,7 +285,7 @@ export async function officeOverviewFigures() {
       (select count(*) from job where state = 'on_bench')::int as on_bench,
       (select count(*) from job where state = 'balance_due')::int as balance_due,
       (select count(*) from "user" where role = 'technician' and coalesce(banned, false) = false)::int as technicians,
-      (select count(*) from refund where status = 'requested')::int as refunds_in_flight,
+      (select count(*) from refund where status in ('requested','pending'))::int as refunds_in_flight,
       (select coalesce(sum(amount_minor), 0) from payment where status = 'paid' and paid_at >= date_trunc('month', now()))::int as paid_this_month
   `,
     )

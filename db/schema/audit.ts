@@ -35,6 +35,8 @@ export const emailOutbox = pgTable(
     providerId: text("provider_id"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
     sentAt: timestamp("sent_at", { withTimezone: true }),
+    /** When the office or the sweeper last put the message back in the queue. */
+    queuedAt: timestamp("queued_at", { withTimezone: true }),
   },
   (t) => [index("email_outbox_status_idx").on(t.status)],
 );

@@ -27,6 +27,10 @@ export const PERMISSIONS = {
   "settings.edit": ["owner"],
   "staff.manage": ["owner"],
   "payment.refund": ["owner"],
+  "email.resend": ["owner"],
+  // Before the bench: the set owner withdraws a quote request, the shop owner cancels a job (money goes back).
+  "quote.withdraw": ["customer"],
+  "job.cancel": ["owner"],
   "audit.read": ["owner"],
   "reports.read": ["owner"],
   "certificate.revoke": ["owner"],

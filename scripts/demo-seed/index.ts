@@ -4,6 +4,7 @@ import { transaction } from "@/db/transaction";
 import { hashPassword } from "@/lib/server/password";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import { seedDemoJobs } from "./jobs";
+import { seedDemoRefund } from "./refunds";
 import { DEMO_SHOP, DEMO_USERS } from "./users";
 
 export async function seedDemo(): Promise<string> {
@@ -33,6 +34,7 @@ export async function seedDemo(): Promise<string> {
       .values({ id: "shop", ...DEMO_SHOP, policy: defaultShopPolicy as unknown as Record<string, unknown> })
       .onConflictDoNothing();
     const jobs = await seedDemoJobs(ctx);
-    return `${createdUsers} users created, ${jobs} jobs created`;
+    const refunds = await seedDemoRefund(ctx);
+    return `${createdUsers} users created, ${jobs} jobs created, ${refunds} refunds recorded`;
   });
 }

@@ -29,6 +29,10 @@ if (file && existsSync(file)) {
   }
 }
 let failNext = 0;
+// Per-address faults for the tests: "reject" answers 422 as the provider does for an address it will not take;
+// "fail" answers 500 (a passing outage) for the next `count` messages to that address.
+const rejected = new Set<string>();
+const failing = new Map<string, number>();
 
 function persist() {
   if (!file) return;
@@ -88,6 +92,14 @@ const server = createServer(async (req, res) => {
         const body = (await readBody(req)) as Record<string, unknown>;
         if (!body.to || !body.subject)
           return send(res, 422, { name: "validation_error", message: "to and subject are required", statusCode: 422 });
+        const to = toList(body.to).map((t) => t.toLowerCase());
+        const bad = to.find((t) => rejected.has(t));
+        if (bad) return send(res, 422, { name: "validation_error", message: `Invalid \`to\` field: ${bad}`, statusCode: 422 });
+        const down = to.find((t) => (failing.get(t) ?? 0) > 0);
+        if (down) {
+          failing.set(down, failing.get(down)! - 1);
+          return send(res, 500, { name: "internal_server_error", message: "stand-in asked to fail for this address", statusCode: 500 });
+        }
         return send(res, 200, { id: accept(body, key).id });
       }
       if (req.method === "POST" && url.pathname === "/emails/batch") {
@@ -108,6 +120,16 @@ const server = createServer(async (req, res) => {
     if (req.method === "POST" && url.pathname === "/control/fail-next") {
       failNext = Number(url.searchParams.get("count") ?? 1);
       return send(res, 200, { failNext });
+    }
+    if (req.method === "POST" && url.pathname === "/control/reject") {
+      const to = (url.searchParams.get("to") ?? "").toLowerCase();
+      if (url.searchParams.get("off") === "1") rejected.delete(to);
+      else rejected.add(to);
+      return send(res, 200, { rejected: [...rejected] });
+    }
+    if (req.method === "POST" && url.pathname === "/control/fail-for") {
+      failing.set((url.searchParams.get("to") ?? "").toLowerCase(), Number(url.searchParams.get("count") ?? 1));
+      return send(res, 200, { ok: true });
     }
     if (url.pathname === "/health") return send(res, 200, { ok: true });
     send(res, 404, { name: "not_found", message: "Not found", statusCode: 404 });

@@ -1,6 +1,6 @@
 // Local stand-in for the part of the Stripe API Bandedge uses through the stripe SDK:
 //   POST /v1/checkout/sessions, GET /v1/checkout/sessions/:id, POST /v1/checkout/sessions/:id/expire,
-//   GET /v1/payment_intents/:id, POST /v1/refunds,
+//   GET /v1/payment_intents/:id, POST /v1/refunds, GET /v1/refunds/:id, GET /v1/refunds?payment_intent=,
 // a small hosted checkout page (/checkout/:id) where the payer succeeds, is declined, or pays with a delayed
 // confirmation, and signed webhook deliveries to the app with retries and back-off on non-2xx answers.
 // Control endpoints (/control/*) let the tests hold deliveries, read the signed events and make the API fail.
@@ -72,7 +72,9 @@ function persist() {
 }
 
 // API faults for the tests, scoped to one job so parallel tests do not see each other's faults.
-type Fault = { mode: "error" | "timeout"; remaining: number; match: string };
+// "lost-reply" does the work (and sends its events, held back if asked) but never answers in time, as when
+// the processor made a refund and the answer was lost on the way back.
+type Fault = { mode: "error" | "timeout" | "lost-reply"; remaining: number; match: string; hold: boolean };
 let faults: Fault[] = [];
 
 const id = (prefix: string) => `${prefix}_test_${randomBytes(12).toString("hex")}`;
@@ -344,7 +346,7 @@ function expire(session: Session, held = false): void {
   makeEvent("checkout.session.expired", { ...session }, session.id, held);
 }
 
-function createRefund(params: Obj): { status: number; body: Json } {
+function createRefund(params: Obj, held = false): { status: number; body: Json } {
   const piId = str(params.payment_intent);
   const intent = piId ? state.intents[piId] : undefined;
   if (!intent)
@@ -389,8 +391,8 @@ function createRefund(params: Obj): { status: number; body: Json } {
   refunds.data = data;
   refunds.total_count = data.length;
   persist();
-  makeEvent("refund.created", { ...refund }, null, false);
-  makeEvent("charge.refunded", JSON.parse(JSON.stringify(charge)) as Obj, null, false);
+  makeEvent("refund.created", { ...refund }, null, held);
+  makeEvent("charge.refunded", JSON.parse(JSON.stringify(charge)) as Obj, null, held);
   return { status: 200, body: refund };
 }
 
@@ -415,11 +417,13 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL) {
   }
   const params = parseForm(raw);
   const key = typeof req.headers["idempotency-key"] === "string" ? req.headers["idempotency-key"] : undefined;
+  const lost = fault?.mode === "lost-reply";
   const replay = (result: { status: number; body: Json }) => {
     if (key && req.method === "POST") {
       state.idempotency[key] = result;
       persist();
     }
+    if (lost) return void setTimeout(() => res.destroy(), 30_000); // the work is done; the answer never arrives
     send(res, result.status, result.body);
   };
   if (key && req.method === "POST" && state.idempotency[key]) {
@@ -428,6 +432,7 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL) {
       seen.body && typeof seen.body === "object" && !Array.isArray(seen.body) && typeof seen.body.id === "string"
         ? (state.sessions[seen.body.id] ?? state.refunds[seen.body.id])
         : undefined;
+    if (lost) return void setTimeout(() => res.destroy(), 30_000);
     return send(res, seen.status, fresh ?? seen.body, { "idempotent-replayed": "true" });
   }
 
@@ -447,7 +452,18 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL) {
     const intent = state.intents[parts[2]];
     return intent ? send(res, 200, intent) : stripeError(res, 404, `No such payment_intent: '${parts[2]}'`);
   }
-  if (req.method === "POST" && url.pathname === "/v1/refunds") return replay(createRefund(params));
+  if (req.method === "POST" && url.pathname === "/v1/refunds") return replay(createRefund(params, fault?.hold ?? false));
+  if (req.method === "GET" && url.pathname === "/v1/refunds") {
+    const pi = url.searchParams.get("payment_intent");
+    const data = Object.values(state.refunds)
+      .filter((r) => !pi || r.payment_intent === pi)
+      .sort((a, b) => Number(b.created) - Number(a.created));
+    return send(res, 200, { object: "list", data, has_more: false, url: "/v1/refunds" });
+  }
+  if (req.method === "GET" && parts[1] === "refunds" && parts[2]) {
+    const refund = state.refunds[parts[2]];
+    return refund ? send(res, 200, refund) : stripeError(res, 404, `No such refund: '${parts[2]}'`, "id");
+  }
   return stripeError(res, 404, `Unrecognized request URL (${req.method}: ${url.pathname}).`);
 }
 
@@ -527,10 +543,11 @@ const server = createServer(async (req, res) => {
       return send(res, 200, { data: events as unknown as Json });
     }
     if (req.method === "POST" && url.pathname === "/control/fail-next") {
-      const mode = url.searchParams.get("mode") === "timeout" ? "timeout" : "error";
+      const asked = url.searchParams.get("mode");
+      const mode = asked === "timeout" || asked === "lost-reply" ? asked : "error";
       const match = url.searchParams.get("match") ?? "";
       if (!match) return send(res, 400, { error: "match is required" });
-      faults.push({ mode, remaining: Number(url.searchParams.get("count") ?? 1), match });
+      faults.push({ mode, remaining: Number(url.searchParams.get("count") ?? 1), match, hold: url.searchParams.get("deliver") === "hold" });
       return send(res, 200, { ok: true });
     }
     const exp = /^\/control\/sessions\/([A-Za-z0-9_]+)\/expire$/.exec(url.pathname);

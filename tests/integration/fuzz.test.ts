@@ -62,6 +62,8 @@ const STATE_FOR: Record<string, string> = {
   "POST /api/bench/jobs/[id]/complete": "final_checks",
   "POST /api/bench/jobs/[id]/return": "paid_in_full",
   "POST /api/portal/jobs/[id]/messages": "awaiting_owner",
+  "POST /api/portal/jobs/[id]/withdraw": "requested",
+  "POST /api/bench/jobs/[id]/cancel": "estimate_sent",
 };
 const ESTIMATE_ROUTES = new Set([
   "POST /api/portal/jobs/[id]/estimate/approve",
@@ -101,6 +103,8 @@ async function ownRows(): Promise<OwnRows> {
     paymentA: pay!.id,
     sessionA,
     photoA,
+    refundAny: (await sql<{ id: string }>("select id from refund order by created_at limit 1"))[0]!.id,
+    emailAny: (await sql<{ id: string }>("select id from email_outbox order by created_at limit 1"))[0]!.id,
   };
   for (const entry of ROUTES) {
     const k = key(entry);
@@ -380,6 +384,13 @@ const SHAPES: Record<string, Shape> = {
   "POST /api/office/payments/[paymentId]/refunds": {
     fields: ["amount", "reason"],
     base: () => ({ amount: "10.00", reason: "Part not needed after all." }),
+  },
+  "POST /api/office/refunds/[refundId]/check": { fields: ["refundId"] },
+  "POST /api/office/emails/[emailId]/resend": { fields: ["emailId"] },
+  "POST /api/portal/jobs/[id]/withdraw": { fields: ["reason"], base: () => ({ reason: "Found the fault myself." }) },
+  "POST /api/bench/jobs/[id]/cancel": {
+    fields: ["reason", "refund"],
+    base: () => ({ reason: "Parts are no longer made.", refund: false }),
   },
 };
 

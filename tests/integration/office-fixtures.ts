@@ -156,3 +156,80 @@ export async function waitFor<T>(
     await new Promise((r) => setTimeout(r, 200));
   }
 }
+
+/** Makes the stand-in act on the next `count` calls matching `match` but never answer them (a lost reply). */
+export async function loseNextProcessorReplies(match: string, count: number, { holdEvents = false } = {}): Promise<void> {
+  const params = new URLSearchParams({ match, count: String(count), mode: "lost-reply", ...(holdEvents ? { deliver: "hold" } : {}) });
+  const res = await fetch(new URL(`/control/fail-next?${params}`, testEnv.stripeUrl), { method: "POST" });
+  if (!res.ok) throw new Error(`stand-in fail-next: ${res.status}`);
+}
+
+/** The refunds the stand-in (the processor) has made on a payment intent. */
+export async function processorRefunds(
+  paymentIntentId: string,
+): Promise<{ id: string; amount: number; metadata: Record<string, string> }[]> {
+  const res = await standIn(`/v1/refunds?${new URLSearchParams({ payment_intent: paymentIntentId })}`);
+  if (!res.ok) throw new Error(`stand-in refunds: ${res.status}`);
+  return ((await res.json()) as { data: { id: string; amount: number; metadata: Record<string, string> }[] }).data;
+}
+
+/** Delivers the stand-in's held events of one type whose payload mentions `contains`; returns how many. */
+export async function deliverHeldEvents(type: string, contains: string): Promise<number> {
+  const res = await fetch(new URL(`/control/events?${new URLSearchParams({ type })}`, testEnv.stripeUrl));
+  const events = ((await res.json()) as { data: { id: string; payload: string; delivered: boolean }[] }).data.filter(
+    (e) => !e.delivered && e.payload.includes(contains),
+  );
+  for (const e of events) await fetch(new URL(`/control/events/${e.id}/deliver`, testEnv.stripeUrl), { method: "POST" });
+  return events.length;
+}
+
+/**
+ * A second checkout paid for a deposit that is already paid (a double payment): the stand-in's completion
+ * event is delivered to the app, which records the payment as a duplicate charge.
+ */
+export async function duplicateCharge(): Promise<{ paymentId: string; jobId: string; firstPaymentId: string; paymentIntentId: string }> {
+  const first = await paidPaymentWithCharge(2500);
+  const [rev] = await sql<{ revision_id: string }>(`select revision_id from payment where id = $1`, [first.paymentId]);
+  const form = new URLSearchParams({
+    mode: "payment",
+    success_url: `${testEnv.appUrl}/portal`,
+    cancel_url: `${testEnv.appUrl}/portal`,
+    "line_items[0][quantity]": "1",
+    "line_items[0][price_data][currency]": "usd",
+    "line_items[0][price_data][unit_amount]": "2500",
+    "line_items[0][price_data][product_data][name]": "Deposit, paid twice",
+    "metadata[jobId]": first.jobId,
+    "metadata[revisionId]": rev!.revision_id,
+    "metadata[purpose]": "deposit",
+  });
+  const created = await standIn("/v1/checkout/sessions", {
+    method: "POST",
+    body: form,
+    headers: { "content-type": "application/x-www-form-urlencoded" },
+  });
+  const session = (await created.json()) as { id: string };
+  const [p] = await sql<{ id: string }>(
+    `insert into payment (job_id, revision_id, purpose, amount_minor, currency, status, checkout_session_id, idempotency_key)
+     values ($1, $2, 'deposit', 2500, 'usd', 'open', $3, $4) returning id`,
+    [first.jobId, rev!.revision_id, session.id, `fixture-${randomUUID()}`],
+  );
+  const paid = await fetch(new URL(`/checkout/${session.id}/pay`, testEnv.stripeUrl), {
+    method: "POST",
+    body: new URLSearchParams({ outcome: "succeed", deliver: "hold" }),
+    headers: { "content-type": "application/x-www-form-urlencoded" },
+    redirect: "manual",
+  });
+  if (paid.status !== 303) throw new Error(`stand-in pay: ${paid.status}`);
+  await deliverHeldEvents("checkout.session.completed", session.id);
+  const after = await waitFor(
+    async () => {
+      const [row] = await sql<{ status: string; payment_intent_id: string }>(
+        `select status, payment_intent_id from payment where id = $1`,
+        [p!.id],
+      );
+      return row?.status === "duplicate" ? row : null;
+    },
+    { what: "the second payment to be recorded as a duplicate charge" },
+  );
+  return { paymentId: p!.id, jobId: first.jobId, firstPaymentId: first.paymentId, paymentIntentId: after.payment_intent_id };
+}

@@ -1,7 +1,10 @@
 import type { Metadata } from "next";
 import Link from "next/link";
-import { formatMoney } from "@/components/office/format";
-import { officeOverviewFigures } from "@/db/queries/office";
+import { FailedMailList } from "@/components/office/failed-mail-list";
+import { formatMoney, formatWhen } from "@/components/office/format";
+import { REFUND_STATUS_LABEL } from "@/components/office/labels";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { listFailedEmailsForOffice, listOpenRefundsForOffice, officeOverviewFigures } from "@/db/queries/office";
 import { getShop } from "@/lib/server/services/shop";
 import { requirePermission } from "@/lib/server/session";
 
@@ -9,7 +12,12 @@ export const metadata: Metadata = { title: "Office" };
 
 export default async function OfficePage() {
   const viewer = await requirePermission("office.use", "/office");
-  const [figures, shop] = await Promise.all([officeOverviewFigures(), getShop()]);
+  const [figures, shop, openRefunds, failedMail] = await Promise.all([
+    officeOverviewFigures(),
+    getShop(),
+    listOpenRefundsForOffice(),
+    listFailedEmailsForOffice(),
+  ]);
   const currency = shop.policy.currency;
   const stats = [
     { label: "Open jobs", value: String(figures.open_jobs), href: "/bench" },
@@ -53,6 +61,36 @@ export default async function OfficePage() {
             </div>
           ))}
         </dl>
+      </section>
+      <section aria-labelledby="open-refunds" className="card p-5">
+        <h2 id="open-refunds" className="text-xl font-semibold">
+          Refunds not settled yet
+        </h2>
+        <p className="mb-2 text-sm text-bakelite-soft">
+          A pending refund may already have been made: do not refund it again. Bandedge keeps asking the processor; open the payment to
+          check now.
+        </p>
+        {openRefunds.length === 0 ? (
+          <p className="text-sm text-bakelite-soft">None: every refund asked for has been settled.</p>
+        ) : (
+          <ul className="space-y-1 text-sm" data-testid="open-refunds">
+            {openRefunds.map((r) => (
+              <li key={r.id}>
+                <Link href={`/office/payments/${r.paymentId}`}>
+                  {formatMoney(r.amountMinor, currency)} for job {jobNumber(r.jobNumber)} ({r.customerName})
+                </Link>{" "}
+                — <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
+                {REFUND_STATUS_LABEL[r.status].text}, asked {formatWhen(r.createdAt)}
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+      <section aria-labelledby="failed-mail" className="card p-5">
+        <h2 id="failed-mail" className="mb-2 text-xl font-semibold">
+          E-mail that could not be sent
+        </h2>
+        <FailedMailList rows={failedMail.map((m) => ({ ...m, createdAt: m.createdAt.toISOString() }))} />
       </section>
       <section aria-labelledby="sections">
         <h2 id="sections" className="sr-only">

@@ -23,11 +23,12 @@ export type Actor = "customer" | "staff" | "system";
 // Every legal move of a job. The server refuses anything not listed here (409) and leaves the job as it was.
 export const TRANSITIONS: Record<JobState, Partial<Record<JobState, Actor>>> = {
   requested: { in_triage: "staff", cancelled: "customer" },
-  in_triage: { awaiting_owner: "staff", estimate_sent: "staff", declined_by_shop: "staff" },
-  awaiting_owner: { in_triage: "customer" },
-  estimate_sent: { approved: "customer", declined_by_owner: "customer", estimate_sent: "staff" },
-  approved: { deposit_paid: "system", estimate_sent: "staff" },
-  deposit_paid: { on_bench: "staff" },
+  // Until the set is on the bench the shop may call the job off (cancelled); money held goes back.
+  in_triage: { awaiting_owner: "staff", estimate_sent: "staff", declined_by_shop: "staff", cancelled: "staff" },
+  awaiting_owner: { in_triage: "customer", cancelled: "staff" },
+  estimate_sent: { approved: "customer", declined_by_owner: "customer", estimate_sent: "staff", cancelled: "staff" },
+  approved: { deposit_paid: "system", estimate_sent: "staff", cancelled: "staff" },
+  deposit_paid: { on_bench: "staff", cancelled: "staff" },
   // A scope change while the set is on the bench keeps it there: the owner approves the revision (back to the
   // bench), declines it and keeps the approved scope (back to the bench), or declines it and has the set
   // returned as is (the work stops and what was paid settles it).
@@ -46,6 +47,9 @@ export const TRANSITIONS: Record<JobState, Partial<Record<JobState, Actor>>> = {
 export function canTransition(from: JobState, to: JobState, actor: Actor): boolean {
   return TRANSITIONS[from]?.[to] === actor;
 }
+
+/** The states from which the shop may still call a job off (the set is not on the bench yet). */
+export const SHOP_CANCELLABLE: readonly JobState[] = JOB_STATES.filter((s) => TRANSITIONS[s].cancelled === "staff");
 
 export function isTerminal(state: JobState): boolean {
   return Object.keys(TRANSITIONS[state]).length === 0;

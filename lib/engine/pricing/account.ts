@@ -7,7 +7,10 @@ import { checkAmount } from "./money";
 
 export type AccountPayment = {
   amountMinor: number;
-  /** Only "paid" payments count; open, failed and expired sessions took nothing. */
+  /**
+   * "paid" counts, and so does "duplicate" (a second charge for something already paid: the money is held
+   * and owed back until refunded); open, failed and expired sessions took nothing.
+   */
   status: string;
 };
 
@@ -20,7 +23,7 @@ export type AccountRefund = {
 export type Account = {
   /** The approved revision's total (zero before any approval). */
   totalMinor: number;
-  /** Sum of paid payments. */
+  /** Sum of paid payments, duplicate charges included. */
   paidMinor: number;
   /** Refunds the processor confirmed. */
   refundedMinor: number;
@@ -35,6 +38,7 @@ export type Account = {
 };
 
 const PENDING = new Set(["requested", "pending"]);
+const HELD = new Set(["paid", "duplicate"]);
 
 export function accountOf({
   totalMinor,
@@ -47,7 +51,7 @@ export function accountOf({
 }): Account {
   const total = checkAmount(totalMinor, "totalMinor");
   let paid = 0;
-  for (const p of payments) if (p.status === "paid") paid += checkAmount(p.amountMinor, "payments.amountMinor");
+  for (const p of payments) if (HELD.has(p.status)) paid += checkAmount(p.amountMinor, "payments.amountMinor");
   let refunded = 0;
   let pending = 0;
   for (const r of refunds) {

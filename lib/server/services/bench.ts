@@ -219,7 +219,9 @@ const READING_STATES: readonly JobState[] = ["on_bench", "bench_revision", "fina
 
 /** Stores one reading with its verdict against the tolerance in force; re-measuring overwrites it. */
 export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ReadingInput }) {
-  const { job, set } = await loadJob(ctx.tx, jobId);
+  // Every bench write takes the job's row lock, as completion does: a reading either lands before the
+  // completion gate reads the sheet, or waits and then finds the job no longer on the bench.
+  const { job, set } = await loadJob(ctx.tx, jobId, { lock: true });
   requireState(job, READING_STATES, "record readings");
   const { requirements } = await sheetBasis(ctx.tx, jobId, set);
   const requirement = requirements.find((r) => r.key === input.key);
@@ -271,7 +273,7 @@ export async function setTask(
   ctx: TxContext,
   { jobId, actorId, code, done }: { jobId: string; actorId: string; code: string; done: boolean },
 ) {
-  const { job } = await loadJob(ctx.tx, jobId);
+  const { job } = await loadJob(ctx.tx, jobId, { lock: true });
   requireState(job, READING_STATES, "tick checklist lines");
   const [task] = await ctx.tx
     .select()

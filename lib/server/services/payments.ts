@@ -13,6 +13,7 @@ import { jobNumber } from "@/lib/engine/jobs/states";
 import { queueEmail } from "@/lib/server/mail";
 import { stripe } from "@/lib/server/payments";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
+import { applyRefundEvent } from "@/lib/server/services/refunds";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { moneyText } from "@/lib/validation/estimate";
 
@@ -278,7 +279,7 @@ export const HANDLED_EVENTS = new Set([
 ]);
 
 // A payment only moves forward: paid never goes back, whatever order the events arrive in.
-const RANK: Record<PaymentStatus, number> = { open: 0, processing: 1, failed: 2, expired: 2, paid: 3 };
+const RANK: Record<PaymentStatus, number> = { open: 0, processing: 1, failed: 2, expired: 2, paid: 3, duplicate: 3 };
 
 export type WebhookOutcome = { outcome: string; /** The job whose payment completed: its other checkouts are stale. */ paidJobId?: string };
 
@@ -386,6 +387,7 @@ async function advance(ctx: TxContext, payment: PaymentRow, to: PaymentStatus): 
 async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: string | null): Promise<string> {
   const { tx } = ctx;
   if (payment.status === "paid") return "already-paid";
+  if (payment.status === "duplicate") return "duplicate-charge";
   const [other] = await tx
     .select({ id: payments.id })
     .from(payments)
@@ -401,7 +403,7 @@ async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: st
   if (other) {
     // A second checkout for the same thing was paid: keep the money visible to the office for a refund.
     console.error("[bandedge] a second payment arrived for an already paid revision", { paymentId: payment.id, paidId: other.id });
-    await tx.update(payments).set({ paymentIntentId }).where(eq(payments.id, payment.id));
+    await tx.update(payments).set({ status: "duplicate", paidAt: new Date(), paymentIntentId }).where(eq(payments.id, payment.id));
     await audit(ctx, {
       actorId: null,
       action: "payment.duplicate",
@@ -538,30 +540,7 @@ async function requireRefundRow(ctx: TxContext, refund: Stripe.Refund): Promise<
   if (!row) throw new AppError("unavailable", "Refund not recorded yet; deliver again later.");
 }
 
-async function settleRefund(ctx: TxContext, payment: PaymentRow, refund: Stripe.Refund): Promise<string> {
-  const refundId = refund.metadata?.refundId;
-  if (!refundId || !UUID.test(refundId)) return "refund-without-reference";
-  const [row] = await ctx.tx
-    .select()
-    .from(refunds)
-    .where(and(eq(refunds.id, refundId), eq(refunds.paymentId, payment.id)))
-    .for("update")
-    .limit(1);
-  if (!row) return "refund-unknown";
-  if (row.amountMinor !== refund.amount || refund.currency.toLowerCase() !== payment.currency.toLowerCase()) {
-    console.error("[bandedge] refund amount differs from the office's request", { refundId, asked: row.amountMinor, got: refund.amount });
-    return "refund-mismatch";
-  }
-  const status = refund.status === "succeeded" ? "succeeded" : refund.status === "failed" || refund.status === "canceled" ? "failed" : null;
-  if (!status || row.status === status || row.status !== "requested") return `refund-${row.status}`;
-  await ctx.tx.update(refunds).set({ status, processorRefundId: refund.id, settledAt: new Date() }).where(eq(refunds.id, row.id));
-  await audit(ctx, {
-    actorId: null,
-    action: `refund.${status}`,
-    entity: "refund",
-    entityId: row.id,
-    before: { status: row.status },
-    after: { status, processorRefundId: refund.id },
-  });
-  return `refund-${status}`;
+// Refund rows are settled by the refunds service, which also reads refunds back when a webhook never comes.
+function settleRefund(ctx: TxContext, payment: PaymentRow, refund: Stripe.Refund): Promise<string> {
+  return applyRefundEvent(ctx, payment.id, payment.currency, refund);
 }

@@ -1,8 +1,18 @@
 import "server-only";
 import { randomUUID } from "node:crypto";
 import Stripe from "stripe";
-import { insertRefund, lockPaymentForRefund, markRefundFailed, setRefundProcessorId } from "@/db/queries/office";
-import { transaction } from "@/db/transaction";
+import {
+  getPaymentRowForOffice,
+  getRefundForOffice,
+  insertRefund,
+  listOpenRefundsForOffice,
+  lockPaymentForRefund,
+  lockRefund,
+  markRefundPending,
+  setRefundProcessorId,
+  settleRefundRow,
+} from "@/db/queries/office";
+import { transaction, type TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { isEngineError } from "@/lib/engine/engine-error";
 import { AppError } from "@/lib/server/errors";
@@ -12,19 +22,30 @@ import { queueRefundNotice } from "@/lib/server/services/notices";
 import { getShop } from "@/lib/server/services/shop";
 import type { RefundFormValues } from "@/lib/validation/office";
 
-export type RefundRequested = { refundId: string; amountMinor: number; status: "requested" };
+export type RefundOutcome = {
+  refundId: string;
+  amountMinor: number;
+  /** requested: asked, waiting for the processor's word; pending: asked, outcome not known yet. */
+  status: "requested" | "pending" | "succeeded" | "failed";
+};
+
+/** Payments whose money the processor holds and can give back: received ones, and duplicate charges. */
+const REFUNDABLE = new Set(["paid", "duplicate"]);
 
 function money(amountMinor: number, exponent: number, code: string) {
   return `${code} ${formatMinor(amountMinor, exponent)}`;
 }
 
 /**
- * Asks the processor to refund part or all of a paid payment.
+ * Asks the processor to refund part or all of a received payment (or of a duplicate charge).
  *
  * The payment row is locked while the amount is checked and the refund row (status "requested", our own
- * idempotency key) is written, so two refunds at once can never add up to more than was paid: a requested
- * refund counts against what is left until the processor's webhook settles it. The processor call happens
- * after the commit; the refund is confirmed only by the `charge.refunded` webhook.
+ * idempotency key) is written, so two refunds at once can never add up to more than was paid: an unsettled
+ * refund counts against what is left until it is settled. The processor call happens after the commit.
+ * A clear answer settles the refund at once; a refusal marks it failed ("nothing was refunded"); no answer
+ * (a time-out, a dropped connection, a server error) leaves it pending, because the processor may have made
+ * it: the webhook, the office's "check with the processor" or the background sweep then settles it, always
+ * with the same idempotency key, so a retry can never refund twice.
  */
 export async function requestRefund({
   paymentId,
@@ -34,7 +55,7 @@ export async function requestRefund({
   paymentId: string;
   input: RefundFormValues;
   actorId: string;
-}): Promise<RefundRequested> {
+}): Promise<RefundOutcome> {
   const shop = await getShop();
   const { exponent, code } = shop.policy.currency;
   let amountMinor: number;
@@ -52,7 +73,8 @@ export async function requestRefund({
     const locked = await lockPaymentForRefund(ctx, { paymentId });
     if (!locked) throw new AppError("not_found", "That payment was not found.");
     const { payment: p, inFlightMinor } = locked;
-    if (p.status !== "paid" || !p.paymentIntentId) throw new AppError("conflict", "Only a payment that has been received can be refunded.");
+    if (!REFUNDABLE.has(p.status) || !p.paymentIntentId)
+      throw new AppError("conflict", "Only a payment that has been received can be refunded.");
     const left = p.amountMinor - p.refundedMinor - inFlightMinor;
     if (amountMinor > left) {
       const pending = inFlightMinor > 0 ? ` (${money(inFlightMinor, exponent, code)} of refunds are still waiting for the processor)` : "";
@@ -71,45 +93,213 @@ export async function requestRefund({
       entity: "payment",
       entityId: paymentId,
       before: { refundedMinor: p.refundedMinor, inFlightMinor },
-      after: { refundId, amountMinor, reason: input.reason, status: "requested" },
+      after: { refundId, amountMinor, reason: input.reason, status: "requested", ...(p.status === "duplicate" ? { duplicate: true } : {}) },
     });
     await queueRefundNotice(ctx, { paymentId, refundId, amountMinor });
     return p;
   });
 
-  try {
-    const result = await stripe().refunds.create(
-      { payment_intent: payment.paymentIntentId!, amount: amountMinor, metadata: { refundId, paymentId, jobId: payment.jobId } },
-      { idempotencyKey },
-    );
-    if (result.status === "failed" || result.status === "canceled") {
-      await failRefund({ refundId, paymentId, actorId, why: `processor status ${result.status}` });
-      throw new AppError("unavailable", "The payment processor declined this refund. Nothing was refunded; you can try again.");
-    }
-    await setRefundProcessorId({ refundId, processorRefundId: result.id });
-  } catch (e) {
-    if (e instanceof AppError) throw e;
-    const why = e instanceof Stripe.errors.StripeError ? `${e.type}${e.code ? ` ${e.code}` : ""}` : "no answer";
-    await failRefund({ refundId, paymentId, actorId, why });
-    if (e instanceof Stripe.errors.StripeInvalidRequestError) {
-      throw new AppError("conflict", "The payment processor refused this refund. Nothing was refunded; check the amount and try again.");
-    }
-    throw new AppError("unavailable", "The payment processor did not answer in time. Nothing was refunded; please try again in a moment.");
+  const status = await askProcessor({
+    refundId,
+    paymentId,
+    paymentIntentId: payment.paymentIntentId!,
+    jobId: payment.jobId,
+    amountMinor,
+    idempotencyKey,
+    actorId,
+  });
+  if (status === "failed") {
+    throw new AppError("conflict", "The payment processor refused this refund. Nothing was refunded; check the amount and try again.");
   }
-  return { refundId, amountMinor, status: "requested" };
+  return { refundId, amountMinor, status };
 }
 
-async function failRefund({ refundId, paymentId, actorId, why }: { refundId: string; paymentId: string; actorId: string; why: string }) {
-  await transaction(async (ctx) => {
-    const row = await markRefundFailed(ctx, { refundId });
-    if (!row) return;
+/**
+ * One create call with the refund's own idempotency key (the first, or a retry: the processor answers a repeat
+ * with the refund it already made), and what its answer means for our row.
+ */
+async function askProcessor(args: {
+  refundId: string;
+  paymentId: string;
+  paymentIntentId: string;
+  jobId: string;
+  amountMinor: number;
+  idempotencyKey: string;
+  actorId: string | null;
+}): Promise<RefundOutcome["status"]> {
+  let result: Stripe.Refund;
+  try {
+    result = await stripe().refunds.create(
+      {
+        payment_intent: args.paymentIntentId,
+        amount: args.amountMinor,
+        metadata: { refundId: args.refundId, paymentId: args.paymentId, jobId: args.jobId },
+      },
+      { idempotencyKey: args.idempotencyKey },
+    );
+  } catch (e) {
+    const why = e instanceof Stripe.errors.StripeError ? `${e.type}${e.code ? ` ${e.code}` : ""}` : "no answer";
+    // A refusal of the request itself is definite: nothing was refunded.
+    if (e instanceof Stripe.errors.StripeInvalidRequestError || e instanceof Stripe.errors.StripeCardError) {
+      return applyAnswer({ ...args, status: "failed", processorRefundId: null, why });
+    }
+    // Anything else (time-out, dropped connection, server error) leaves the outcome unknown.
+    console.error("[bandedge] refund outcome unknown; left pending", { refundId: args.refundId, why });
+    return applyAnswer({ ...args, status: "pending", processorRefundId: null, why });
+  }
+  return applyAnswer({ ...args, ...fromProcessor(result), processorRefundId: result.id, why: `processor status ${result.status}` });
+}
+
+function fromProcessor(refund: Stripe.Refund): { status: "succeeded" | "failed" | "pending" } {
+  if (refund.status === "succeeded") return { status: "succeeded" };
+  if (refund.status === "failed" || refund.status === "canceled") return { status: "failed" };
+  return { status: "pending" };
+}
+
+async function applyAnswer({
+  refundId,
+  paymentId,
+  status,
+  processorRefundId,
+  why,
+  actorId,
+}: {
+  refundId: string;
+  paymentId: string;
+  status: "succeeded" | "failed" | "pending";
+  processorRefundId: string | null;
+  why: string;
+  actorId: string | null;
+}): Promise<RefundOutcome["status"]> {
+  return transaction(async (ctx) => {
+    const row = await lockRefund(ctx, { refundId });
+    if (!row) throw new AppError("not_found", "That refund was not found.");
+    // The webhook may have settled it while we waited for the answer: its word stands.
+    if (row.status === "succeeded" || row.status === "failed") return row.status;
+    if (status === "pending") {
+      if (row.status === "requested") await markRefundPending(ctx, { refundId, processorRefundId });
+      else if (processorRefundId && !row.processorRefundId) await setRefundProcessorId(ctx, { refundId, processorRefundId });
+      if (row.status === "requested") {
+        await audit(ctx, {
+          actorId,
+          action: "refund.pending",
+          entity: "refund",
+          entityId: refundId,
+          before: { status: row.status },
+          after: { status: "pending", why, paymentId },
+        });
+      }
+      return "pending";
+    }
+    await settleRefundRow(ctx, { refundId, status, processorRefundId });
     await audit(ctx, {
       actorId,
-      action: "refund.failed",
-      entity: "payment",
-      entityId: paymentId,
-      before: { refundId, status: "requested" },
-      after: { refundId, status: "failed", why },
+      action: `refund.${status}`,
+      entity: "refund",
+      entityId: refundId,
+      before: { status: row.status },
+      after: { status, processorRefundId, why, paymentId },
     });
+    return status;
   });
 }
+
+/**
+ * Settles an open refund from what the processor says about it: read back by its id when we know it, else
+ * found among the payment's refunds by our reference, else asked again with the same idempotency key (the
+ * first call never arrived, or the processor replays its answer). Safe to run any number of times.
+ */
+export async function reconcileRefund({ refundId, actorId }: { refundId: string; actorId: string | null }): Promise<RefundOutcome> {
+  const row = await getRefundForOffice({ refundId });
+  if (!row) throw new AppError("not_found", "That refund was not found.");
+  const done = (status: RefundOutcome["status"]): RefundOutcome => ({ refundId, amountMinor: row.amountMinor, status });
+  if (row.status === "succeeded" || row.status === "failed") return done(row.status);
+  const payment = await getPaymentRowForOffice({ paymentId: row.paymentId });
+  if (!payment?.paymentIntentId) throw new AppError("conflict", "This refund's payment has no processor reference.");
+
+  let found: Stripe.Refund | undefined;
+  try {
+    if (row.processorRefundId) found = await stripe().refunds.retrieve(row.processorRefundId);
+    else {
+      const list = await stripe().refunds.list({ payment_intent: payment.paymentIntentId, limit: 100 });
+      found = list.data.find((r) => r.metadata?.refundId === refundId);
+    }
+  } catch (e) {
+    console.error("[bandedge] refund read-back failed", { refundId, e });
+    throw new AppError("unavailable", "The payment processor did not answer. The refund stays pending; try again in a moment.");
+  }
+  if (found) {
+    if (found.amount !== row.amountMinor) {
+      console.error("[bandedge] refund read back with another amount", { refundId, asked: row.amountMinor, got: found.amount });
+      return done(row.status);
+    }
+    const status = await applyAnswer({
+      refundId,
+      paymentId: row.paymentId,
+      ...fromProcessor(found),
+      processorRefundId: found.id,
+      why: `read back: processor status ${found.status}`,
+      actorId,
+    });
+    return done(status);
+  }
+  const status = await askProcessor({
+    refundId,
+    paymentId: row.paymentId,
+    paymentIntentId: payment.paymentIntentId,
+    jobId: payment.jobId,
+    amountMinor: row.amountMinor,
+    idempotencyKey: row.idempotencyKey,
+    actorId,
+  });
+  return done(status);
+}
+
+/** The background sweep: every refund left open for a while is checked with the processor. */
+export async function sweepOpenRefunds({ olderThanSeconds = 120 }: { olderThanSeconds?: number } = {}): Promise<number> {
+  const open = await listOpenRefundsForOffice({ olderThanSeconds, limit: 20 });
+  let settled = 0;
+  for (const r of open) {
+    try {
+      const out = await reconcileRefund({ refundId: r.id, actorId: null });
+      if (out.status === "succeeded" || out.status === "failed") settled++;
+    } catch (e) {
+      console.error("[bandedge] refund sweep: left for the next round", { refundId: r.id, e });
+    }
+  }
+  return settled;
+}
+
+/**
+ * Applies a processor refund event (the webhook) to our row: settles a requested or pending refund, marks
+ * one the processor still calls pending. Returns the outcome recorded with the event.
+ */
+export async function applyRefundEvent(ctx: TxContext, paymentId: string, currency: string, refund: Stripe.Refund): Promise<string> {
+  const refundId = refund.metadata?.refundId;
+  if (!refundId || !UUID.test(refundId)) return "refund-without-reference";
+  const row = await lockRefund(ctx, { refundId });
+  if (!row || row.paymentId !== paymentId) return "refund-unknown";
+  if (row.amountMinor !== refund.amount || refund.currency.toLowerCase() !== currency.toLowerCase()) {
+    console.error("[bandedge] refund amount differs from the office's request", { refundId, asked: row.amountMinor, got: refund.amount });
+    return "refund-mismatch";
+  }
+  if (row.status === "succeeded" || row.status === "failed") return `refund-${row.status}`;
+  const { status } = fromProcessor(refund);
+  if (status === "pending") {
+    if (row.status === "requested") await markRefundPending(ctx, { refundId, processorRefundId: refund.id });
+    else if (!row.processorRefundId) await setRefundProcessorId(ctx, { refundId, processorRefundId: refund.id });
+    return "refund-pending";
+  }
+  await settleRefundRow(ctx, { refundId, status, processorRefundId: refund.id });
+  await audit(ctx, {
+    actorId: null,
+    action: `refund.${status}`,
+    entity: "refund",
+    entityId: row.id,
+    before: { status: row.status },
+    after: { status, processorRefundId: refund.id },
+  });
+  return `refund-${status}`;
+}
+
+const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;

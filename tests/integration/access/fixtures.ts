@@ -56,7 +56,21 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     [jobA],
   );
   const photoA = await storePhoto({ uploaderId: "demo-cust-mira", jobId: jobA });
-  return { jobA, jobOpenA, revisionA, certificateA, claimA, paymentA: pay.id, sessionA: pay.checkout_session_id, photoA };
+  // Office rows: the demo's settled refund, and any message of the outbox.
+  const { id: refundAny } = await one<{ id: string }>("select id from refund order by created_at limit 1");
+  const { id: emailAny } = await one<{ id: string }>("select id from email_outbox order by created_at limit 1");
+  return {
+    jobA,
+    jobOpenA,
+    revisionA,
+    certificateA,
+    claimA,
+    paymentA: pay.id,
+    sessionA: pay.checkout_session_id,
+    photoA,
+    refundAny,
+    emailAny,
+  };
 }
 
 /** The request path of a matrix entry, its params filled from the fixtures. */

@@ -20,6 +20,8 @@ export type Fixtures = {
   sessionA: string;
   photoA: string;
   jobOpenA: string;
+  refundAny: string;
+  emailAny: string;
 };
 
 export type RouteEntry = {
@@ -115,6 +117,14 @@ export const ROUTES: RouteEntry[] = [
     rules: customerOwn,
     params: jobDone,
     body: (f) => ({ revisionId: f.revisionA, reason: "Access probe: more than I can spend." }),
+  },
+  {
+    method: "POST",
+    route: "/api/portal/jobs/[id]/withdraw",
+    action: "quote.withdraw (own)",
+    rules: customerOwn,
+    params: jobDone,
+    body: () => ({ reason: "Access probe: changed my mind." }),
   },
   {
     method: "GET",
@@ -242,6 +252,14 @@ export const ROUTES: RouteEntry[] = [
   },
   { method: "POST", route: "/api/bench/jobs/[id]/complete", action: "job.complete", rules: staff(), params: jobDone, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/return", action: "job.return", rules: staff(), params: jobDone, body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/cancel",
+    action: "job.cancel",
+    rules: ownerOnly,
+    params: jobDone,
+    body: () => ({ reason: "Access probe: not going ahead." }),
+  },
   { method: "POST", route: "/api/tools/alignment", action: "tools.use", rules: staff(), body: () => ({}) },
   { method: "POST", route: "/api/tools/estimate", action: "tools.use", rules: staff(), body: () => ({}) },
 
@@ -263,6 +281,23 @@ export const ROUTES: RouteEntry[] = [
     action: "payment.refund",
     rules: ownerOnly,
     params: (f) => ({ paymentId: f.paymentA }),
+    body: () => ({}),
+  },
+  {
+    method: "POST",
+    route: "/api/office/refunds/[refundId]/check",
+    action: "payment.refund",
+    rules: ownerOnly,
+    params: (f) => ({ refundId: f.refundAny }),
+    body: () => ({}),
+  },
+  { method: "GET", route: "/api/office/emails", action: "email.resend", rules: ownerOnly },
+  {
+    method: "POST",
+    route: "/api/office/emails/[emailId]/resend",
+    action: "email.resend",
+    rules: ownerOnly,
+    params: (f) => ({ emailId: f.emailAny }),
     body: () => ({}),
   },
 ];

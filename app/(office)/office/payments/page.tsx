@@ -98,7 +98,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                     </td>
                     <td>
                       <Link href={`/office/payments/${p.id}`}>
-                        {p.status === "paid" ? "Open / refund" : "Open"}
+                        {p.status === "paid" || p.status === "duplicate" ? "Open / refund" : "Open"}
                         <span className="sr-only">
                           {" "}
                           {PURPOSE_LABEL[p.purpose].toLowerCase()} for {jobNumber(p.jobNumber)}

@@ -4,6 +4,7 @@ import { z } from "zod";
 import { JobWorkspace } from "@/components/bench/job-workspace";
 import { getJobDetailForStaff } from "@/db/queries/bench";
 import { jobNumber } from "@/lib/engine/jobs/states";
+import { can } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 
 type Props = { params: Promise<{ id: string }> };
@@ -18,10 +19,10 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 
 export default async function BenchJobPage({ params }: Props) {
   const { id } = await params;
-  await requirePermission("bench.use", `/bench/jobs/${id}`);
+  const viewer = await requirePermission("bench.use", `/bench/jobs/${id}`);
   const parsed = z.uuid().safeParse(id);
   if (!parsed.success) notFound();
   const row = await getJobDetailForStaff({ jobId: parsed.data });
   if (!row) notFound();
-  return <JobWorkspace jobId={parsed.data} />;
+  return <JobWorkspace jobId={parsed.data} canCancel={can(viewer.role, "job.cancel")} />;
 }

@@ -11,6 +11,7 @@ import { portalKeys } from "../../../_lib/query-keys";
 import { EstimatePanel } from "./estimate-panel";
 import { MessageThread } from "./message-thread";
 import { PayButton } from "./pay-button";
+import { WithdrawRequest } from "./withdraw-request";
 
 const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
   requested: "A technician will read your request and look at the photos. You will hear from us by e-mail.",
@@ -119,6 +120,13 @@ export function JobView({
         </section>
       ) : null}
 
+      {v.job.state === "requested" ? <WithdrawRequest jobId={jobId} /> : null}
+      {v.job.state === "cancelled" ? (
+        <Notice tone="info" title="This request is closed">
+          <p>It was withdrawn or cancelled; the messages below say why. You can send a new request whenever you like.</p>
+        </Notice>
+      ) : null}
+
       {certificates}
 
       {v.confirming ? (
@@ -179,6 +187,10 @@ export function JobView({
                   {p.status === "paid" ? (
                     <span className="text-pass">
                       <span aria-hidden="true">✓ </span>Paid{p.paidAt ? ` on ${when(p.paidAt)}` : ""}
+                    </span>
+                  ) : p.status === "duplicate" ? (
+                    <span>
+                      <span aria-hidden="true">⧉ </span>Paid twice — the shop gives this one back
                     </span>
                   ) : p.status === "processing" ? (
                     <span>
