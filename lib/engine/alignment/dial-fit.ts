@@ -94,7 +94,7 @@ export const DEFAULT_DIAL_TOLERANCE: Record<BandKind, WindowTolerance> = {
 /** A fit whose RMS residual exceeds this many reading resolutions does not describe one oscillator setting. */
 export const RESIDUAL_LIMIT_RESOLUTIONS = 3;
 /** Beyond these the readings are of something other than a drifted slug or trimmer. */
-const MAX_LO_DEVIATION = 0.3;
+const MAX_LO_DEVIATION = 0.2;
 const MAX_INDUCTANCE_CHANGE = 0.5;
 
 const w = (kHz: number) => (kHz / RESONANCE_K) ** 2;
