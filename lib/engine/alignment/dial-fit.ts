@@ -491,7 +491,7 @@ export function fitDial(input: DialFitInput): DialFitResult {
         ? "Every mark reads within tolerance and the oscillator is where the design puts it: nothing to turn."
         : "The oscillator is where the design puts it; what remains is the design's own tracking error, which no adjustment removes."
       : `${inTolerance ? "Every mark reads within tolerance; to bring the oscillator back to its design" : "To bring the dial into tolerance"}: ${steps
-          .map((s) => `${s.direction} the ${s.adjust === "coil" ? "coil's inductance" : s.adjust}`)
+          .map((s) => `${s.direction} the ${s.adjust === "coil" ? "coil's inductance" : s.adjust === "padder" ? "padder" : "trimmer's capacitance"}`)
           .join(", then ")}, each set at its tracking point. The two interact: repeat them, then take new readings.`;
 
   const sampleCurve = (parts: OscillatorParts, n = 41): ErrorPoint[] => {

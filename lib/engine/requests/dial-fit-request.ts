@@ -13,7 +13,7 @@ import type { ToleranceSettings } from "../verdicts/tolerances";
  *               "gang": { "minPF": 10, "maxPF": 365 }, "trackingPointsKHz": [600, 1000, 1400],
  *               "readings": [{ "dialKHz": 600, "receivedKHz": 588 }, { "dialKHz": 1000, "receivedKHz": 996.3 },
  *                            { "dialKHz": 1400, "loKHz": 1874.6 }] }
- *   response: { "fit": { "inductanceErrorPct": 3.0, "parallelErrorPF": -4.0, "residualKHz": 0.03 },
+ *   response: { "fit": { "inductanceErrorPct": 3.0, "parallelErrorPF": -4.0, "residualKHz": 0.02 },
  *               "before": [{ "dialKHz": 600, "receivedKHz": 588, "errorKHz": -12, "verdict": "fail" }, …],
  *               "after": [{ "dialKHz": 600, "receivedKHz": 600, "errorKHz": 0 }, …],
  *               "steps": [{ "order": 1, "adjust": "coil", "direction": "decrease", "amount": 3.69, "unit": "µH", "text": "…" },

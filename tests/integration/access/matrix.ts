@@ -244,6 +244,7 @@ export const ROUTES: RouteEntry[] = [
   { method: "POST", route: "/api/bench/jobs/[id]/return", action: "job.return", rules: staff(), params: jobDone, body: () => ({}) },
   { method: "POST", route: "/api/tools/alignment", action: "tools.use", rules: staff(), body: () => ({}) },
   { method: "POST", route: "/api/tools/estimate", action: "tools.use", rules: staff(), body: () => ({}) },
+  { method: "POST", route: "/api/tools/dial-fit", action: "tools.use", rules: staff(), body: () => ({}) },
 
   { method: "GET", route: "/api/office/settings", action: "settings.edit", rules: ownerOnly },
   { method: "PUT", route: "/api/office/settings", action: "settings.edit", rules: ownerOnly, body: () => ({}) },
