@@ -23,7 +23,10 @@ const num = (s: string): number | undefined => {
 };
 const f1 = (x: number) => formatNumber(x, 1);
 const f2 = (x: number) => formatNumber(x, 2);
-const signed = (x: number, digits = 1) => `${x >= 0 ? "+" : "−"}${formatNumber(Math.abs(x), digits)}`;
+const signed = (x: number, digits = 1) => {
+  const shown = formatNumber(Math.abs(x), digits);
+  return Number(shown) === 0 ? "0" : `${x >= 0 ? "+" : "−"}${shown}`;
+};
 
 /** The band's ends and the usual tracking points: where a technician reads the dial. */
 function usualMarks(base: Base): string[] {
@@ -103,45 +106,47 @@ function Result({ r, readingKind }: { r: DialFitResponse; readingKind: "received
           </p>
         </section>
       ) : null}
-      <div className="card overflow-x-auto p-3">
-        <table className="dense-table">
-          <caption className="text-left text-xs text-bakelite-muted">
-            Dial error at each mark ({r.toleranceText}){readingKind === "lo" ? "; the received frequency is the LO less the IF" : ""}
-          </caption>
-          <thead>
-            <tr>
-              <th scope="col">Mark, kHz</th>
-              <th scope="col">Received now, kHz</th>
-              <th scope="col">Error now, kHz</th>
-              <th scope="col">Now</th>
-              <th scope="col">Predicted after, kHz</th>
-              <th scope="col">Error after, kHz</th>
-              <th scope="col">After</th>
-            </tr>
-          </thead>
-          <tbody>
-            {r.before.map((b, i) => {
-              const a = r.after[i]!;
-              return (
-                <tr key={i} data-mark={b.dialKHz}>
-                  <th scope="row" className="figure font-normal">
-                    {f2(b.dialKHz)}
-                  </th>
-                  <td className="figure">{f2(b.receivedKHz)}</td>
-                  <td className="figure">{signed(b.errorKHz)}</td>
-                  <td>
-                    <VerdictBadge verdict={b.verdict} />
-                  </td>
-                  <td className="figure">{f2(a.receivedKHz)}</td>
-                  <td className="figure">{signed(a.errorKHz)}</td>
-                  <td>
-                    <VerdictBadge verdict={a.verdict} />
-                  </td>
-                </tr>
-              );
-            })}
-          </tbody>
-        </table>
+      <div className="card p-3">
+        <p id="dial-fit-table-caption" className="text-xs text-bakelite-muted">
+          Dial error at each mark ({r.toleranceText}){readingKind === "lo" ? "; the received frequency is the LO less the IF" : ""}
+        </p>
+        <div className="overflow-x-auto">
+          <table className="dense-table" aria-labelledby="dial-fit-table-caption">
+            <thead>
+              <tr>
+                <th scope="col">Mark, kHz</th>
+                <th scope="col">Received now, kHz</th>
+                <th scope="col">Error now, kHz</th>
+                <th scope="col">Now</th>
+                <th scope="col">Predicted after, kHz</th>
+                <th scope="col">Error after, kHz</th>
+                <th scope="col">After</th>
+              </tr>
+            </thead>
+            <tbody>
+              {r.before.map((b, i) => {
+                const a = r.after[i]!;
+                return (
+                  <tr key={i} data-mark={b.dialKHz}>
+                    <th scope="row" className="figure font-normal">
+                      {f2(b.dialKHz)}
+                    </th>
+                    <td className="figure">{f2(b.receivedKHz)}</td>
+                    <td className="figure">{signed(b.errorKHz)}</td>
+                    <td>
+                      <VerdictBadge verdict={b.verdict} />
+                    </td>
+                    <td className="figure">{f2(a.receivedKHz)}</td>
+                    <td className="figure">{signed(a.errorKHz)}</td>
+                    <td>
+                      <VerdictBadge verdict={a.verdict} />
+                    </td>
+                  </tr>
+                );
+              })}
+            </tbody>
+          </table>
+        </div>
       </div>
       <DialFitPlot
         before={r.curves.before}
@@ -237,7 +242,7 @@ export function DialFitPanel({ requestBase }: { requestBase: () => Base }) {
               Readings are
             </label>
             <select id="fit-reading-kind" className="field-input mt-0 py-1" {...register("readingKind")}>
-              <option value="received">Received frequency (generator at the mark)</option>
+              <option value="received">Received (generator)</option>
               <option value="lo">LO on a counter</option>
             </select>
           </div>

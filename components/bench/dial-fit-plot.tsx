@@ -1,6 +1,6 @@
 "use client";
 
-import { CartesianGrid, Legend, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { ErrorPoint } from "@/lib/engine/alignment/tracking";
 import { formatNumber } from "@/lib/engine/verdicts";
 
@@ -26,6 +26,35 @@ export function DialFitPlot({ before, after, readings, tolerance, unit = "kHz" }
   const worst = (xs: ErrorPoint[]) => Math.max(...xs.map((p) => Math.abs(p.errorKHz)), 0);
   return (
     <figure className="space-y-1" aria-labelledby="dial-fit-plot-caption" data-readings={readings.length}>
+      {/* The key in HTML, so it wraps on a phone instead of running over the curves. */}
+      <ul className="flex flex-wrap gap-x-4 gap-y-0.5 text-xs" aria-label="Key to the plot">
+        <li>
+          <span aria-hidden="true" className="mr-1 inline-block w-5 border-t-2 align-middle" style={{ borderColor: "#9c3d1c" }} />
+          Now (fitted)
+        </li>
+        <li>
+          <span
+            aria-hidden="true"
+            className="mr-1 inline-block w-5 border-t-2 border-dashed align-middle"
+            style={{ borderColor: "#2f5d6b" }}
+          />
+          After the steps (predicted)
+        </li>
+        <li>
+          <span aria-hidden="true" className="mr-1">
+            ○
+          </span>
+          Readings
+        </li>
+        <li>
+          <span
+            aria-hidden="true"
+            className="mr-1 inline-block w-5 border-t-2 border-dotted align-middle"
+            style={{ borderColor: "#8a7d6f" }}
+          />
+          Tolerance
+        </li>
+      </ul>
       <div className="h-72 w-full" data-testid="dial-fit-plot">
         <ResponsiveContainer width="100%" height="100%">
           <LineChart margin={{ top: 10, right: 20, bottom: 24, left: 10 }}>
@@ -46,7 +75,6 @@ export function DialFitPlot({ before, after, readings, tolerance, unit = "kHz" }
               formatter={(v) => `${formatNumber(Number(v), 2)} kHz`}
               labelFormatter={(v) => `${formatNumber(Number(v), 3)} ${unit}`}
             />
-            <Legend verticalAlign="top" height={24} />
             <ReferenceLine y={0} stroke="#6b5f55" />
             <Line
               name="Tolerance"
@@ -56,7 +84,6 @@ export function DialFitPlot({ before, after, readings, tolerance, unit = "kHz" }
               strokeDasharray="2 4"
               dot={false}
               isAnimationActive={false}
-              legendType="plainline"
             />
             <Line
               name="Tolerance (lower)"
@@ -66,7 +93,6 @@ export function DialFitPlot({ before, after, readings, tolerance, unit = "kHz" }
               strokeDasharray="2 4"
               dot={false}
               isAnimationActive={false}
-              legendType="none"
             />
             <Line
               name="Now (fitted)"
@@ -95,7 +121,6 @@ export function DialFitPlot({ before, after, readings, tolerance, unit = "kHz" }
               dataKey="error"
               stroke="none"
               isAnimationActive={false}
-              legendType="circle"
               dot={(props: { cx?: number; cy?: number; index?: number }) => (
                 <circle
                   key={`rd-${props.index}`}
