@@ -194,6 +194,23 @@ describe("without a gang, the band kind's usual gang is assumed and named (commo
   });
 });
 
+describe("FM 88–108 MHz, IF 10.7 MHz, default 3–20 pF section", () => {
+  test("a dial reading 0.5 % high asks for a small change of a small coil, in words a technician can act on (from memory: FM oscillator coils are a few tenths of a µH, set by squeezing or spreading the turns)", () => {
+    const r = fitDial({
+      band: { lowKHz: 88000, highKHz: 108000 },
+      ifKHz: 10700,
+      readings: [89000, 98000, 107000].map((d) => ({ dialKHz: d, receivedKHz: d * 1.005 })),
+    });
+    expect(r.gang).toMatchObject({ minPF: 3, maxPF: 20, source: "default" });
+    expect(r.design.inductanceUH).toBeGreaterThan(0.05);
+    expect(r.design.inductanceUH).toBeLessThan(1);
+    const coil = r.steps.find((s) => s.adjust === "coil");
+    expect(coil?.direction).toBe("increase");
+    expect(coil?.text).toMatch(/squeeze the oscillator coil's turns/);
+    expect(coil?.text).not.toMatch(/about 0 µH/);
+  });
+});
+
 describe("readings the fit refuses, each naming its field", () => {
   const base = { band: { lowKHz: 540, highKHz: 1600 }, ifKHz: 455, gang: { minPF: 10, maxPF: 365 } };
 

@@ -110,6 +110,8 @@ const fmt = (kHz: number) => (kHz >= 10000 ? `${trim(kHz / 1000, 3)} MHz` : `${t
 function trim(x: number, digits: number): string {
   return String(Number(x.toFixed(digits)));
 }
+/** Three significant figures: an FM coil's change is hundredths of a µH, an LW padder's tens of pF. */
+const sig = (x: number) => String(Number(x.toPrecision(3)));
 
 function allowedKHz(t: WindowTolerance, markKHz: number): number {
   return Math.max(t.absKHz, (t.percent / 100) * markKHz);
@@ -447,7 +449,7 @@ export function fitDial(input: DialFitInput): DialFitResult {
         unit: "µH",
         atDialKHz: a,
         targetLoKHz: low.loKHz,
-        text: stepText("coil", direction, `${trim(amount, 2)} µH (${trim(pct, 1)} %)`, a, low.loKHz, p.kind, p.injection),
+        text: stepText("coil", direction, `${sig(amount)} µH (${trim(pct, 1)} %)`, a, low.loKHz, p.kind, p.injection),
       });
     } else {
       const delta = (adjusted.padderPF as number) - (actual.padderPF as number);
@@ -461,7 +463,7 @@ export function fitDial(input: DialFitInput): DialFitResult {
         unit: "pF",
         atDialKHz: a,
         targetLoKHz: low.loKHz,
-        text: stepText("padder", direction, `${trim(amount, 1)} pF`, a, low.loKHz, p.kind, p.injection),
+        text: stepText("padder", direction, `${sig(amount)} pF`, a, low.loKHz, p.kind, p.injection),
       });
     }
   }
@@ -480,7 +482,7 @@ export function fitDial(input: DialFitInput): DialFitResult {
       unit: "pF",
       atDialKHz: c,
       targetLoKHz: high.loKHz,
-      text: stepText("trimmer", direction, `${trim(amount, 1)} pF`, c, high.loKHz, p.kind, p.injection),
+      text: stepText("trimmer", direction, `${sig(amount)} pF`, c, high.loKHz, p.kind, p.injection),
     });
   }
   steps.forEach((s, i) => (s.order = i + 1));
@@ -491,7 +493,10 @@ export function fitDial(input: DialFitInput): DialFitResult {
         ? "Every mark reads within tolerance and the oscillator is where the design puts it: nothing to turn."
         : "The oscillator is where the design puts it; what remains is the design's own tracking error, which no adjustment removes."
       : `${inTolerance ? "Every mark reads within tolerance; to bring the oscillator back to its design" : "To bring the dial into tolerance"}: ${steps
-          .map((s) => `${s.direction} the ${s.adjust === "coil" ? "coil's inductance" : s.adjust === "padder" ? "padder" : "trimmer's capacitance"}`)
+          .map(
+            (s) =>
+              `${s.direction} the ${s.adjust === "coil" ? "coil's inductance" : s.adjust === "padder" ? "padder" : "trimmer's capacitance"}`,
+          )
           .join(", then ")}, each set at its tracking point. The two interact: repeat them, then take new readings.`;
 
   const sampleCurve = (parts: OscillatorParts, n = 41): ErrorPoint[] => {
