@@ -289,9 +289,9 @@ function Result({ r, hotChassis }: { r: AlignmentResponse; hotChassis: boolean }
 
 /**
  * The alignment calculator. `hotChassis` (an AC/DC set's job) puts the isolation-transformer caution at the
- * head of the plan and above it.
+ * head of the plan and above it. On a job, `jobId` lets the dial fit read the bench sheet.
  */
-export function AlignmentCalculator({ bands = [], hotChassis = false }: { bands?: Band[]; hotChassis?: boolean }) {
+export function AlignmentCalculator({ bands = [], hotChassis = false, jobId }: { bands?: Band[]; hotChassis?: boolean; jobId?: string }) {
   const [request, setRequest] = useState<AlignmentRequest | null>(null);
   const [bandIndex, setBandIndex] = useState(0);
   const form = useForm<CalcForm>({ defaultValues: formFromBand(bands[0] ?? null, hotChassis) });
@@ -441,7 +441,7 @@ export function AlignmentCalculator({ bands = [], hotChassis = false }: { bands?
         </Notice>
       ) : null}
       {q.data && !q.isFetching ? <Result r={q.data} hotChassis={request?.hotChassis === true} /> : null}
-      <DialFitPanel key={bandIndex} requestBase={() => toDialFitBase(form.getValues())} />
+      <DialFitPanel key={bandIndex} jobId={jobId} bandIndex={bandIndex} requestBase={() => toDialFitBase(form.getValues())} />
     </div>
   );
 }

@@ -1,14 +1,16 @@
 "use client";
 
-import { useMutation } from "@tanstack/react-query";
+import { useMutation, useQuery } from "@tanstack/react-query";
 import { useRef } from "react";
 import { useFieldArray, useForm, useWatch } from "react-hook-form";
 import { Notice } from "@/components/ui/notice";
 import { ruleOfThumbPoints } from "@/lib/engine/alignment/tracking-points";
 import { dialFitRequestSchema, fieldErrors, type DialFitResponse } from "@/lib/engine/requests";
-import { formatNumber } from "@/lib/engine/verdicts";
+import { formatNumber, parseReadingKey } from "@/lib/engine/verdicts";
 import { api, ApiError, errorText } from "@/lib/client/bench-api";
+import { benchKeys } from "@/lib/client/bench-query-keys";
 import { DialFitPlot } from "./dial-fit-plot";
+import type { BenchSheetJson } from "./types";
 import { VerdictBadge } from "./verdict-badge";
 
 type Row = { dialKHz: string; value: string };
@@ -163,7 +165,20 @@ function Result({ r, readingKind }: { r: DialFitResponse; readingKind: "received
  * The dial-calibration fit: readings of where the set tunes at several marks → the oscillator's drift and
  * which part to turn. Uses the band, IF, gang and points of the calculator it sits under.
  */
-export function DialFitPanel({ requestBase }: { requestBase: () => Base }) {
+export function DialFitPanel({ requestBase, jobId, bandIndex = 0 }: { requestBase: () => Base; jobId?: string; bandIndex?: number }) {
+  // On a job, the bench sheet's received-frequency readings of this band (its ends and tracking points) can seed the fit.
+  const sheet = useQuery({
+    queryKey: benchKeys.sheet(jobId ?? ""),
+    queryFn: () => api<BenchSheetJson>(`/api/bench/jobs/${jobId}/sheet`),
+    enabled: Boolean(jobId),
+  });
+  const sheetRows: Row[] = (sheet.data?.requirements ?? [])
+    .filter((r) => {
+      const k = parseReadingKey(r.key);
+      return k !== null && (k.kind === "edge" || k.kind === "track") && k.band === bandIndex && r.value !== null && r.nominal !== null;
+    })
+    .map((r) => ({ dialKHz: String(r.nominal), value: String(r.value) }))
+    .sort((a, b) => Number(a.dialKHz) - Number(b.dialKHz));
   const firstValue = useRef<HTMLInputElement | null>(null);
   const form = useForm<FitForm>({
     defaultValues: {
@@ -363,6 +378,18 @@ export function DialFitPanel({ requestBase }: { requestBase: () => Base }) {
           >
             Usual marks for the band
           </button>
+          {sheetRows.length ? (
+            <button
+              type="button"
+              className="btn-quiet py-1"
+              onClick={() => {
+                setValue("readingKind", "received");
+                rows.replace(sheetRows);
+              }}
+            >
+              Use the bench sheet&apos;s readings ({sheetRows.length})
+            </button>
+          ) : null}
         </div>
       </form>
       {fit.isPending ? <p role="status">Fitting…</p> : null}

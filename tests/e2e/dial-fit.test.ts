@@ -1,6 +1,6 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO } from "../support/accounts";
+import { DEMO, signedIn } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
 import { closeTestPool } from "../support/db";
 import { AURELIAN_PROFILE, createJob } from "../integration/bench-fixtures";
@@ -103,15 +103,46 @@ describe("the dial-calibration fit", () => {
     await context.close();
   });
 
-  it("is on the job's alignment tab with the set's own band", async () => {
+  it("is on the job's alignment tab, seeded from the bench sheet's band-edge and tracking readings", async () => {
     const { jobId } = await createJob({ state: "on_bench", profile: AURELIAN_PROFILE });
+    // The set's readings as received, recorded on the bench sheet at the sheet's own marks.
+    const techApi = await signedIn(DEMO.tech);
+    const sheet = (await (await techApi.get(`/api/bench/jobs/${jobId}/sheet`)).json()) as {
+      requirements: { key: string; nominal: number | null }[];
+    };
+    const bandReadings = sheet.requirements.filter((r) => /^band\.0\.(edge|track)\./.test(r.key) && r.nominal !== null);
+    expect(bandReadings.length).toBeGreaterThanOrEqual(2);
+    for (const r of bandReadings) {
+      const res = await techApi.post(`/api/bench/jobs/${jobId}/readings`, {
+        key: r.key,
+        value: Number(receivedAt(r.nominal!, 123.0312 * 1.03, 55.992 - 4)),
+      });
+      expect(res.status).toBe(200);
+    }
+
     const context = await newContext(browser);
     const page = await context.newPage();
     await signInPage(page, DEMO.tech.email, DEMO.tech.password);
     await page.goto(`/bench/jobs/${jobId}`);
+    await page.getByRole("tab", { name: "Bench sheet" }).click();
+    await expect.poll(() => page.getByTestId("dial-fit-hint").count()).toBe(1);
     await page.getByRole("tab", { name: "Alignment" }).click();
     await expect.poll(() => page.getByRole("heading", { name: "Dial calibration: fit and advice" }).count()).toBe(1);
-    expect(await page.getByLabel("Dial mark 1, kHz").inputValue()).toBe(await page.getByLabel("Dial low end").inputValue());
+    await page.getByLabel("Low", { exact: true }).fill("600");
+    await page.getByLabel("Middle", { exact: true }).fill("1000");
+    await page.getByLabel("High", { exact: true }).fill("1400");
+    await page.getByRole("button", { name: /Use the bench sheet's readings/ }).click();
+    await expect.poll(() => page.locator("[data-fit-row]").count()).toBe(bandReadings.length);
+    const marks = await page
+      .locator("[data-fit-row] input[id^=fit-mark-]")
+      .evaluateAll((els) => els.map((e) => Number((e as HTMLInputElement).value)));
+    expect(marks.sort((a, b) => a - b)).toEqual(bandReadings.map((r) => r.nominal!).sort((a, b) => a - b));
+    await page.getByRole("button", { name: "Fit the readings" }).click();
+    await expect.poll(() => page.locator("[data-testid=dial-fit-result]").count()).toBe(1);
+    const pct = Number((await page.locator('[data-figure="fit.inductanceErrorPct"]').innerText()).replace("−", "-"));
+    expect(Math.abs(pct - 3)).toBeLessThan(0.1);
+    expect(await page.locator("li[data-step]").first().getAttribute("data-step")).toBe("coil");
+    await page.mouse.move(0, 0);
     await snap(page, "dial-fit-04-job-tab");
     await context.close();
   });
