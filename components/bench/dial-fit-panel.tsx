@@ -4,6 +4,7 @@ import { useMutation, useQuery } from "@tanstack/react-query";
 import { useRef } from "react";
 import { useFieldArray, useForm, useWatch } from "react-hook-form";
 import { Notice } from "@/components/ui/notice";
+import { TableScroll } from "@/components/ui/table-scroll";
 import { ruleOfThumbPoints } from "@/lib/engine/alignment/tracking-points";
 import { dialFitRequestSchema, fieldErrors, type DialFitResponse } from "@/lib/engine/requests";
 import { formatNumber, parseReadingKey } from "@/lib/engine/verdicts";
@@ -112,7 +113,7 @@ function Result({ r, readingKind }: { r: DialFitResponse; readingKind: "received
         <p id="dial-fit-table-caption" className="text-xs text-bakelite-muted">
           Dial error at each mark ({r.toleranceText}){readingKind === "lo" ? "; the received frequency is the LO less the IF" : ""}
         </p>
-        <div className="overflow-x-auto">
+        <TableScroll label="Dial error at each mark, now and after">
           <table className="dense-table" aria-labelledby="dial-fit-table-caption">
             <thead>
               <tr>
@@ -148,7 +149,7 @@ function Result({ r, readingKind }: { r: DialFitResponse; readingKind: "received
               })}
             </tbody>
           </table>
-        </div>
+        </TableScroll>
       </div>
       <DialFitPlot
         before={r.curves.before}
