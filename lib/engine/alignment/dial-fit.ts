@@ -2,8 +2,7 @@ import type { BandKind } from "../bands/band";
 import { EngineError } from "../engine-error";
 import type { WindowTolerance } from "../verdicts/tolerances";
 import { RESONANCE_K } from "./frequencies";
-import type { DialRange, Gang, Injection } from "./inputs";
-import { inferBandKind } from "./plan";
+import { checkTrackingBasis, type DialRange, type Gang, type Injection } from "./inputs";
 import { solveTracking, type TrackingSolution } from "./solve-tracking";
 import { gangSettingPF, type ErrorPoint, type TrackingDesign } from "./tracking";
 import { ruleOfThumbPoints } from "./tracking-points";
@@ -128,20 +127,21 @@ type Prepared = {
 
 /** The design /api/tools/alignment computes for the same band, IF, injection, gang and points. */
 function prepareDesign(input: DialFitInput): Prepared {
-  const kind = input.band.kind ?? inferBandKind(input.band, input.ifKHz);
-  const injection = input.injection ?? "high";
+  // The engine's door: the band's kind (stated, or the one its frequencies belong to) and an IF of its family.
+  const probe = checkTrackingBasis({
+    band: input.band,
+    ifKHz: input.ifKHz,
+    injection: input.injection,
+    gang: input.gang ?? DEFAULT_GANG_BY_KIND.MW,
+  });
+  const kind = probe.band.kind;
+  const injection = probe.injection;
   const gang = input.gang
     ? { minPF: input.gang.minPF, maxPF: input.gang.maxPF, strayPF: input.gang.strayPF ?? 0, source: "given" as const }
     : { ...DEFAULT_GANG_BY_KIND[kind], source: "default" as const };
+  const basis = checkTrackingBasis({ band: input.band, ifKHz: input.ifKHz, injection, gang });
   const points = input.trackingPointsKHz ?? ruleOfThumbPoints(input.band);
-  const solution = solveTracking({
-    band: input.band,
-    ifKHz: input.ifKHz,
-    injection,
-    gang: { minPF: gang.minPF, maxPF: gang.maxPF, strayPF: gang.strayPF },
-    trackingPointsKHz: points,
-    samples: 2,
-  });
+  const solution = solveTracking({ ...basis, trackingPointsKHz: points, samples: 2 });
   const design = solution.design;
   return {
     kind,

@@ -2,7 +2,7 @@ import { z } from "zod";
 import { bandKindSchema, injectionSchema } from "../bands/band";
 import { ifFamilyOf, plausibleIfRangeKHz } from "../bands/if-presets";
 import { fitDial, type DialFitResult } from "../alignment/dial-fit";
-import { inferBandKind } from "../alignment/plan";
+import { checkBand } from "../alignment/inputs";
 import { describeTolerance } from "../verdicts/judge-reading";
 import type { ToleranceSettings } from "../verdicts/tolerances";
 
@@ -88,7 +88,7 @@ export type DialFitResponse = Omit<DialFitResult, "fit"> & {
  * path) for readings it cannot use; invalidInputBody turns that into the 400 body.
  */
 export function runDialFitTool(input: DialFitRequest, tolerances?: ToleranceSettings): DialFitResponse {
-  const kind = input.band.kind ?? inferBandKind(input.band, input.ifKHz);
+  const kind = checkBand(input.band).kind;
   const tolerance = tolerances?.byBandKind[kind].dial;
   const r = fitDial({ ...input, ...(tolerance ? { tolerance } : {}) });
   const { iterations: _iterations, ...fit } = r.fit;
