@@ -9,6 +9,7 @@ import { alignmentRequestSchema, fieldErrors, type AlignmentRequest, type Alignm
 import { formatNumber } from "@/lib/engine/verdicts";
 import { api, ApiError, errorText } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
+import { DialFitPanel } from "./dial-fit-panel";
 import { TrackingPlot } from "./tracking-plot";
 
 type CalcForm = {
@@ -54,6 +55,19 @@ export function toAlignmentRequest(v: CalcForm): AlignmentRequest {
     ...(tp.some((x) => x !== undefined) ? { trackingPointsKHz: tp as [string, string, string] } : {}),
     ...(q !== undefined ? { loadedQ: q } : {}),
     ...(v.hotChassis ? { hotChassis: true } : {}),
+  };
+}
+
+/** The band, IF, oscillator side, gang and points as the dial fit takes them (plain kHz). */
+function toDialFitBase(v: CalcForm): Record<string, unknown> & { band: { lowKHz?: number; highKHz?: number } } {
+  const r = toAlignmentRequest(v);
+  const tp = v.trackingPointsKHz.map(num);
+  return {
+    band: { lowKHz: num(v.band.lowKHz), highKHz: num(v.band.highKHz), ...(r.band.kind ? { kind: r.band.kind } : {}) },
+    ifKHz: num(v.ifKHz),
+    ...(r.injection ? { injection: r.injection } : {}),
+    ...(r.gang ? { gang: r.gang } : {}),
+    ...(tp.some((x) => x !== undefined) ? { trackingPointsKHz: tp } : {}),
   };
 }
 
@@ -275,9 +289,9 @@ function Result({ r, hotChassis }: { r: AlignmentResponse; hotChassis: boolean }
 
 /**
  * The alignment calculator. `hotChassis` (an AC/DC set's job) puts the isolation-transformer caution at the
- * head of the plan and above it.
+ * head of the plan and above it. On a job, `jobId` lets the dial fit read the bench sheet.
  */
-export function AlignmentCalculator({ bands = [], hotChassis = false }: { bands?: Band[]; hotChassis?: boolean }) {
+export function AlignmentCalculator({ bands = [], hotChassis = false, jobId }: { bands?: Band[]; hotChassis?: boolean; jobId?: string }) {
   const [request, setRequest] = useState<AlignmentRequest | null>(null);
   const [bandIndex, setBandIndex] = useState(0);
   const form = useForm<CalcForm>({ defaultValues: formFromBand(bands[0] ?? null, hotChassis) });
@@ -427,6 +441,7 @@ export function AlignmentCalculator({ bands = [], hotChassis = false }: { bands?
         </Notice>
       ) : null}
       {q.data && !q.isFetching ? <Result r={q.data} hotChassis={request?.hotChassis === true} /> : null}
+      <DialFitPanel key={bandIndex} jobId={jobId} bandIndex={bandIndex} requestBase={() => toDialFitBase(form.getValues())} />
     </div>
   );
 }

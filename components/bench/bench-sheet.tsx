@@ -244,6 +244,12 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
           </tbody>
         ))}
       </table>
+      {groups.some((g) => g.code.startsWith("align.dial.") || g.code.startsWith("align.tracking.")) ? (
+        <p className="mt-2 text-xs text-bakelite-muted" data-testid="dial-fit-hint">
+          Dial out of tolerance? On the Alignment tab the dial-calibration fit takes these band-edge and tracking readings and says which
+          adjustment to turn, which way and about how far.
+        </p>
+      ) : null}
     </section>
   );
 }

@@ -116,7 +116,9 @@ export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canC
         {current === "triage" ? <TriagePanel detail={d} /> : null}
         {current === "estimate" ? <EstimatePanel jobId={jobId} /> : null}
         {current === "sheet" ? <BenchSheetPanel jobId={jobId} /> : null}
-        {current === "alignment" ? <AlignmentCalculator bands={profileBands(d)} hotChassis={d.set.kind === "tube-acdc"} /> : null}
+        {current === "alignment" ? (
+          <AlignmentCalculator bands={profileBands(d)} hotChassis={d.set.kind === "tube-acdc"} jobId={jobId} />
+        ) : null}
         {current === "completion" ? <CompletionPanel detail={d} /> : null}
       </div>
 

@@ -364,6 +364,18 @@ const SHAPES: Record<string, Shape> = {
     base: () => ({ band: { lowKHz: 540, highKHz: 1600, kind: "MW" }, ifKHz: 455, gang: { minPF: 12, maxPF: 365 } }),
   },
   "POST /api/tools/estimate": { fields: ["profile"], base: () => ({ profile: { ...AURELIAN_PROFILE } }) },
+  "POST /api/tools/dial-fit": {
+    fields: ["band", "ifKHz", "injection", "gang", "trackingPointsKHz", "lowEndAdjuster", "readings"],
+    base: () => ({
+      band: { lowKHz: 540, highKHz: 1600, kind: "MW" },
+      ifKHz: 455,
+      gang: { minPF: 10, maxPF: 365 },
+      readings: [
+        { dialKHz: 600, receivedKHz: 588 },
+        { dialKHz: 1400, loKHz: 1874.6 },
+      ],
+    }),
+  },
   // The version stays the stale one of the starting body, so even a fully valid body saves nothing.
   "PUT /api/office/settings": {
     fields: [
@@ -639,6 +651,7 @@ describe("prototype pollution", () => {
       { client: tech, method: "PUT", path: `/api/bench/jobs/${own.fallback.jobOpenA}/profile` },
       { client: tech, method: "POST", path: "/api/tools/estimate" },
       { client: tech, method: "POST", path: "/api/tools/alignment" },
+      { client: tech, method: "POST", path: "/api/tools/dial-fit" },
       { client: owner, method: "PUT", path: "/api/office/settings" },
       { client: new TestClient(), method: "POST", path: "/api/auth/sign-in/email" },
       { client: new TestClient(), method: "POST", path: "/api/auth/sign-up/email" },

@@ -262,6 +262,7 @@ export const ROUTES: RouteEntry[] = [
   },
   { method: "POST", route: "/api/tools/alignment", action: "tools.use", rules: staff(), body: () => ({}) },
   { method: "POST", route: "/api/tools/estimate", action: "tools.use", rules: staff(), body: () => ({}) },
+  { method: "POST", route: "/api/tools/dial-fit", action: "tools.use", rules: staff(), body: () => ({}) },
 
   { method: "GET", route: "/api/office/settings", action: "settings.edit", rules: ownerOnly },
   { method: "PUT", route: "/api/office/settings", action: "settings.edit", rules: ownerOnly, body: () => ({}) },
