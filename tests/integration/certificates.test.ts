@@ -79,7 +79,9 @@ describe("issuing a certificate when a set is returned", () => {
     expect(d.set).toMatchObject({ maker: "Haldane", model: "Console 9", year: 1952, kind: "tube-transformer" });
     expect(d.technician.name).toBe("Tomas Reyne");
     expect(d.shop.name).toBe("Kestrel Lane Wireless");
-    expect(d.warranty).toMatchObject({ designation: "limited", termDays: 90, startsOn: d.completedOn });
+    // The term runs from the day after the return (the usual convention for a warranty "of N days from return").
+    const dayAfter = new Date(Date.parse(`${d.completedOn}T00:00:00Z`) + 86_400_000).toISOString().slice(0, 10);
+    expect(d.warranty).toMatchObject({ designation: "limited", termDays: 90, startsOn: dayAfter });
     expect(d.terms.rightsSentence).toMatch(/other rights which vary from state to state/);
     expect(d.terms.howToClaim.length).toBeGreaterThan(0);
     expect(new Date(row.term_ends_at).toISOString().slice(0, 10)).toBe(d.warranty.endsOn);

@@ -399,6 +399,10 @@ const SHAPES: Record<string, Shape> = {
   },
   "POST /api/office/refunds/[refundId]/check": { fields: ["refundId"] },
   "POST /api/office/emails/[emailId]/resend": { fields: ["emailId"] },
+  "POST /api/staff-invitations/accept": {
+    fields: ["token", "password"],
+    base: () => ({ token: "not-a-real-invitation", password: "valve-glow-1948-x" }),
+  },
   "POST /api/portal/jobs/[id]/withdraw": { fields: ["reason"], base: () => ({ reason: "Found the fault myself." }) },
   "POST /api/bench/jobs/[id]/cancel": {
     fields: ["reason", "refund"],

@@ -67,6 +67,7 @@ export const ROUTES: RouteEntry[] = [
     body: () => ({}),
   },
   { method: "GET", route: "/api/health", action: "health", rules: everyone },
+  { method: "GET", route: "/api/ready", action: "readiness (touches the database)", rules: everyone },
   {
     method: "POST",
     route: "/api/staff-invitations/accept",
