@@ -1,5 +1,7 @@
 "use client";
 
+import "@/lib/client/zod-setup";
+
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useState, type FormEvent } from "react";

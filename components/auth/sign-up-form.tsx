@@ -1,5 +1,7 @@
 "use client";
 
+import "@/lib/client/zod-setup";
+
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useState } from "react";
 import { useForm } from "react-hook-form";

@@ -1,5 +1,7 @@
 "use client";
 
+import "@/lib/client/zod-setup";
+
 import { zodResolver } from "@hookform/resolvers/zod";
 import Link from "next/link";
 import { useState } from "react";
