@@ -73,6 +73,8 @@ describe("the office sees what did not finish by itself", () => {
 
     await fetch(`${testEnv.mailUrl}/control/reject?${new URLSearchParams({ to: email, off: "1" })}`, { method: "POST" });
     const started = Date.now();
+    // The list is in the first paint; the button works once the page has hydrated.
+    await page.waitForLoadState("networkidle");
     await row.getByRole("button", { name: `Send again to ${email}` }).click();
     await expect.poll(() => page.getByText(`The message to ${email} is queued again.`).count()).toBe(1);
     await waitForMail(email, "Confirm your e-mail", { after: started - 1000 });
