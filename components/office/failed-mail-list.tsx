@@ -30,7 +30,19 @@ export function FailedMailList({ rows }: { rows: FailedMail[] }) {
     }
   }
 
-  if (rows.length === 0) return <p className="text-sm text-bakelite-soft">Every e-mail has gone out or is on its way.</p>;
+  const notice = outcome ? (
+    <Notice tone={outcome.tone} live>
+      <p>{outcome.text}</p>
+    </Notice>
+  ) : null;
+  // The answer stays in view when the message just re-queued was the last one listed.
+  if (rows.length === 0)
+    return (
+      <div className="space-y-3">
+        {notice}
+        <p className="text-sm text-bakelite-soft">Every e-mail has gone out or is on its way.</p>
+      </div>
+    );
   return (
     <div className="space-y-3">
       <TableScroll label="E-mail that could not be sent">
@@ -72,11 +84,7 @@ export function FailedMailList({ rows }: { rows: FailedMail[] }) {
           </tbody>
         </table>
       </TableScroll>
-      {outcome ? (
-        <Notice tone={outcome.tone} live>
-          <p>{outcome.text}</p>
-        </Notice>
-      ) : null}
+      {notice}
     </div>
   );
 }
