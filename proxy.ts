@@ -1,5 +1,5 @@
 import { NextResponse, type NextRequest } from "next/server";
-import { databaseReachable } from "@/db";
+import { databaseAnswersRecently } from "@/db";
 import { env } from "@/lib/server/env";
 
 // Runs before routing. It turns away addresses that cannot be decoded (a broken percent-escape), which
@@ -23,12 +23,10 @@ export const config = { matcher: "/((?!_next/static|_next/image).*)" };
 
 // ---------------------------------------------------------------------------------------------
 // Database unavailable. Pages run many queries; rather than fail halfway into the framework's generic error,
-// they are answered up front while PostgreSQL does not answer a trivial query. One probe per second per
-// instance at most, shared by the requests that arrive meanwhile.
+// they are answered up front while PostgreSQL does not answer a trivial query (db/index.ts shares one probe a
+// second among the requests that arrive meanwhile).
 
 const RETRY_AFTER_SECONDS = 15;
-const PROBE_EVERY_MS = 1_000;
-const probeState = globalThis as unknown as { bandedgeDbProbe?: { at: number; ok: Promise<boolean> } };
 
 function isPageRequest(request: NextRequest): boolean {
   if (request.method !== "GET" && request.method !== "HEAD") return false;
@@ -36,15 +34,6 @@ function isPageRequest(request: NextRequest): boolean {
   if (path.startsWith("/api/") || path.startsWith("/_next/")) return false;
   if (request.headers.get("next-router-prefetch") || request.headers.get("rsc")) return false;
   return !/\.[a-z0-9]+$/i.test(path); // icons and other files
-}
-
-function databaseAnswersRecently(): Promise<boolean> {
-  const now = Date.now();
-  const last = probeState.bandedgeDbProbe;
-  if (last && now - last.at < PROBE_EVERY_MS) return last.ok;
-  const ok = databaseReachable(2_000);
-  probeState.bandedgeDbProbe = { at: now, ok };
-  return ok;
 }
 
 function databaseUnavailablePage(): NextResponse {

@@ -21,3 +21,15 @@ export function isDatabaseUnavailable(error: unknown): boolean {
   }
   return false;
 }
+
+// When a connection was last seen lost (an idle client's error, a query that could not reach the server), so a
+// probe answer from before that moment is not reused.
+const lost = globalThis as unknown as { bandedgeDbLostAt?: number };
+
+export function markDatabaseLost(): void {
+  lost.bandedgeDbLostAt = Date.now();
+}
+
+export function databaseLastLostAt(): number {
+  return lost.bandedgeDbLostAt ?? 0;
+}

@@ -1,6 +1,7 @@
 import { drizzle, type NodePgDatabase } from "drizzle-orm/node-postgres";
 import { Pool } from "pg";
 import { env } from "@/lib/server/env";
+import { databaseLastLostAt, markDatabaseLost } from "./availability";
 import * as schema from "./schema";
 
 export type Database = NodePgDatabase<typeof schema>;
@@ -25,7 +26,10 @@ export function pool(): Pool {
       keepAlive: true,
     });
     // An idle connection dropped by a restarting server must not take the process down; the pool replaces it.
-    created.on("error", (e) => console.error("[bandedge] idle database connection lost:", e.message));
+    created.on("error", (e) => {
+      markDatabaseLost();
+      console.error("[bandedge] idle database connection lost:", e.message);
+    });
     globalForDb.bandedgePool = created;
   }
   return globalForDb.bandedgePool;
@@ -64,4 +68,20 @@ export async function databaseReachable(timeoutMs = 2_000): Promise<boolean> {
   } finally {
     clearTimeout(timer);
   }
+}
+
+// The last answer of the shared probe, reused for a second, and the moment a connection was last seen lost: a
+// loss after the probe makes the next caller ask again rather than trust an answer from before the loss.
+const probeState = globalThis as unknown as { bandedgeDbProbe?: { at: number; ok: Promise<boolean> } };
+const PROBE_REUSE_MS = 1_000;
+
+/** One probe a second at most, shared by the requests that arrive meanwhile, and never reused across a loss. */
+export function databaseAnswersRecently(): Promise<boolean> {
+  const now = Date.now();
+  const last = probeState.bandedgeDbProbe;
+  const lostAt = databaseLastLostAt();
+  if (last && now - last.at < PROBE_REUSE_MS && lostAt < last.at) return last.ok;
+  const ok = databaseReachable(2_000);
+  probeState.bandedgeDbProbe = { at: now, ok };
+  return ok;
 }

@@ -4,7 +4,7 @@
 //   npm test -- FILES…     run only those test files;  --skip-build  reuse the last test build;
 //   --skip-lint  leave out the lint step (it runs first on every full run and counts as one check).
 import { spawnSync } from "node:child_process";
-import { existsSync, readFileSync } from "node:fs";
+import { existsSync, readFileSync, rmSync } from "node:fs";
 import { join } from "node:path";
 import { bootScratchStack } from "./lib/scratch-stack.mjs";
 import { bin, log, ROOT } from "./lib/stack.mjs";
@@ -33,6 +33,9 @@ async function main() {
   if (!skipLint) lintOk = lint();
   const report = join(stack.scratch, "vitest.json");
   const args = ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${report}`, ...only];
+  // Vitest orders files by the durations it remembers from earlier runs; a fresh clone has none. Forget them,
+  // so every run takes the files in the order a fresh clone does and order-dependent failures show up here too.
+  rmSync(join(ROOT, "node_modules", ".vite", "vitest"), { recursive: true, force: true });
   log("Running the tests…");
   const r = spawnSync(bin("vitest"), args, { cwd: ROOT, env: stack.env, stdio: "inherit" });
 

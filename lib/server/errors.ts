@@ -1,5 +1,5 @@
 import "server-only";
-import { isDatabaseUnavailable } from "@/db/availability";
+import { isDatabaseUnavailable, markDatabaseLost } from "@/db/availability";
 // The one error type the app shows to people: a code, an HTTP status derived from it, and a safe message.
 export const ERROR_STATUS = {
   invalid_input: 400,
@@ -100,6 +100,7 @@ export function toAppError(e: unknown): AppError {
   if (isAppError(e)) return e;
   if (isUnstorableText(e)) return new AppError("invalid_input", NUL_MESSAGE);
   if (isDatabaseUnavailable(e)) {
+    markDatabaseLost();
     console.error("[bandedge] database unavailable:", rootCause(e));
     return databaseUnavailable();
   }

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { sql } from "../support/db";
 import { axeViolations, describeViolations } from "../support/axe";
 import { launchBrowser, newContext, signInPage } from "../support/browser";
-import { AUDIENCES } from "../support/pages";
+import { AUDIENCES, followedAddress } from "../support/pages";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -28,12 +28,7 @@ describe("accessibility (axe-core, WCAG 2.2 AA tags)", () => {
       if (a.login) await signInPage(page, a.login.email, a.login.password);
       for (const path of a.pages) await check(page, path);
       for (const f of a.follow ?? []) {
-        await page.goto(f.from);
-        const link = page.getByRole("link", { name: f.link }).first();
-        await link.waitFor({ timeout: 15_000 });
-        const href = await link.getAttribute("href");
-        expect(href, `a link matching ${f.link} on ${f.from}`).toBeTruthy();
-        await check(page, href!);
+        await check(page, await followedAddress(page, f));
       }
       if (a.certificatePage) {
         const [cert] = await sql<{ code: string }>("select code from certificate order by issued_at limit 1");

@@ -2,7 +2,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { sql } from "../support/db";
 import { launchBrowser, newContext, PHONE, signInPage, snap } from "../support/browser";
-import { AUDIENCES } from "../support/pages";
+import { AUDIENCES, followedAddress } from "../support/pages";
 
 // Every page fits a phone: at 390 CSS pixels (a common phone width, from memory of current handsets) the
 // page itself never scrolls sideways; wide tables scroll inside their own box (WCAG 2.2 SC 1.4.10 Reflow
@@ -46,10 +46,7 @@ describe("every page fits a 390 px phone", () => {
       const problems: string[] = [];
       const paths = [...a.pages];
       for (const f of a.follow ?? []) {
-        await page.goto(f.from);
-        const link = page.getByRole("link", { name: f.link }).first();
-        await link.waitFor({ timeout: 15_000 });
-        paths.push((await link.getAttribute("href"))!);
+        paths.push(await followedAddress(page, f));
       }
       if (a.certificatePage) {
         const [cert] = await sql<{ code: string }>("select code from certificate order by issued_at limit 1");
