@@ -79,6 +79,7 @@ const TEXT: Record<string, (row: Row, money: string | null) => string> = {
   "staff.invitation_accepted": () => "set a password with a staff invitation",
   "staff.deactivate": () => "deactivated a staff member",
   "staff.reactivate": () => "reactivated a staff member",
+  "staff.bench-week": () => "set a staff member's bench hours and days off",
   "auth.sign_in": () => "signed in",
   "auth.sign_in_failed": () => "was refused at sign-in (wrong e-mail or password)",
   "auth.sign_out": () => "signed out",

@@ -7,3 +7,4 @@ export * from "./payments";
 export * from "./bench";
 export * from "./warranty";
 export * from "./audit";
+export * from "./schedule";

@@ -56,6 +56,15 @@ describe("turnaround forecast", () => {
     expect(days(f)).toEqual({ warranty: ["2026-12-07", "2026-12-07", 1], paid: ["2026-12-08", "2026-12-08", 2] });
   });
 
+  it("finishes the set already on the bench before starting warranty work that is waiting", () => {
+    const f = forecastTurnaround({
+      today: "2026-12-07",
+      technicians: [tech("t1")],
+      jobs: [job("warranty", 240, "2026-12-05T10:00:00Z", { warranty: true }), job("open", 120, "2026-11-01T10:00:00Z", { started: true })],
+    });
+    expect(days(f)).toEqual({ open: ["2026-12-07", "2026-12-07", 1], warranty: ["2026-12-07", "2026-12-08", 2] });
+  });
+
   it("shares unassigned work between technicians and keeps assigned work with its technician", () => {
     const f = forecastTurnaround({
       today: "2026-12-07",

@@ -6,17 +6,19 @@ import { REFUND_STATUS_LABEL } from "@/components/office/labels";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { listFailedEmailsForOffice, listOpenRefundsForOffice, officeOverviewFigures } from "@/db/queries/office";
 import { getShop } from "@/lib/server/services/shop";
+import { shopForecast } from "@/lib/server/services/turnaround";
 import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Office" };
 
 export default async function OfficePage() {
   const viewer = await requirePermission("office.use", "/office");
-  const [figures, shop, openRefunds, failedMail] = await Promise.all([
+  const [figures, shop, openRefunds, failedMail, forecast] = await Promise.all([
     officeOverviewFigures(),
     getShop(),
     listOpenRefundsForOffice(),
     listFailedEmailsForOffice(),
+    shopForecast(),
   ]);
   const currency = shop.policy.currency;
   const stats = [
@@ -25,6 +27,11 @@ export default async function OfficePage() {
     { label: "Balance due", value: String(figures.balance_due), href: "/bench" },
     { label: "Received this month", value: formatMoney(figures.paid_this_month, currency), href: "/office/reports" },
     { label: "Refunds waiting for the processor", value: String(figures.refunds_in_flight), href: "/office/payments" },
+    {
+      label: "Bench backlog",
+      value: forecast.backlogWeeks === null ? "No bench hours set" : `${forecast.backlogWeeks.toLocaleString("en-GB")} weeks`,
+      href: "/office/staff",
+    },
     { label: "Active technicians", value: String(figures.technicians), href: "/office/staff" },
   ];
   const tiles = [
@@ -49,7 +56,7 @@ export default async function OfficePage() {
         <h2 id="glance" className="sr-only">
           Figures
         </h2>
-        <dl className="grid gap-3 sm:grid-cols-3 lg:grid-cols-6">
+        <dl className="grid gap-3 sm:grid-cols-3 lg:grid-cols-7">
           {stats.map((s) => (
             <div key={s.label} className="card p-3">
               <dt className="text-xs text-bakelite-soft">{s.label}</dt>

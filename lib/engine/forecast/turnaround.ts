@@ -1,10 +1,18 @@
-// When will a set reach the bench? The queue is worked in order (warranty jobs first, then by the time each job
-// joined the queue), each technician taking the next job that is theirs or unassigned, one job at a time, for
+// When will a set reach the bench? The queue is worked in order (sets already on the bench first, then warranty
+// jobs, then by the time each job joined the queue), each technician taking the next job that is theirs or unassigned, one job at a time, for
 // as many minutes a day as their bench week gives them, skipping their days off. The answer per job is the day
 // its first minute is worked and the day its last minute is: a range the owner can plan around.
 
 /** Bench minutes per weekday, Monday first. */
 export type BenchWeek = readonly [number, number, number, number, number, number, number];
+
+/**
+ * Counted for a technician whose bench week the office has not set: six bench hours a day, Monday to Friday (an
+ * assumption of this shop's, shown on the staff page, not a trade figure).
+ */
+export const ASSUMED_BENCH_WEEK: BenchWeek = [360, 360, 360, 360, 360, 0, 0];
+
+export const WEEKDAY_NAMES = ["Monday", "Tuesday", "Wednesday", "Thursday", "Friday", "Saturday", "Sunday"] as const;
 
 export type ForecastTechnician = {
   id: string;
@@ -21,6 +29,8 @@ export type ForecastJob = {
   queuedAt: string;
   /** Warranty work goes ahead of paid work. */
   warranty: boolean;
+  /** Already on the bench: finished before anything waiting is started. */
+  started?: boolean;
   /** The technician it is assigned to, or null for whoever is free first. */
   technicianId: string | null;
 };
@@ -54,10 +64,11 @@ function weekdayIndex(n: number): number {
   return (((n + 3) % 7) + 7) % 7;
 }
 
-/** The queue's working order: warranty first, then the time each job joined, then its id for a stable tie-break. */
-export function queueOrder<T extends Pick<ForecastJob, "id" | "queuedAt" | "warranty">>(jobs: readonly T[]): T[] {
+/** The queue's working order: work already started, then warranty, then the time each job joined, then its id. */
+export function queueOrder<T extends Pick<ForecastJob, "id" | "queuedAt" | "warranty" | "started">>(jobs: readonly T[]): T[] {
   return [...jobs].sort(
     (a, b) =>
+      Number(Boolean(b.started)) - Number(Boolean(a.started)) ||
       Number(b.warranty) - Number(a.warranty) ||
       Date.parse(a.queuedAt) - Date.parse(b.queuedAt) ||
       (a.id < b.id ? -1 : a.id > b.id ? 1 : 0),

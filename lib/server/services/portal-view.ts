@@ -1,4 +1,5 @@
 import "server-only";
+import { ownerForecast } from "./turnaround";
 import { listPaymentsForCustomer, listRefundsForCustomer } from "@/db/queries/payments";
 import { accountOf } from "@/lib/engine/pricing/account";
 import {
@@ -75,12 +76,14 @@ const CATEGORY_ORDER: DraftCategory[] = ["inspection", "safety", "recap", "align
 export async function getPortalJobView({ jobId, customerId }: { jobId: string; customerId: string }) {
   const job = await getPortalJobForCustomer({ jobId, customerId });
   if (!job) throw new AppError("not_found", "That job was not found.");
-  const [timeline, photoRows, revisions, paymentRows, refundRows] = await Promise.all([
+  const [timeline, photoRows, revisions, paymentRows, refundRows, forecast] = await Promise.all([
     listTimelineForCustomer({ jobId, customerId }),
     listPhotosForCustomer({ jobId, customerId }),
     listRevisionsForCustomer({ jobId, customerId }),
     listPaymentsForCustomer({ jobId, customerId }),
     listRefundsForCustomer({ jobId, customerId }),
+    // Where the set stands in the bench queue while it waits for it.
+    ownerForecast({ jobId, state: job.state }),
   ]);
 
   const current = revisions[0];
@@ -209,6 +212,7 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
       owedBack: m(account.owedBackMinor),
     },
     confirming: Boolean(inFlight),
+    forecast,
   };
 }
 

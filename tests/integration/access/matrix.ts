@@ -309,6 +309,7 @@ export const ACTIONS: { file: string; name: string; permission: string; roles: R
   { file: "app/(office)/office/staff/actions.ts", name: "inviteStaff", permission: "staff.manage", roles: ["owner"] },
   { file: "app/(office)/office/staff/actions.ts", name: "changeStaffRole", permission: "staff.manage", roles: ["owner"] },
   { file: "app/(office)/office/staff/actions.ts", name: "setStaffActive", permission: "staff.manage", roles: ["owner"] },
+  { file: "app/(office)/office/staff/bench-time-actions.ts", name: "saveBenchWeek", permission: "staff.manage", roles: ["owner"] },
 ];
 
 // Every page, who may open it, and the ids of pages with a parameter. "local-demo" pages exist only in the

@@ -3,13 +3,15 @@ import { listStaff } from "@/db/queries/staff";
 import { isRole } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 import { InviteForm, StaffRow } from "./_components/staff-controls";
+import { BenchWeekForm } from "./_components/bench-week-form";
+import { benchStaff } from "@/lib/server/services/turnaround";
 import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Staff" };
 
 export default async function StaffPage() {
   const viewer = await requirePermission("staff.manage", "/office/staff");
-  const staff = await listStaff();
+  const [staff, bench] = await Promise.all([listStaff(), benchStaff()]);
   return (
     <div className="space-y-8">
       <h1 className="text-3xl font-bold">Staff</h1>
@@ -41,6 +43,29 @@ export default async function StaffPage() {
             </tbody>
           </table>
         </TableScroll>
+      </section>
+      <section aria-labelledby="bench-time" className="card space-y-4 p-4">
+        <div>
+          <h2 id="bench-time" className="text-lg font-semibold">
+            Bench time
+          </h2>
+          <p className="text-sm text-bakelite-muted">
+            The hours each person spends at the bench and their days off. Owners&apos; expected bench dates and the backlog in weeks are
+            worked out from these; a technician whose week is not set counts six hours a day, Monday to Friday.
+          </p>
+        </div>
+        {bench.map((p) => (
+          <details key={p.id} className="rounded-card border border-bakelite-muted/40 p-3">
+            <summary className="cursor-pointer font-semibold">
+              {p.name}: {Math.round((p.week.reduce((a, b) => a + b, 0) / 60) * 10) / 10} h a week
+              {p.daysOff.length ? `, ${p.daysOff.length} day${p.daysOff.length === 1 ? "" : "s"} off listed` : ""}
+              {p.assumed && p.role === "technician" ? " (assumed)" : ""}
+            </summary>
+            <div className="mt-3">
+              <BenchWeekForm person={{ id: p.id, name: p.name, assumed: p.assumed, minutes: p.week, daysOff: p.daysOff }} />
+            </div>
+          </details>
+        ))}
       </section>
       <section aria-labelledby="invite" className="card max-w-xl p-4">
         <h2 id="invite" className="mb-3 text-lg font-semibold">

@@ -6,6 +6,7 @@ import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
 import type { PortalJobView } from "@/lib/server/services/portal-view";
+import { QueueForecast } from "./queue-forecast";
 import { api } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
 import { EstimatePanel } from "./estimate-panel";
@@ -117,6 +118,7 @@ export function JobView({
               Shipped with {v.job.carrier ?? "the carrier"}, tracking number <span className="figure">{v.job.trackingNumber}</span>.
             </p>
           ) : null}
+          <QueueForecast forecast={v.forecast} />
         </section>
       ) : null}
 
