@@ -33,6 +33,8 @@ export const PERMISSIONS = {
   "job.cancel": ["owner"],
   "audit.read": ["owner"],
   "reports.read": ["owner"],
+  // CSV files for the accountant: payments and refunds, jobs, tax by month, the audit log.
+  "exports.download": ["owner"],
   "certificate.revoke": ["owner"],
   "certificate.reissue": ["owner"],
   // The holder downloads their own certificate; staff any (ownership is checked beside the data).

@@ -13,6 +13,8 @@ type Options<S extends z.ZodType | undefined> = {
   permission: Permission;
   body?: S;
   // Customer-facing routes pass through; staff-only ones answer 404 to everyone else.
+  /** Answer a visitor who is not signed in 404 too, so the route's existence is not told (owner-only files). */
+  hideFromVisitors?: boolean;
 };
 
 const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
@@ -81,7 +83,8 @@ export function route<P = Record<string, string>, S extends z.ZodType | undefine
   return async (request: Request, context: RouteContext<P>): Promise<Response> => {
     try {
       const viewer = await viewerFromHeaders(request.headers);
-      if (!viewer) throw new AppError("unauthenticated", "Please sign in.");
+      if (!viewer)
+        throw options.hideFromVisitors ? new AppError("not_found", "Not found.") : new AppError("unauthenticated", "Please sign in.");
       if (!can(viewer.role, options.permission)) throw new AppError("not_found", "Not found.");
       assertSameOrigin(request);
       let body: unknown = undefined;

@@ -689,6 +689,8 @@ describe("random query strings on the routes that read one", () => {
     { role: "owner", path: "/api/office/audit", params: ["actor", "entity", "action", "from", "to", "page"] },
     { role: "owner", path: "/api/office/reports", params: ["from", "to"] },
     { role: "owner", path: "/api/office/payments", params: ["page", "status"] },
+    { role: "owner", path: "/api/office/exports/payments.csv", params: ["from", "to"] },
+    { role: "owner", path: "/api/office/exports/audit.csv", params: ["from", "to"] },
   ];
   const value = fc.oneof(
     nastyStrings,

@@ -50,7 +50,7 @@ describe("the render pool", () => {
   });
 
   it("gives up on a task that never answers, and the next task gets a fresh thread", async () => {
-    const p = pool({ timeoutMs: 300 });
+    const p = pool({ timeoutMs: 2_000 });
     const first = await p.run({ value: 1 });
     const slow = await failure(p.run({ hang: true }));
     expect(slow.reason).toBe("timeout");
@@ -61,7 +61,7 @@ describe("the render pool", () => {
   });
 
   it("times out a task still waiting in line behind a stuck one", async () => {
-    const p = pool({ timeoutMs: 300, maxQueue: 1 });
+    const p = pool({ timeoutMs: 2_000, maxQueue: 1 });
     const [running, waiting] = await Promise.all([failure(p.run({ hang: true })), failure(p.run({ value: 1 }))]);
     expect(running.reason).toBe("timeout");
     expect(waiting.reason).toBe("timeout");

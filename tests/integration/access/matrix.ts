@@ -32,6 +32,8 @@ export type RouteEntry = {
   params?: (f: Fixtures) => Record<string, string>;
   body?: (f: Fixtures) => unknown;
   query?: string;
+  /** Routes that do not tell visitors they exist answer them 404 instead of asking them to sign in. */
+  hiddenFromVisitors?: boolean;
 };
 
 const staff = (rule: Rule = "allow"): Record<Role, Rule> => ({
@@ -269,6 +271,15 @@ export const ROUTES: RouteEntry[] = [
   { method: "PUT", route: "/api/office/settings", action: "settings.edit", rules: ownerOnly, body: () => ({}) },
   { method: "GET", route: "/api/office/audit", action: "audit.read", rules: ownerOnly },
   { method: "GET", route: "/api/office/reports", action: "reports.read", rules: ownerOnly },
+  {
+    method: "GET",
+    route: "/api/office/exports/[file]",
+    action: "exports.download",
+    rules: ownerOnly,
+    params: () => ({ file: "payments.csv" }),
+    query: "?from=2026-01-01&to=2026-12-31",
+    hiddenFromVisitors: true,
+  },
   { method: "GET", route: "/api/office/payments", action: "payment.refund", rules: ownerOnly },
   {
     method: "GET",

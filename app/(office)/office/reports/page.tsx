@@ -9,6 +9,7 @@ import { getShop } from "@/lib/server/services/shop";
 import { requirePermission } from "@/lib/server/session";
 import { reportRangeSchema } from "@/lib/validation/office";
 import { TableScroll } from "@/components/ui/table-scroll";
+import { ExportForm } from "./_components/export-form";
 
 export const metadata: Metadata = { title: "Reports" };
 
@@ -259,6 +260,16 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
             </TableScroll>
           </div>
         </div>
+      </section>
+      <section aria-labelledby="exports" className="card space-y-2 p-4">
+        <h2 id="exports" className="text-lg font-semibold">
+          Files for the accountant
+        </h2>
+        <p className="max-w-prose text-sm text-bakelite-soft">
+          CSV files for a range of days (UTC), both days included: payments received and refunds confirmed; jobs opened; tax on jobs paid in
+          full, by month, labour and parts apart; and the audit log.
+        </p>
+        <ExportForm defaultFrom={`${r.range.from}-01`} defaultTo={new Date().toISOString().slice(0, 10)} />
       </section>
     </div>
   );
