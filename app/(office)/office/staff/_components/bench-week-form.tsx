@@ -21,14 +21,15 @@ export function BenchWeekForm({ person }: { person: Person }) {
     ...Object.fromEntries(BENCH_WEEK_FIELDS.map((f, i) => [f, String((person.minutes[i] ?? 0) / 60)])),
     daysOff: person.daysOff.join("\n"),
   } as BenchWeekInput;
-  const { register, handleSubmit, formState, setError } = useForm<BenchWeekInput, unknown, BenchWeekValues>({
+  const { register, handleSubmit, formState, setError, getValues } = useForm<BenchWeekInput, unknown, BenchWeekValues>({
     resolver: zodResolver(benchWeekSchema),
     defaultValues: defaults,
   });
   const { errors } = formState;
-  const onSubmit = handleSubmit(async (values) => {
+  // The fields are checked here first; the server gets them as typed and checks them again.
+  const onSubmit = handleSubmit(async () => {
     setMessage(null);
-    const r = await saveBenchWeek(values);
+    const r = await saveBenchWeek(getValues());
     if (r.ok) {
       setMessage({ tone: "success", text: `Bench week saved for ${person.name}.` });
       router.refresh();
