@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { account, shopSettings, user } from "@/db/schema";
+import { account, benchWeeks, shopSettings, user } from "@/db/schema";
 import { transaction } from "@/db/transaction";
 import { hashPassword } from "@/lib/server/password";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
@@ -32,6 +32,14 @@ export async function seedDemo(): Promise<string> {
     await ctx.tx
       .insert(shopSettings)
       .values({ id: "shop", ...DEMO_SHOP, policy: defaultShopPolicy as unknown as Record<string, unknown> })
+      .onConflictDoNothing();
+    // The workshop opens Tuesday to Saturday: Tomas at the bench six hours a day, Priya five; both off on Christmas Day.
+    await ctx.tx
+      .insert(benchWeeks)
+      .values([
+        { userId: "demo-tech-tomas", minutes: [0, 360, 360, 360, 360, 360, 0], daysOff: ["2026-12-25", "2027-01-01"] },
+        { userId: "demo-tech-priya", minutes: [0, 300, 300, 300, 300, 300, 0], daysOff: ["2026-12-25", "2027-01-01"] },
+      ])
       .onConflictDoNothing();
     const jobs = await seedDemoJobs(ctx);
     const refunds = await seedDemoRefund(ctx);
