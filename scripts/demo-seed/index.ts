@@ -33,7 +33,7 @@ export async function seedDemo(): Promise<string> {
       .insert(shopSettings)
       .values({ id: "shop", ...DEMO_SHOP, policy: defaultShopPolicy as unknown as Record<string, unknown> })
       .onConflictDoNothing();
-    // The workshop opens Tuesday to Saturday: Tomas at the bench six hours a day, Priya five; both off on Christmas Day.
+    // The workshop opens Tuesday to Saturday: Tomas at the bench six hours a day, Priya five; both off on Christmas Day and New Year's Day.
     await ctx.tx
       .insert(benchWeeks)
       .values([
