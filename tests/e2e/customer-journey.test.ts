@@ -128,6 +128,10 @@ describe("a set owner's journey", () => {
     await expect.poll(() => page.getByRole("heading", { name: "Safety" }).count()).toBe(1);
     await expect.poll(() => page.getByText(/^Why: /).count()).toBeGreaterThan(0);
     await expect.poll(() => page.getByRole("heading", { name: "What the warranty will cover" }).count()).toBe(1);
+    // The certificate is issued when the set is returned (the completion step), so the estimate cannot speak
+    // of "this certificate": it names the certificate to come.
+    expect(await page.locator("main").innerText()).not.toMatch(/this certificate/i);
+    expect(await page.locator("main").innerText()).toMatch(/certificate you receive with the set/);
     const deposit = await text(page, "estimate-deposit");
     expect(deposit).toMatch(/^\$\d+\.\d{2}$/);
     await snap(page, "journey-06-estimate");

@@ -13,7 +13,13 @@ import type { JobState } from "@/lib/engine/jobs/states";
 import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { AppError } from "@/lib/server/errors";
 import { jobNumber, ownerStateLabel, STATE_LABEL } from "@/lib/engine/jobs/states";
-import { coveredWording, exclusionWording, type CoveredWordingKey, type ExclusionCode } from "@/lib/engine/warranty/exclusions";
+import {
+  coveredWording,
+  coveredWordingInEstimate,
+  exclusionWording,
+  type CoveredWordingKey,
+  type ExclusionCode,
+} from "@/lib/engine/warranty/exclusions";
 import { CATEGORY_LABEL, moneyText, type DraftCategory } from "@/lib/validation/estimate";
 
 // What a set owner may see of a job, shaped field by field: no cost prices, markups, internal notes or staff ids.
@@ -36,7 +42,8 @@ function warrantyOf(p: Record<string, unknown>) {
   return {
     termDays: typeof w.termDays === "number" ? w.termDays : 0,
     designation: w.designation === "full" ? "full" : "limited",
-    covers: covered.map((k) => coveredWording[k]),
+    // The estimate comes before the work: its cover speaks of the certificate to come, not of "this certificate".
+    covers: covered.map((k) => coveredWordingInEstimate[k]),
     excludes: excluded.map((k) => exclusionWording[k]),
   };
 }
