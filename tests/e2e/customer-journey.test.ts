@@ -71,7 +71,7 @@ describe("a set owner's journey", () => {
 
     // Submitting without the cautions acknowledged is refused beside the box.
     await page.getByRole("button", { name: "Send my quote request" }).click();
-    await expect.poll(() => page.getByText("Please read the cautions and tick the box.").count()).toBe(1);
+    await expect.poll(() => page.getByText("Cautions: please read them and tick the box.").count()).toBe(1);
     await page.getByLabel(/I have read these cautions/).check();
     await snap(page, "journey-04-cautions");
     await page.getByRole("button", { name: "Send my quote request" }).click();
