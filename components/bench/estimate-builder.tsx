@@ -268,9 +268,10 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
         <Notice tone="caution" title="The set profile needs attention">
           <p>The checklist cannot be computed until the profile is complete (see Triage).</p>
           <ul className="list-disc pl-5">
+            {/* Each message names its field; the field's path stays in the data. */}
             {Object.entries(view.profileIssues).map(([k, v]) => (
-              <li key={k}>
-                <span className="figure">{k}</span>: {v}
+              <li key={k} data-field={k}>
+                {v}
               </li>
             ))}
           </ul>
@@ -346,11 +347,15 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                         {titleErr}
                       </p>
                     ) : null}
+                    {/* The line's code stays in the data (data-line); people read its reason and readings. */}
                     <p id={`${idp}-reason`} className="mt-0.5 text-xs text-bakelite-muted">
-                      <span className="figure">{line.code}</span>
-                      {line.reason ? ` — ${line.reason}` : ""}
+                      {line.reason || (part ? "Part" : "Labour")}
                     </p>
-                    {line.readings.length ? <p className="text-xs text-bakelite-muted">Readings: {line.readings.join(", ")}</p> : null}
+                    {line.readings.length ? (
+                      <p className="text-xs text-bakelite-muted">
+                        Readings: {line.readings.map((k) => view.readingLabels[k] ?? "a bench-sheet reading").join("; ")}
+                      </p>
+                    ) : null}
                   </td>
                   <td>
                     <label htmlFor={`${idp}-cat`} className="sr-only">
@@ -468,7 +473,7 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                       className="btn-quiet px-1 py-0 text-fail"
                       disabled={!editable}
                       onClick={() => lines.remove(i)}
-                      aria-label={`Remove line ${i + 1}: ${line.title || line.code}`}
+                      aria-label={`Remove line ${i + 1}${line.title ? `: ${line.title}` : ""}`}
                     >
                       ✕
                     </button>
