@@ -94,7 +94,22 @@ describe("the triage band table at 1280 px", () => {
       };
     });
     await snap(page, "triage-1280");
+    await page.getByRole("tab", { name: "Estimate" }).click();
+    await page.getByRole("table", { name: "Estimate lines" }).waitFor();
+    await snap(page, "estimate-1280");
     await desk.close();
+    // The same tabs on a phone, for the record.
+    const phone = await newContext(browser, PHONE);
+    const small = await phone.newPage();
+    await signInPage(small, DEMO.tech.email, DEMO.tech.password);
+    await small.goto(`/bench/jobs/${job!.id}`);
+    await small.getByRole("tab", { name: "Triage" }).click();
+    await small.getByTestId("band-table").waitFor();
+    await snap(small, "triage-390");
+    await small.getByRole("tab", { name: "Estimate" }).click();
+    await small.getByRole("table", { name: "Estimate lines" }).waitFor();
+    await snap(small, "estimate-390");
+    await phone.close();
     expect(box.pageWidth).toBeLessThanOrEqual(1281);
     expect(box.cardRight).toBeLessThanOrEqual(box.columnRight + 1);
     expect(box.scrollerRight).toBeLessThanOrEqual(box.cardRight + 1);
