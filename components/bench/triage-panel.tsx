@@ -161,11 +161,13 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
         </div>
       </div>
 
-      <fieldset className="space-y-2">
+      {/* min-w-0: a fieldset is at least as wide as its content by default, which would carry the band table
+          past the card instead of letting its box scroll. */}
+      <fieldset className="min-w-0 space-y-2">
         <legend className="field-label">Bands, as printed on the dial (kHz, FM too: 88–108 MHz is 88000–108000)</legend>
         {pe?.bands?.message ? <p className="field-error">{pe.bands.message}</p> : null}
         <div className="overflow-x-auto">
-          <table className="dense-table" data-testid="band-table">
+          <table className="dense-table [&_td]:px-1 [&_th]:px-1" data-testid="band-table">
             <thead>
               <tr>
                 <th scope="col">Band</th>
@@ -194,7 +196,7 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       <input
                         id={id}
                         inputMode="decimal"
-                        className="field-input figure mt-0 w-20 py-1"
+                        className="field-input figure mt-0 w-20 px-1.5 py-1"
                         aria-invalid={message ? true : undefined}
                         aria-describedby={message ? `${id}-error` : undefined}
                         {...register(`profile.bands.${i}.${name}`)}
@@ -213,7 +215,11 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       <label htmlFor={`tri-band-${i}-kind`} className="sr-only">
                         Band {i + 1} kind
                       </label>
-                      <select id={`tri-band-${i}-kind`} className="field-input mt-0 w-20 py-1" {...register(`profile.bands.${i}.kind`)}>
+                      <select
+                        id={`tri-band-${i}-kind`}
+                        className="field-input mt-0 w-16 px-1.5 py-1"
+                        {...register(`profile.bands.${i}.kind`)}
+                      >
                         {bandKinds.map((k) => (
                           <option key={k}>{k}</option>
                         ))}
@@ -223,7 +229,11 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       <label htmlFor={`tri-band-${i}-label`} className="sr-only">
                         Band {i + 1} label
                       </label>
-                      <input id={`tri-band-${i}-label`} className="field-input mt-0 w-20 py-1" {...register(`profile.bands.${i}.label`)} />
+                      <input
+                        id={`tri-band-${i}-label`}
+                        className="field-input mt-0 w-20 px-1.5 py-1"
+                        {...register(`profile.bands.${i}.label`)}
+                      />
                     </td>
                     {cell("lowKHz", "dial low")}
                     {cell("highKHz", "dial high")}
@@ -234,7 +244,7 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       </label>
                       <select
                         id={`tri-band-${i}-inj`}
-                        className="field-input mt-0 w-28 py-1"
+                        className="field-input mt-0 w-28 px-1.5 py-1"
                         {...register(`profile.bands.${i}.injection`, { setValueAs: blankToUndefined })}
                       >
                         <option value="">above signal</option>
@@ -247,8 +257,8 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       </label>
                       <input
                         id={`tri-band-${i}-points`}
-                        className="field-input figure mt-0 w-32 py-1"
-                        placeholder="usual points"
+                        className="field-input figure mt-0 w-28 px-1.5 py-1"
+                        placeholder="usual"
                         aria-invalid={be?.trackingPointsKHz ? true : undefined}
                         aria-describedby={be?.trackingPointsKHz ? `tri-band-${i}-points-error` : undefined}
                         {...register(`profile.bands.${i}.trackingPointsKHz`)}
@@ -266,8 +276,9 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                         className="btn-quiet px-1 py-0.5"
                         onClick={() => bands.remove(i)}
                         disabled={bands.fields.length === 1}
+                        aria-label={`Remove band ${i + 1}`}
                       >
-                        Remove<span className="sr-only"> band {i + 1}</span>
+                        <span aria-hidden="true">✕</span>
                       </button>
                     </td>
                   </tr>
