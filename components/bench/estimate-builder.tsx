@@ -587,36 +587,39 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
           <h4 id="revisions-heading" className="font-semibold">
             Revisions sent
           </h4>
-          <table className="dense-table">
-            <thead>
-              <tr>
-                <th scope="col">Revision</th>
-                <th scope="col">Status</th>
-                <th scope="col">Sent</th>
-                <th scope="col" className="text-right">
-                  Total
-                </th>
-                <th scope="col" className="text-right">
-                  Deposit
-                </th>
-                <th scope="col">Change</th>
-              </tr>
-            </thead>
-            <tbody>
-              {view.revisions.map((r) => (
-                <tr key={r.id}>
-                  <td className="figure">{r.revision}</td>
-                  <td>{STATUS_WORDS[r.status] ?? r.status}</td>
-                  <td className="figure">
-                    {new Date(r.sentAt).toLocaleString("en-US")} {r.sentByName ? `by ${r.sentByName}` : ""}
-                  </td>
-                  <td className="figure text-right">{moneyText(r.totalMinor, r.currency, policy.currency.exponent)}</td>
-                  <td className="figure text-right">{moneyText(r.depositMinor, r.currency, policy.currency.exponent)}</td>
-                  <td>{r.changeSummary ?? (r.declineReason ? `Declined: ${r.declineReason}` : "—")}</td>
+          {/* On a phone the six columns scroll inside the card, not the page. */}
+          <div className="overflow-x-auto">
+            <table className="dense-table">
+              <thead>
+                <tr>
+                  <th scope="col">Revision</th>
+                  <th scope="col">Status</th>
+                  <th scope="col">Sent</th>
+                  <th scope="col" className="text-right">
+                    Total
+                  </th>
+                  <th scope="col" className="text-right">
+                    Deposit
+                  </th>
+                  <th scope="col">Change</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {view.revisions.map((r) => (
+                  <tr key={r.id}>
+                    <td className="figure">{r.revision}</td>
+                    <td>{STATUS_WORDS[r.status] ?? r.status}</td>
+                    <td className="figure">
+                      {new Date(r.sentAt).toLocaleString("en-US")} {r.sentByName ? `by ${r.sentByName}` : ""}
+                    </td>
+                    <td className="figure text-right">{moneyText(r.totalMinor, r.currency, policy.currency.exponent)}</td>
+                    <td className="figure text-right">{moneyText(r.depositMinor, r.currency, policy.currency.exponent)}</td>
+                    <td>{r.changeSummary ?? (r.declineReason ? `Declined: ${r.declineReason}` : "—")}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
         </section>
       ) : null}
     </form>
