@@ -1,5 +1,5 @@
 import type { JobState } from "@/lib/engine/jobs/states";
-import { STATE_LABEL } from "@/lib/engine/jobs/states";
+import { ownerStateLabel, STATE_LABEL, type ReturnMethod } from "@/lib/engine/jobs/states";
 
 const TONE: Partial<Record<JobState, string>> = {
   estimate_sent: "border-ember text-ember-dark",
@@ -12,14 +12,22 @@ const TONE: Partial<Record<JobState, string>> = {
   cancelled: "border-bakelite-muted text-bakelite-muted",
 };
 
-export function StateBadge({ state, audience }: { state: JobState; audience: "owner" | "staff" }) {
+export function StateBadge({
+  state,
+  audience,
+  returnMethod,
+}: {
+  state: JobState;
+  audience: "owner" | "staff";
+  returnMethod?: ReturnMethod | null;
+}) {
   const label = STATE_LABEL[state];
   return (
     <span
       className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${TONE[state] ?? "border-bakelite-soft text-bakelite"}`}
     >
       <span aria-hidden="true">{label.icon}</span>
-      {label[audience]}
+      {audience === "owner" ? ownerStateLabel(state, returnMethod) : label.staff}
     </span>
   );
 }

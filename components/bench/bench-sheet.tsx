@@ -32,6 +32,11 @@ const shownUnit = (r: Pick<ReadingRequirement, "unit" | "entryUnit">): string =>
 const shown = (r: Pick<ReadingRequirement, "unit" | "entryUnit">, value: number): string =>
   formatNumber(r.entryUnit === "MHz" ? value / 1000 : value, r.entryUnit === "MHz" ? 4 : 3);
 
+/** A reading's message names its row: "Leakage current, plug one way: a current reading is not below zero." */
+function namedProblem(label: string, message: string): string {
+  return `${label}: ${message.charAt(0).toLowerCase()}${message.slice(1)}`;
+}
+
 function nominalText(r: ReadingRequirement): string {
   if (r.nominal === null) return r.tolerance.kind === "recorded" ? "no schematic figure: recorded only" : "";
   if (r.tolerance.kind === "window")
@@ -73,7 +78,7 @@ function ReadingRow({
   const parsed = parseReadingText(text, r);
   const problem =
     parsed === undefined
-      ? `Enter a number${r.unit === "kHz" ? ", with its unit if you like (1.49 MHz, 455 kHz)" : ""}.`
+      ? `Enter a number${r.unit === "kHz" ? ", with its unit if you like (1.49 MHz, 455 kHz)" : ` in ${r.unit}`}.`
       : parsed === null
         ? null
         : readingValueProblem(r, parsed);
@@ -115,7 +120,7 @@ function ReadingRow({
         </div>
         {serverError || (problem && text.trim() !== "") ? (
           <p id={`${id}-error`} className="field-error">
-            {serverError ?? problem}
+            {namedProblem(r.label, (serverError ?? problem)!)}
           </p>
         ) : null}
       </td>
@@ -373,7 +378,7 @@ function BenchNote({ jobId }: { jobId: string }) {
       onSubmit={(e) => {
         e.preventDefault();
         const parsed = benchNoteSchema.safeParse({ body, idempotencyKey });
-        if (!parsed.success) return setError(parsed.error.issues[0]?.message ?? "Write the note first.");
+        if (!parsed.success) return setError(parsed.error.issues[0]?.message ?? "Note: write the note first.");
         setError(null);
         m.mutate(parsed.data);
       }}

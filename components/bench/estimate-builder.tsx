@@ -268,9 +268,10 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
         <Notice tone="caution" title="The set profile needs attention">
           <p>The checklist cannot be computed until the profile is complete (see Triage).</p>
           <ul className="list-disc pl-5">
+            {/* Each message names its field; the field's path stays in the data. */}
             {Object.entries(view.profileIssues).map(([k, v]) => (
-              <li key={k}>
-                <span className="figure">{k}</span>: {v}
+              <li key={k} data-field={k}>
+                {v}
               </li>
             ))}
           </ul>
@@ -346,11 +347,15 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                         {titleErr}
                       </p>
                     ) : null}
+                    {/* The line's code stays in the data (data-line); people read its reason and readings. */}
                     <p id={`${idp}-reason`} className="mt-0.5 text-xs text-bakelite-muted">
-                      <span className="figure">{line.code}</span>
-                      {line.reason ? ` — ${line.reason}` : ""}
+                      {line.reason || (part ? "Part" : "Labour")}
                     </p>
-                    {line.readings.length ? <p className="text-xs text-bakelite-muted">Readings: {line.readings.join(", ")}</p> : null}
+                    {line.readings.length ? (
+                      <p className="text-xs text-bakelite-muted">
+                        Readings: {line.readings.map((k) => view.readingLabels[k] ?? "a bench-sheet reading").join("; ")}
+                      </p>
+                    ) : null}
                   </td>
                   <td>
                     <label htmlFor={`${idp}-cat`} className="sr-only">
@@ -468,7 +473,7 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                       className="btn-quiet px-1 py-0 text-fail"
                       disabled={!editable}
                       onClick={() => lines.remove(i)}
-                      aria-label={`Remove line ${i + 1}: ${line.title || line.code}`}
+                      aria-label={`Remove line ${i + 1}${line.title ? `: ${line.title}` : ""}`}
                     >
                       ✕
                     </button>
@@ -582,36 +587,39 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
           <h4 id="revisions-heading" className="font-semibold">
             Revisions sent
           </h4>
-          <table className="dense-table">
-            <thead>
-              <tr>
-                <th scope="col">Revision</th>
-                <th scope="col">Status</th>
-                <th scope="col">Sent</th>
-                <th scope="col" className="text-right">
-                  Total
-                </th>
-                <th scope="col" className="text-right">
-                  Deposit
-                </th>
-                <th scope="col">Change</th>
-              </tr>
-            </thead>
-            <tbody>
-              {view.revisions.map((r) => (
-                <tr key={r.id}>
-                  <td className="figure">{r.revision}</td>
-                  <td>{STATUS_WORDS[r.status] ?? r.status}</td>
-                  <td className="figure">
-                    {new Date(r.sentAt).toLocaleString("en-US")} {r.sentByName ? `by ${r.sentByName}` : ""}
-                  </td>
-                  <td className="figure text-right">{moneyText(r.totalMinor, r.currency, policy.currency.exponent)}</td>
-                  <td className="figure text-right">{moneyText(r.depositMinor, r.currency, policy.currency.exponent)}</td>
-                  <td>{r.changeSummary ?? (r.declineReason ? `Declined: ${r.declineReason}` : "—")}</td>
+          {/* On a phone the six columns scroll inside the card, not the page. */}
+          <div className="overflow-x-auto">
+            <table className="dense-table">
+              <thead>
+                <tr>
+                  <th scope="col">Revision</th>
+                  <th scope="col">Status</th>
+                  <th scope="col">Sent</th>
+                  <th scope="col" className="text-right">
+                    Total
+                  </th>
+                  <th scope="col" className="text-right">
+                    Deposit
+                  </th>
+                  <th scope="col">Change</th>
                 </tr>
-              ))}
-            </tbody>
-          </table>
+              </thead>
+              <tbody>
+                {view.revisions.map((r) => (
+                  <tr key={r.id}>
+                    <td className="figure">{r.revision}</td>
+                    <td>{STATUS_WORDS[r.status] ?? r.status}</td>
+                    <td className="figure">
+                      {new Date(r.sentAt).toLocaleString("en-US")} {r.sentByName ? `by ${r.sentByName}` : ""}
+                    </td>
+                    <td className="figure text-right">{moneyText(r.totalMinor, r.currency, policy.currency.exponent)}</td>
+                    <td className="figure text-right">{moneyText(r.depositMinor, r.currency, policy.currency.exponent)}</td>
+                    <td>{r.changeSummary ?? (r.declineReason ? `Declined: ${r.declineReason}` : "—")}</td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
         </section>
       ) : null}
     </form>

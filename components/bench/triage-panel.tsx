@@ -161,11 +161,13 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
         </div>
       </div>
 
-      <fieldset className="space-y-2">
+      {/* min-w-0: a fieldset is at least as wide as its content by default, which would carry the band table
+          past the card instead of letting its box scroll. */}
+      <fieldset className="min-w-0 space-y-2">
         <legend className="field-label">Bands, as printed on the dial (kHz, FM too: 88–108 MHz is 88000–108000)</legend>
         {pe?.bands?.message ? <p className="field-error">{pe.bands.message}</p> : null}
         <div className="overflow-x-auto">
-          <table className="dense-table">
+          <table className="dense-table [&_td]:px-1 [&_th]:px-1" data-testid="band-table">
             <thead>
               <tr>
                 <th scope="col">Band</th>
@@ -194,7 +196,7 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       <input
                         id={id}
                         inputMode="decimal"
-                        className="field-input figure mt-0 w-24 py-1"
+                        className="field-input figure mt-0 w-20 px-1.5 py-1"
                         aria-invalid={message ? true : undefined}
                         aria-describedby={message ? `${id}-error` : undefined}
                         {...register(`profile.bands.${i}.${name}`)}
@@ -213,7 +215,11 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       <label htmlFor={`tri-band-${i}-kind`} className="sr-only">
                         Band {i + 1} kind
                       </label>
-                      <select id={`tri-band-${i}-kind`} className="field-input mt-0 w-20 py-1" {...register(`profile.bands.${i}.kind`)}>
+                      <select
+                        id={`tri-band-${i}-kind`}
+                        className="field-input mt-0 w-16 px-1.5 py-1"
+                        {...register(`profile.bands.${i}.kind`)}
+                      >
                         {bandKinds.map((k) => (
                           <option key={k}>{k}</option>
                         ))}
@@ -223,7 +229,11 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       <label htmlFor={`tri-band-${i}-label`} className="sr-only">
                         Band {i + 1} label
                       </label>
-                      <input id={`tri-band-${i}-label`} className="field-input mt-0 w-24 py-1" {...register(`profile.bands.${i}.label`)} />
+                      <input
+                        id={`tri-band-${i}-label`}
+                        className="field-input mt-0 w-20 px-1.5 py-1"
+                        {...register(`profile.bands.${i}.label`)}
+                      />
                     </td>
                     {cell("lowKHz", "dial low")}
                     {cell("highKHz", "dial high")}
@@ -234,7 +244,7 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       </label>
                       <select
                         id={`tri-band-${i}-inj`}
-                        className="field-input mt-0 w-32 py-1"
+                        className="field-input mt-0 w-28 px-1.5 py-1"
                         {...register(`profile.bands.${i}.injection`, { setValueAs: blankToUndefined })}
                       >
                         <option value="">above signal</option>
@@ -247,8 +257,8 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                       </label>
                       <input
                         id={`tri-band-${i}-points`}
-                        className="field-input figure mt-0 w-36 py-1"
-                        placeholder="usual points"
+                        className="field-input figure mt-0 w-28 px-1.5 py-1"
+                        placeholder="usual"
                         aria-invalid={be?.trackingPointsKHz ? true : undefined}
                         aria-describedby={be?.trackingPointsKHz ? `tri-band-${i}-points-error` : undefined}
                         {...register(`profile.bands.${i}.trackingPointsKHz`)}
@@ -266,8 +276,9 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
                         className="btn-quiet px-1 py-0.5"
                         onClick={() => bands.remove(i)}
                         disabled={bands.fields.length === 1}
+                        aria-label={`Remove band ${i + 1}`}
                       >
-                        Remove<span className="sr-only"> band {i + 1}</span>
+                        <span aria-hidden="true">✕</span>
                       </button>
                     </td>
                   </tr>
@@ -450,7 +461,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
       {state === "awaiting_owner" ? <Notice tone="info">Waiting for the owner to answer the shop&apos;s question.</Notice> : null}
 
       <div className="grid gap-3 lg:grid-cols-3">
-        <section className="card space-y-2 p-3 text-sm lg:col-span-1" aria-labelledby="request-heading">
+        <section className="card min-w-0 space-y-2 p-3 text-sm lg:col-span-1" aria-labelledby="request-heading">
           <h3 id="request-heading" className="text-lg font-semibold">
             What the owner wrote
           </h3>
@@ -496,7 +507,9 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
             <p className="text-bakelite-muted">No messages yet.</p>
           )}
         </section>
-        <div className="space-y-3 lg:col-span-2">
+        {/* min-w-0: a grid item is otherwise as wide as its widest content, and the band table would push the
+            card past its column instead of scrolling inside it. */}
+        <div className="min-w-0 space-y-3 lg:col-span-2">
           <ProfileEditor key={detail.set.updatedAt} detail={detail} saved={profileSaved} setSaved={setProfileSaved} />
           {state === "in_triage" ? (
             <div className="grid gap-3 md:grid-cols-2">

@@ -12,6 +12,7 @@ import type { SettingsSnapshot } from "@/lib/server/services/settings";
 import { coveredWording, exclusionWording, settingsFormSchema, type SettingsFormValues } from "@/lib/validation/office";
 import { coveredWordingKeys, exclusionCodes } from "@/lib/engine/warranty/exclusions";
 import { leakageCeilings } from "@/lib/engine/verdicts/tolerances";
+import { defaultPartsCatalogue, type PartCode } from "@/lib/engine/pricing/parts";
 import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatWhen } from "./format";
 import { BAND_KIND_LABEL, CATEGORY_LABEL, RULE_LABEL } from "./labels";
@@ -431,12 +432,12 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
                 };
                 return (
                   <tr key={p.code}>
-                    <th scope="row" className="figure bg-transparent font-normal">
-                      {p.code}
+                    <th scope="row" className="bg-transparent font-normal">
+                      {defaultPartsCatalogue[p.code as PartCode]?.title ?? "Part"}
                     </th>
                     <td>
                       <label htmlFor={ids.title} className="sr-only">
-                        Name of {p.code}
+                        Name printed for {defaultPartsCatalogue[p.code as PartCode]?.title ?? "this part"}
                       </label>
                       <input
                         id={ids.title}

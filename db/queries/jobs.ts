@@ -11,6 +11,7 @@ export async function listJobsForCustomer({ customerId }: { customerId: string }
       createdAt: jobs.createdAt,
       updatedAt: jobs.updatedAt,
       isWarranty: jobs.isWarranty,
+      returnMethod: jobs.returnMethod,
       maker: radioSets.maker,
       model: radioSets.model,
       year: radioSets.year,

@@ -5,6 +5,7 @@ import { setProfileSchema } from "@/lib/engine/checklist/profile";
 import { parseFrequencyText } from "@/lib/engine/bands/frequency-text";
 import type { ReadingUnit } from "@/lib/engine/verdicts/judge-reading";
 import { messageKeySchema } from "@/lib/validation/messages";
+import "./field-words";
 
 // Shared by the bench forms and the bench JSON routes.
 
@@ -41,10 +42,15 @@ export type QueueQueryInput = z.input<typeof queueQuerySchema>;
 export const assignSchema = z.object({ technicianId: z.string().min(1).max(80).nullable() });
 
 export const profileUpdateSchema = z.object({
-  maker: z.string().trim().min(1, "Give the maker as printed.").max(80),
-  model: z.string().trim().min(1, "Give the model as printed.").max(80),
+  maker: z.string().trim().min(1, "Maker: give it as printed on the set.").max(80, "Maker: keep it under 80 characters."),
+  model: z.string().trim().min(1, "Model: give it as printed on the set.").max(80, "Model: keep it under 80 characters."),
   year: z
-    .union([z.literal(""), z.coerce.number().int().min(1900, "A year from 1900 on.").max(2030, "A year up to 2030.")])
+    .union(
+      [z.literal(""), z.coerce.number({ error: "Year: enter a year from 1900 to 2030, or leave it empty." }).int().min(1900).max(2030)],
+      {
+        error: "Year: enter a year from 1900 to 2030, or leave it empty.",
+      },
+    )
     .transform((v) => (v === "" ? null : v))
     .nullable()
     .optional(),
@@ -57,8 +63,8 @@ export const questionSchema = z.object({
   question: z
     .string()
     .trim()
-    .min(5, "Write the question for the owner (at least 5 characters).")
-    .max(2000, "Keep it under 2000 characters."),
+    .min(5, "Question: write it for the owner, at least 5 characters.")
+    .max(2000, "Question: keep it under 2000 characters."),
   idempotencyKey: messageKeySchema,
 });
 
@@ -66,15 +72,18 @@ export const declineSchema = z.object({
   reason: z
     .string()
     .trim()
-    .min(5, "Say why the shop cannot take the job (at least 5 characters).")
-    .max(1000, "Keep it under 1000 characters."),
+    .min(5, "Reason: say why the shop cannot take the job, at least 5 characters.")
+    .max(1000, "Reason: keep it under 1000 characters."),
 });
 
 export const readingInputSchema = z.object({
   key: z.string().min(1).max(60),
   // null clears the reading (it then counts as missing).
-  value: z.number({ error: "Enter a number." }).finite("Enter a number.").nullable(),
-  note: z.string().trim().max(500, "Keep the note under 500 characters.").optional(),
+  value: z
+    .number({ error: "Reading: enter a number, or leave it empty." })
+    .finite("Reading: enter a number, or leave it empty.")
+    .nullable(),
+  note: z.string().trim().max(500, "Note: keep it under 500 characters.").optional(),
 });
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 
@@ -94,7 +103,7 @@ export function parseReadingText(text: string, row: { unit: ReadingUnit; entryUn
 export const taskInputSchema = z.object({ code: z.string().min(1).max(80), done: z.boolean() });
 
 export const benchNoteSchema = z.object({
-  body: z.string().trim().min(1, "Write the note first.").max(4000, "Keep the note under 4000 characters."),
+  body: z.string().trim().min(1, "Note: write the note first.").max(4000, "Note: keep it under 4000 characters."),
   idempotencyKey: messageKeySchema,
 });
 
@@ -102,13 +111,13 @@ export const returnSchema = z.discriminatedUnion("method", [
   z.object({ method: z.literal("pick-up") }),
   z.object({
     method: z.literal("shipped"),
-    carrier: z.string().trim().min(2, "Name the carrier.").max(60),
+    carrier: z.string().trim().min(2, "Carrier: name the carrier.").max(60, "Carrier: keep it under 60 characters."),
     trackingNumber: z
       .string()
       .trim()
-      .min(4, "Enter the tracking number.")
-      .max(60)
-      .regex(/^[A-Za-z0-9 -]+$/, "Letters, digits, spaces and dashes only."),
+      .min(4, "Tracking number: enter it, at least 4 characters.")
+      .max(60, "Tracking number: keep it under 60 characters.")
+      .regex(/^[A-Za-z0-9 -]+$/, "Tracking number: letters, digits, spaces and dashes only."),
   }),
 ]);
 export type ReturnInput = z.infer<typeof returnSchema>;

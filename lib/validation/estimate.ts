@@ -1,4 +1,5 @@
 import { z } from "zod";
+import "./field-words";
 import { EngineError } from "@/lib/engine/engine-error";
 import { toMinor } from "@/lib/engine/pricing/money";
 import { partCodeSchema } from "@/lib/engine/pricing/parts";
@@ -22,22 +23,22 @@ export const CATEGORY_LABEL: Record<DraftCategory, string> = {
   parts: "Parts",
 };
 
+// One message per number field, whatever is wrong with it: the field's name and the whole range allowed.
 const whole = (label: string, min: number, max: number) =>
   z.coerce
-    .number({ error: `${label}: enter a whole number.` })
-    .refine((n) => Number.isInteger(n), `${label}: enter a whole number.`)
-    .refine((n) => n >= min && n <= max, `${label}: from ${min} to ${max}.`);
+    .number({ error: `${label}: enter a whole number from ${min} to ${max}.` })
+    .refine((n) => Number.isInteger(n) && n >= min && n <= max, `${label}: enter a whole number from ${min} to ${max}.`);
 
 export const draftLineSchema = z
   .object({
     key: z.string().min(1).max(64),
     kind: z.enum(["labour", "part"]),
-    code: z.string().trim().min(1, "Give the line a code.").max(80),
-    title: z.string().trim().min(1, "Give the line a title.").max(160, "Keep the title under 160 characters."),
+    code: z.string().trim().min(1, "Code: give the line a code.").max(80, "Code: keep it under 80 characters."),
+    title: z.string().trim().min(1, "Title: give the line a title.").max(160, "Title: keep it under 160 characters."),
     category: z.enum(DRAFT_CATEGORIES),
     minutes: whole("Minutes", 0, 6000),
     quantity: whole("Quantity", 1, 1000),
-    reason: z.string().trim().max(1000, "Keep the reason under 1000 characters."),
+    reason: z.string().trim().max(1000, "Reason: keep it under 1000 characters."),
     readings: z.array(z.string().max(60)).max(60),
     // Part lines only: unit cost in the shop currency and markup in percent.
     unitCost: z.string().trim().max(12),
@@ -47,10 +48,18 @@ export const draftLineSchema = z
   .superRefine((line, ctx) => {
     if (line.kind !== "part") return;
     if (!/^\d+(\.\d{1,3})?$/.test(line.unitCost)) {
-      ctx.addIssue({ code: "custom", path: ["unitCost"], message: "Cost: digits with an optional decimal point, e.g. 4.50." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["unitCost"],
+        message: "Cost: enter an amount of 0 or more, digits with an optional decimal point, e.g. 4.50.",
+      });
     }
     if (line.markupPercent !== "" && !/^\d{1,4}(\.\d{1,2})?$/.test(line.markupPercent)) {
-      ctx.addIssue({ code: "custom", path: ["markupPercent"], message: "Markup: a percentage such as 35." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["markupPercent"],
+        message: "Markup: enter a percentage from 0 to 9999, e.g. 35, or leave it empty for the usual.",
+      });
     }
   });
 
@@ -60,11 +69,11 @@ export type DraftLineInput = z.input<typeof draftLineSchema>;
 export const draftSchema = z.object({
   lines: z
     .array(draftLineSchema)
-    .max(200, "An estimate has at most 200 lines.")
+    .max(200, "Lines: an estimate has at most 200.")
     .superRefine((lines, ctx) => {
       const seen = new Set<string>();
       lines.forEach((l, i) => {
-        if (seen.has(l.code)) ctx.addIssue({ code: "custom", path: [i, "code"], message: "Each line needs its own code." });
+        if (seen.has(l.code)) ctx.addIssue({ code: "custom", path: [i, "code"], message: "Code: each line needs its own code." });
         seen.add(l.code);
       });
     }),
@@ -87,7 +96,7 @@ export const sendEstimateSchema = z.object({
     .int()
     .min(1, "Save the estimate before sending it.")
     .max(2 ** 31 - 1),
-  changeSummary: z.string().trim().max(1000, "Keep the summary under 1000 characters.").optional(),
+  changeSummary: z.string().trim().max(1000, "What changed: keep it under 1000 characters.").optional(),
 });
 export type SendEstimateInput = z.infer<typeof sendEstimateSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import "./field-words";
 import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
 import { billingRoundings } from "@/lib/engine/pricing/billing-rounding";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
@@ -21,8 +22,8 @@ const termsText = (label: string, max: number) =>
   z
     .string()
     .trim()
-    .min(1, `${label} cannot be empty.`)
-    .max(max, `Keep this under ${max.toLocaleString("en-US")} characters.`);
+    .min(1, `${label}: this cannot be empty.`)
+    .max(max, `${label}: keep it under ${max.toLocaleString("en-US")} characters.`);
 
 export const warrantyTermsSchema = z.object({
   /** Whether a later owner of the set (a buyer, an heir) keeps the coverage for the rest of the term. */
@@ -34,7 +35,10 @@ export const warrantyTermsSchema = z.object({
   /** What the shop will not do or pay for, beyond the listed exclusions. */
   whatWeWillNotDo: termsText("What the shop will not do", 1500),
   /** Claim procedure, one step per entry, printed as a numbered list. */
-  howToClaim: z.array(termsText("A claim step", 400)).min(1, "Give at least one claim step.").max(10, "Ten steps at most."),
+  howToClaim: z
+    .array(termsText("A claim step", 400))
+    .min(1, "How to make a claim: give at least one step.")
+    .max(10, "How to make a claim: ten steps at most."),
   /** How a disagreement about a claim is settled. */
   disputes: termsText("Disputes", 1000),
   /** Any limit on implied warranties, with the local-law caveat. */
@@ -42,7 +46,7 @@ export const warrantyTermsSchema = z.object({
   /** Any exclusion of incidental or consequential damages, with the local-law caveat. */
   consequentialDamages: termsText("Incidental and consequential damages", 1000),
   /** Anything else the shop wants printed, as written. May be blank. */
-  shopWording: z.string().trim().max(4000, "Keep this under 4,000 characters."),
+  shopWording: z.string().trim().max(4000, "The shop's own wording: keep it under 4,000 characters."),
 });
 export type WarrantyTerms = z.infer<typeof warrantyTermsSchema>;
 
@@ -82,27 +86,29 @@ type ShopIdentity = { name: string; addressLines: string[]; phone: string; email
 // ─── The office settings form (shared by the form and the server) ───
 
 /** Amounts typed in the currency's major unit ("90.00"); converted with the engine's toMinor. */
-const moneyText = z
-  .string()
-  .trim()
-  .regex(/^\d{1,8}(\.\d{1,3})?$/, "Write an amount such as 90.00, digits and a decimal point only.");
+const moneyText = (label: string) =>
+  z
+    .string()
+    .trim()
+    .regex(/^\d{1,8}(\.\d{1,3})?$/, `${label}: write an amount of 0 or more such as 90.00, digits and a decimal point only.`);
 
 /** Percentages typed with at most two decimals ("8.25"), stored as basis points (825). */
-const percentText = z
-  .string()
-  .trim()
-  .regex(/^\d{1,4}(\.\d{1,2})?$/, "Write a percentage such as 8.25, with at most two decimals.");
+const percentText = (label: string) =>
+  z
+    .string()
+    .trim()
+    .regex(/^\d{1,4}(\.\d{1,2})?$/, `${label}: write a percentage of 0 or more such as 8.25, with at most two decimals.`);
 
 const wholeNumber = (label: string, min: number, max: number) =>
   z
-    .number({ error: `${label}: enter a whole number.` })
-    .int(`${label}: enter a whole number.`)
-    .min(min, `${label}: at least ${min}.`)
-    .max(max, `${label}: at most ${max}.`);
+    .number({ error: `${label}: enter a whole number from ${min} to ${max}.` })
+    .int()
+    .min(min)
+    .max(max);
 
 const emailOrBlank = z.union([
   z.literal(""),
-  z.string().trim().toLowerCase().email("Enter a valid e-mail address or leave it blank.").max(254),
+  z.string().trim().toLowerCase().email("E-mail: enter an address such as shop@example.com, or leave it blank.").max(254),
 ]);
 
 export const settingsFormSchema = z
@@ -116,37 +122,42 @@ export const settingsFormSchema = z
       name: z
         .string()
         .trim()
-        .min(1, "The shop needs a name; it is printed on every certificate.")
-        .max(120, "Keep the name under 120 characters."),
+        .min(1, "Shop name: give one; it is printed on every certificate.")
+        .max(120, "Shop name: keep it under 120 characters."),
       /** One address line per line of the text box. */
       addressText: z
         .string()
-        .max(800, "The address is too long.")
-        .refine((s) => addressLines(s).length >= 1, "Give the shop's address; it is printed on every certificate.")
-        .refine((s) => addressLines(s).length <= 6, "Six lines at most.")
-        .refine((s) => addressLines(s).every((l) => l.length <= 120), "Keep each line under 120 characters."),
-      phone: z.string().trim().max(40, "Keep the phone number under 40 characters."),
+        .max(800, "Address: keep it under 800 characters.")
+        .refine((s) => addressLines(s).length >= 1, "Address: give the shop's address; it is printed on every certificate.")
+        .refine((s) => addressLines(s).length <= 6, "Address: six lines at most.")
+        .refine((s) => addressLines(s).every((l) => l.length <= 120), "Address: keep each line under 120 characters."),
+      phone: z.string().trim().max(40, "Phone: keep it under 40 characters."),
       email: emailOrBlank,
     }),
-    currency: z.object({ code: z.string().regex(/^[A-Z]{3}$/), exponent: z.number().int().min(0).max(3) }),
-    labourRate: moneyText,
+    currency: z.object({
+      code: z.string().regex(/^[A-Z]{3}$/, "Currency: a three-letter code such as USD."),
+      exponent: z.number({ error: "Currency decimals: a whole number from 0 to 3." }).int().min(0).max(3),
+    }),
+    labourRate: moneyText("Labour rate"),
     billingIncrementMinutes: wholeNumber("Billing increment", 1, 240),
-    billingRounding: z.enum(billingRoundings, { error: "Choose whether labour is rounded once per job or on each line." }),
+    billingRounding: z.enum(billingRoundings, { error: "Labour rounding: choose whether labour is rounded once per job or on each line." }),
     minutesPerRule: z.array(z.object({ code: ruleCodeSchema, minutes: wholeNumber("Minutes", 0, 6000) })),
     parts: z.object({
-      defaultMarkupPercent: percentText,
+      defaultMarkupPercent: percentText("Default markup"),
       catalogue: z.array(
         z.object({
           code: partCodeSchema,
-          title: z.string().trim().min(1, "Give the part a name.").max(120, "Keep the name under 120 characters."),
-          cost: moneyText,
+          title: z.string().trim().min(1, "Part name: give the part a name.").max(120, "Part name: keep it under 120 characters."),
+          cost: moneyText("Cost"),
           /** Blank: the default markup applies. */
-          markupPercent: z.union([z.literal(""), percentText]),
+          markupPercent: z.union([z.literal(""), percentText("Markup")], {
+            error: "Markup: write a percentage of 0 or more such as 35, or leave it empty for the default.",
+          }),
         }),
       ),
     }),
-    tax: z.object({ labourPercent: percentText, partsPercent: percentText }),
-    deposit: z.object({ percent: percentText, atLeastParts: z.boolean(), processorMinimum: moneyText }),
+    tax: z.object({ labourPercent: percentText("Labour tax"), partsPercent: percentText("Parts tax") }),
+    deposit: z.object({ percent: percentText("Deposit"), atLeastParts: z.boolean(), processorMinimum: moneyText("Processor minimum") }),
     warranty: z.object({
       termDays: wholeNumber("Warranty term", 0, 3650),
       designation: z.enum(["limited", "full"]),
@@ -349,12 +360,12 @@ export { coveredWording, exclusionWording };
 
 export const refundFormSchema = z.object({
   /** Typed in the major unit; the server converts with the payment's currency and checks what is left. */
-  amount: moneyText.refine((s) => Number(s) > 0, "A refund must be more than zero."),
+  amount: moneyText("Amount").refine((s) => Number(s) > 0, "Amount: a refund must be more than zero."),
   reason: z
     .string()
     .trim()
-    .min(3, "Say why the money goes back; the reason is kept in the audit log.")
-    .max(500, "Keep the reason under 500 characters."),
+    .min(3, "Reason: say why the money goes back, at least 3 characters; it is kept in the audit log.")
+    .max(500, "Reason: keep it under 500 characters."),
 });
 export type RefundFormValues = z.infer<typeof refundFormSchema>;
 

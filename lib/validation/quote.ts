@@ -1,4 +1,5 @@
 import { z } from "zod";
+import "./field-words";
 
 // The quote request, shared by the form (react-hook-form + zod resolver) and the server.
 
@@ -46,42 +47,53 @@ const optionalText = (max: number, message: string) => z.string().trim().max(max
 const yearSchema = z.preprocess(
   (v) => (v === "" || v === null || v === undefined ? undefined : v),
   z.coerce
-    .number({ error: "Enter the year as four digits, or leave it empty." })
-    .int("Enter the year as four digits, or leave it empty.")
-    .min(1900, "A year from 1900 on, or leave it empty.")
-    .max(new Date().getFullYear(), "That year is in the future.")
+    .number({ error: `Year: enter a year from 1900 to ${new Date().getFullYear()} as four digits, or leave it empty.` })
+    .int()
+    .min(1900)
+    .max(new Date().getFullYear())
     .optional(),
 );
 
 export const quoteRequestSchema = z
   .object({
-    maker: z.string().trim().min(1, "Write the maker as printed on the set.").max(80, "Keep the maker under 80 characters."),
+    maker: z.string().trim().min(1, "Maker: write it as printed on the set.").max(80, "Maker: keep it under 80 characters."),
     model: z
       .string()
       .trim()
-      .min(1, "Write the model as printed, e.g. on the back or the label.")
-      .max(80, "Keep the model under 80 characters."),
+      .min(1, "Model: write it as printed, e.g. on the back or the label.")
+      .max(80, "Model: keep it under 80 characters."),
     year: yearSchema,
-    serial: optionalText(60, "Keep the serial number under 60 characters."),
-    kind: z.enum(SET_KINDS, { error: "Choose the kind of set." }),
-    bands: z.array(z.enum(DIAL_BANDS)).min(1, "Tick at least one band printed on the dial.").max(4),
-    dialMarkings: optionalText(300, "Keep the dial markings under 300 characters."),
-    symptoms: z.string().trim().min(10, "Tell us in a sentence or two what is wrong.").max(4000, "Keep it under 4000 characters."),
-    priorWork: optionalText(4000, "Keep it under 4000 characters."),
-    poweredRecently: z.enum(POWERED_RECENTLY, { error: "Tell us whether it was powered recently." }),
-    delivery: z.enum(DELIVERY, { error: "Choose mail-in or drop-off." }),
-    contactPreference: z.enum(CONTACT, { error: "Choose how we should reach you." }),
-    phone: optionalText(40, "Keep the phone number under 40 characters."),
-    cautionsAcknowledged: z.literal(true, { error: "Please read the cautions and tick the box." }),
+    serial: optionalText(60, "Serial number: keep it under 60 characters."),
+    kind: z.enum(SET_KINDS, { error: "Kind of set: choose one of the kinds listed." }),
+    bands: z
+      .array(z.enum(DIAL_BANDS, { error: "Bands: tick from the bands listed." }))
+      .min(1, "Bands: tick at least one band printed on the dial.")
+      .max(4, "Bands: four at most."),
+    dialMarkings: optionalText(300, "Dial numbers: keep them under 300 characters."),
+    symptoms: z
+      .string()
+      .trim()
+      .min(10, "What it does: tell us in a sentence or two what is wrong, at least 10 characters.")
+      .max(4000, "What it does: keep it under 4000 characters."),
+    priorWork: optionalText(4000, "Earlier work: keep it under 4000 characters."),
+    poweredRecently: z.enum(POWERED_RECENTLY, { error: "Powered recently: choose one of the answers." }),
+    delivery: z.enum(DELIVERY, { error: "Getting the set to us: choose mail-in or drop-off." }),
+    contactPreference: z.enum(CONTACT, { error: "Reaching you: choose e-mail or phone." }),
+    phone: optionalText(40, "Phone number: keep it under 40 characters."),
+    cautionsAcknowledged: z.literal(true, { error: "Cautions: please read them and tick the box." }),
     photos: z
       .array(z.string().min(1).max(4000))
-      .min(1, "Add at least one photo of the set.")
-      .max(MAX_PHOTOS, `At most ${MAX_PHOTOS} photos per request.`),
+      .min(1, "Photos: add at least one photo of the set.")
+      .max(MAX_PHOTOS, `Photos: ${MAX_PHOTOS} at most per request.`),
     idempotencyKey: z.string().uuid(),
   })
   .superRefine((v, ctx) => {
     if (v.contactPreference === "phone" && !/^[+()\d\s.-]{6,40}$/.test(v.phone)) {
-      ctx.addIssue({ code: "custom", path: ["phone"], message: "Give a phone number we can call, or choose e-mail." });
+      ctx.addIssue({
+        code: "custom",
+        path: ["phone"],
+        message: "Phone number: give one we can call (digits, spaces, + ( ) . -), or choose e-mail.",
+      });
     }
   });
 
@@ -91,12 +103,16 @@ export type QuoteRequest = z.infer<typeof quoteRequestSchema>;
 export const approveSchema = z.object({ revisionId: z.string().uuid() });
 export const declineSchema = z.object({
   revisionId: z.string().uuid(),
-  reason: z.string().trim().min(3, "Tell the shop briefly why, so they can help.").max(2000, "Keep the reason under 2000 characters."),
+  reason: z
+    .string()
+    .trim()
+    .min(3, "Reason: tell the shop briefly why, so they can help.")
+    .max(2000, "Reason: keep it under 2000 characters."),
   // Only for a change asked while the set is on the bench: go on with the scope approved before, or stop
   // the work and have the set returned as it is.
   afterDecline: z
     .enum(["approved-scope", "return-as-is"], {
-      message: 'Choose "carry on with the work I approved before" or "return my set as it is".',
+      message: 'What happens next: choose "carry on with the work I approved before" or "return my set as it is".',
     })
     .optional(),
 });

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { parseAlignmentRequest, runAlignmentTool } from "@/lib/engine/requests/alignment-request";
 import { formatNumber } from "@/lib/engine/verdicts";
 import { DEMO } from "../support/accounts";
-import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
+import { launchBrowser, newContext, signInPage, snap, visibleRuleCodes } from "../support/browser";
 import { closeTestPool, sql } from "../support/db";
 import { approveAndPayDeposit, AURELIAN_PROFILE, createJob } from "../integration/bench-fixtures";
 
@@ -46,6 +46,18 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     // Triage: pick it up, correct the profile.
     await page.getByRole("button", { name: "Pick up for triage" }).click();
     await expect.poll(() => stateBadge(page)).toContain("In triage");
+    // Out-of-range counts are refused in words that name the field and the range (the profile allows 0 to 120
+    // paper capacitors), never the validator's own phrasing or a wrong reason.
+    const paper = page.getByLabel("Paper capacitors");
+    const paperBefore = await paper.inputValue();
+    for (const bad of ["99999", "-1"]) {
+      await paper.fill(bad);
+      await page.getByRole("button", { name: "Save profile" }).click();
+      await expect.poll(() => page.getByText("Paper capacitors: enter a whole number from 0 to 120.").count()).toBe(1);
+      expect(await page.getByText(/expected|received|>0|Enter a whole number\.$/).count()).toBe(0);
+    }
+    await snap(page, "bench-02a-triage-paper-capacitors-refused");
+    await paper.fill(paperBefore);
     await page.getByLabel("Electrolytic capacitors").fill("3");
     await page.getByLabel("Line cord worn").check();
     await page.getByRole("button", { name: "Save profile" }).click();
@@ -71,6 +83,8 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     await page.getByRole("button", { name: /Remove line \d+: Burn-in/ }).click();
     await expect.poll(() => page.locator('tr[data-line="test.burn-in"]').count()).toBe(0);
     const shownTotal = await page.locator('[data-total="Total"]').innerText();
+    // The lines keep their codes as data; nothing on the builder shows one as text.
+    expect(await visibleRuleCodes(page, 'form[aria-labelledby="estimate-heading"]')).toEqual([]);
     await snap(page, "bench-03-estimate-builder");
     await page.getByRole("button", { name: "Send estimate to the owner" }).click();
     await expect.poll(() => page.getByText("Revision 1 sent to the owner.").count()).toBe(1);

@@ -71,7 +71,7 @@ describe("a set owner's journey", () => {
 
     // Submitting without the cautions acknowledged is refused beside the box.
     await page.getByRole("button", { name: "Send my quote request" }).click();
-    await expect.poll(() => page.getByText("Please read the cautions and tick the box.").count()).toBe(1);
+    await expect.poll(() => page.getByText("Cautions: please read them and tick the box.").count()).toBe(1);
     await page.getByLabel(/I have read these cautions/).check();
     await snap(page, "journey-04-cautions");
     await page.getByRole("button", { name: "Send my quote request" }).click();
@@ -128,6 +128,10 @@ describe("a set owner's journey", () => {
     await expect.poll(() => page.getByRole("heading", { name: "Safety" }).count()).toBe(1);
     await expect.poll(() => page.getByText(/^Why: /).count()).toBeGreaterThan(0);
     await expect.poll(() => page.getByRole("heading", { name: "What the warranty will cover" }).count()).toBe(1);
+    // The certificate is issued when the set is returned (the completion step), so the estimate cannot speak
+    // of "this certificate": it names the certificate to come.
+    expect(await page.locator("main").innerText()).not.toMatch(/this certificate/i);
+    expect(await page.locator("main").innerText()).toMatch(/certificate you receive with the set/);
     const deposit = await text(page, "estimate-deposit");
     expect(deposit).toMatch(/^\$\d+\.\d{2}$/);
     await snap(page, "journey-06-estimate");

@@ -54,11 +54,16 @@ describe("a warranty job, from the claim to its certificate", () => {
     expect(done.movedOn).toBe(true);
     expect(await jobState(jobId)).toBe("paid_in_full");
     await page.reload();
-    await expect.poll(() => page.getByTestId("job-state").textContent()).toMatch(/Paid — on its way back/);
+    // Paid in full, the set is still at the shop (the state table's next move is the return): nothing may
+    // say it is on its way.
+    await expect.poll(() => page.getByTestId("job-state").textContent()).toMatch(/Paid in full — being made ready to return/);
+    expect(await page.getByText(/on its way|back with you/).count()).toBe(0);
     expect(await page.getByRole("button", { name: /Pay the balance/ }).count()).toBe(0);
     await snap(page, "job-ends-02-warranty-nothing-to-pay");
 
     expect((await tech.post(`/api/bench/jobs/${jobId}/return`, { method: "pick-up" })).status).toBe(200);
+    await page.reload();
+    await expect.poll(() => page.getByTestId("job-state").textContent()).toMatch(/Collected — back with you/);
     const [cert] = await sql<{ code: string }>("select code from certificate where job_id = $1", [jobId]);
     await page.goto(`/verify/${cert!.code}`);
     await expect.poll(() => page.getByTestId("answers").textContent()).toContain(original.code);

@@ -2,7 +2,7 @@ import type { Browser } from "playwright-core";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO } from "../support/accounts";
-import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
+import { launchBrowser, newContext, signInPage, snap, visibleRuleCodes } from "../support/browser";
 import { closeTestPool, sql } from "../support/db";
 import { createCertificate, stopQueue } from "../integration/certificates-fixtures";
 
@@ -48,7 +48,7 @@ describe("a certificate from issue to claim", () => {
     await owner.getByRole("link", { name: `Open a claim on certificate ${c.code}` }).click();
     await owner.waitForURL(/\/portal\/claims\/new/);
     await owner.getByRole("button", { name: "Open the claim" }).click();
-    await expect.poll(() => owner.getByText("Choose what the set does.").count()).toBe(1);
+    await expect.poll(() => owner.getByText("What the set does: choose one of the options.").count()).toBe(1);
     expect(await owner.getByText(/at least 10 characters/).count()).toBe(1);
     await snap(owner, "warranty-03-claim-form-errors");
     await owner.getByLabel("What does the set do?").selectOption("hum");
@@ -70,6 +70,9 @@ describe("a certificate from issue to claim", () => {
     const [claim] = await sql<{ id: string }>("select id from claim where certificate_id = $1", [c.certificateId]);
     await tech.goto(`/bench/claims/${claim!.id}`);
     await expect.poll(() => tech.getByText(/Likely covered/).count()).toBeGreaterThan(0);
+    // The advice names the work and the symptom in words; codes stay behind the staff disclosure.
+    expect(await tech.locator('section[aria-labelledby="advice-h"]').innerText()).toMatch(/Hum or buzz: could come from/);
+    expect(await visibleRuleCodes(tech)).toEqual([]);
     await expect.poll(() => tech.getByRole("img", { name: "filter-section.jpg" }).count()).toBe(1);
     expect(
       await tech.getByRole("img", { name: "filter-section.jpg" }).evaluate((img: HTMLImageElement) => img.naturalWidth),

@@ -133,6 +133,89 @@ describe("the certificate PDF", () => {
   });
 });
 
+// The PDF's pages as a reader meets them: each page's text in drawing order (top to bottom, the order the
+// renderer lays the document out) and how far down the page its text reaches. The repeated footer line is left
+// out of both. pdfjs-dist (the parser pdf-parse is built on) gives each text run's position.
+async function pdfPages(bytes: Uint8Array): Promise<{ text: string; reach: number }[]> {
+  const { getDocument } = await import("pdfjs-dist/legacy/build/pdf.mjs");
+  const doc = await getDocument({ data: bytes, isEvalSupported: false }).promise;
+  try {
+    const pages: { text: string; reach: number }[] = [];
+    for (let n = 1; n <= doc.numPages; n++) {
+      const page = await doc.getPage(n);
+      const height = page.getViewport({ scale: 1 }).height;
+      const items = (await page.getTextContent()).items.filter(
+        (i): i is { str: string; transform: number[] } & typeof i => "str" in i && i.str.trim() !== "",
+      );
+      const footerLines = new Set(items.filter((i) => i.str.includes("Ed25519")).map((i) => i.transform[5]));
+      const body = items.filter((i) => !footerLines.has(i.transform[5]));
+      const lowest = Math.min(...body.map((i) => i.transform[5]!));
+      pages.push({
+        text: body
+          .map((i) => i.str)
+          .join(" ")
+          .replace(/\s+/g, " "),
+        reach: (height - lowest) / height,
+      });
+    }
+    return pages;
+  } finally {
+    await doc.destroy();
+  }
+}
+
+// What a "below" or "above" in the certificate's own wording points to, and the text that starts it.
+const REFERENTS: { pattern: RegExp; target: string }[] = [
+  { pattern: /exclusions (below|above)$/, target: "What is not covered" },
+  { pattern: /address (below|above)$/, target: "Warrantor." },
+];
+
+describe("the certificate PDF reads in order", () => {
+  for (const [name, opts] of [
+    ["a one-band table set", {}],
+    ["a four-band console", { profile: haldaneConsole, maker: "Haldane", model: "Console 9" }],
+  ] as const) {
+    it(`${name}: every "below" and "above" points the right way, and the last page is not a short tail`, async () => {
+      const c = await createCertificate(opts);
+      const owner = await signedIn(DEMO.customer);
+      const res = await owner.get(`/api/certificates/${c.certificateId}/pdf`);
+      expect(res.status).toBe(200);
+      const pages = await pdfPages(new Uint8Array(await res.arrayBuffer()));
+      const all = pages.map((p) => p.text).join(" ");
+
+      const refs = [...all.matchAll(/\b(below|above)\b/g)];
+      expect(refs.length).toBeGreaterThan(0);
+      for (const m of refs) {
+        const before = all.slice(Math.max(0, m.index - 60), m.index + m[0].length);
+        const referent = REFERENTS.find((r) => r.pattern.test(before));
+        // A reference the table does not know is a reference nobody has checked.
+        expect(referent, `unchecked reference: "…${before}"`).toBeDefined();
+        const targets = [...all.matchAll(new RegExp(referent!.target.replace(/[.]/g, "\\.") + "", "g"))].map((t) => t.index);
+        if (m[1] === "below")
+          expect(
+            targets.some((t) => t > m.index),
+            `"…${before}" but nothing of it follows`,
+          ).toBe(true);
+        else
+          expect(
+            targets.some((t) => t < m.index),
+            `"…${before}" but nothing of it comes before`,
+          ).toBe(true);
+      }
+
+      // The written terms are read as one piece: from their heading to the rights sentence on one page.
+      const termsPage = pages.findIndex((p) => /warranty — the terms/i.test(p.text));
+      expect(termsPage).toBeGreaterThanOrEqual(0);
+      expect(pages[termsPage]!.text).toMatch(/other rights which vary from state to state/);
+
+      // Typesetting practice (common practice: no short "widow" page at the end of a document): the last
+      // page's text reaches at least a third of the way down it.
+      expect(pages.length).toBeGreaterThan(1);
+      expect(pages.at(-1)!.reach).toBeGreaterThan(1 / 3);
+    });
+  }
+});
+
 describe("signatures", () => {
   it("never verify after a random byte flip in the signature or the content", async () => {
     const c = await createCertificate();

@@ -232,7 +232,7 @@ describe("a scope change at the bench", () => {
     const rev2 = await sendLines(a.jobId, [...a.lines, extra], "The cabinet finish is crazed; we can refinish it.");
     const missing = await a.owner.post(`/api/portal/jobs/${a.jobId}/estimate/decline`, { revisionId: rev2.id, reason: "Not now, thanks" });
     expect(missing.status).toBe(400);
-    expect(((await missing.json()) as { error: { fields: Record<string, string> } }).error.fields.afterDecline).toMatch(/Choose/);
+    expect(((await missing.json()) as { error: { fields: Record<string, string> } }).error.fields.afterDecline).toMatch(/choose/i);
     const keep = await a.owner.post(`/api/portal/jobs/${a.jobId}/estimate/decline`, {
       revisionId: rev2.id,
       reason: "Not now, thanks",

@@ -56,7 +56,7 @@ describe("photo uploads through the upload SDK and the stand-in", () => {
     const res = await client.post("/api/portal/jobs", quoteBody(tickets));
     expect(res.status).toBe(400);
     const body = (await res.json()) as { error: { fields: Record<string, string> } };
-    expect(body.error.fields.photos).toMatch(/At most 12 photos/);
+    expect(body.error.fields.photos).toMatch(/Photos: 12 at most/);
     expect(
       await sql(`select 1 from photo p join "user" u on u.id = p.uploader_id where u.email = $1`, [await emailOf(client)]),
     ).toHaveLength(0);

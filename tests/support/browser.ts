@@ -50,3 +50,24 @@ export async function signInPage(page: Page, email: string, password: string): P
   await page.getByRole("button", { name: "Sign in" }).click();
   await page.waitForURL((u) => !u.pathname.startsWith("/sign-in") && !u.pathname.startsWith("/after-sign-in"), { timeout: 20_000 });
 }
+
+/**
+ * Text on the page that looks like an internal rule or part code ("inspect.intake", "safety.selenium"), outside
+ * a <details> disclosure (where staff may look codes up). E-mail addresses and "e.g." are not codes.
+ */
+export async function visibleRuleCodes(page: Page, root = "main"): Promise<string[]> {
+  return page
+    .locator(root)
+    .first()
+    .evaluate((el) => {
+      const found: string[] = [];
+      const walker = document.createTreeWalker(el, NodeFilter.SHOW_TEXT);
+      for (let n = walker.nextNode(); n; n = walker.nextNode()) {
+        const parent = n.parentElement;
+        if (!parent || parent.closest("details, script, style, template")) continue;
+        const text = (n.textContent ?? "").replace(/\S+@\S+/g, " ").replace(/\be\.g\./g, " ");
+        for (const m of text.matchAll(/\b[a-z]+\.[a-z-]+\b/g)) found.push(`${m[0]} in "${text.trim().slice(0, 80)}"`);
+      }
+      return found;
+    });
+}

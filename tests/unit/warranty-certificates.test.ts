@@ -225,8 +225,25 @@ describe("claim advice", () => {
   });
 
   test("covered only when the symptom matches work that could cause it, with the reason", () => {
-    const hum = adviseClaim(coverage, { reportedOn: "2025-04-10", symptoms: ["hum"] });
-    expect(hum.reasons.join(" ")).toMatch(/hum: could come from recap\.electrolytic.*since the filter capacitors fitted smooth the supply/);
+    // The advice names the work and parts in the certificate's own words; the codes stay in matchedWork/Parts.
+    const titled: WarrantyCoverage = {
+      ...coverage,
+      titles: { "recap.electrolytic": "Replace electrolytic capacitors", "cap.electrolytic": "Electrolytic capacitor, new" },
+    };
+    const hum = adviseClaim(titled, { reportedOn: "2025-04-10", symptoms: ["hum"] });
+    expect(hum.reasons.join(" ")).toMatch(
+      /Hum or buzz: could come from Replace electrolytic capacitors.*since the filter capacitors fitted smooth the supply/,
+    );
+    expect(hum.matchedWork).toContain("recap.electrolytic");
+    // No rule code reaches the words staff read, with or without titles.
+    for (const symptom of ["hum", "no-power", "cosmetic", "other", "dial-off-calibration"] as const) {
+      for (const cov of [{ ...coverage, titles: undefined }, titled]) {
+        for (const r of adviseClaim(cov, { reportedOn: "2025-04-10", symptoms: [symptom] }).reasons) {
+          expect(r, r).not.toMatch(/\b[a-z]+\.[a-z-]+\b/);
+          expect(r).not.toMatch(/\b[a-z]+-[a-z-]+:/);
+        }
+      }
+    }
     // Inspections and tests cannot cause a fault: a set whose certificate lists only them is inspected first.
     const checkedOnly: WarrantyCoverage = {
       ...coverage,

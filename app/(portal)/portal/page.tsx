@@ -41,7 +41,7 @@ export default async function PortalPage() {
                   </Link>
                 </h2>
               </div>
-              <StateBadge state={j.state} audience="owner" />
+              <StateBadge state={j.state} audience="owner" returnMethod={j.returnMethod} />
             </li>
           ))}
         </ul>

@@ -31,7 +31,14 @@ export type CertificateTerms = z.infer<typeof certificateTermsSchema>;
 /** The whole written warranty as plain text (the engine's termsText), in the order a reader needs it. */
 export function composeTermsText(
   terms: CertificateTerms,
-  warranty: { designation: "limited" | "full"; termDays: number; startsOn: string; endsOn: string },
+  warranty: {
+    designation: "limited" | "full";
+    termDays: number;
+    startsOn: string;
+    endsOn: string;
+    covered?: readonly { text: string }[];
+    excluded?: readonly { text: string }[];
+  },
   shop: WarrantorContact,
   returnedOn: string = warranty.startsOn,
 ): string {
@@ -44,8 +51,11 @@ export function composeTermsText(
       ? "If the set changes hands during the term, the new owner is covered for the rest of the term."
       : "The coverage does not pass to a later owner of the set.",
     `Term: ${describeTerm(warranty, returnedOn)}`,
+    ...(warranty.covered?.length ? ["What is covered:", ...warranty.covered.map((c) => `- ${c.text}`)] : []),
     `What we will do: ${terms.whatWeWillDo}`,
+    // The exclusions follow the sentence that points to them ("the exclusions below"), as on the PDF.
     `What we will not do: ${terms.whatWeWillNotDo}`,
+    ...(warranty.excluded?.length ? ["What is not covered:", ...warranty.excluded.map((e) => `- ${e.text}`)] : []),
     "How to make a claim:",
     ...terms.howToClaim.map((step, i) => `${i + 1}. ${step}`),
     `Warrantor: ${contact}`,

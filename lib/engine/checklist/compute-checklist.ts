@@ -113,7 +113,7 @@ export function computeChecklist(profile: SetProfile, policy: Pick<ShopPolicy, "
       if (reported.length > 0)
         add("inspect.fault-find", {
           title: "Fault finding",
-          reason: `After the safety work, the recap and a first power-up through a limiter: trace the reported fault (${reported.join(", ")}) stage by stage, so the fault found is the set's own and not an old part's.`,
+          reason: `After the safety work, the recap and a first power-up through a limiter: trace the reported fault (${reported.map((s) => s.replace("-", " ")).join(", ")}) stage by stage, so the fault found is the set's own and not an old part's.`,
         });
     },
     "safety.isolation-bench": () => {

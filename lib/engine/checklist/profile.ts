@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { bandKindSchema, injectionSchema, plausibleBandRangeKHz, type Band, type BandKind } from "../bands/band";
+import { bandKinds, injections, plausibleBandRangeKHz, type Band, type BandKind } from "../bands/band";
 import { isPlausibleIf, ifFamilyForBand, plausibleIfRangeKHz } from "../bands/if-presets";
 import { parseFrequencyText } from "../bands/frequency-text";
 
@@ -28,17 +28,28 @@ const formBoolean = z.preprocess((v) => {
   return v;
 }, z.boolean());
 
-const kHz = z.coerce.number({ error: "Enter a frequency in kHz." }).finite().positive();
-const count = (max: number) => z.coerce.number({ error: "Enter a whole number." }).int().min(0).max(max);
+// Every message names the field as the forms show it and says what is allowed; the one message of a schema
+// covers all its checks (wrong type, not whole, out of range).
+const kHz = (label: string) =>
+  z.coerce
+    .number({ error: `${label}: enter a frequency in kHz above 0.` })
+    .finite()
+    .positive();
+const count = (label: string, max: number) =>
+  z.coerce
+    .number({ error: `${label}: enter a whole number from 0 to ${max}.` })
+    .int()
+    .min(0)
+    .max(max);
 
 export const bandSchema = z
   .object({
-    kind: bandKindSchema,
-    lowKHz: kHz,
-    highKHz: kHz,
-    ifKHz: kHz,
-    label: z.string().trim().max(40).optional(),
-    injection: injectionSchema.optional(),
+    kind: z.enum(bandKinds, { error: "Band: choose LW, MW, SW or FM." }),
+    lowKHz: kHz("Dial low"),
+    highKHz: kHz("Dial high"),
+    ifKHz: kHz("IF"),
+    label: z.string().trim().max(40, "Band label: keep it under 40 characters.").optional(),
+    injection: z.enum(injections, { error: "LO side: choose above or below the signal." }).optional(),
     /** The service manual's own tracking points, low to high, when it gives them ("600, 1000, 1400" from a form). */
     trackingPointsKHz: z.preprocess(
       (v) => {
@@ -50,56 +61,71 @@ export const bandSchema = z
           .filter(Boolean)
           .map((p) => parseFrequencyText(p) ?? p);
       },
-      z.tuple([kHz, kHz, kHz], { error: "Give the manual's three tracking points in kHz, low to high, e.g. 600, 1000, 1400." }).optional(),
+      z
+        .tuple([kHz("Manual tracking points"), kHz("Manual tracking points"), kHz("Manual tracking points")], {
+          error: "Manual tracking points: give the manual's three points in kHz, low to high, e.g. 600, 1000, 1400.",
+        })
+        .optional(),
     ),
   })
   .superRefine((band, ctx) => {
     if (band.lowKHz >= band.highKHz) {
-      ctx.addIssue({ code: "custom", path: ["highKHz"], message: "The high end must be above the low end." });
+      ctx.addIssue({ code: "custom", path: ["highKHz"], message: "Dial high: must be above the low end." });
     }
     const range = plausibleBandRangeKHz[band.kind];
     if (band.lowKHz < range.min || band.lowKHz > range.max) {
-      ctx.addIssue({ code: "custom", path: ["lowKHz"], message: `A ${band.kind} dial starts between ${range.min} and ${range.max} kHz.` });
+      ctx.addIssue({
+        code: "custom",
+        path: ["lowKHz"],
+        message: `Dial low: a ${band.kind} dial starts between ${range.min} and ${range.max} kHz.`,
+      });
     }
     if (band.highKHz < range.min || band.highKHz > range.max) {
-      ctx.addIssue({ code: "custom", path: ["highKHz"], message: `A ${band.kind} dial ends between ${range.min} and ${range.max} kHz.` });
+      ctx.addIssue({
+        code: "custom",
+        path: ["highKHz"],
+        message: `Dial high: a ${band.kind} dial ends between ${range.min} and ${range.max} kHz.`,
+      });
     }
     const family = ifFamilyForBand(band.kind);
     if (!isPlausibleIf(band.ifKHz, family)) {
       const r = plausibleIfRangeKHz[family];
-      ctx.addIssue({ code: "custom", path: ["ifKHz"], message: `An ${family} IF lies between ${r.min} and ${r.max} kHz.` });
+      ctx.addIssue({ code: "custom", path: ["ifKHz"], message: `IF: an ${family} IF lies between ${r.min} and ${r.max} kHz.` });
     }
     band.trackingPointsKHz?.forEach((p, i) => {
       const ordered = i === 0 || p > band.trackingPointsKHz![i - 1]!;
       if (p < band.lowKHz || p > band.highKHz || !ordered) {
-        ctx.addIssue({ code: "custom", path: ["trackingPointsKHz", i], message: "Tracking points lie on the band, low to high." });
+        ctx.addIssue({ code: "custom", path: ["trackingPointsKHz", i], message: "Manual tracking points: on the band, low to high." });
       }
     });
   });
 
 export const setProfileSchema = z.object({
-  kind: setKindSchema,
-  bands: z.array(bandSchema).min(1, "Add at least one band.").max(8),
-  electrolytics: count(60),
-  paperCapacitors: count(120),
-  tubes: count(40).optional(),
-  transistors: count(60).optional(),
+  kind: z.enum(setKinds, { error: "Kind of set: choose one of the kinds listed." }),
+  bands: z.array(bandSchema).min(1, "Bands: add at least one band.").max(8, "Bands: 8 at most."),
+  electrolytics: count("Electrolytic capacitors", 60),
+  paperCapacitors: count("Paper capacitors", 120),
+  tubes: count("Tubes", 40).optional(),
+  transistors: count("Transistors", 60).optional(),
   /** IF transformers in the AM strip, or in the only strip of a single-IF set. */
-  ifTransformers: count(12).optional(),
+  ifTransformers: count("IF transformers", 12).optional(),
   /** IF transformers in the 10.7 MHz FM strip of a set that also has an AM strip; each strip is aligned on its own. */
-  ifTransformersFm: count(12).optional(),
+  ifTransformersFm: count("IF transformers, FM strip", 12).optional(),
   seleniumRectifier: formBoolean.optional(),
   lineCordWorn: formBoolean.optional(),
   dialCordBroken: formBoolean.optional(),
   batteryCorrosion: formBoolean.optional(),
   /** Mains voltage the set runs on; selects the leakage limit. */
   mainsVolts: z.coerce
-    .number()
-    .pipe(z.union([z.literal(120), z.literal(230)]))
+    .number({ error: "Mains voltage: choose 120 V or 230 V." })
+    .pipe(z.union([z.literal(120), z.literal(230)], { error: "Mains voltage: choose 120 V or 230 V." }))
     .optional(),
   /** Schematic B+ in volts, when known, so the bench reading gets a target. */
-  bPlusVolts: z.coerce.number().finite().positive().max(1000).optional(),
-  symptoms: z.array(z.enum(symptomFlags)).max(symptomFlags.length).optional(),
+  bPlusVolts: z.coerce.number({ error: "B+ on the schematic: enter volts above 0, up to 1000." }).finite().positive().max(1000).optional(),
+  symptoms: z
+    .array(z.enum(symptomFlags, { error: "Symptoms: tick from the list." }))
+    .max(symptomFlags.length)
+    .optional(),
 });
 
 export type SetProfile = z.infer<typeof setProfileSchema>;

@@ -71,7 +71,9 @@ export const STATE_LABEL: Record<JobState, { owner: string; staff: string; icon:
   },
   final_checks: { owner: "Final checks", staff: "Final checks", icon: "⌁" },
   balance_due: { owner: "Ready — balance due", staff: "Balance due", icon: "⛀" },
-  paid_in_full: { owner: "Paid — on its way back", staff: "Paid, to return", icon: "⛁" },
+  // Paid in full: the shop still has the set and is getting it ready; nothing has left the shop yet.
+  paid_in_full: { owner: "Paid in full — being made ready to return", staff: "Paid, to return", icon: "⛁" },
+  // Returned: the shop handed the set over or shipped it; ownerStateLabel says which.
   returned: { owner: "Returned", staff: "Returned", icon: "⌂" },
   declined_by_owner: { owner: "You declined the estimate", staff: "Declined by owner", icon: "✕" },
   declined_by_shop: { owner: "The shop cannot take this job", staff: "Declined by shop", icon: "✕" },
@@ -80,4 +82,16 @@ export const STATE_LABEL: Record<JobState, { owner: string; staff: string; icon:
 
 export function jobNumber(n: number): string {
   return `KL-${String(n).padStart(4, "0")}`;
+}
+
+export type ReturnMethod = "pick-up" | "shipped";
+
+/**
+ * The state as the owner reads it. A returned set was either collected at the shop (it is with the owner) or
+ * handed to a carrier (it is on its way, not yet with them), so the words depend on how it went back.
+ */
+export function ownerStateLabel(state: JobState, returnMethod?: ReturnMethod | null): string {
+  if (state === "returned" && returnMethod === "shipped") return "Shipped — on its way to you";
+  if (state === "returned" && returnMethod === "pick-up") return "Collected — back with you";
+  return STATE_LABEL[state].owner;
 }

@@ -92,6 +92,25 @@ export type WarrantyCoverage = {
   /** Part codes on the certificate. */
   partCodes: readonly string[];
   excluded: readonly ExclusionCode[];
+  /** The certificate's own words for its work and parts, by code; the advice names them so. */
+  titles?: Readonly<Record<string, string>>;
+};
+
+/** Each symptom as staff read it in the advice (the codes stay in the data). */
+export const CLAIM_SYMPTOM_WORDS: Record<ClaimSymptom, string> = {
+  "no-power": "No power",
+  "no-sound": "No sound",
+  hum: "Hum or buzz",
+  "weak-reception": "Weak reception",
+  "dial-off-calibration": "Stations off the dial markings",
+  "dial-cord": "Dial pointer not moving",
+  intermittent: "Cutting in and out",
+  "noisy-controls": "Crackling controls",
+  "shock-or-tingle": "Shock or tingle",
+  "smoke-or-smell": "Smoke or burning smell",
+  "wear-item": "A worn-out tube, lamp or battery",
+  cosmetic: "Cosmetic wear",
+  other: "Something else",
 };
 
 export const claimFindingSchema = z.object({
@@ -133,6 +152,8 @@ export function adviseClaim(coverage: WarrantyCoverage, claim: ClaimFacts): Clai
   });
   const findings = [...(claim.findings ?? []), ...symptomFindings].filter((f) => excluded.has(f.code));
 
+  const named = (code: string) => coverage.titles?.[code] ?? "an item on the certificate";
+  const said = (s: ClaimSymptom) => CLAIM_SYMPTOM_WORDS[s] ?? "The symptom";
   const matchedWork = new Set<string>();
   const matchedParts = new Set<string>();
   const links: string[] = [];
@@ -146,7 +167,7 @@ export function adviseClaim(coverage: WarrantyCoverage, claim: ClaimFacts): Clai
       found = true;
       work.forEach((w) => matchedWork.add(w));
       parts.forEach((p) => matchedParts.add(p));
-      links.push(`${s}: could come from ${[...work, ...parts].join(", ")}, since ${cause.why}.`);
+      links.push(`${said(s)}: could come from ${[...work, ...parts].map(named).join(", ")}, since ${cause.why}.`);
     }
     if (!found && !symptomExclusion[s]) unmatched.push(s);
   }
@@ -179,13 +200,14 @@ export function adviseClaim(coverage: WarrantyCoverage, claim: ClaimFacts): Clai
   }
   for (const s of claim.symptoms) {
     const code = symptomExclusion[s];
-    if (code && !excluded.has(code)) reasons.push(`${s}: this certificate does not exclude it; judge it on the bench.`);
+    if (code && !excluded.has(code)) reasons.push(`${said(s)}: this certificate does not exclude it; judge it on the bench.`);
   }
   const suspected = findings.filter((f) => f.status === "suspected");
   for (const f of suspected) reasons.push(`Possible exclusion, to confirm on the bench: ${exclusionWording[f.code]}`);
 
   reasons.push(...links);
-  if (unmatched.length > 0) reasons.push(`No work or part on the certificate could cause: ${unmatched.join(", ")}.`);
+  if (unmatched.length > 0)
+    reasons.push(`No work or part on the certificate could cause: ${unmatched.map((s) => said(s).toLowerCase()).join(", ")}.`);
 
   const unexcludedSymptom = claim.symptoms.some((s) => symptomExclusion[s] && !excluded.has(symptomExclusion[s]!));
   if (suspected.length > 0 || unmatched.length > 0 || unexcludedSymptom || matchedWork.size + matchedParts.size === 0) {

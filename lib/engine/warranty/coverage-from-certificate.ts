@@ -13,5 +13,6 @@ export function coverageFromCertificate(content: CertificateContent): WarrantyCo
     workCodes: content.work.map((w) => w.code),
     partCodes: content.parts.map((p) => p.code),
     excluded: content.warranty.excluded.map((e) => e.code),
+    titles: Object.fromEntries([...content.work.map((w) => [w.code, w.title]), ...content.parts.map((p) => [p.code, p.title])]),
   };
 }

@@ -31,3 +31,14 @@ export const coveredWording: Record<CoveredWordingKey, string> = {
   "covered.alignment": "The alignment recorded on this certificate, within the tolerances printed beside each reading.",
   "covered.safety-work": "The safety work listed, including the leakage test result recorded here.",
 };
+
+/**
+ * The same cover as the estimate states it, before any work is done: the certificate does not exist yet, so
+ * the wording speaks of the work in the estimate and of the certificate the owner receives with the set.
+ */
+export const coveredWordingInEstimate: Record<CoveredWordingKey, string> = {
+  "covered.workmanship": "The work in this estimate, once done, with reasonable care and skill.",
+  "covered.parts-replaced": "The parts the shop fits, as the certificate you receive with the set will list them.",
+  "covered.alignment": "The alignment the shop records on that certificate, within the tolerances printed beside each reading.",
+  "covered.safety-work": "The safety work done, including the leakage test result the certificate records.",
+};

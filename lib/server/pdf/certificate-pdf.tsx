@@ -85,9 +85,10 @@ const s = StyleSheet.create({
     right: 34,
     fontSize: 6.5,
     color: muted,
-    flexDirection: "row",
-    justifyContent: "space-between",
   },
+  terms: { fontSize: 8.4, lineHeight: 1.4 },
+  tp: { marginBottom: 3.5 },
+  th3: { fontWeight: 700, marginBottom: 1.5, marginTop: 1 },
   notice: { borderWidth: 1, borderColor: accent, padding: 4, marginBottom: 6, fontWeight: 600, color: accent },
 });
 
@@ -141,11 +142,34 @@ export type CertificatePdfInput = {
   status: { revoked?: { reason: string; on: string } | null; supersededByCode?: string | null };
 };
 
+/** Characters of the written terms; well under a page's worth at the terms' type size keeps them on one page. */
+function termsFitOnePage(d: CertificateDocument): boolean {
+  const t = d.terms;
+  const chars = [
+    t.whoIsCovered,
+    t.whatWeWillDo,
+    t.whatWeWillNotDo,
+    t.disputes,
+    t.impliedWarranties,
+    t.consequentialDamages,
+    t.shopWording,
+    t.rightsSentence,
+  ]
+    .concat(
+      t.howToClaim,
+      d.warranty.covered.map((c) => c.text),
+      d.warranty.excluded.map((e) => e.text),
+    )
+    .join(" ").length;
+  return chars <= 6000;
+}
+
 function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: CertificatePdfInput & { qr: string }) {
   const designation = d.warranty.designation === "full" ? "Full" : "Limited";
   const edges = bandEdgeRows(d);
   const others = otherReadings(d);
   const setName = `${d.set.maker} ${d.set.model}${d.set.year ? ` (${d.set.year})` : ""}`;
+  const verifyHost = verifyUrl.replace(/^https?:\/\//, "").replace(/\/verify\/.*$/, "/verify");
   return (
     <Document
       title={`Warranty certificate ${d.code}`}
@@ -190,9 +214,7 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
             {/* eslint-disable-next-line jsx-a11y/alt-text -- a PDF image, not an HTML one: react-pdf has no alt prop */}
             <Image src={qr} style={s.qr} />
             <Text style={s.qrNote}>Scan to check this certificate, or enter its code at</Text>
-            <Text style={[s.qrNote, { fontFamily: "Plex Mono" }]}>
-              {verifyUrl.replace(/^https?:\/\//, "").replace(/\/verify\/.*$/, "/verify")}
-            </Text>
+            <Text style={[s.qrNote, { fontFamily: "Plex Mono" }]}>{verifyHost}</Text>
           </View>
         </View>
 
@@ -257,71 +279,89 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           </View>
         </View>
 
-        <Text style={s.h2}>{designation} warranty — the terms</Text>
-        <View style={s.columns}>
-          <View style={s.col}>
-            <Text style={s.p}>
-              <Text style={{ fontWeight: 700 }}>Term. </Text>
-              {describeTerm(d.warranty, d.completedOn)}
-            </Text>
-            <Text style={s.p}>
-              <Text style={{ fontWeight: 700 }}>Who is covered. </Text>
-              {d.terms.whoIsCovered}{" "}
-              {d.terms.transferable
-                ? "Coverage passes to a later owner for the rest of the term."
-                : "Coverage does not pass to a later owner."}
-            </Text>
-            <Text style={[s.p, { fontWeight: 700 }]}>What is covered</Text>
+        {/* The terms read top to bottom in one column, in the order the wording refers to itself: what the
+            shop will not do comes before the list of exclusions it points to, and the warrantor's address before
+            the disputes paragraph that sends the reader to it. The terms stay together on one page when they
+            fit one (the usual case), so a page never ends on a short tail of them; longer shop wording flows
+            from page to page, each part kept whole. */}
+        <View style={s.terms} wrap={!termsFitOnePage(d)}>
+          <Text style={s.h2} minPresenceAhead={60}>
+            {designation} warranty — the terms
+          </Text>
+          <Text style={s.tp} wrap={false}>
+            <Text style={{ fontWeight: 700 }}>Term. </Text>
+            {describeTerm(d.warranty, d.completedOn)}
+          </Text>
+          <Text style={s.tp} wrap={false}>
+            <Text style={{ fontWeight: 700 }}>Who is covered. </Text>
+            {d.terms.whoIsCovered}{" "}
+            {d.terms.transferable
+              ? "Coverage passes to a later owner for the rest of the term."
+              : "Coverage does not pass to a later owner."}
+          </Text>
+          <View wrap={false}>
+            <Text style={s.th3}>What is covered</Text>
             {d.warranty.covered.map((c) => (
               <View key={c.key} style={s.li}>
                 <Text style={s.bullet}>•</Text>
                 <Text style={{ flex: 1 }}>{c.text}</Text>
               </View>
             ))}
-            <Text style={[s.p, { fontWeight: 700, marginTop: 2 }]}>What is not covered</Text>
+          </View>
+          <Text style={s.tp} wrap={false}>
+            <Text style={{ fontWeight: 700 }}>What we will do. </Text>
+            {d.terms.whatWeWillDo}
+          </Text>
+          <View wrap={false}>
+            <Text style={s.tp}>
+              <Text style={{ fontWeight: 700 }}>What we will not do. </Text>
+              {d.terms.whatWeWillNotDo}
+            </Text>
+            <Text style={s.th3}>What is not covered</Text>
             {d.warranty.excluded.map((e) => (
               <View key={e.code} style={s.li}>
                 <Text style={s.bullet}>•</Text>
                 <Text style={{ flex: 1 }}>{e.text}</Text>
               </View>
             ))}
-            <Text style={s.p}>
-              <Text style={{ fontWeight: 700 }}>What we will do. </Text>
-              {d.terms.whatWeWillDo}
-            </Text>
-            <Text style={s.p}>
-              <Text style={{ fontWeight: 700 }}>What we will not do. </Text>
-              {d.terms.whatWeWillNotDo}
-            </Text>
           </View>
-          <View style={s.col}>
-            <Text style={[s.p, { fontWeight: 700 }]}>How to make a claim</Text>
+          <View wrap={false}>
+            <Text style={s.th3}>How to make a claim</Text>
             {d.terms.howToClaim.map((step, i) => (
               <View key={i} style={s.li}>
                 <Text style={s.bullet}>{i + 1}.</Text>
                 <Text style={{ flex: 1 }}>{step}</Text>
               </View>
             ))}
-            <Text style={s.p}>
+          </View>
+          <View wrap={false}>
+            <Text style={s.tp}>
               <Text style={{ fontWeight: 700 }}>Warrantor. </Text>
               {d.shop.name}, {d.shop.address}
               {d.shop.phone ? `, ${d.shop.phone}` : ""}.
             </Text>
-            <Text style={s.p}>
+            <Text style={s.tp}>
               <Text style={{ fontWeight: 700 }}>Disputes. </Text>
               {d.terms.disputes}
             </Text>
-            <Text style={s.p}>{d.terms.impliedWarranties}</Text>
-            <Text style={s.p}>{d.terms.consequentialDamages}</Text>
-            {d.terms.shopWording ? <Text style={s.p}>{d.terms.shopWording}</Text> : null}
-            <Text style={[s.p, { fontWeight: 600 }]}>{d.terms.rightsSentence}</Text>
           </View>
+          <Text style={s.tp} wrap={false}>
+            {d.terms.impliedWarranties}
+          </Text>
+          <Text style={s.tp} wrap={false}>
+            {d.terms.consequentialDamages}
+          </Text>
+          {d.terms.shopWording ? <Text style={s.tp}>{d.terms.shopWording}</Text> : null}
+          <Text style={[s.tp, { fontWeight: 600 }]} wrap={false}>
+            {d.terms.rightsSentence}
+          </Text>
         </View>
 
-        <View style={s.footer} fixed>
-          <Text>Signed (Ed25519, key {keyId}). Any change to this certificate makes the check at the address above fail.</Text>
-          <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
-        </View>
+        {/* A fixed text placed on the page itself: the earlier fixed, absolutely placed row printed nothing, and
+            the renderer's page-number callback prints nothing here either, so the line is static. */}
+        <Text style={s.footer} fixed>
+          Signed (Ed25519, key {keyId}). Any change to this certificate makes the check at {verifyHost} fail.
+        </Text>
       </Page>
     </Document>
   );

@@ -18,6 +18,7 @@ import { transitionJob } from "@/lib/server/services/jobs";
 import { getShop } from "@/lib/server/services/shop";
 import type { ShopPolicy } from "@/lib/engine/shop-policy";
 import { fieldErrors } from "@/lib/engine/requests/field-errors";
+import { listRequiredReadings } from "@/lib/engine/verdicts";
 import { draftSchema, effectiveMarkupBp, moneyText, tryPriceDraft, type DraftLine } from "@/lib/validation/estimate";
 
 // States from which a revision may be sent (see lib/jobs/states.ts).
@@ -130,6 +131,8 @@ export type EstimateView = {
   priced: PricedEstimate | null;
   pricingError: { message: string; fields: Record<string, string> } | null;
   profileIssues: Record<string, string> | null;
+  /** What each reading key on a line is called on the bench sheet, so the builder never shows the key. */
+  readingLabels: Record<string, string>;
   currency: { code: string; exponent: number };
   /** The policy the builder prices with, so its live totals are the engine's own. */
   policy: ShopPolicy;
@@ -168,6 +171,9 @@ export async function getEstimateView({ jobId }: { jobId: string }): Promise<Est
     priced,
     pricingError,
     profileIssues: profile.ok ? null : profile.fields,
+    readingLabels: profile.ok
+      ? Object.fromEntries(listRequiredReadings(profile.profile, shop.policy.tolerances).map((r) => [r.key, r.label]))
+      : {},
     currency: { code: shop.policy.currency.code, exponent: shop.policy.currency.exponent },
     policy: shop.policy,
     isWarranty: job.isWarranty,

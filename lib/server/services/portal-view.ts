@@ -12,8 +12,14 @@ import {
 import type { JobState } from "@/lib/engine/jobs/states";
 import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { AppError } from "@/lib/server/errors";
-import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
-import { coveredWording, exclusionWording, type CoveredWordingKey, type ExclusionCode } from "@/lib/engine/warranty/exclusions";
+import { jobNumber, ownerStateLabel, STATE_LABEL } from "@/lib/engine/jobs/states";
+import {
+  coveredWording,
+  coveredWordingInEstimate,
+  exclusionWording,
+  type CoveredWordingKey,
+  type ExclusionCode,
+} from "@/lib/engine/warranty/exclusions";
 import { CATEGORY_LABEL, moneyText, type DraftCategory } from "@/lib/validation/estimate";
 
 // What a set owner may see of a job, shaped field by field: no cost prices, markups, internal notes or staff ids.
@@ -36,7 +42,8 @@ function warrantyOf(p: Record<string, unknown>) {
   return {
     termDays: typeof w.termDays === "number" ? w.termDays : 0,
     designation: w.designation === "full" ? "full" : "limited",
-    covers: covered.map((k) => coveredWording[k]),
+    // The estimate comes before the work: its cover speaks of the certificate to come, not of "this certificate".
+    covers: covered.map((k) => coveredWordingInEstimate[k]),
     excludes: excluded.map((k) => exclusionWording[k]),
   };
 }
@@ -63,7 +70,10 @@ function billingOf(
 }
 
 // The timeline tells what happened, in the past: the state labels speak of what is asked now ("send the set").
-function timelineLabel(from: JobState | null, to: JobState, depositPaid: boolean): string {
+function timelineLabel(from: JobState | null, to: JobState, depositPaid: boolean, returnMethod: "pick-up" | "shipped" | null): string {
+  if (to === "paid_in_full") return "Paid in full";
+  if (to === "returned")
+    return returnMethod === "shipped" ? "Shipped back to you" : returnMethod === "pick-up" ? "Collected from the shop" : "Returned";
   if (to === "deposit_paid") return depositPaid ? "Deposit received" : "Nothing to pay before the work";
   if (to === "bench_revision") return "A change to the work was proposed; the set stayed on the bench";
   if (to === "on_bench" && from === "bench_revision") return "Change answered; back to work on the bench";
@@ -164,7 +174,7 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
       id: job.id,
       number: jobNumber(job.number),
       state: job.state,
-      stateLabel: STATE_LABEL[job.state].owner,
+      stateLabel: ownerStateLabel(job.state, job.returnMethod),
       stateIcon: STATE_LABEL[job.state].icon,
       symptoms: job.symptoms,
       priorWork: job.priorWork,
@@ -179,7 +189,7 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
     timeline: timeline.map((t) => ({
       id: t.id,
       state: t.toState as JobState,
-      label: timelineLabel(t.fromState, t.toState, paidDeposits > 0),
+      label: timelineLabel(t.fromState, t.toState, paidDeposits > 0, job.returnMethod),
       icon: STATE_LABEL[t.toState].icon,
       at: t.at.toISOString(),
     })),

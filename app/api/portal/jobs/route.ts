@@ -1,6 +1,6 @@
 import { listJobsForCustomer } from "@/db/queries/jobs";
 import { route } from "@/lib/server/route-handler";
-import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
+import { jobNumber, ownerStateLabel } from "@/lib/engine/jobs/states";
 import { submitQuote } from "@/lib/server/services/quotes";
 import { quoteRequestSchema } from "@/lib/validation/quote";
 
@@ -12,7 +12,7 @@ export const GET = route({ permission: "portal.use" }, async ({ viewer }) => {
       id: j.id,
       number: jobNumber(j.number),
       state: j.state,
-      stateLabel: STATE_LABEL[j.state].owner,
+      stateLabel: ownerStateLabel(j.state, j.returnMethod),
       set: `${j.maker} ${j.model}${j.year ? ` (${j.year})` : ""}`,
       isWarranty: j.isWarranty,
       updatedAt: j.updatedAt.toISOString(),

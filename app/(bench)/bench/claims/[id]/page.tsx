@@ -8,7 +8,7 @@ import { getClaimForStaff, listClaimPhotos } from "@/db/queries/claims";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { can } from "@/lib/engine/permissions";
 import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
-import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
+import { CLAIM_STATUS_LABEL, computeAdvice, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
 import { isSafetySymptom } from "@/lib/engine/warranty/advise-claim";
 import { requirePermission } from "@/lib/server/session";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
@@ -27,6 +27,14 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
   const safetyClaim = (advice.symptoms ?? []).some((s) => isSafetySymptom(s));
   const { status, document: d } = certificateStatus(row.certificate);
   const st = CLAIM_STATUS_LABEL[row.claim.status];
+  // The reasons are read in words: advice stored before the advice named work by its title is worded again
+  // from the same facts and the certificate (the outcome shown is the stored one).
+  const symptom = advice.symptoms?.[0];
+  const reasons =
+    d && symptom && advice.reportedOn
+      ? computeAdvice(d, { reportedOn: advice.reportedOn, symptom, findings: advice.findings ?? [] }, advice.computedBy).reasons
+      : advice.reasons;
+  const codes = [...(advice.matchedWork ?? []), ...(advice.matchedParts ?? [])];
   const undecided = row.claim.status === "open" || row.claim.status === "inspecting";
   return (
     <div className="space-y-4">
@@ -94,11 +102,19 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
             Coverage advice: {OUTCOME_LABEL[safetyClaim ? "inspect-first" : advice.outcome]}
           </h2>
           <ul className="list-disc space-y-1 pl-5 text-sm">
-            {advice.reasons.map((r, i) => (
+            {reasons.map((r, i) => (
               <li key={i}>{r}</li>
             ))}
           </ul>
           <p className="text-sm text-bakelite-soft">Advice only: the decision is yours.</p>
+          {codes.length > 0 ? (
+            <details className="text-xs text-bakelite-muted" data-testid="advice-details">
+              <summary className="cursor-pointer">Details for staff</summary>
+              <p>
+                Checklist and part codes matched: <span className="figure">{codes.join(", ")}</span>
+              </p>
+            </details>
+          ) : null}
         </section>
       </div>
       <section className="card space-y-2 p-4" aria-labelledby="cert-h">

@@ -159,8 +159,9 @@ export function EstimatePanel({ jobId, estimate }: { jobId: string; estimate: Es
           <h3 className="text-lg font-bold">What the warranty will cover</h3>
           {estimate.warranty.termDays ? (
             <p>
-              After the work, your set has a {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty counted from the day
-              after it is returned. It covers:
+              This is an estimate: the warranty comes with the finished work. When the set is returned you receive its certificate, a{" "}
+              {estimate.warranty.termDays}-day {estimate.warranty.designation} warranty counted from the day after the return. It will
+              cover:
             </p>
           ) : (
             <p>This shop does not offer a warranty on this work.</p>

@@ -26,9 +26,13 @@ const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
     "While working on your set we found something that changes the work. Your set stays on our bench: read the change below, then approve it or tell us how to go on.",
   final_checks: "The work is done; the final measurements are being checked.",
   balance_due: "Your set is finished. Once the balance is paid, we return it.",
-  paid_in_full: "Paid in full. We are preparing the set for its return.",
+  paid_in_full: "Paid in full. We are making the set ready to go back to you; we write as soon as it is collected or shipped.",
   returned: "Your set is back with you. Its warranty certificate is below: keep the PDF, and show its code to a later buyer.",
 };
+
+// A shipped set is with the carrier, not yet with its owner.
+const SHIPPED_STEP =
+  "Your set is on its way back to you with the carrier. Its warranty certificate is below: keep the PDF, and show its code to a later buyer.";
 
 // The first render happens on the server: a fixed time zone keeps server and browser text identical.
 function when(iso: string): string {
@@ -111,7 +115,9 @@ export function JobView({
           <p className="mt-1 text-lg">
             {v.job.state === "deposit_paid" && v.account.paid.minor === 0
               ? "Nothing to pay before the work. Please send or bring the set: remove batteries, wrap the chassis and the dial glass well."
-              : NEXT_STEP[v.job.state]}
+              : v.job.state === "returned" && v.job.returnMethod === "shipped"
+                ? SHIPPED_STEP
+                : NEXT_STEP[v.job.state]}
           </p>
           {v.job.state === "returned" && v.job.returnMethod === "shipped" && v.job.trackingNumber ? (
             <p className="mt-1">
