@@ -171,8 +171,8 @@ function PassbandBlock({ section }: { section: PassbandSection }) {
     <View>
       <Text style={s.h2}>IF passband</Text>
       <Text style={s.p}>
-        Relative response at offsets around the IF; edges found by interpolation between the readings, symmetry as the upper half-width
-        less the lower one, measured from the peak.
+        Relative response at offsets around the IF; edges found by interpolation between the readings, symmetry as the upper half-width less
+        the lower one, measured from the peak.
       </Text>
       <View style={s.table}>
         <View style={s.tr}>
