@@ -5,7 +5,7 @@ import type { CertificateDocument } from "@/lib/engine/certificates/document";
 import { verifyStoredCertificate } from "@/lib/server/services/certificates";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
-import { TestClient } from "../support/http";
+import type { TestClient } from "../support/http";
 import { AURELIAN_PROFILE, createJob } from "./bench-fixtures";
 import { createCertificate, stopQueue } from "./certificates-fixtures";
 
