@@ -113,7 +113,7 @@ describe("performance readings offered by set kind", () => {
     ]);
     const sens = listPerformanceReadings(aurelianTableSet, on)[0]!;
     // The usual AM reference output (common practice, from memory): 50 mW at 30 % modulation at 400 Hz.
-    expect(sens.label).toMatch(/input for 50 mW into 8 Ω at 30 % at 400 Hz/);
+    expect(sens.label).toMatch(/input for 50 mW into 8 ohms at 30 % at 400 Hz/);
     expect(sens.tolerance.kind).toBe("recorded");
   });
 

@@ -49,9 +49,9 @@ export type PassbandSection = z.infer<typeof passbandSectionSchema>;
 
 export function describeConditions(c: PerformanceConditions): string {
   return [
-    `Reference output ${formatNumber(c.referenceOutputMW)} mW into ${formatNumber(c.loadOhms)} Ω`,
+    `Reference output ${formatNumber(c.referenceOutputMW)} mW into ${formatNumber(c.loadOhms)} ohms`,
     `AM at ${formatNumber(c.modulationPercent)} % modulation at ${formatNumber(c.modulationHz)} Hz`,
-    "generator levels as µV (dBm taken into 50 Ω)",
+    "generator levels as µV (dBm taken into 50 ohms)",
     ...(c.batteryVolts ? [`battery ${formatNumber(c.batteryVolts)} V`] : []),
   ].join("; ");
 }

@@ -102,7 +102,7 @@ export function listPerformanceReadings(
   if (!setup.enabled) return [];
   const c = setup.conditions;
   const out: PerformanceRequirement[] = [];
-  const ref = `${formatNumber(c.referenceOutputMW)} mW into ${formatNumber(c.loadOhms)} Ω`;
+  const ref = `${formatNumber(c.referenceOutputMW)} mW into ${formatNumber(c.loadOhms)} ohms`;
   const mod = `${formatNumber(c.modulationPercent)} % at ${formatNumber(c.modulationHz)} Hz`;
   const push = (
     r: { key: string; label: string; lineCode: string; unit: ReadingUnit; direction: PerformanceDirection },
@@ -152,7 +152,7 @@ export function listPerformanceReadings(
   });
   push({
     key: performanceKey.maxOutput,
-    label: `Maximum output at ${formatNumber(c.distortionPercent)} % distortion, into ${formatNumber(c.loadOhms)} Ω`,
+    label: `Maximum output at ${formatNumber(c.distortionPercent)} % distortion, into ${formatNumber(c.loadOhms)} ohms`,
     lineCode: "perf.audio",
     unit: "mW",
     direction: "higher",

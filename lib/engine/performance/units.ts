@@ -6,7 +6,7 @@ import { EngineError } from "../engine-error";
  * voltage only for a stated resistance (V = √(P·R)); a power into a stated load is V²/R. Voltages are rms.
  */
 
-/** The generator's usual source and load resistance, Ω. */
+/** The generator's usual source and load resistance, ohms. */
 export const GENERATOR_OHMS = 50;
 
 function positive(value: number, field: string, what: string): number {
