@@ -473,7 +473,8 @@ export function PerformancePanel({ sheet, jobId }: { sheet: BenchSheetJson; jobI
         <input
           type="checkbox"
           className="mt-1"
-          checked={perf.enabled}
+          // Shows the choice at once; the sheet's answer then confirms it, or it flips back with the error.
+          checked={toggle.isPending ? Boolean(toggle.variables) : perf.enabled}
           disabled={!sheet.editable || toggle.isPending}
           onChange={(e) => toggle.mutate(e.target.checked)}
         />
