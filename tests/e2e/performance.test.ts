@@ -39,7 +39,7 @@ describe("performance readings on the bench sheet", () => {
 
     // Signal-to-noise without a service figure: recorded, never passed.
     const snr = page.locator('tr[data-performance="perf.snr"]');
-    await snr.getByRole("textbox", { name: /Signal-to-noise at 1 mV input/ }).fill("32");
+    await snr.getByRole("textbox", { name: "Signal-to-noise at 1 mV input", exact: true }).fill("32");
     await snr.getByRole("button", { name: /Save/ }).click();
     await expect.poll(() => snr.getByText("Saved").count()).toBe(1);
     expect(await snr.getAttribute("data-verdict")).toBe("recorded");
