@@ -9,6 +9,7 @@ import { judgeReading, formatNumber, readingValueProblem, type ReadingRequiremen
 import { benchNoteSchema, parseReadingText } from "@/lib/validation/bench";
 import { api, ApiError, errorText, retryLostAnswer } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
+import { PerformancePanel } from "./performance-panel";
 import { SafetyCautions } from "./safety-cautions";
 import type { BenchSheetJson } from "./types";
 import { VerdictBadge } from "./verdict-badge";
@@ -420,6 +421,7 @@ export function BenchSheetPanel({ jobId }: { jobId: string }) {
           <BenchNote jobId={jobId} />
         </div>
       </div>
+      <PerformancePanel sheet={sheet} jobId={jobId} />
     </div>
   );
 }

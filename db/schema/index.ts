@@ -8,3 +8,4 @@ export * from "./bench";
 export * from "./warranty";
 export * from "./audit";
 export * from "./schedule";
+export * from "./performance";

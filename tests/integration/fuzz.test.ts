@@ -55,6 +55,8 @@ const STATE_FOR: Record<string, string> = {
   "POST /api/bench/jobs/[id]/estimate/send": "in_triage",
   "POST /api/bench/jobs/[id]/start-bench": "deposit_paid",
   "POST /api/bench/jobs/[id]/readings": "on_bench",
+  "PUT /api/bench/jobs/[id]/performance": "on_bench",
+  "POST /api/bench/jobs/[id]/passband": "on_bench",
   "POST /api/bench/jobs/[id]/tasks": "on_bench",
   "POST /api/bench/jobs/[id]/notes": "on_bench",
   "POST /api/bench/jobs/[id]/final-checks": "on_bench",
@@ -348,6 +350,23 @@ const SHAPES: Record<string, Shape> = {
     base: () => ({ key: "leakage.plug-a", value: 0.12, note: "Measured with the plug both ways." }),
   },
   "POST /api/bench/jobs/[id]/tasks": { fields: ["code", "done"], base: () => ({ code: "inspect.first", done: true }) },
+  "PUT /api/bench/jobs/[id]/performance": {
+    fields: ["enabled", "conditions", "figures"],
+    base: () => ({ enabled: true, figures: { "perf.snr": 26 } }),
+  },
+  "POST /api/bench/jobs/[id]/passband": {
+    fields: ["curve", "ifKHz", "method", "points"],
+    base: () => ({
+      curve: "response",
+      ifKHz: 455,
+      method: "generator",
+      points: [
+        { offsetKHz: -10, db: -14 },
+        { offsetKHz: 0, db: 0 },
+        { offsetKHz: 10, db: -14 },
+      ],
+    }),
+  },
   "POST /api/bench/jobs/[id]/notes": {
     fields: ["body", "idempotencyKey"],
     base: () => ({ body: "Filter caps bulging; ordered replacements.", idempotencyKey: randomUUID() }),

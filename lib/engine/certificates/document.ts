@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { describeTerm } from "../warranty/term";
 import { certificateContentSchema, type CertificateContent } from "./content";
+import { passbandSectionSchema, performanceSectionSchema } from "./performance-section";
 
 // The written warranty as carried in the signed content, and the signed document itself. The schema here is
 // the certificate's own and stays stable: stored certificates must parse forever, whatever the settings
@@ -76,6 +77,10 @@ export const certificateDocumentSchema = certificateContentSchema.extend({
   // Warranty work: the certificate and the claim this job answers. The work and parts listed are the new
   // work done under the claim, and the term runs afresh for them.
   answers: z.object({ certificateCode: z.string(), claimId: z.string(), claimOpenedOn: z.string() }).optional(),
+  // Receiver performance and the IF passband, only when the job measured them: certificates without them
+  // parse and verify exactly as they did.
+  performance: performanceSectionSchema.optional(),
+  passband: passbandSectionSchema.optional(),
 });
 export type CertificateDocument = z.infer<typeof certificateDocumentSchema>;
 export type CertificateReading = CertificateContent["readings"][number];

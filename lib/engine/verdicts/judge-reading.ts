@@ -1,4 +1,8 @@
-export type ReadingUnit = "kHz" | "mA" | "V";
+/**
+ * kHz, mA and V for the alignment and safety readings; the performance readings add µV (generator input),
+ * dB (ratios), mW (audio output), mV (bias) and "scale" (a tube tester's own scale).
+ */
+export type ReadingUnit = "kHz" | "mA" | "V" | "µV" | "dB" | "mW" | "mV" | "scale";
 
 export type Tolerance =
   /**
@@ -8,11 +12,13 @@ export type Tolerance =
    */
   | { kind: "window"; absKHz: number; percent: number; reference: "mark" | "target"; markKHz?: number }
   | { kind: "max"; limit: number; unit: ReadingUnit }
+  /** Higher is better: at least the limit (signal-to-noise, output power, a tube against the tester's minimum). */
+  | { kind: "min"; limit: number; unit: ReadingUnit }
   | { kind: "percent"; percent: number }
   | { kind: "recorded" };
 
 /** What a reading checks, printed beside its tolerance so the certificate says where a verdict came from. */
-export type ReadingMeasure = "if-peak" | "dial-calibration" | "leakage" | "b-plus" | "mains";
+export type ReadingMeasure = "if-peak" | "dial-calibration" | "leakage" | "b-plus" | "mains" | "performance";
 
 export type ReadingRequirement = {
   key: string;
@@ -67,6 +73,8 @@ export function describeTolerance(t: Tolerance, context: { ifKHz?: number; injec
     }
     case "max":
       return `at most ${formatNumber(t.limit)} ${t.unit}`;
+    case "min":
+      return `at least ${formatNumber(t.limit)} ${t.unit}`;
     case "percent":
       return `within ±${formatNumber(t.percent)} % of the schematic value`;
     case "recorded":
@@ -103,6 +111,8 @@ export function judgeReading(requirement: ReadingRequirement, value: number | nu
     }
     case "max":
       return { verdict: value <= t.limit + EPS ? "pass" : "fail", toleranceText, allowed: t.limit };
+    case "min":
+      return { verdict: value >= t.limit - EPS ? "pass" : "fail", toleranceText, allowed: t.limit };
     case "recorded":
       return { verdict: "recorded", toleranceText };
   }

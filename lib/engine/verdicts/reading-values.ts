@@ -1,4 +1,4 @@
-import { formatNumber, type ReadingRequirement } from "./judge-reading";
+import { formatNumber, type ReadingRequirement, type ReadingUnit } from "./judge-reading";
 
 /**
  * Readings are physical: a frequency, a current or a voltage below zero is bad input, and so is a
@@ -7,9 +7,15 @@ import { formatNumber, type ReadingRequirement } from "./judge-reading";
  * of that mark at all.
  */
 const FREQUENCY_FACTOR = 2;
-const LIMITS: Record<"mA" | "V", { max: number; what: string }> = {
+const LIMITS: Record<Exclude<ReadingUnit, "kHz">, { max: number; what: string }> = {
   mA: { max: 1000, what: "A current" },
   V: { max: 1000, what: "A voltage" },
+  // The performance readings: a generator input up to 1 V, ratios up to 150 dB, up to 100 W of audio.
+  µV: { max: 1_000_000, what: "An input level" },
+  dB: { max: 150, what: "A ratio in dB" },
+  mW: { max: 100_000, what: "An output power" },
+  mV: { max: 10_000, what: "A voltage" },
+  scale: { max: 1000, what: "A tester reading" },
 };
 
 const fmtKHz = (kHz: number) => (kHz >= 10000 ? `${formatNumber(kHz / 1000)} MHz` : `${formatNumber(kHz)} kHz`);
@@ -36,6 +42,7 @@ export function readingValueProblem(
   }
   const limit = LIMITS[r.unit];
   if (value < 0) return `${limit.what} reading is not below zero.`;
+  if (r.unit === "µV" && value === 0) return "An input level is above zero µV.";
   if (value > limit.max) return `${limit.what} above ${limit.max} ${r.unit} is no reading of this set: check the unit.`;
   if (r.measures === "mains" && (value < 50 || value > 300)) return "Mains voltage lies between 50 and 300 V.";
   return null;

@@ -8,6 +8,7 @@ import { describeTerm } from "@/lib/engine/warranty/term";
 import type { CertificateDocument, CertificateReading } from "@/lib/engine/certificates/document";
 import { woffToSfnt } from "@/lib/server/pdf/woff";
 import { bandEdgeRows, formatReading, otherReadings, VERDICT_WORD } from "@/lib/engine/certificates/tables";
+import { passbandRows, type PassbandSection, type PerformanceSection } from "@/lib/engine/certificates/performance-section";
 
 // Fonts ship with the app from node_modules/@fontsource. The renderer takes TTF or WOFF (not WOFF2);
 // the WOFF files are unpacked to plain TrueType in memory, which its parser reads reliably.
@@ -130,6 +131,66 @@ function ReadingsTable({ rows }: { rows: CertificateReading[] }) {
           </Cell>
         </View>
       ))}
+    </View>
+  );
+}
+
+function PerformanceBlock({ section }: { section: PerformanceSection }) {
+  return (
+    <View>
+      <Text style={s.h2}>Receiver performance</Text>
+      <Text style={s.p}>
+        {section.conditions}. Each reading is judged against the set&apos;s own service figure (or the tube tester&apos;s minimum) where one
+        was entered; without one it is marked Recorded.
+      </Text>
+      <View style={s.table}>
+        <View style={s.tr}>
+          <Text style={[s.th, { width: "40%" }]}>Reading</Text>
+          <Text style={[s.th, { width: "14%" }]}>Measured</Text>
+          <Text style={[s.th, { width: "34%" }]}>Judged against</Text>
+          <Text style={[s.th, { width: "12%" }]}>Verdict</Text>
+        </View>
+        {section.readings.map((r) => (
+          <View key={r.key} style={s.tr} wrap={false}>
+            <Cell w="40%">{r.label}</Cell>
+            <Cell w="14%" mono>
+              {formatReading(r.value, r.unit)}
+            </Cell>
+            <Cell w="34%">{r.toleranceText}</Cell>
+            <Cell w="12%" bold>
+              {VERDICT_WORD[r.verdict]}
+            </Cell>
+          </View>
+        ))}
+      </View>
+    </View>
+  );
+}
+
+function PassbandBlock({ section }: { section: PassbandSection }) {
+  return (
+    <View>
+      <Text style={s.h2}>IF passband</Text>
+      <Text style={s.p}>
+        Relative response at offsets around the IF; edges found by interpolation between the readings, symmetry as the upper half-width less
+        the lower one, measured from the peak.
+      </Text>
+      <View style={s.table}>
+        <View style={s.tr}>
+          <Text style={[s.th, { width: "14%" }]}>IF</Text>
+          <Text style={[s.th, { width: "30%" }]}>Curve</Text>
+          <Text style={[s.th, { width: "56%" }]}>Figures</Text>
+        </View>
+        {passbandRows(section).map((r, i) => (
+          <View key={i} style={s.tr} wrap={false}>
+            <Cell w="14%" mono>
+              {r.ifText}
+            </Cell>
+            <Cell w="30%">{r.what}</Cell>
+            <Cell w="56%">{r.figures.join("; ")}</Cell>
+          </View>
+        ))}
+      </View>
     </View>
   );
 }
@@ -267,6 +328,9 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           reading each verdict came from. A reading with no figure to judge it by is marked Recorded.
         </Text>
         <ReadingsTable rows={others} />
+
+        {d.performance ? <PerformanceBlock section={d.performance} /> : null}
+        {d.passband ? <PassbandBlock section={d.passband} /> : null}
 
         <View style={s.columns}>
           <View style={s.col}>

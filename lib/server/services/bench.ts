@@ -24,6 +24,7 @@ import { transitionJob } from "@/lib/server/services/jobs";
 import { settleIfNothingOwed } from "@/lib/server/services/account";
 import { findKeyedMessage } from "@/lib/server/services/messages";
 import { getShop } from "@/lib/server/services/shop";
+import { loadSweeps, performanceRequirementsFor, sweepStrips, sweepViews } from "@/lib/server/services/performance";
 import { judgeReading, judgeReadings, listRequiredReadings, readingValueProblem, type ReadingRequirement } from "@/lib/engine/verdicts";
 import type { ProfileUpdate, ReadingInput, ReturnInput } from "@/lib/validation/bench";
 import { moneyText } from "@/lib/validation/estimate";
@@ -223,8 +224,10 @@ export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { j
   // completion gate reads the sheet, or waits and then finds the job no longer on the bench.
   const { job, set } = await loadJob(ctx.tx, jobId, { lock: true });
   requireState(job, READING_STATES, "record readings");
-  const { requirements } = await sheetBasis(ctx.tx, jobId, set);
-  const requirement = requirements.find((r) => r.key === input.key);
+  const { requirements, profile } = await sheetBasis(ctx.tx, jobId, set);
+  // Performance readings are offered only on a job the technician opted in; they never gate completion.
+  const performance = (await performanceRequirementsFor(ctx.tx, jobId, profile)).requirements;
+  const requirement = requirements.find((r) => r.key === input.key) ?? performance.find((r) => r.key === input.key);
   if (!requirement)
     throw new AppError("invalid_input", "This set does not call for that reading.", { key: "This set does not call for that reading." });
   const problem = input.value === null ? null : readingValueProblem(requirement, input.value);
@@ -475,6 +478,7 @@ export async function getBenchSheet({ jobId }: { jobId: string }) {
   const order = new Map(basis.lines.map((l, i) => [l.code, i]));
   tasks.sort((a, b) => (order.get(a.code) ?? 999) - (order.get(b.code) ?? 999));
   const gate = await completionGate(db, jobId);
+  const perf = await performanceRequirementsFor(db, jobId, basis.profile);
   return {
     jobState: job.state,
     editable: READING_STATES.includes(job.state),
@@ -492,6 +496,22 @@ export async function getBenchSheet({ jobId }: { jobId: string }) {
     }),
     tasks: tasks.map((t) => ({ ...t, doneAt: t.doneAt?.toISOString() ?? null })),
     reasons: gate.reasons,
+    performance: {
+      enabled: perf.setup.enabled,
+      conditions: perf.setup.conditions,
+      requirements: perf.requirements.map((r) => {
+        const s = byKey.get(r.key);
+        return {
+          ...r,
+          value: s?.value ?? null,
+          verdict: judgeReading(r, s?.value ?? null).verdict,
+          recordedAt: s?.recordedAt.toISOString() ?? null,
+          recordedByName: s?.recordedByName ?? null,
+        };
+      }),
+      strips: basis.profile ? sweepStrips(basis.profile) : [],
+      sweeps: perf.setup.enabled ? sweepViews(await loadSweeps(db, jobId)) : [],
+    },
   };
 }
 

@@ -21,6 +21,9 @@ import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
 import { getShop, type Shop } from "@/lib/server/services/shop";
 import { queueRevocationNotice } from "./notices";
+import { buildPerformanceSection } from "@/lib/engine/certificates/performance-section";
+import { isPerformanceKey, listPerformanceReadings } from "@/lib/engine/performance";
+import { loadPerformanceSetup, passbandSectionFor } from "./performance";
 import { listRequiredReadings, parseReadingKey, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { parseWarrantyTerms } from "@/lib/validation/office";
 import { dayNumber } from "@/lib/engine/warranty";
@@ -143,8 +146,19 @@ function readingLabel(key: string): string {
   }
 }
 
+type PerformanceSources = {
+  setup: Awaited<ReturnType<typeof loadPerformanceSetup>>;
+  passband: Awaited<ReturnType<typeof passbandSectionFor>>;
+};
+
+async function performanceSources(tx: TxContext["tx"], jobId: string): Promise<PerformanceSources> {
+  const setup = await loadPerformanceSetup(tx, jobId);
+  return { setup, passband: setup.enabled ? await passbandSectionFor(tx, jobId) : undefined };
+}
+
 function buildDocument(
   src: Sources,
+  perf: PerformanceSources,
   shop: Shop,
   code: string,
   technicianName: string,
@@ -206,7 +220,8 @@ function buildDocument(
       : r;
   });
   for (const stored of src.readings) {
-    if (required.has(stored.key)) continue;
+    // Performance readings print in their own section, judged against the figures in force.
+    if (required.has(stored.key) || isPerformanceKey(stored.key)) continue;
     readings.push({
       key: stored.key,
       label: readingLabel(stored.key),
@@ -217,6 +232,13 @@ function buildDocument(
       verdict: stored.verdict,
     });
   }
+  const performance = perf.setup.enabled
+    ? buildPerformanceSection(
+        listPerformanceReadings(profile.data, perf.setup),
+        Object.fromEntries(src.readings.map((r) => [r.key, r.value])),
+        perf.setup.conditions,
+      )
+    : undefined;
   const terms = readCertificateTerms(shop);
   const termsText = composeTermsText(terms, content.warranty, shop, content.completedOn);
   const doc: CertificateDocument = {
@@ -226,6 +248,8 @@ function buildDocument(
     terms,
     ...(correction ? { correction } : {}),
     ...(answers ? { answers } : {}),
+    ...(performance ? { performance } : {}),
+    ...(perf.passband ? { passband: perf.passband } : {}),
   };
   // Round-trip through the schema so nothing unsignable or unexpected reaches the row.
   return certificateDocumentSchema.parse(doc);
@@ -320,7 +344,15 @@ export async function issueCertificate(
   const shop = await getShop(ctx.tx);
   const technicianName =
     src.technician?.name ?? (actorId ? (await getUserName({ tx: ctx.tx, userId: actorId }))?.name : undefined) ?? shop.name;
-  const doc = buildDocument(src, shop, generateCertificateCode(), technicianName, undefined, await answersOf(ctx, src.job));
+  const doc = buildDocument(
+    src,
+    await performanceSources(ctx.tx, jobId),
+    shop,
+    generateCertificateCode(),
+    technicianName,
+    undefined,
+    await answersOf(ctx, src.job),
+  );
   const row = await insertSigned(ctx, src, doc, null);
   await audit(ctx, {
     actorId,
@@ -353,6 +385,7 @@ export async function reissueCertificate(
   const technicianName = src.technician?.name ?? oldDoc?.technician.name ?? shop.name;
   const doc = buildDocument(
     src,
+    await performanceSources(ctx.tx, old.jobId),
     shop,
     generateCertificateCode(),
     technicianName,

@@ -242,6 +242,8 @@ export const ROUTES: RouteEntry[] = [
     body: () => ({}),
   },
   { method: "POST", route: "/api/bench/jobs/[id]/readings", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
+  { method: "PUT", route: "/api/bench/jobs/[id]/performance", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
+  { method: "POST", route: "/api/bench/jobs/[id]/passband", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/tasks", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/notes", action: "bench.use", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/final-checks", action: "job.complete", rules: staff(), params: jobDone, body: () => ({}) },

@@ -1,0 +1,3 @@
+export * from "./units";
+export * from "./judge";
+export * from "./readings";
