@@ -21,6 +21,7 @@ import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
 import { getShop, type Shop } from "@/lib/server/services/shop";
 import { queueRevocationNotice } from "./notices";
+import { forgetVerifyPages } from "@/lib/server/verify-pages";
 import { listRequiredReadings, parseReadingKey, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { parseWarrantyTerms } from "@/lib/validation/office";
 import { dayNumber } from "@/lib/engine/warranty";
@@ -362,6 +363,8 @@ export async function reissueCertificate(
   // The term runs from the original completion, whatever day the correction is made.
   const row = await insertSigned(ctx, src, doc, old.id);
   await ctx.tx.update(certificates).set({ supersededById: row.id }).where(eq(certificates.id, old.id));
+  // The row's new version already keeps the old page from being served; this frees it at once.
+  forgetVerifyPages(old.code);
   await audit(ctx, {
     actorId,
     action: "certificate.reissue",
@@ -383,6 +386,7 @@ export async function revokeCertificate(
   if (row.revokedAt) throw new AppError("conflict", "This certificate is already revoked.");
   const revokedAt = new Date();
   await ctx.tx.update(certificates).set({ revokedAt, revokedBy: actorId, revokeReason: reason }).where(eq(certificates.id, certificateId));
+  forgetVerifyPages(row.code);
   await audit(ctx, {
     actorId,
     action: "certificate.revoke",
@@ -395,8 +399,8 @@ export async function revokeCertificate(
   return { certificateId };
 }
 
-/** Verification views allowed per client address per minute. */
-export const VERIFY_LIMIT_PER_MINUTE = 60;
+/** Lookups of codes that do not exist allowed per client address per minute (views of real certificates are not counted). */
+export const VERIFY_GUESS_LIMIT_PER_MINUTE = 60;
 
 export function isUuid(value: string): boolean {
   return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);
