@@ -103,9 +103,21 @@ export async function listCertificatesForStaff({ limit = 200 }: { limit?: number
 
 // A certificate's row version: PostgreSQL gives every updated row a new xmin, whoever makes the change (the
 // services or a hand-written UPDATE), so a page rendered for one version is never shown for another.
+// Prepared once per database connection: every view of the public page runs it.
+let preparedVersionByCode: ReturnType<typeof prepareVersionByCode> | undefined;
+function prepareVersionByCode() {
+  return db
+    .select({ version: sql<string>`${certificates}.xmin::text` })
+    .from(certificates)
+    .where(eq(certificates.code, sql.placeholder("code")))
+    .limit(1)
+    .prepare("bandedge_certificate_version_by_code");
+}
+
 export async function getCertificateVersionByCode({ code }: { code: string }): Promise<string | null> {
-  const result = await db.execute<{ version: string }>(sql`select xmin::text as version from certificate where code = ${code} limit 1`);
-  return result.rows[0]?.version ?? null;
+  preparedVersionByCode ??= prepareVersionByCode();
+  const [row] = await preparedVersionByCode.execute({ code });
+  return row?.version ?? null;
 }
 
 // Fixed-window counter per client address in the shared rate_limit table (several app instances agree).

@@ -273,14 +273,13 @@ describe("the public verification page", () => {
   it("opens a real certificate any number of times from one address", async () => {
     const c = await createCertificate();
     const buyer = new TestClient();
-    const statuses = new Set<number>();
+    const answers = new Set<string>();
     for (let i = 0; i < 200; i++) {
       const res = await buyer.get(`/verify/${c.code}`);
-      statuses.add(res.status);
-      await res.arrayBuffer();
+      const html = await res.text();
+      answers.add(`${res.status} ${html.includes(c.code) && html.includes("Valid") ? "the certificate" : "something else"}`);
     }
-    expect([...statuses]).toEqual([200]);
-    expect(await (await buyer.get(`/verify/${c.code}`)).text()).toContain("Valid");
+    expect([...answers]).toEqual(["200 the certificate"]);
   });
 
   it("serves the kept page without scripts, under the response's security policy", async () => {
