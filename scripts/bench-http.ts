@@ -190,17 +190,25 @@ async function verifyPage(stack: Stack, db: pg.Pool) {
   const firstHtml = await first.text();
   if (first.status !== 200 || !firstHtml.includes(code))
     throw new Error(`the verification page did not show the certificate (status ${first.status})`);
-  const bare = await cannon({ url: `${stack.appUrl}/api/health`, connections: 20, headers });
-  const verify = await cannon({ url, connections: 20, headers });
-  const ratio = verify.requests.average / bare.requests.average;
+  // Alternating short rounds, so a machine whose load drifts during the run weighs on both figures alike.
+  const rounds = 3;
+  const bare: autocannon.Result[] = [];
+  const verify: autocannon.Result[] = [];
+  for (let i = 0; i < rounds; i++) {
+    bare.push(await cannon({ url: `${stack.appUrl}/api/health`, connections: 20, headers, duration: 4 }));
+    verify.push(await cannon({ url, connections: 20, headers, duration: 4 }));
+  }
+  const rate = (rs: autocannon.Result[]) => rs.reduce((a, r) => a + r.requests.total, 0) / rs.reduce((a, r) => a + r.duration, 0);
+  const worstP97 = (rs: autocannon.Result[]) => Math.max(...rs.map((r) => r.latency.p97_5));
+  const errors = (rs: autocannon.Result[]) => rs.reduce((a, r) => a + errorsOf(r), 0);
   rows.push({
-    metric: "bare static JSON, 20 conns, one address",
-    figure: `${bare.requests.average.toFixed(0)} req/s, p97.5 ${bare.latency.p97_5} ms, errors ${errorsOf(bare)}`,
+    metric: `bare static JSON, 20 conns, one address (${rounds} × 4 s)`,
+    figure: `${rate(bare).toFixed(0)} req/s, p97.5 ≤ ${worstP97(bare)} ms, errors ${errors(bare)}`,
     goal: "baseline",
   });
   rows.push({
-    metric: "public verification page, 20 conns, one address",
-    figure: `${verify.requests.average.toFixed(0)} req/s (${ratio.toFixed(2)}× bare), p97.5 ${verify.latency.p97_5} ms, errors ${errorsOf(verify)}`,
+    metric: `public verification page, 20 conns, one address (${rounds} × 4 s, between)`,
+    figure: `${rate(verify).toFixed(0)} req/s (${(rate(verify) / rate(bare)).toFixed(2)}× bare), p97.5 ≤ ${worstP97(verify)} ms, errors ${errors(verify)}`,
     goal: "≥ 0.5× bare, p97.5 ≤ 80 ms, 0 errors",
   });
   // Guessing: unknown codes from one address meet the limit (429 with Retry-After); counted, not timed.
