@@ -5,6 +5,7 @@ import { setProfileSchema } from "@/lib/engine/checklist/profile";
 import { parseFrequencyText } from "@/lib/engine/bands/frequency-text";
 import type { ReadingUnit } from "@/lib/engine/verdicts/judge-reading";
 import { messageKeySchema } from "@/lib/validation/messages";
+import { READING_PHASES } from "@/lib/engine/instruments";
 
 // Shared by the bench forms and the bench JSON routes.
 
@@ -75,6 +76,10 @@ export const readingInputSchema = z.object({
   // null clears the reading (it then counts as missing).
   value: z.number({ error: "Enter a number." }).finite("Enter a number.").nullable(),
   note: z.string().trim().max(500, "Keep the note under 500 characters.").optional(),
+  // Without a phase the reading is the one that counts (as returned); the bench sheet always sends one.
+  phase: z.enum(READING_PHASES, { error: "Phase: as_received or as_returned." }).optional(),
+  // The instrument the reading was taken with (one of the shop's, not retired); null or absent: none named.
+  instrumentId: z.uuid({ error: "Instrument: choose one of the shop's instruments." }).nullable().optional(),
 });
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 
