@@ -12,13 +12,7 @@ import { benchKeys } from "@/lib/client/bench-query-keys";
 import { SafetyCautions } from "./safety-cautions";
 import type { BenchSheetJson } from "./types";
 import { VerdictBadge } from "./verdict-badge";
-import {
-  proposedInstrument,
-  READING_PHASE_LABEL,
-  READING_PHASES,
-  type InstrumentKind,
-  type ReadingPhase,
-} from "@/lib/engine/instruments";
+import { proposedInstrument, READING_PHASE_LABEL, READING_PHASES, type InstrumentKind, type ReadingPhase } from "@/lib/engine/instruments";
 
 type SheetForm = { readings: { text: string; note: string }[] };
 type Requirement = BenchSheetJson["requirements"][number];
@@ -109,9 +103,7 @@ function ReadingRow({
   const other = storedIn(r, phase === "as_returned" ? "as_received" : "as_returned");
   const choices = offered.filter((i) => (r.instrumentKinds as readonly string[]).includes(i.kind));
   const chosen = offered.find((i) => i.id === instrumentId) ?? null;
-  const storedInstrument = stored?.instrumentId
-    ? (offered.find((i) => i.id === stored.instrumentId) ?? null)
-    : null;
+  const storedInstrument = stored?.instrumentId ? (offered.find((i) => i.id === stored.instrumentId) ?? null) : null;
   const storedInstrumentText = stored?.instrumentId
     ? storedInstrument
       ? instrumentName(storedInstrument)
@@ -128,7 +120,9 @@ function ReadingRow({
   const live = problem ? "invalid" : judgeReading(r, parsed).verdict;
   // Compared as numbers: "580 kHz" typed and 580 stored are the same reading.
   const dirty =
-    parsed === undefined || (parsed ?? null) !== (stored?.value ?? null) || (stored !== null && (stored.instrumentId ?? "") !== instrumentId);
+    parsed === undefined ||
+    (parsed ?? null) !== (stored?.value ?? null) ||
+    (stored !== null && (stored.instrumentId ?? "") !== instrumentId);
   const id = `rd-${r.key.replaceAll(".", "-")}`;
   const reg = register(`readings.${index}.text`);
   return (

@@ -85,7 +85,13 @@ function AddInstrumentForm({ onAdded }: { onAdded: (i: InstrumentView) => void }
   );
 }
 
-function CalibrationForm({ instrument, onDone }: { instrument: InstrumentView; onDone: (i: InstrumentView | null, error?: string) => void }) {
+function CalibrationForm({
+  instrument,
+  onDone,
+}: {
+  instrument: InstrumentView;
+  onDone: (i: InstrumentView | null, error?: string) => void;
+}) {
   const [calibratedOn, setCalibratedOn] = useState("");
   const [calibrationDueOn, setDue] = useState("");
   const [error, setError] = useState<string | null>(null);
@@ -109,10 +115,22 @@ function CalibrationForm({ instrument, onDone }: { instrument: InstrumentView; o
       }}
     >
       <Field id={`${id}-on`} label="Calibrated">
-        <input id={`${id}-on`} type="date" className="field-input py-0.5" value={calibratedOn} onChange={(e) => setCalibratedOn(e.target.value)} />
+        <input
+          id={`${id}-on`}
+          type="date"
+          className="field-input py-0.5"
+          value={calibratedOn}
+          onChange={(e) => setCalibratedOn(e.target.value)}
+        />
       </Field>
       <Field id={`${id}-due`} label="Due">
-        <input id={`${id}-due`} type="date" className="field-input py-0.5" value={calibrationDueOn} onChange={(e) => setDue(e.target.value)} />
+        <input
+          id={`${id}-due`}
+          type="date"
+          className="field-input py-0.5"
+          value={calibrationDueOn}
+          onChange={(e) => setDue(e.target.value)}
+        />
       </Field>
       <button type="submit" className="btn-secondary py-1" disabled={save.isPending}>
         Save calibration<span className="sr-only"> of {nameOf(instrument)}</span>
@@ -201,7 +219,10 @@ export function InstrumentRegister({ initial }: { initial: InstrumentView[] }) {
                   <td>{i.kindLabel}</td>
                   <td className="whitespace-nowrap">
                     <span className="block figure text-xs">Calibrated {i.calibratedOn}</span>
-                    <span className={`block figure text-xs ${i.overdue ? "font-semibold text-fail" : ""}`} data-due={i.overdue ? "overdue" : "ok"}>
+                    <span
+                      className={`block figure text-xs ${i.overdue ? "font-semibold text-fail" : ""}`}
+                      data-due={i.overdue ? "overdue" : "ok"}
+                    >
                       {i.overdue ? <span aria-hidden="true">⚠ </span> : null}Due {i.calibrationDueOn}
                       {i.overdue ? " — overdue" : ""}
                     </span>
@@ -211,7 +232,10 @@ export function InstrumentRegister({ initial }: { initial: InstrumentView[] }) {
                         onDone={(updated) => {
                           setCalibrating(null);
                           if (updated) {
-                            setOutcome({ tone: "success", text: `New calibration of ${nameOf(updated)} recorded: due ${updated.calibrationDueOn}.` });
+                            setOutcome({
+                              tone: "success",
+                              text: `New calibration of ${nameOf(updated)} recorded: due ${updated.calibrationDueOn}.`,
+                            });
                             refresh();
                           }
                         }}

@@ -14,8 +14,22 @@ const DEMO_INSTRUMENTS: {
   dueInDays: number;
   retired?: boolean;
 }[] = [
-  { kind: "signal_generator", maker: "Port Alder Instruments", model: "SG-40", serial: "PAI-40-0117", calibratedDaysAgo: 120, dueInDays: 245 },
-  { kind: "frequency_counter", maker: "Port Alder Instruments", model: "FC-7", serial: "PAI-FC7-2291", calibratedDaysAgo: 390, dueInDays: -25 },
+  {
+    kind: "signal_generator",
+    maker: "Port Alder Instruments",
+    model: "SG-40",
+    serial: "PAI-40-0117",
+    calibratedDaysAgo: 120,
+    dueInDays: 245,
+  },
+  {
+    kind: "frequency_counter",
+    maker: "Port Alder Instruments",
+    model: "FC-7",
+    serial: "PAI-FC7-2291",
+    calibratedDaysAgo: 390,
+    dueInDays: -25,
+  },
   { kind: "meter", maker: "Kestrel Bench Meters", model: "KM-3", serial: "KBM3-0845", calibratedDaysAgo: 60, dueInDays: 305 },
   { kind: "leakage_tester", maker: "Tillwater Electric", model: "LT-2", serial: "TW-LT2-0310", calibratedDaysAgo: 90, dueInDays: 275 },
   { kind: "oscilloscope", maker: "Tillwater Electric", model: "Scope 15", serial: "TW-S15-1102", calibratedDaysAgo: 200, dueInDays: 165 },

@@ -400,7 +400,12 @@ async function passAllReadings(ctx: TxContext, jobId: string, actorId: string, b
     await saveReading(ctx, {
       jobId,
       actorId,
-      input: { key: req.key, value, note: undefined, ...(byKind ? { phase: "as_returned" as const, instrumentId: instrumentFor(req, byKind) } : {}) },
+      input: {
+        key: req.key,
+        value,
+        note: undefined,
+        ...(byKind ? { phase: "as_returned" as const, instrumentId: instrumentFor(req, byKind) } : {}),
+      },
     });
   }
   const tasks = await ctx.tx.execute<{ code: string }>(sql`select code from job_task where job_id = ${jobId}`).then((r) => r.rows);

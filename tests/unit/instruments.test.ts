@@ -89,7 +89,9 @@ describe("the instrument a row proposes", () => {
     { id: "m", kind: "meter" },
   ];
   test("the last choice for the row's usual kind, else for its next kind", () => {
-    expect(proposedInstrument(["signal_generator", "frequency_counter"], { signal_generator: "sg", frequency_counter: "fc" }, offered)).toBe("sg");
+    expect(
+      proposedInstrument(["signal_generator", "frequency_counter"], { signal_generator: "sg", frequency_counter: "fc" }, offered),
+    ).toBe("sg");
     expect(proposedInstrument(["signal_generator", "frequency_counter"], { frequency_counter: "fc" }, offered)).toBe("fc");
   });
   test("never an instrument no longer offered (retired), nor one of another kind", () => {

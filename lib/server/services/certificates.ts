@@ -150,7 +150,8 @@ type StoredRow = Sources["readings"][number];
 // I1, I2, ... in the order of kind, maker, model, serial: the certificate refers to instruments by these.
 function instrumentRefs(src: Sources): Map<string, CertificateInstrument> {
   const sorted = [...src.instruments].sort(
-    (a, b) => a.kind.localeCompare(b.kind) || a.maker.localeCompare(b.maker) || a.model.localeCompare(b.model) || a.serial.localeCompare(b.serial),
+    (a, b) =>
+      a.kind.localeCompare(b.kind) || a.maker.localeCompare(b.maker) || a.model.localeCompare(b.model) || a.serial.localeCompare(b.serial),
   );
   return new Map(
     sorted.map((i, n) => [
@@ -174,7 +175,11 @@ function takenWith(stored: StoredRow, refs: Map<string, CertificateInstrument>):
   return stored.instrumentOverdue ? { instrument: ref, instrumentOverdue: true } : { instrument: ref };
 }
 
-function withAsReceived(row: CertificateReading, received: StoredRow | undefined, refs: Map<string, CertificateInstrument>): CertificateReading {
+function withAsReceived(
+  row: CertificateReading,
+  received: StoredRow | undefined,
+  refs: Map<string, CertificateInstrument>,
+): CertificateReading {
   if (!received) return row;
   const verdict = row.verdict === "recorded" ? "recorded" : received.verdict;
   return { ...row, asReceived: { value: received.value, verdict, ...takenWith(received, refs) } };

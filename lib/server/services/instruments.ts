@@ -175,7 +175,10 @@ export async function rememberInstrumentChoice(ctx: TxContext, { userId, instrum
   await ctx.tx
     .insert(instrumentChoices)
     .values({ userId, kind: instrument.kind, instrumentId: instrument.id })
-    .onConflictDoUpdate({ target: [instrumentChoices.userId, instrumentChoices.kind], set: { instrumentId: instrument.id, chosenAt: new Date() } });
+    .onConflictDoUpdate({
+      target: [instrumentChoices.userId, instrumentChoices.kind],
+      set: { instrumentId: instrument.id, chosenAt: new Date() },
+    });
 }
 
 /** The instrument a reading names, checked: in the register, not retired, of a kind the reading is taken with. */
