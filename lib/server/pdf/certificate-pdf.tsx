@@ -136,7 +136,7 @@ function ReadingsTable({ rows, received, instruments }: { rows: CertificateReadi
           <Cell w={tolerance}>{r.toleranceText}</Cell>
           {instruments ? (
             <Cell w="9%">
-              {[r.asReceived ? takenWithText(r.asReceived) : null, takenWithText(r)].filter((t) => t !== null).join(" / ")}
+              {[...new Set([r.asReceived ? takenWithText(r.asReceived) : null, takenWithText(r)].filter((t) => t !== null))].join(" / ")}
             </Cell>
           ) : null}
           <Cell w="10%" bold>
