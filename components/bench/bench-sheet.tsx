@@ -34,7 +34,8 @@ function storedIn(r: Requirement, phase: ReadingPhase) {
   return r.asReceived;
 }
 
-const instrumentName = (i: { maker: string; model: string; serial: string }) => `${i.maker} ${i.model} (${i.serial})`;
+// Model first: a narrow select still shows which instrument it is.
+const instrumentName = (i: { maker: string; model: string; serial: string }) => `${i.model}, ${i.maker} (${i.serial})`;
 
 // These readings check dial calibration (where the set receives against where the dial points); tracking
 // proper is the antenna circuit's peak, set at the antenna trimmer and coil.
@@ -161,7 +162,7 @@ function ReadingRow({
         </label>
         <select
           id={`${id}-instrument`}
-          className="field-input mt-1 w-full max-w-[16rem] py-0.5 text-xs"
+          className="field-input mt-1 w-40 py-0.5 text-xs"
           value={instrumentId}
           disabled={!editable}
           onChange={(e) => onInstrument(e.target.value)}
@@ -560,7 +561,8 @@ export function BenchSheetPanel({ jobId }: { jobId: string }) {
         <Notice tone="info">Readings and ticks are recorded while the set is on the bench or in final checks.</Notice>
       ) : null}
       <div className="grid gap-3 xl:grid-cols-[2fr_1fr]">
-        <div className="space-y-2">
+        {/* min-w-0: the readings card scrolls inside itself instead of widening the grid on a phone. */}
+        <div className="min-w-0 space-y-2">
           <PhaseChoice phase={phase} proposed={sheet.defaultPhase} onChange={setPhase} disabled={!sheet.editable} />
           <Readings key={`${phase}:${sheet.requirements.map((r) => r.key).join("|")}`} sheet={sheet} jobId={jobId} phase={phase} />
         </div>

@@ -51,7 +51,7 @@ describe("choosing instruments on the bench sheet", () => {
     expect(offered).not.toContain(retired);
     expect(offered).not.toContain(await demoInstrument("KM-3"));
     expect(await page.locator('tr[data-reading="leakage.plug-a"] select option').allInnerTexts()).toEqual(
-      expect.arrayContaining([expect.stringMatching(/Tillwater Electric LT-2/)]),
+      expect.arrayContaining([expect.stringMatching(/LT-2, Tillwater Electric/)]),
     );
 
     await lowSelect.selectOption(sg40);
