@@ -13,9 +13,30 @@ import { PerformancePanel } from "./performance-panel";
 import { SafetyCautions } from "./safety-cautions";
 import type { BenchSheetJson } from "./types";
 import { VerdictBadge } from "./verdict-badge";
+import { proposedInstrument, READING_PHASE_LABEL, READING_PHASES, type InstrumentKind, type ReadingPhase } from "@/lib/engine/instruments";
 
 type SheetForm = { readings: { text: string; note: string }[] };
 type Requirement = BenchSheetJson["requirements"][number];
+type Offered = BenchSheetJson["instruments"][number];
+
+/** The stored reading of a row in the phase being recorded. */
+function storedIn(r: Requirement, phase: ReadingPhase) {
+  if (phase === "as_returned")
+    return r.recordedAt
+      ? {
+          value: r.value,
+          verdict: r.verdict,
+          recordedAt: r.recordedAt,
+          recordedByName: r.recordedByName,
+          instrumentId: r.instrumentId,
+          instrumentOverdue: r.instrumentOverdue,
+        }
+      : null;
+  return r.asReceived;
+}
+
+// Model first: a narrow select still shows which instrument it is.
+const instrumentName = (i: { maker: string; model: string; serial: string }) => `${i.model}, ${i.maker} (${i.serial})`;
 
 // These readings check dial calibration (where the set receives against where the dial points); tracking
 // proper is the antenna circuit's peak, set at the antenna trimmer and coil.
@@ -63,6 +84,11 @@ function ReadingRow({
   serverError,
   inputRef,
   onEnter,
+  phase,
+  offered,
+  instrumentId,
+  onInstrument,
+  namedElsewhere,
 }: {
   r: Requirement;
   index: number;
@@ -74,7 +100,22 @@ function ReadingRow({
   serverError?: string;
   inputRef: (el: HTMLInputElement | null) => void;
   onEnter: (index: number) => void;
+  phase: ReadingPhase;
+  offered: Offered[];
+  instrumentId: string;
+  onInstrument: (id: string) => void;
+  namedElsewhere: Map<string, { label: string; calibrationDueOn: string }>;
 }) {
+  const stored = storedIn(r, phase);
+  const other = storedIn(r, phase === "as_returned" ? "as_received" : "as_returned");
+  const choices = offered.filter((i) => (r.instrumentKinds as readonly string[]).includes(i.kind));
+  const chosen = offered.find((i) => i.id === instrumentId) ?? null;
+  const storedInstrument = stored?.instrumentId ? (offered.find((i) => i.id === stored.instrumentId) ?? null) : null;
+  const storedInstrumentText = stored?.instrumentId
+    ? storedInstrument
+      ? instrumentName(storedInstrument)
+      : (namedElsewhere.get(stored.instrumentId)?.label ?? "an instrument no longer in service")
+    : null;
   const text = useWatch({ control, name: `readings.${index}.text` }) ?? "";
   const parsed = parseReadingText(text, r);
   const problem =
@@ -85,7 +126,10 @@ function ReadingRow({
         : readingValueProblem(r, parsed);
   const live = problem ? "invalid" : judgeReading(r, parsed).verdict;
   // Compared as numbers: "580 kHz" typed and 580 stored are the same reading.
-  const dirty = parsed === undefined || (parsed ?? null) !== r.value;
+  const dirty =
+    parsed === undefined ||
+    (parsed ?? null) !== (stored?.value ?? null) ||
+    (stored !== null && (stored.instrumentId ?? "") !== instrumentId);
   const id = `rd-${r.key.replaceAll(".", "-")}`;
   const reg = register(`readings.${index}.text`);
   return (
@@ -119,6 +163,38 @@ function ReadingRow({
           />
           <span className="figure text-sm">{shownUnit(r)}</span>
         </div>
+        <label htmlFor={`${id}-instrument`} className="sr-only">
+          Instrument for {r.label}
+        </label>
+        <select
+          id={`${id}-instrument`}
+          className="field-input mt-1 w-40 py-0.5 text-xs"
+          value={instrumentId}
+          disabled={!editable}
+          onChange={(e) => onInstrument(e.target.value)}
+          aria-describedby={chosen?.overdue ? `${id}-cal` : undefined}
+        >
+          <option value="">{choices.length ? "Instrument: none named" : "No instrument of this kind in the register"}</option>
+          {choices.map((i) => (
+            <option key={i.id} value={i.id}>
+              {instrumentName(i)}
+              {i.overdue ? " — calibration overdue" : ""}
+            </option>
+          ))}
+        </select>
+        {chosen?.overdue ? (
+          <p id={`${id}-cal`} className="text-xs font-semibold text-fail" data-calibration="overdue">
+            <span aria-hidden="true">⚠ </span>Calibration was due {chosen.calibrationDueOn}: the reading will be flagged.
+          </p>
+        ) : null}
+        {other && other.value !== null ? (
+          <p className="text-xs text-bakelite-muted" data-other-phase>
+            {READING_PHASE_LABEL[phase === "as_returned" ? "as_received" : "as_returned"]}:{" "}
+            <span className="figure">
+              {shown(r, other.value)} {shownUnit(r)}
+            </span>
+          </p>
+        ) : null}
         {serverError || (problem && text.trim() !== "") ? (
           <p id={`${id}-error`} className="field-error">
             {namedProblem(r.label, (serverError ?? problem)!)}
@@ -141,9 +217,15 @@ function ReadingRow({
           <button type="button" className="btn-quiet px-1 py-0 text-xs" onClick={() => onSave(index)} disabled={!editable}>
             Save<span className="sr-only"> {r.label}</span>
           </button>
-        ) : r.recordedAt ? (
+        ) : stored ? (
           <span>
-            Saved{r.recordedByName ? ` by ${r.recordedByName}` : ""}, {new Date(r.recordedAt).toLocaleString("en-US")}
+            Saved{stored.recordedByName ? ` by ${stored.recordedByName}` : ""}, {new Date(stored.recordedAt).toLocaleString("en-US")}
+            {storedInstrumentText ? <span className="block">with {storedInstrumentText}</span> : null}
+            {stored.instrumentOverdue ? (
+              <span className="block font-semibold text-fail" data-flag="calibration-overdue">
+                <span aria-hidden="true">⚠ </span>Taken with an instrument past its calibration due date
+              </span>
+            ) : null}
           </span>
         ) : (
           "—"
@@ -153,16 +235,39 @@ function ReadingRow({
   );
 }
 
-function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
+function Readings({ sheet, jobId, phase }: { sheet: BenchSheetJson; jobId: string; phase: ReadingPhase }) {
   const qc = useQueryClient();
   const form = useForm<SheetForm>({
-    defaultValues: { readings: sheet.requirements.map((r) => ({ text: r.value === null ? "" : shown(r, r.value), note: r.note ?? "" })) },
+    defaultValues: {
+      readings: sheet.requirements.map((r) => {
+        const v = storedIn(r, phase)?.value ?? null;
+        return { text: v === null ? "" : shown(r, v), note: r.note ?? "" };
+      }),
+    },
   });
+  // The instrument per row: what the technician picked here, else the one the stored reading names, else
+  // their last choice for the row's kind (kept on the server per technician, updated here at once).
+  const [picked, setPicked] = useState<Record<number, string>>({});
+  const [recent, setRecent] = useState<Partial<Record<InstrumentKind, string>>>({});
+  const offered = sheet.instruments;
+  const namedElsewhere = new Map(sheet.retiredInstruments.map((i) => [i.id, i]));
+  const instrumentFor = (r: Requirement, i: number): string => {
+    if (i in picked) return picked[i]!;
+    const stored = storedIn(r, phase);
+    if (stored?.instrumentId) return offered.some((o) => o.id === stored.instrumentId) ? stored.instrumentId : "";
+    return proposedInstrument(r.instrumentKinds, { ...sheet.lastChoices, ...recent }, offered) ?? "";
+  };
+  const pick = (i: number, id: string) => {
+    setPicked((p) => ({ ...p, [i]: id }));
+    const kind = offered.find((o) => o.id === id)?.kind;
+    if (kind) setRecent((x) => ({ ...x, [kind]: id }));
+  };
   const inputs = useRef<(HTMLInputElement | null)[]>([]);
   const [pending, setPending] = useState<Set<number>>(new Set());
   const [errors, setErrors] = useState<Record<number, string>>({});
   const save = useMutation({
-    mutationFn: (body: { key: string; value: number | null }) => api(`/api/bench/jobs/${jobId}/readings`, { method: "POST", body }),
+    mutationFn: (body: { key: string; value: number | null; phase: ReadingPhase; instrumentId: string | null }) =>
+      api(`/api/bench/jobs/${jobId}/readings`, { method: "POST", body }),
     onSettled: () => void qc.invalidateQueries({ queryKey: benchKeys.sheet(jobId) }),
   });
   const saveRow = (i: number) => {
@@ -183,9 +288,10 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
     });
     setPending((p) => new Set(p).add(i));
     save.mutate(
-      { key: r.key, value },
+      { key: r.key, value, phase, instrumentId: instrumentFor(r, i) || null },
       {
-        onError: (e) => setErrors((x) => ({ ...x, [i]: e instanceof ApiError ? (e.fields.value ?? e.message) : errorText(e) })),
+        onError: (e) =>
+          setErrors((x) => ({ ...x, [i]: e instanceof ApiError ? (e.fields.value ?? e.fields.instrumentId ?? e.message) : errorText(e) })),
         onSettled: () =>
           setPending((p) => {
             const n = new Set(p);
@@ -211,7 +317,8 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
       </h3>
       <p className="text-xs text-bakelite-muted">
         Type a reading and press Enter to save it and move to the next; the verdict follows as you type. Frequencies take a unit (1.49 MHz,
-        455 kHz, 455k); SW and FM rows are in MHz.
+        455 kHz, 455k); SW and FM rows are in MHz. Each row takes the instrument it was measured with; your last choice of each kind is
+        proposed on the next row.
       </p>
       <table className="dense-table mt-2">
         <thead>
@@ -245,6 +352,11 @@ function Readings({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
                   inputs.current[i] = el;
                 }}
                 onEnter={focusNext}
+                phase={phase}
+                offered={offered}
+                instrumentId={instrumentFor(r, i)}
+                onInstrument={(id) => pick(i, id)}
+                namedElsewhere={namedElsewhere}
               />
             ))}
           </tbody>
@@ -401,11 +513,51 @@ function BenchNote({ jobId }: { jobId: string }) {
   );
 }
 
+/** As received or as returned: proposed from the job's state, switched by the technician for this visit. */
+function PhaseChoice({
+  phase,
+  proposed,
+  onChange,
+  disabled,
+}: {
+  phase: ReadingPhase;
+  proposed: ReadingPhase;
+  onChange: (p: ReadingPhase) => void;
+  disabled: boolean;
+}) {
+  return (
+    <fieldset className="card flex flex-wrap items-center gap-x-4 gap-y-1 p-2 text-sm" data-phase={phase}>
+      <legend className="sr-only">Readings are recorded</legend>
+      <span className="font-semibold" aria-hidden="true">
+        Recording:
+      </span>
+      {READING_PHASES.map((p) => (
+        <label key={p} className="inline-flex items-center gap-1">
+          <input type="radio" name="reading-phase" value={p} checked={phase === p} disabled={disabled} onChange={() => onChange(p)} />
+          {READING_PHASE_LABEL[p]}
+        </label>
+      ))}
+      <span className="text-xs text-bakelite-muted">
+        {phase === "as_received"
+          ? "The set as it came in, before any work. Verdicts for completion come from the as-returned readings."
+          : "The set as it goes back: these readings decide completion and print on the certificate."}
+        {phase !== proposed ? ` Proposed for this job: ${READING_PHASE_LABEL[proposed].toLowerCase()}.` : ""}
+      </span>
+    </fieldset>
+  );
+}
+
 export function BenchSheetPanel({ jobId }: { jobId: string }) {
   const q = useQuery({ queryKey: benchKeys.sheet(jobId), queryFn: () => api<BenchSheetJson>(`/api/bench/jobs/${jobId}/sheet`) });
+  const [chosenPhase, setPhase] = useState<ReadingPhase | null>(null);
+  // The phase proposed when the sheet opened stays put while the technician works (a first tick would
+  // otherwise flip the sheet under their hands); switching is theirs.
+  const [openedWith, setOpenedWith] = useState<ReadingPhase | null>(null);
+  if (q.data && openedWith === null) setOpenedWith(q.data.defaultPhase);
   if (q.isPending) return <p role="status">Loading the bench sheet…</p>;
   if (q.isError) return <Notice tone="error">{errorText(q.error)}</Notice>;
   const sheet = q.data;
+  const phase = chosenPhase ?? openedWith ?? sheet.defaultPhase;
   if (!sheet.profile)
     return <Notice tone="caution">The set profile is incomplete: finish it in Triage before the bench sheet can list its readings.</Notice>;
   return (
@@ -415,7 +567,11 @@ export function BenchSheetPanel({ jobId }: { jobId: string }) {
         <Notice tone="info">Readings and ticks are recorded while the set is on the bench or in final checks.</Notice>
       ) : null}
       <div className="grid gap-3 xl:grid-cols-[2fr_1fr]">
-        <Readings key={sheet.requirements.map((r) => r.key).join("|")} sheet={sheet} jobId={jobId} />
+        {/* min-w-0: the readings card scrolls inside itself instead of widening the grid on a phone. */}
+        <div className="min-w-0 space-y-2">
+          <PhaseChoice phase={phase} proposed={sheet.defaultPhase} onChange={setPhase} disabled={!sheet.editable} />
+          <Readings key={`${phase}:${sheet.requirements.map((r) => r.key).join("|")}`} sheet={sheet} jobId={jobId} phase={phase} />
+        </div>
         <div className="space-y-3">
           <Tasks sheet={sheet} jobId={jobId} />
           <BenchNote jobId={jobId} />

@@ -12,6 +12,8 @@ export function BandEdgeTable({
   caption?: string;
 }) {
   const rows = bandEdgeRows(document);
+  // Certificates with readings taken as the set came in show them beside the ones it went back with.
+  const received = rows.some((r) => r.lowAsReceived !== null || r.highAsReceived !== null);
   return (
     <div className="overflow-x-auto">
       <table className="dense-table w-full">
@@ -20,8 +22,9 @@ export function BandEdgeTable({
           <tr>
             <th scope="col">Band</th>
             <th scope="col">Dial range</th>
-            <th scope="col">Low edge measured</th>
-            <th scope="col">High edge measured</th>
+            {received ? <th scope="col">As received (low – high)</th> : null}
+            <th scope="col">{received ? "Low edge, as returned" : "Low edge measured"}</th>
+            <th scope="col">{received ? "High edge, as returned" : "High edge measured"}</th>
             <th scope="col">Tolerance applied</th>
             <th scope="col">Verdict</th>
           </tr>
@@ -33,6 +36,11 @@ export function BandEdgeTable({
                 {r.name}
               </th>
               <td className="figure whitespace-nowrap">{r.nominal}</td>
+              {received ? (
+                <td className="figure whitespace-nowrap">
+                  {r.lowAsReceived || r.highAsReceived ? `${r.lowAsReceived ?? "—"} – ${r.highAsReceived ?? "—"}` : "—"}
+                </td>
+              ) : null}
               <td className="figure whitespace-nowrap">{r.low}</td>
               <td className="figure whitespace-nowrap">{r.high}</td>
               <td>{r.tolerance}</td>

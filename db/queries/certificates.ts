@@ -1,6 +1,6 @@
-import { and, asc, desc, eq, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Database } from "@/db";
-import { certificates, estimateLines, estimateRevisions, jobs, jobTasks, radioSets, readings, user } from "@/db/schema";
+import { certificates, estimateLines, estimateRevisions, instruments, jobs, jobTasks, radioSets, readings, user } from "@/db/schema";
 
 // Everything a certificate is built from: the job, its set, the people, ticked lines, the approved
 // revision's lines and every stored reading. Read inside the issuing transaction.
@@ -31,6 +31,8 @@ export async function loadCertificateSources({ tx = db, jobId }: { tx?: Database
     ? await tx.select().from(estimateLines).where(eq(estimateLines.revisionId, revision.id)).orderBy(asc(estimateLines.position))
     : [];
   const stored = await tx.select().from(readings).where(eq(readings.jobId, jobId)).orderBy(asc(readings.key));
+  const named = [...new Set(stored.map((r) => r.instrumentId).filter((id): id is string => id !== null))];
+  const used = named.length ? await tx.select().from(instruments).where(inArray(instruments.id, named)) : [];
   return {
     job: row.job,
     set: row.set,
@@ -40,6 +42,7 @@ export async function loadCertificateSources({ tx = db, jobId }: { tx?: Database
     revision: revision ?? null,
     lines,
     readings: stored,
+    instruments: used,
   };
 }
 

@@ -4,6 +4,7 @@ export * from "./shop";
 export * from "./jobs";
 export * from "./estimates";
 export * from "./payments";
+export * from "./instruments";
 export * from "./bench";
 export * from "./warranty";
 export * from "./audit";

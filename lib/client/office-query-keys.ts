@@ -4,4 +4,5 @@ export const officeKeys = {
   settings: () => [...officeKeys.all, "settings"] as const,
   payments: () => [...officeKeys.all, "payments"] as const,
   payment: (paymentId: string) => [...officeKeys.payments(), paymentId] as const,
+  instruments: () => [...officeKeys.all, "instruments"] as const,
 };

@@ -25,6 +25,8 @@ export const PERMISSIONS = {
   "claim.decide": ["technician", "owner"],
   "office.use": ["owner"],
   "settings.edit": ["owner"],
+  // The instrument register is shop settings: whoever may edit those keeps it. The bench reads it on the sheet.
+  "instrument.manage": ["owner"],
   "staff.manage": ["owner"],
   "payment.refund": ["owner"],
   "email.resend": ["owner"],

@@ -6,6 +6,7 @@ import { parseFrequencyText } from "@/lib/engine/bands/frequency-text";
 import type { ReadingUnit } from "@/lib/engine/verdicts/judge-reading";
 import { messageKeySchema } from "@/lib/validation/messages";
 import "./field-words";
+import { READING_PHASES } from "@/lib/engine/instruments";
 
 // Shared by the bench forms and the bench JSON routes.
 
@@ -84,6 +85,10 @@ export const readingInputSchema = z.object({
     .finite("Reading: enter a number, or leave it empty.")
     .nullable(),
   note: z.string().trim().max(500, "Note: keep it under 500 characters.").optional(),
+  // Without a phase the reading is the one that counts (as returned); the bench sheet always sends one.
+  phase: z.enum(READING_PHASES, { error: "Phase: choose as received or as returned." }).optional(),
+  // The instrument the reading was taken with (one of the shop's, not retired); null or absent: none named.
+  instrumentId: z.uuid({ error: "Instrument: choose one of the shop's instruments." }).nullable().optional(),
 });
 export type ReadingInput = z.infer<typeof readingInputSchema>;
 

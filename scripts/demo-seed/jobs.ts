@@ -22,6 +22,9 @@ import { recordJobCreated, transitionJob } from "@/lib/server/services/jobs";
 import { getShop } from "@/lib/server/services/shop";
 import { judgeReading } from "@/lib/engine/verdicts";
 import type { DraftLine } from "@/lib/validation/estimate";
+import { instrumentKindsFor, type InstrumentKind, type ReadingPhase } from "@/lib/engine/instruments";
+import type { ReadingRequirement } from "@/lib/engine/verdicts";
+import { seedDemoInstruments } from "./instruments";
 
 const TOMAS = "demo-tech-tomas";
 const PRIYA = "demo-tech-priya";
@@ -86,6 +89,8 @@ type DemoJob = {
   benchRevision?: boolean;
   /** After the return, a claim accepted and its warranty job taken all the way to its own certificate. */
   warrantyJob?: boolean;
+  /** Readings taken as received (when the set came in) as well as as returned, each with its instrument. */
+  bothPhases?: boolean;
 };
 
 // One set for every state a job can be in, all from the invented makers of the demo shop.
@@ -104,6 +109,7 @@ const DEMO_JOBS: DemoJob[] = [
     target: "returned",
     daysAgo: 40,
     claim: true,
+    bothPhases: true,
   },
   {
     key: "demo-requested",
@@ -342,7 +348,23 @@ async function recordDemoPayment(ctx: TxContext, job: { id: string; key: string 
   });
 }
 
-async function passAllReadings(ctx: TxContext, jobId: string, actorId: string) {
+type Instruments = Map<InstrumentKind, string>;
+
+// The demo instrument of the reading's usual kind (the first kind it is taken with that the demo shop has).
+function instrumentFor(req: ReadingRequirement, byKind: Instruments | undefined): string | undefined {
+  if (!byKind) return undefined;
+  for (const kind of instrumentKindsFor(req)) if (byKind.has(kind)) return byKind.get(kind);
+  return undefined;
+}
+
+// How the set measured when it came in: dial edges and tracking off, leakage high, B+ low.
+function asReceivedValue(req: ReadingRequirement): number {
+  if (req.unit === "mA") return 0.42;
+  if (req.unit === "V") return req.nominal !== null ? Math.round(req.nominal * 0.86) : 104;
+  return (req.nominal ?? 455) + (req.key.includes("edge.high") ? -24 : 14);
+}
+
+async function requirementsOf(ctx: TxContext, jobId: string): Promise<ReadingRequirement[]> {
   const shop = await getShop(ctx.tx);
   const [row] = await ctx.tx
     .execute<{ profile: Record<string, unknown> }>(
@@ -354,19 +376,43 @@ async function passAllReadings(ctx: TxContext, jobId: string, actorId: string) {
       sql`select l.code from estimate_line l join estimate_revision r on r.id = l.revision_id where r.job_id = ${jobId} and r.status = 'approved' and l.category <> 'parts'`,
     )
     .then((r) => r.rows.map((x) => x.code));
-  const reqs = requiredReadingsFor(setProfileSchema.parse(row!.profile), shop.policy.tolerances, codes);
+  return requiredReadingsFor(setProfileSchema.parse(row!.profile), shop.policy.tolerances, codes);
+}
+
+async function recordAsReceived(ctx: TxContext, jobId: string, actorId: string, byKind: Instruments) {
+  const phase: ReadingPhase = "as_received";
+  for (const req of await requirementsOf(ctx, jobId)) {
+    await saveReading(ctx, {
+      jobId,
+      actorId,
+      input: { key: req.key, value: asReceivedValue(req), note: undefined, phase, instrumentId: instrumentFor(req, byKind) },
+    });
+  }
+}
+
+async function passAllReadings(ctx: TxContext, jobId: string, actorId: string, byKind?: Instruments) {
+  const reqs = await requirementsOf(ctx, jobId);
   for (const req of reqs) {
     let value = req.nominal ?? (req.unit === "mA" ? 0.12 : 118);
     // A realistic small deviation where the tolerance allows it.
     const nudged = req.nominal != null ? req.nominal + (req.unit === "kHz" ? 2 : 0) : value;
     if (judgeReading(req, nudged).verdict === "pass") value = nudged;
-    await saveReading(ctx, { jobId, actorId, input: { key: req.key, value, note: undefined } });
+    await saveReading(ctx, {
+      jobId,
+      actorId,
+      input: {
+        key: req.key,
+        value,
+        note: undefined,
+        ...(byKind ? { phase: "as_returned" as const, instrumentId: instrumentFor(req, byKind) } : {}),
+      },
+    });
   }
   const tasks = await ctx.tx.execute<{ code: string }>(sql`select code from job_task where job_id = ${jobId}`).then((r) => r.rows);
   for (const t of tasks) await setTask(ctx, { jobId, actorId, code: t.code, done: true });
 }
 
-async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
+async function advance(ctx: TxContext, job: DemoJob & { id: string }, byKind: Instruments) {
   const tech = job.technicianId ?? TOMAS;
   const t = job.target;
   if (t === "requested") return;
@@ -420,8 +466,9 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }) {
   if (!reached(t, "on_bench")) return;
   await startBenchWork(ctx, { jobId: job.id, actorId: tech });
   if (job.benchRevision) await benchScopeChange(ctx, job.id, job.customerId, tech);
+  if (job.bothPhases) await recordAsReceived(ctx, job.id, tech, byKind);
   if (!reached(t, "final_checks")) return;
-  await passAllReadings(ctx, job.id, tech);
+  await passAllReadings(ctx, job.id, tech, job.bothPhases ? byKind : undefined);
   await beginFinalChecks(ctx, { jobId: job.id, actorId: tech });
   if (!reached(t, "balance_due")) return;
   await completeJob(ctx, { jobId: job.id, actorId: tech });
@@ -528,6 +575,7 @@ async function backdate(ctx: TxContext, jobId: string, daysAgo: number) {
 
 export async function seedDemoJobs(ctx: TxContext): Promise<number> {
   let created = 0;
+  const { byKind } = await seedDemoInstruments(ctx);
   for (const demo of DEMO_JOBS) {
     const [existing] = await ctx.tx
       .select({ id: jobs.id })
@@ -563,7 +611,7 @@ export async function seedDemoJobs(ctx: TxContext): Promise<number> {
       })
       .returning({ id: jobs.id });
     await recordJobCreated(ctx, { jobId: job!.id, actorId: demo.customerId });
-    await advance(ctx, { ...demo, id: job!.id });
+    await advance(ctx, { ...demo, id: job!.id }, byKind);
     await backdate(ctx, job!.id, demo.daysAgo);
     created++;
   }

@@ -111,8 +111,11 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     await page.getByRole("button", { name: "Set received — start work" }).click();
     await expect.poll(() => stateBadge(page)).toContain("On the bench");
 
-    // Bench sheet: cautions, live verdicts, Enter to save and move on.
+    // Bench sheet: cautions, live verdicts, Enter to save and move on. Nothing is ticked yet, so the sheet
+    // proposes as received; these are the figures the set goes back with, so the technician switches.
     await openTab(page, "Bench sheet");
+    expect(await page.getByLabel("As received", { exact: true }).isChecked()).toBe(true);
+    await page.getByLabel("As returned", { exact: true }).check();
     const cautions = page.getByRole("list", { name: "Safety cautions" });
     await expect.poll(() => cautions.innerText()).toMatch(/isolation transformer/);
     expect(await cautions.innerText()).toMatch(/without the isolation transformer/);

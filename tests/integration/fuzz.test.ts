@@ -107,6 +107,7 @@ async function ownRows(): Promise<OwnRows> {
     photoA,
     refundAny: (await sql<{ id: string }>("select id from refund order by created_at limit 1"))[0]!.id,
     emailAny: (await sql<{ id: string }>("select id from email_outbox order by created_at limit 1"))[0]!.id,
+    instrumentAny: await fuzzInstrument(shared.jobId),
   };
   for (const entry of ROUTES) {
     const k = key(entry);
@@ -130,6 +131,20 @@ async function ownRows(): Promise<OwnRows> {
     }
   }
   return { byRoute, fallback, certificateCode: cert.code };
+}
+
+// An instrument of the fuzz suite's own, named by a reading so deleting it is refused and it stays for every probe.
+async function fuzzInstrument(jobId: string): Promise<string> {
+  const [row] = await sql<{ id: string }>(
+    `insert into instrument (kind, maker, model, serial, calibrated_on, calibration_due_on)
+     values ('meter', 'Port Alder Instruments', 'Fuzz meter', $1, current_date - 30, current_date + 300) returning id`,
+    [`FZ-${randomUUID().slice(0, 8)}`],
+  );
+  await sql(
+    "insert into reading (job_id, key, unit, verdict, phase, instrument_id) values ($1, 'bplus', 'V', 'recorded', 'as_received', $2)",
+    [jobId, row!.id],
+  );
+  return row!.id;
 }
 
 const fixturesFor = (entry: RouteEntry): Fixtures => own.byRoute.get(key(entry)) ?? own.fallback;
@@ -418,6 +433,22 @@ const SHAPES: Record<string, Shape> = {
   },
   "POST /api/office/refunds/[refundId]/check": { fields: ["refundId"] },
   "POST /api/office/emails/[emailId]/resend": { fields: ["emailId"] },
+  "POST /api/office/instruments": {
+    fields: ["kind", "maker", "model", "serial", "calibratedOn", "calibrationDueOn"],
+    base: () => ({
+      kind: "meter",
+      maker: "Port Alder Instruments",
+      model: "KM-F",
+      serial: `FZ-${randomUUID().slice(0, 8)}`,
+      calibratedOn: "2026-01-05",
+      calibrationDueOn: "2027-01-05",
+    }),
+  },
+  "PATCH /api/office/instruments/[id]": {
+    fields: ["retired", "calibratedOn", "calibrationDueOn"],
+    base: () => ({ calibratedOn: "2026-02-01", calibrationDueOn: "2027-02-01" }),
+  },
+  "DELETE /api/office/instruments/[id]": { fields: ["id"] },
   "POST /api/staff-invitations/accept": {
     fields: ["token", "password"],
     base: () => ({ token: "not-a-real-invitation", password: "valve-glow-1948-x" }),

@@ -34,7 +34,16 @@ export const AUDIENCES: {
   {
     who: "shop owner",
     login: DEMO.owner,
-    pages: ["/office", "/office/staff", "/office/settings", "/office/payments", "/office/certificates", "/office/audit", "/office/reports"],
+    pages: [
+      "/office",
+      "/office/staff",
+      "/office/instruments",
+      "/office/settings",
+      "/office/payments",
+      "/office/certificates",
+      "/office/audit",
+      "/office/reports",
+    ],
     follow: [{ from: "/office/payments", link: /KL-/ }],
   },
 ];

@@ -6,6 +6,7 @@ const OFFICE_NAV = [
   { href: "/office", label: "Overview" },
   { href: "/office/settings", label: "Rates & policy" },
   { href: "/office/staff", label: "Staff" },
+  { href: "/office/instruments", label: "Instruments" },
   { href: "/office/payments", label: "Payments" },
   { href: "/office/certificates", label: "Certificates" },
   { href: "/office/audit", label: "Audit log" },

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { describeTerm } from "../warranty/term";
-import { certificateContentSchema, type CertificateContent } from "./content";
+import { INSTRUMENT_KINDS } from "../instruments";
+import { certificateContentSchema } from "./content";
 import { passbandSectionSchema, performanceSectionSchema } from "./performance-section";
 
 // The written warranty as carried in the signed content, and the signed document itself. The schema here is
@@ -71,7 +72,36 @@ export function composeTermsText(
 // The signed document: the engine's content plus the written-warranty wording and, for a correction,
 // which certificate it replaces. Every field is covered by the signature.
 
+// Instruments and phases. Certificates issued before the register carry none of these fields and keep the
+// exact content they were signed with; a job with no instrument named and no as-received reading leaves them
+// out too. `instrument` is a reference into `instruments` (I1, I2, ...); `instrumentOverdue` is present only
+// when the instrument's calibration due date had passed on the day of the reading.
+const contentReadingSchema = certificateContentSchema.shape.readings.element;
+
+export const certificateInstrumentSchema = z.object({
+  ref: z.string(),
+  kind: z.enum(INSTRUMENT_KINDS),
+  maker: z.string(),
+  model: z.string(),
+  serial: z.string(),
+  calibratedOn: z.string(),
+  calibrationDueOn: z.string(),
+});
+export type CertificateInstrument = z.infer<typeof certificateInstrumentSchema>;
+
+const takenWith = { instrument: z.string().optional(), instrumentOverdue: z.literal(true).optional() };
+
+export const certificateReadingSchema = contentReadingSchema.extend({
+  ...takenWith,
+  /** The same reading as the set came in, where one was taken; the verdict is as judged at the bench. */
+  asReceived: z.object({ value: z.number().nullable(), verdict: contentReadingSchema.shape.verdict, ...takenWith }).optional(),
+});
+
 export const certificateDocumentSchema = certificateContentSchema.extend({
+  /** As returned: the figures the verdicts and band edges come from. */
+  readings: z.array(certificateReadingSchema),
+  /** The instruments the readings were taken with, with their calibration dates on the day of issue. */
+  instruments: z.array(certificateInstrumentSchema).optional(),
   terms: certificateTermsSchema,
   correction: z.object({ supersedesCode: z.string(), reason: z.string() }).optional(),
   // Warranty work: the certificate and the claim this job answers. The work and parts listed are the new
@@ -83,7 +113,7 @@ export const certificateDocumentSchema = certificateContentSchema.extend({
   passband: passbandSectionSchema.optional(),
 });
 export type CertificateDocument = z.infer<typeof certificateDocumentSchema>;
-export type CertificateReading = CertificateContent["readings"][number];
+export type CertificateReading = z.infer<typeof certificateReadingSchema>;
 
 export function parseCertificateDocument(content: unknown): CertificateDocument | null {
   const parsed = certificateDocumentSchema.safeParse(content);

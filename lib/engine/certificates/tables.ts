@@ -27,6 +27,9 @@ export type BandEdgeRow = {
   high: string;
   lowReading: CertificateReading | null;
   highReading: CertificateReading | null;
+  /** The edges as the set came in, where they were measured (null otherwise). */
+  lowAsReceived: string | null;
+  highAsReceived: string | null;
   tolerance: string;
   verdict: string;
   passed: boolean | null;
@@ -53,6 +56,8 @@ export function bandEdgeRows(d: Pick<CertificateDocument, "bands" | "readings">)
       high: formatReading(high?.value ?? null, "kHz"),
       lowReading: low,
       highReading: high,
+      lowAsReceived: low?.asReceived ? formatReading(low.asReceived.value, "kHz") : null,
+      highAsReceived: high?.asReceived ? formatReading(high.asReceived.value, "kHz") : null,
       tolerance: tolerances.join("; ") || "—",
       verdict: VERDICT_WORD[v],
       passed: v === "missing" ? null : v === "pass",

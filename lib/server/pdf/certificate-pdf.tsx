@@ -7,8 +7,9 @@ import { setKindLabels } from "@/lib/engine/checklist/profile";
 import { describeTerm } from "@/lib/engine/warranty/term";
 import type { CertificateDocument, CertificateReading } from "@/lib/engine/certificates/document";
 import { woffToSfnt } from "@/lib/server/pdf/woff";
-import { bandEdgeRows, formatReading, otherReadings, VERDICT_WORD } from "@/lib/engine/certificates/tables";
+import { bandEdgeRows, formatReading, otherReadings, VERDICT_WORD, type BandEdgeRow } from "@/lib/engine/certificates/tables";
 import { passbandRows, type PassbandSection, type PerformanceSection } from "@/lib/engine/certificates/performance-section";
+import { hasAsReceived, instrumentRows, takenWithText } from "@/lib/engine/certificates/instruments";
 
 // Fonts ship with the app from node_modules/@fontsource. The renderer takes TTF or WOFF (not WOFF2);
 // the WOFF files are unpacked to plain TrueType in memory, which its parser reads reliably.
@@ -106,14 +107,18 @@ function Fact({ label, value }: { label: string; value: string }) {
   );
 }
 
-function ReadingsTable({ rows }: { rows: CertificateReading[] }) {
+function ReadingsTable({ rows, received, instruments }: { rows: CertificateReading[]; received: boolean; instruments: boolean }) {
+  // As received and the instrument columns appear only on certificates that have them.
+  const tolerance = `${36 - (received ? 12 : 0) - (instruments ? 9 : 0)}%`;
   return (
     <View style={s.table}>
       <View style={s.tr}>
         <Text style={[s.th, { width: "30%" }]}>Reading</Text>
         <Text style={[s.th, { width: "12%" }]}>Nominal</Text>
-        <Text style={[s.th, { width: "12%" }]}>Measured</Text>
-        <Text style={[s.th, { width: "36%" }]}>Tolerance applied</Text>
+        {received ? <Text style={[s.th, { width: "12%" }]}>As received</Text> : null}
+        <Text style={[s.th, { width: "12%" }]}>{received ? "As returned" : "Measured"}</Text>
+        <Text style={[s.th, { width: tolerance }]}>Tolerance applied</Text>
+        {instruments ? <Text style={[s.th, { width: "9%" }]}>Instrument</Text> : null}
         <Text style={[s.th, { width: "10%" }]}>Verdict</Text>
       </View>
       {rows.map((r) => (
@@ -122,10 +127,20 @@ function ReadingsTable({ rows }: { rows: CertificateReading[] }) {
           <Cell w="12%" mono>
             {r.nominal === null ? "—" : formatReading(r.nominal, r.unit)}
           </Cell>
+          {received ? (
+            <Cell w="12%" mono>
+              {r.asReceived ? `${formatReading(r.asReceived.value, r.unit)} (${VERDICT_WORD[r.asReceived.verdict]})` : "—"}
+            </Cell>
+          ) : null}
           <Cell w="12%" mono>
             {formatReading(r.value, r.unit)}
           </Cell>
-          <Cell w="36%">{r.toleranceText}</Cell>
+          <Cell w={tolerance}>{r.toleranceText}</Cell>
+          {instruments ? (
+            <Cell w="9%">
+              {[...new Set([r.asReceived ? takenWithText(r.asReceived) : null, takenWithText(r)].filter((t) => t !== null))].join(" / ")}
+            </Cell>
+          ) : null}
           <Cell w="10%" bold>
             {VERDICT_WORD[r.verdict]}
           </Cell>
@@ -195,6 +210,57 @@ function PassbandBlock({ section }: { section: PassbandSection }) {
   );
 }
 
+/** The instruments a band's edge readings were taken with, as returned (and as received where different). */
+function edgeInstruments(b: BandEdgeRow): string {
+  const texts = [b.lowReading?.asReceived, b.highReading?.asReceived, b.lowReading ?? undefined, b.highReading ?? undefined]
+    .filter((r) => r?.instrument)
+    .map((r) => takenWithText(r));
+  return [...new Set(texts)].join(", ") || "—";
+}
+
+/** The instruments the readings were taken with and their calibration due dates (its own block). */
+function InstrumentsUsed({ d }: { d: CertificateDocument }) {
+  const rows = instrumentRows(d);
+  if (rows.length === 0) return null;
+  return (
+    <View wrap={false}>
+      <Text style={s.h2}>Instruments used</Text>
+      <View style={s.table}>
+        <View style={s.tr}>
+          <Text style={[s.th, { width: "8%" }]}>Ref.</Text>
+          <Text style={[s.th, { width: "22%" }]}>Kind</Text>
+          <Text style={[s.th, { width: "30%" }]}>Maker and model</Text>
+          <Text style={[s.th, { width: "14%" }]}>Serial</Text>
+          <Text style={[s.th, { width: "13%" }]}>Calibrated</Text>
+          <Text style={[s.th, { width: "13%" }]}>Calibration due</Text>
+        </View>
+        {rows.map((i) => (
+          <View key={i.ref} style={s.tr} wrap={false}>
+            <Cell w="8%" mono>
+              {i.ref}
+            </Cell>
+            <Cell w="22%">{i.kind}</Cell>
+            <Cell w="30%">{i.name}</Cell>
+            <Cell w="14%" mono>
+              {i.serial}
+            </Cell>
+            <Cell w="13%" mono>
+              {i.calibratedOn}
+            </Cell>
+            <Cell w="13%" mono bold={i.overdueReadings > 0}>
+              {i.calibrationDueOn}
+              {i.overdueReadings > 0 ? ` — overdue for ${i.overdueReadings} reading${i.overdueReadings === 1 ? "" : "s"}` : ""}
+            </Cell>
+          </View>
+        ))}
+      </View>
+      <Text style={s.small}>
+        A reading marked &quot;calibration overdue&quot; was taken with an instrument past its calibration due date on that day.
+      </Text>
+    </View>
+  );
+}
+
 export type CertificatePdfInput = {
   document: CertificateDocument;
   verifyUrl: string;
@@ -229,6 +295,8 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
   const designation = d.warranty.designation === "full" ? "Full" : "Limited";
   const edges = bandEdgeRows(d);
   const others = otherReadings(d);
+  const received = hasAsReceived(d);
+  const withInstruments = (d.instruments ?? []).length > 0;
   const setName = `${d.set.maker} ${d.set.model}${d.set.year ? ` (${d.set.year})` : ""}`;
   const verifyHost = verifyUrl.replace(/^https?:\/\//, "").replace(/\/verify\/.*$/, "/verify");
   return (
@@ -296,9 +364,10 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           <View style={s.tr}>
             <Text style={[s.th, { width: "16%" }]}>Band</Text>
             <Text style={[s.th, { width: "20%" }]}>Dial range</Text>
-            <Text style={[s.th, { width: "12%" }]}>Low edge</Text>
-            <Text style={[s.th, { width: "12%" }]}>High edge</Text>
-            <Text style={[s.th, { width: "30%" }]}>Tolerance applied</Text>
+            {received ? <Text style={[s.th, { width: "15%" }]}>As received (low – high)</Text> : null}
+            <Text style={[s.th, { width: "12%" }]}>{received ? "Low, as returned" : "Low edge"}</Text>
+            <Text style={[s.th, { width: "12%" }]}>{received ? "High, as returned" : "High edge"}</Text>
+            <Text style={[s.th, { width: received ? "15%" : "30%" }]}>Tolerance applied</Text>
             <Text style={[s.th, { width: "10%" }]}>Verdict</Text>
           </View>
           {edges.map((b) => (
@@ -307,13 +376,21 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
               <Cell w="20%" mono>
                 {b.nominal}
               </Cell>
+              {received ? (
+                <Cell w="15%" mono>
+                  {b.lowAsReceived || b.highAsReceived ? `${b.lowAsReceived ?? "—"} – ${b.highAsReceived ?? "—"}` : "—"}
+                </Cell>
+              ) : null}
               <Cell w="12%" mono>
                 {b.low}
               </Cell>
               <Cell w="12%" mono>
                 {b.high}
               </Cell>
-              <Cell w="30%">{b.tolerance}</Cell>
+              <Cell w={received ? "15%" : "30%"}>
+                {b.tolerance}
+                {withInstruments ? ` · with ${edgeInstruments(b)}` : ""}
+              </Cell>
               <Cell w="10%" bold>
                 {b.verdict}
               </Cell>
@@ -327,7 +404,14 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           frequency; a reading taken on the oscillator (LO) is judged by the same window around mark + IF. The tolerance column says which
           reading each verdict came from. A reading with no figure to judge it by is marked Recorded.
         </Text>
-        <ReadingsTable rows={others} />
+        {received ? (
+          <Text style={s.p}>
+            As received: measured when the set came in, before any work. As returned: measured at the final checks; the verdicts and band
+            edges are judged on these.
+          </Text>
+        ) : null}
+        <ReadingsTable rows={others} received={received} instruments={withInstruments} />
+        <InstrumentsUsed d={d} />
 
         {d.performance ? <PerformanceBlock section={d.performance} /> : null}
         {d.passband ? <PassbandBlock section={d.passband} /> : null}

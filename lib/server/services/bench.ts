@@ -1,5 +1,5 @@
 import "server-only";
-import { and, eq } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { db, type Database } from "@/db";
 import {
   getJobDetailForStaff,
@@ -9,7 +9,7 @@ import {
   listPhotosForStaff,
 } from "@/db/queries/bench";
 import { getApprovedRevisionWithLines, getLatestRevisionWithLines } from "@/db/queries/estimates";
-import { jobs, jobTasks, messages, radioSets, readings, user } from "@/db/schema";
+import { instruments, jobs, jobTasks, messages, radioSets, readings, user } from "@/db/schema";
 import type { JobState } from "@/lib/engine/jobs/states";
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
@@ -27,6 +27,20 @@ import { getShop } from "@/lib/server/services/shop";
 import { loadSweeps, performanceRequirementsFor, sweepStrips, sweepViews } from "@/lib/server/services/performance";
 import { judgeReading, judgeReadings, listRequiredReadings, readingValueProblem, type ReadingRequirement } from "@/lib/engine/verdicts";
 import type { ProfileUpdate, ReadingInput, ReturnInput } from "@/lib/validation/bench";
+import {
+  DEFAULT_STORED_PHASE,
+  defaultReadingPhase,
+  instrumentKindsFor,
+  isCalibrationOverdue,
+  type ReadingPhase,
+} from "@/lib/engine/instruments";
+import {
+  instrumentForReading,
+  lastInstrumentChoices,
+  listOfferedInstruments,
+  rememberInstrumentChoice,
+  todayUtc,
+} from "@/lib/server/services/instruments";
 import { moneyText } from "@/lib/validation/estimate";
 
 type JobRow = typeof jobs.$inferSelect;
@@ -218,7 +232,11 @@ async function sheetBasis(tx: Database, jobId: string, set: { profile: Record<st
 // While a revision waits for the owner the set stays on the bench and the approved work goes on.
 const READING_STATES: readonly JobState[] = ["on_bench", "bench_revision", "final_checks"];
 
-/** Stores one reading with its verdict against the tolerance in force; re-measuring overwrites it. */
+/**
+ * Stores one reading, in its phase (as received or as returned), with its verdict against the tolerance in
+ * force and the instrument it was taken with (flagged when that instrument's calibration was overdue on the
+ * day); re-measuring in the same phase overwrites it.
+ */
 export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ReadingInput }) {
   // Every bench write takes the job's row lock, as completion does: a reading either lands before the
   // completion gate reads the sheet, or waits and then finds the job no longer on the bench.
@@ -234,10 +252,15 @@ export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { j
   if (problem) throw new AppError("invalid_input", problem, { value: problem });
   const judged = judgeReading(requirement, input.value);
   const now = new Date();
+  const phase: ReadingPhase = input.phase ?? DEFAULT_STORED_PHASE;
+  const instrument = input.instrumentId
+    ? await instrumentForReading(ctx.tx, { instrumentId: input.instrumentId, kinds: instrumentKindsFor(requirement) })
+    : null;
+  const instrumentOverdue = instrument ? isCalibrationOverdue(instrument.calibrationDueOn, todayUtc(now)) : false;
   const [before] = await ctx.tx
     .select()
     .from(readings)
-    .where(and(eq(readings.jobId, jobId), eq(readings.key, input.key)))
+    .where(and(eq(readings.jobId, jobId), eq(readings.key, input.key), eq(readings.phase, phase)))
     .limit(1);
   const values = {
     value: input.value,
@@ -247,27 +270,42 @@ export async function saveReading(ctx: TxContext, { jobId, actorId, input }: { j
     toleranceText: judged.toleranceText,
     recordedBy: actorId,
     recordedAt: now,
+    instrumentId: instrument?.id ?? null,
+    instrumentOverdue,
   };
   await ctx.tx
     .insert(readings)
-    .values({ jobId, key: input.key, ...values })
-    .onConflictDoUpdate({ target: [readings.jobId, readings.key], set: values });
+    .values({ jobId, key: input.key, phase, ...values })
+    .onConflictDoUpdate({ target: [readings.jobId, readings.key, readings.phase], set: values });
+  if (instrument) await rememberInstrumentChoice(ctx, { userId: actorId, instrument });
   await audit(ctx, {
     actorId,
     action: "reading.record",
     entity: "job",
     entityId: jobId,
-    before: before ? { key: before.key, value: before.value, verdict: before.verdict } : null,
-    after: { key: input.key, value: input.value, verdict: judged.verdict },
+    before: before
+      ? { key: before.key, phase: before.phase, value: before.value, verdict: before.verdict, instrumentId: before.instrumentId }
+      : null,
+    after: {
+      key: input.key,
+      phase,
+      value: input.value,
+      verdict: judged.verdict,
+      instrumentId: instrument?.id ?? null,
+      ...(instrumentOverdue ? { instrumentOverdue } : {}),
+    },
   });
   return {
     key: input.key,
+    phase,
     value: input.value,
     verdict: judged.verdict,
     toleranceText: judged.toleranceText,
     deviation: judged.deviation ?? null,
     allowed: judged.allowed ?? null,
     recordedAt: now.toISOString(),
+    instrumentId: instrument?.id ?? null,
+    instrumentOverdue,
   };
 }
 
@@ -326,7 +364,11 @@ export async function completionGate(tx: Database, jobId: string) {
   const reasons: CompletionReason[] = [];
   if (!basis.profile)
     reasons.push({ kind: "profile", key: "profile", text: "The set profile is incomplete, so the required readings are unknown." });
-  const stored = await tx.select().from(readings).where(eq(readings.jobId, jobId));
+  // The set is judged as it goes back: the as-returned readings.
+  const stored = await tx
+    .select()
+    .from(readings)
+    .where(and(eq(readings.jobId, jobId), eq(readings.phase, "as_returned")));
   const values = Object.fromEntries(stored.map((r) => [r.key, r.value]));
   const sheet = judgeReadings(basis.requirements, values);
   for (const r of sheet.results) {
@@ -453,23 +495,44 @@ export async function recordReturn(ctx: TxContext, { jobId, actorId, input }: { 
 
 // ---- Read side -----------------------------------------------------------------------------------------
 
-/** Everything the bench sheet shows: required readings with stored values and verdicts, lines, the gate. */
-export async function getBenchSheet({ jobId }: { jobId: string }) {
+/**
+ * Everything the bench sheet shows: required readings with stored values and verdicts in both phases (the
+ * flat value and verdict are the as-returned ones), the instruments on offer with the viewer's last choice
+ * per kind, lines, the gate.
+ */
+export async function getBenchSheet({ jobId, viewerId }: { jobId: string; viewerId?: string }) {
   const { job, set } = await loadJob(db, jobId);
   const basis = await sheetBasis(db, jobId, set);
   const stored = await db
     .select({
       key: readings.key,
+      phase: readings.phase,
       value: readings.value,
       note: readings.note,
       verdict: readings.verdict,
       recordedAt: readings.recordedAt,
       recordedByName: user.name,
+      instrumentId: readings.instrumentId,
+      instrumentOverdue: readings.instrumentOverdue,
     })
     .from(readings)
     .leftJoin(user, eq(user.id, readings.recordedBy))
     .where(eq(readings.jobId, jobId));
-  const byKey = new Map(stored.map((r) => [r.key, r]));
+  const byKey = new Map(stored.filter((r) => r.phase === "as_returned").map((r) => [r.key, r]));
+  const receivedByKey = new Map(stored.filter((r) => r.phase === "as_received").map((r) => [r.key, r]));
+  const offered = await listOfferedInstruments();
+  // Instruments retired since a reading named them are still shown by name on that reading.
+  const named = [...new Set(stored.map((r) => r.instrumentId).filter((id): id is string => id !== null))].filter(
+    (id) => !offered.some((o) => o.id === id),
+  );
+  const retired = named.length
+    ? (await db.select().from(instruments).where(inArray(instruments.id, named))).map((r) => ({
+        id: r.id,
+        label: `${r.maker} ${r.model} (${r.serial})`,
+        calibrationDueOn: r.calibrationDueOn,
+      }))
+    : [];
+  const lastChoices = viewerId ? await lastInstrumentChoices({ userId: viewerId }) : {};
   const tasks = await db
     .select({ code: jobTasks.code, title: jobTasks.title, doneAt: jobTasks.doneAt, doneByName: user.name })
     .from(jobTasks)
@@ -492,6 +555,10 @@ export async function getBenchSheet({ jobId }: { jobId: string }) {
         verdict: judgeReading(r, s?.value ?? null).verdict,
         recordedAt: s?.recordedAt.toISOString() ?? null,
         recordedByName: s?.recordedByName ?? null,
+        instrumentId: s?.instrumentId ?? null,
+        instrumentOverdue: s?.instrumentOverdue ?? false,
+        instrumentKinds: [...instrumentKindsFor(r)],
+        asReceived: received(r, receivedByKey.get(r.key)),
       };
     }),
     tasks: tasks.map((t) => ({ ...t, doneAt: t.doneAt?.toISOString() ?? null })),
@@ -512,6 +579,32 @@ export async function getBenchSheet({ jobId }: { jobId: string }) {
       strips: basis.profile ? sweepStrips(basis.profile) : [],
       sweeps: perf.setup.enabled ? sweepViews(await loadSweeps(db, jobId)) : [],
     },
+    defaultPhase: defaultReadingPhase({ state: job.state, linesTicked: tasks.filter((t) => t.doneAt !== null).length }),
+    instruments: offered,
+    retiredInstruments: retired,
+    lastChoices,
+  };
+}
+
+type StoredReading = {
+  value: number | null;
+  note: string | null;
+  recordedAt: Date;
+  recordedByName: string | null;
+  instrumentId: string | null;
+  instrumentOverdue: boolean;
+};
+
+function received(r: ReadingRequirement, s: StoredReading | undefined) {
+  if (!s) return null;
+  return {
+    value: s.value,
+    note: s.note,
+    verdict: judgeReading(r, s.value).verdict,
+    recordedAt: s.recordedAt.toISOString(),
+    recordedByName: s.recordedByName,
+    instrumentId: s.instrumentId,
+    instrumentOverdue: s.instrumentOverdue,
   };
 }
 

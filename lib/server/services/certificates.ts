@@ -28,6 +28,7 @@ import { forgetVerifyPages } from "@/lib/server/verify-pages";
 import { listRequiredReadings, parseReadingKey, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { parseWarrantyTerms } from "@/lib/validation/office";
 import { dayNumber } from "@/lib/engine/warranty";
+import { isInstrumentKind } from "@/lib/engine/instruments";
 import {
   certificateDocumentSchema,
   composeTermsText,
@@ -35,6 +36,7 @@ import {
   RIGHTS_SENTENCE,
   todayIso,
   type CertificateDocument,
+  type CertificateInstrument,
   type CertificateReading,
   type CertificateStatus,
   type CertificateTerms,
@@ -157,6 +159,46 @@ async function performanceSources(tx: TxContext["tx"], jobId: string): Promise<P
   return { setup, passband: setup.enabled ? await passbandSectionFor(tx, jobId) : undefined };
 }
 
+type StoredRow = Sources["readings"][number];
+
+// I1, I2, ... in the order of kind, maker, model, serial: the certificate refers to instruments by these.
+function instrumentRefs(src: Sources): Map<string, CertificateInstrument> {
+  const sorted = [...src.instruments].sort(
+    (a, b) =>
+      a.kind.localeCompare(b.kind) || a.maker.localeCompare(b.maker) || a.model.localeCompare(b.model) || a.serial.localeCompare(b.serial),
+  );
+  return new Map(
+    sorted.map((i, n) => [
+      i.id,
+      {
+        ref: `I${n + 1}`,
+        kind: isInstrumentKind(i.kind) ? i.kind : "meter",
+        maker: i.maker,
+        model: i.model,
+        serial: i.serial,
+        calibratedOn: i.calibratedOn,
+        calibrationDueOn: i.calibrationDueOn,
+      },
+    ]),
+  );
+}
+
+function takenWith(stored: StoredRow, refs: Map<string, CertificateInstrument>): { instrument?: string; instrumentOverdue?: true } {
+  const ref = stored.instrumentId ? refs.get(stored.instrumentId)?.ref : undefined;
+  if (!ref) return {};
+  return stored.instrumentOverdue ? { instrument: ref, instrumentOverdue: true } : { instrument: ref };
+}
+
+function withAsReceived(
+  row: CertificateReading,
+  received: StoredRow | undefined,
+  refs: Map<string, CertificateInstrument>,
+): CertificateReading {
+  if (!received) return row;
+  const verdict = row.verdict === "recorded" ? "recorded" : received.verdict;
+  return { ...row, asReceived: { value: received.value, verdict, ...takenWith(received, refs) } };
+}
+
 function buildDocument(
   src: Sources,
   perf: PerformanceSources,
@@ -170,7 +212,11 @@ function buildDocument(
   if (!profile.success)
     throw new AppError("conflict", "The set profile is incomplete, so no certificate can be issued. Correct the profile and try again.");
   const requirements: ReadingRequirement[] = listRequiredReadings(profile.data, shop.policy.tolerances);
-  const byKey = new Map(src.readings.map((r) => [r.key, r]));
+  // Verdicts and band edges come from the readings as returned; as-received ones are printed beside them.
+  const returned = src.readings.filter((r) => r.phase !== "as_received");
+  const receivedByKey = new Map(src.readings.filter((r) => r.phase === "as_received").map((r) => [r.key, r]));
+  const byKey = new Map(returned.map((r) => [r.key, r]));
+  const refs = instrumentRefs(src);
 
   const doneTasks = src.tasks.filter((t) => t.doneAt !== null);
   const partLines = src.lines.filter((l) => l.category === "parts" || l.partCostMinor !== null);
@@ -206,7 +252,7 @@ function buildDocument(
       work,
       parts,
       requirements,
-      readings: Object.fromEntries(src.readings.map((r) => [r.key, r.value])),
+      readings: Object.fromEntries(returned.map((r) => [r.key, r.value])),
       termsText: "",
     },
     shop.policy,
@@ -216,14 +262,20 @@ function buildDocument(
   const readings: CertificateReading[] = content.readings.map((r) => {
     const stored = byKey.get(r.key);
     // A reading with nothing to judge it by is recorded, whatever an older row stored for it.
-    return stored
-      ? { ...r, toleranceText: stored.toleranceText || r.toleranceText, verdict: r.verdict === "recorded" ? "recorded" : stored.verdict }
+    const row: CertificateReading = stored
+      ? {
+          ...r,
+          toleranceText: stored.toleranceText || r.toleranceText,
+          verdict: r.verdict === "recorded" ? "recorded" : stored.verdict,
+          ...takenWith(stored, refs),
+        }
       : r;
+    return withAsReceived(row, receivedByKey.get(r.key), refs);
   });
-  for (const stored of src.readings) {
+  for (const stored of returned) {
     // Performance readings print in their own section, judged against the figures in force.
     if (required.has(stored.key) || isPerformanceKey(stored.key)) continue;
-    readings.push({
+    const row: CertificateReading = {
       key: stored.key,
       label: readingLabel(stored.key),
       unit: stored.unit,
@@ -231,15 +283,20 @@ function buildDocument(
       value: stored.value,
       toleranceText: stored.toleranceText,
       verdict: stored.verdict,
-    });
+      ...takenWith(stored, refs),
+    };
+    readings.push(withAsReceived(row, receivedByKey.get(stored.key), refs));
   }
   const performance = perf.setup.enabled
     ? buildPerformanceSection(
         listPerformanceReadings(profile.data, perf.setup),
-        Object.fromEntries(src.readings.map((r) => [r.key, r.value])),
+        Object.fromEntries(returned.map((r) => [r.key, r.value])),
         perf.setup.conditions,
       )
     : undefined;
+  // Only instruments a printed reading names are listed.
+  const listed = new Set(readings.flatMap((r) => [r.instrument, r.asReceived?.instrument]).filter(Boolean));
+  const instrumentList = [...refs.values()].filter((i) => listed.has(i.ref));
   const terms = readCertificateTerms(shop);
   const termsText = composeTermsText(terms, content.warranty, shop, content.completedOn);
   const doc: CertificateDocument = {
@@ -247,6 +304,7 @@ function buildDocument(
     readings,
     warranty: { ...content.warranty, termsText },
     terms,
+    ...(instrumentList.length ? { instruments: instrumentList } : {}),
     ...(correction ? { correction } : {}),
     ...(answers ? { answers } : {}),
     ...(performance ? { performance } : {}),

@@ -59,6 +59,11 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
   // Office rows: the demo's settled refund, and any message of the outbox.
   const { id: refundAny } = await one<{ id: string }>("select id from refund order by created_at limit 1");
   const { id: emailAny } = await one<{ id: string }>("select id from email_outbox order by created_at limit 1");
+  // The demo returned job's readings name the shop's instruments.
+  const { id: instrumentAny } = await one<{ id: string }>(
+    "select instrument_id as id from reading where job_id = $1 and instrument_id is not null limit 1",
+    [jobA],
+  );
   return {
     jobA,
     jobOpenA,
@@ -70,6 +75,7 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     photoA,
     refundAny,
     emailAny,
+    instrumentAny,
   };
 }
 

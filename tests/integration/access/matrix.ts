@@ -22,6 +22,8 @@ export type Fixtures = {
   jobOpenA: string;
   refundAny: string;
   emailAny: string;
+  /** An instrument some reading names: deleting it is refused, so the probes leave it in place. */
+  instrumentAny: string;
 };
 
 export type RouteEntry = {
@@ -314,6 +316,23 @@ export const ROUTES: RouteEntry[] = [
     body: () => ({}),
   },
   { method: "GET", route: "/api/office/emails", action: "email.resend", rules: ownerOnly },
+  { method: "GET", route: "/api/office/instruments", action: "instrument.manage", rules: ownerOnly },
+  { method: "POST", route: "/api/office/instruments", action: "instrument.manage", rules: ownerOnly, body: () => ({}) },
+  {
+    method: "PATCH",
+    route: "/api/office/instruments/[id]",
+    action: "instrument.manage",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.instrumentAny }),
+    body: () => ({}),
+  },
+  {
+    method: "DELETE",
+    route: "/api/office/instruments/[id]",
+    action: "instrument.manage",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.instrumentAny }),
+  },
   {
     method: "POST",
     route: "/api/office/emails/[emailId]/resend",
@@ -369,6 +388,7 @@ export const PAGES: PageEntry[] = [
   { route: "/office/reports", rules: ownerOnly },
   { route: "/office/settings", rules: ownerOnly },
   { route: "/office/staff", rules: ownerOnly },
+  { route: "/office/instruments", rules: ownerOnly },
 ];
 /** Pages that exist only in the local-demo mode. */
 export const LOCAL_DEMO_PAGES = new Set(["/mailbox"]);

@@ -3,6 +3,7 @@ import { headers } from "next/headers";
 import Link from "next/link";
 import { redirect } from "next/navigation";
 import { BandEdgeTable } from "@/components/warranty/band-edge-table";
+import { InstrumentsUsed } from "@/components/warranty/instruments-used";
 import { CertificateStatusBadge } from "@/components/warranty/certificate-status";
 import { Notice } from "@/components/ui/notice";
 import { getCertificateByCode, getCertificateById } from "@/db/queries/certificates";
@@ -194,6 +195,11 @@ export default async function VerifyCodeSheet({
       <div className="card p-5">
         <BandEdgeTable document={d} />
       </div>
+      {d.instruments?.length ? (
+        <div className="card p-5">
+          <InstrumentsUsed document={d} />
+        </div>
+      ) : null}
       <p className="text-sm text-bakelite-muted">
         This page shows only what a buyer needs to check the set. Owners see the full certificate, with every reading and the warranty
         terms, in their portal.
