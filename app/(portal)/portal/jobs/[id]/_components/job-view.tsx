@@ -5,6 +5,7 @@ import type { ReactNode } from "react";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
+import { WAIVED_WORDING } from "@/lib/engine/pricing/account";
 import type { PortalJobView } from "@/lib/server/services/portal-view";
 import { QueueForecast } from "./queue-forecast";
 import { api } from "../../../_lib/api";
@@ -148,6 +149,13 @@ export function JobView({
           <p data-testid="owed-back">
             You have paid {v.account.owedBack.text} more than the total of {v.account.total.text}. The shop will refund it to the card you
             paid with.
+          </p>
+        </Notice>
+      ) : null}
+      {v.account.waived ? (
+        <Notice tone="info" title="A small remainder was waived">
+          <p data-testid="account-waived">
+            {v.account.waived.text} {WAIVED_WORDING}: the shop does not ask for it, and nothing is left to pay.
           </p>
         </Notice>
       ) : null}
