@@ -129,10 +129,7 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
         movedOn?: boolean;
         currency?: string;
         exponent?: number;
-      }>(
-        `/api/bench/jobs/${jobId}/${path}`,
-        { method: "POST" },
-      ),
+      }>(`/api/bench/jobs/${jobId}/${path}`, { method: "POST" }),
     onSuccess: (res) => {
       setRefusal(null);
       setResult(

@@ -77,7 +77,10 @@ async function pay(owner: TestClient, jobId: string, purpose: "deposit" | "balan
 }
 
 async function finishAtBench(jobId: string) {
-  const sheet = (await (await tech.get(`/api/bench/jobs/${jobId}/sheet`)).json()) as { requirements: SheetReq[]; tasks: { code: string }[] };
+  const sheet = (await (await tech.get(`/api/bench/jobs/${jobId}/sheet`)).json()) as {
+    requirements: SheetReq[];
+    tasks: { code: string }[];
+  };
   for (const r of sheet.requirements) {
     const value = r.unit === "mA" ? 0.12 : (r.nominal ?? 120);
     expect((await tech.post(`/api/bench/jobs/${jobId}/readings`, { key: r.key, value })).status).toBe(200);
@@ -91,7 +94,12 @@ async function finishAtBench(jobId: string) {
 
 type PortalView = {
   due: { purpose: string; amount: { minor: number } } | null;
-  account: { owed: { minor: number }; owedBack: { minor: number }; paid: { minor: number }; waived: { minor: number; text: string } | null };
+  account: {
+    owed: { minor: number };
+    owedBack: { minor: number };
+    paid: { minor: number };
+    waived: { minor: number; text: string } | null;
+  };
 };
 async function portal(owner: TestClient, jobId: string): Promise<PortalView> {
   const res = await owner.get(`/api/portal/jobs/${jobId}`);
@@ -121,7 +129,13 @@ async function saveScopeBetween(jobId: string, lines: DraftLine[], low: number, 
   const target = Math.floor((low + high) / 2);
   let cost = Math.floor(target / 1.1);
   for (let tries = 0; tries < 12; tries++) {
-    const line = { ...part, quantity: 1, unitCost: (cost / 100).toFixed(2), markupPercent: "0", reason: "Only the dial lamp needed replacing." };
+    const line = {
+      ...part,
+      quantity: 1,
+      unitCost: (cost / 100).toFixed(2),
+      markupPercent: "0",
+      reason: "Only the dial lamp needed replacing.",
+    };
     const saved = await save(jobId, [line]);
     if (saved.totalMinor > low && saved.totalMinor < high) return saved;
     cost += Math.sign(target - saved.totalMinor) * Math.max(1, Math.floor(Math.abs(target - saved.totalMinor) / 2));

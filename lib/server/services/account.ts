@@ -137,7 +137,10 @@ export type OwedBackRow = {
 export async function listOwedBack(): Promise<OwedBackRow[]> {
   const rows = await listOwedBackCandidates();
   return rows
-    .map((r) => ({ r, account: accountOf({ totalMinor: r.totalMinor, payments: r.payments, refunds: r.refunds, waivedMinor: r.waivedMinor }) }))
+    .map((r) => ({
+      r,
+      account: accountOf({ totalMinor: r.totalMinor, payments: r.payments, refunds: r.refunds, waivedMinor: r.waivedMinor }),
+    }))
     .filter(({ r, account }) => account.owedBackMinor > 0 || r.anyStale)
     .map(({ r, account }) => ({
       jobId: r.jobId,

@@ -170,9 +170,7 @@ async function planCheckout(ctx: TxContext, input: { jobId: string; customerId: 
   // came in asks only for the difference), never more than what is owed. Balance: what the account says is
   // owed (payments less refunds, less anything waived, against the approved total).
   const amountMinor =
-    input.purpose === "deposit"
-      ? Math.min(revision.depositMinor - paidDepositsMinor, account.owedMinor)
-      : account.owedMinor;
+    input.purpose === "deposit" ? Math.min(revision.depositMinor - paidDepositsMinor, account.owedMinor) : account.owedMinor;
   if (amountMinor <= 0) throw new AppError("conflict", "Nothing is left to pay on this job.");
   const currency = revision.currency;
   // The processor would refuse it: never ask. The shop settles such a remainder (see settleIfNothingOwed).
