@@ -157,7 +157,9 @@ describe("a balance below the processor's minimum after a scope change at the be
     expect((await owner.post(`/api/portal/jobs/${jobId}/estimate/approve`, { revisionId: rev2.id })).status).toBe(200);
     expect(await state(jobId)).toBe("on_bench");
     // Nothing is asked at the bench; the few cents show as still to pay until the work is done.
-    expect((await portal(owner, jobId)).account.owed.minor).toBe(remainder);
+    const onBench = await portal(owner, jobId);
+    expect(onBench.account.owed.minor).toBe(remainder);
+    expect(onBench.account.belowMinimum).toBe(true);
 
     const t0 = Date.now() - 50;
     const done = await finishAtBench(jobId);
@@ -189,6 +191,7 @@ describe("a balance below the processor's minimum after a scope change at the be
     expect(view.account.waived?.minor).toBe(remainder);
     expect(view.account.owed.minor).toBe(0);
     expect(view.account.owedBack.minor).toBe(0);
+    expect(view.account.belowMinimum).toBe(false);
     expect(view.due).toBeNull();
     const checkout = await owner.post("/api/payments/checkout", { jobId, purpose: "balance" });
     expect(checkout.status).toBe(409);

@@ -187,6 +187,12 @@ export function JobView({
         </dl>
       ) : null}
 
+      {v.account.belowMinimum ? (
+        <p className="text-sm" data-testid="below-minimum">
+          {v.account.owed.text} is below the smallest card payment: it is not asked for online, and the shop waives it when the work is
+          done.
+        </p>
+      ) : null}
       {v.estimate ? <EstimatePanel jobId={jobId} estimate={v.estimate} /> : null}
 
       {v.payments.length ? (
