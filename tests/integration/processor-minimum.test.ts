@@ -98,6 +98,7 @@ type PortalView = {
     owed: { minor: number };
     owedBack: { minor: number };
     paid: { minor: number };
+    belowMinimum: boolean;
     waived: { minor: number; text: string } | null;
   };
 };
