@@ -1,5 +1,5 @@
 import Link from "next/link";
-import { can, ROLE_LABEL, type Role } from "@/lib/engine/permissions";
+import { canAccess, ROLE_LABEL, type Role } from "@/lib/engine/permissions";
 import { SignOutButton } from "./sign-out-button";
 
 // The dial-scale rule under the brand is our mark: ticks like a tuning scale.
@@ -21,16 +21,19 @@ function DialMark() {
   );
 }
 
-/** Who is signed in, as the header shows them; the page or layout reads the session. */
-export type HeaderViewer = { name: string; role: Role } | null;
+/**
+ * Who is signed in, as the header shows them; the page or layout reads the session. `holdsSets`: a staff
+ * account that also holds its own sets is offered both its portal and its staff areas.
+ */
+export type HeaderViewer = { name: string; role: Role; holdsSets?: boolean } | null;
 
 export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
   // One link per area; each area's own sections are in the bar beneath (AreaShell), never repeated here.
   const links: { href: string; label: string }[] = [];
   if (viewer) {
-    if (can(viewer.role, "portal.use")) links.push({ href: "/portal", label: "My sets" });
-    if (can(viewer.role, "bench.use")) links.push({ href: "/bench", label: "Bench" });
-    if (can(viewer.role, "office.use")) links.push({ href: "/office", label: "Office" });
+    if (canAccess(viewer, "portal.use")) links.push({ href: "/portal", label: "My sets" });
+    if (canAccess(viewer, "bench.use")) links.push({ href: "/bench", label: "Bench" });
+    if (canAccess(viewer, "office.use")) links.push({ href: "/office", label: "Office" });
   }
   return (
     <header className="border-b-4 border-walnut bg-bakelite text-dial">

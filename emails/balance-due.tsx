@@ -11,6 +11,8 @@ export type BalanceDueProps = {
   settled?: boolean;
   /** What the shop owes back, when payments exceed the final total. */
   owedBackText?: string;
+  /** A remainder below the smallest card payment, which the shop waived. */
+  waivedText?: string;
 };
 
 export default function BalanceDue({
@@ -21,6 +23,7 @@ export default function BalanceDue({
   balanceText = "$218.68",
   settled = false,
   owedBackText,
+  waivedText,
 }: Partial<BalanceDueProps>) {
   return (
     <MailLayout preview={`Your ${setName} is finished`}>
@@ -32,6 +35,7 @@ export default function BalanceDue({
       {settled ? (
         <Text style={mailStyles.p}>
           There is nothing left to pay, and we will return the set to you.
+          {waivedText ? ` The last ${waivedText} was below the smallest card payment, so we have waived it.` : ""}
           {owedBackText ? ` You paid more than the final total: we owe you ${owedBackText} and will refund it.` : ""}
         </Text>
       ) : (

@@ -122,18 +122,24 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
   const [result, setResult] = useState<string | null>(null);
   const act = useMutation({
     mutationFn: (path: "start-bench" | "final-checks" | "back-to-bench" | "complete") =>
-      api<{ balanceMinor?: number; owedBackMinor?: number; movedOn?: boolean; currency?: string; exponent?: number }>(
-        `/api/bench/jobs/${jobId}/${path}`,
-        { method: "POST" },
-      ),
+      api<{
+        balanceMinor?: number;
+        owedBackMinor?: number;
+        waivedMinor?: number;
+        movedOn?: boolean;
+        currency?: string;
+        exponent?: number;
+      }>(`/api/bench/jobs/${jobId}/${path}`, { method: "POST" }),
     onSuccess: (res) => {
       setRefusal(null);
       setResult(
         res.balanceMinor !== undefined && res.currency
           ? res.movedOn
             ? `Completed. Nothing is left to pay, so the job moved on to its return.${
-                res.owedBackMinor ? ` ${moneyText(res.owedBackMinor, res.currency, res.exponent ?? 2)} is owed back to the owner.` : ""
-              }`
+                res.waivedMinor
+                  ? ` The last ${moneyText(res.waivedMinor, res.currency, res.exponent ?? 2)} was waived, below the smallest card payment.`
+                  : ""
+              }${res.owedBackMinor ? ` ${moneyText(res.owedBackMinor, res.currency, res.exponent ?? 2)} is owed back to the owner.` : ""}`
             : `Completed. The owner has been asked to pay the balance of ${moneyText(res.balanceMinor, res.currency, res.exponent ?? 2)}.`
           : null,
       );

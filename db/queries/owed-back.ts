@@ -8,6 +8,8 @@ export type OwedBackCandidate = {
   customerName: string;
   currency: string;
   totalMinor: number;
+  /** A remainder the shop waived (below the processor's smallest charge). */
+  waivedMinor: number;
   anyStale: boolean;
   payments: { amountMinor: number; status: string }[];
   refunds: { amountMinor: number; status: string }[];
@@ -24,6 +26,7 @@ export async function listOwedBackCandidates(): Promise<OwedBackCandidate[]> {
     customer_name: string;
     currency: string;
     total_minor: number | null;
+    waived_minor: number;
     any_stale: boolean;
     payments: { amountMinor: number; status: string }[];
     refunds: { amountMinor: number; status: string }[] | null;
@@ -31,6 +34,7 @@ export async function listOwedBackCandidates(): Promise<OwedBackCandidate[]> {
     select j.id as job_id, j.number, j.state, u.name as customer_name,
       coalesce(r.currency, min(p.currency)) as currency,
       coalesce(j.settled_total_minor, r.total_minor, 0) as total_minor,
+      j.waived_minor,
       bool_or(p.arrived_stale) as any_stale,
       json_agg(json_build_object('amountMinor', p.amount_minor, 'status', p.status)) as payments,
       (select json_agg(json_build_object('amountMinor', f.amount_minor, 'status', f.status))
@@ -52,6 +56,7 @@ export async function listOwedBackCandidates(): Promise<OwedBackCandidate[]> {
     customerName: r.customer_name,
     currency: r.currency,
     totalMinor: Number(r.total_minor ?? 0),
+    waivedMinor: Number(r.waived_minor ?? 0),
     anyStale: Boolean(r.any_stale),
     payments: r.payments,
     refunds: r.refunds ?? [],

@@ -21,6 +21,8 @@ export async function getPortalJobForCustomer({ jobId, customerId }: { jobId: st
       carrier: jobs.carrier,
       trackingNumber: jobs.trackingNumber,
       settledTotalMinor: jobs.settledTotalMinor,
+      waivedMinor: jobs.waivedMinor,
+      waivedAt: jobs.waivedAt,
       createdAt: jobs.createdAt,
       updatedAt: jobs.updatedAt,
       set: {

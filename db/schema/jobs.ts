@@ -55,6 +55,11 @@ export const jobs = pgTable(
     // Set when the owner declines a scope change at the bench and has the set returned as is: the work
     // stops and this (what had been paid) replaces the approved total in the job's account.
     settledTotalMinor: integer("settled_total_minor"),
+    // A remainder below the processor's smallest charge, waived by the shop when the balance fell due (the
+    // owner could not pay it online): counted in the job's account, with who waived it and when.
+    waivedMinor: integer("waived_minor").notNull().default(0),
+    waivedBy: text("waived_by").references(() => user.id),
+    waivedAt: timestamp("waived_at", { withTimezone: true }),
     version: integer("version").notNull().default(1),
     idempotencyKey: text("idempotency_key"),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),

@@ -55,6 +55,32 @@ export function can(role: string | null | undefined, permission: Permission): bo
   return (PERMISSIONS[permission] as readonly Role[]).includes(role);
 }
 
+/**
+ * What an account on the staff list may still do with the jobs, certificates and claims it holds as a set
+ * owner (an owner's account converted to staff on purpose keeps them): see and answer its own jobs in the
+ * portal. Each of these is checked against ownership beside the data, so it reaches only its own records.
+ * New quote requests stay with set owners' accounts: staff and customer accounts are kept apart.
+ */
+export const HOLDER_PERMISSIONS = [
+  "portal.use",
+  "estimate.approve",
+  "payment.start",
+  "message.post",
+  "photo.view",
+  "claim.open",
+  "quote.withdraw",
+  "certificate.download",
+] as const satisfies readonly Permission[];
+
+/** Who is asking: their role, and whether a staff account also holds a set owner's records. */
+export type Access = { role: string | null | undefined; holdsSets?: boolean };
+
+/** The role's permissions, plus the holder's permissions for a staff account that holds its own sets. */
+export function canAccess(who: Access, permission: Permission): boolean {
+  if (can(who.role, permission)) return true;
+  return who.holdsSets === true && isRole(who.role) && (HOLDER_PERMISSIONS as readonly Permission[]).includes(permission);
+}
+
 export function homeFor(role: string | null | undefined): string {
   if (role === "owner") return "/office";
   if (role === "technician") return "/bench";

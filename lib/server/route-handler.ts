@@ -2,7 +2,7 @@ import "server-only";
 import type { z } from "zod";
 import { env } from "./env";
 import { AppError, DATABASE_RETRY_AFTER_SECONDS, NUL_MESSAGE, nulCharacterPath, toAppError } from "./errors";
-import { can, type Permission } from "@/lib/engine/permissions";
+import { canAccess, type Permission } from "@/lib/engine/permissions";
 import { viewerFromHeaders, type Viewer } from "./session";
 
 type RouteContext<P> = { params: Promise<P> };
@@ -85,7 +85,7 @@ export function route<P = Record<string, string>, S extends z.ZodType | undefine
       const viewer = await viewerFromHeaders(request.headers);
       if (!viewer)
         throw options.hideFromVisitors ? new AppError("not_found", "Not found.") : new AppError("unauthenticated", "Please sign in.");
-      if (!can(viewer.role, options.permission)) throw new AppError("not_found", "Not found.");
+      if (!canAccess(viewer, options.permission)) throw new AppError("not_found", "Not found.");
       assertSameOrigin(request);
       let body: unknown = undefined;
       if (options.body) {

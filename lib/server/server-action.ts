@@ -2,7 +2,7 @@ import "server-only";
 import type { z } from "zod";
 import { zodFields } from "./route-handler";
 import { AppError, toAppError } from "./errors";
-import { can, type Permission } from "@/lib/engine/permissions";
+import { canAccess, type Permission } from "@/lib/engine/permissions";
 import { getViewer, type Viewer } from "./session";
 
 export type ActionResult<T> =
@@ -14,7 +14,7 @@ export function action<S extends z.ZodType, T>(permission: Permission, schema: S
     try {
       const viewer = await getViewer();
       if (!viewer) throw new AppError("unauthenticated", "Please sign in again.");
-      if (!can(viewer.role, permission)) throw new AppError("not_found", "Not found.");
+      if (!canAccess(viewer, permission)) throw new AppError("not_found", "Not found.");
       const parsed = schema.safeParse(raw);
       if (!parsed.success) throw new AppError("invalid_input", "Some fields need attention.", zodFields(parsed.error));
       return { ok: true, data: await fn(parsed.data, viewer) };

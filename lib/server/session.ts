@@ -5,12 +5,23 @@ import { headers } from "next/headers";
 import { notFound, redirect } from "next/navigation";
 import { cache } from "react";
 import { db } from "@/db";
-import { session as sessionTable, user } from "@/db/schema";
+import { certificates, claims, jobs, session as sessionTable, user } from "@/db/schema";
 import type { Role } from "@/lib/engine/permissions";
 import { auth, SESSION_ABSOLUTE_SECONDS } from "./auth";
-import { can, isRole, type Permission } from "@/lib/engine/permissions";
+import { canAccess, isRole, type Permission } from "@/lib/engine/permissions";
 
-export type Viewer = { id: string; name: string; email: string; role: Role; sessionId: string };
+/**
+ * `holdsSets`: a staff account that also holds jobs, certificates or claims as a set owner (converted on
+ * purpose); it keeps the portal for those (`canAccess` in lib/engine/permissions.ts). Always false for a
+ * set owner's own account, whose portal is its role's.
+ */
+export type Viewer = { id: string; name: string; email: string; role: Role; sessionId: string; holdsSets: boolean };
+
+// Whether a staff account holds a set owner's records: read with the session, in the same query.
+const holdsSetsSql = sql<boolean>`(${user.role} <> 'customer' and (
+  exists (select 1 from ${jobs} where ${jobs.customerId} = ${user.id})
+  or exists (select 1 from ${certificates} where ${certificates.customerId} = ${user.id})
+  or exists (select 1 from ${claims} where ${claims.claimantId} = ${user.id})))`;
 
 // Resolves the session against the database on every request (no cookie cache), so a revoked
 // or deactivated account stops working at the next request.
@@ -20,15 +31,17 @@ export async function viewerFromHeaders(h: Headers): Promise<Viewer | null> {
   if (quick !== "ask-auth") return quick;
   const result = await auth().api.getSession({ headers: h });
   if (!result) return null;
-  const { user, session } = result;
+  const { user: u, session } = result;
+  const [holder] = await db.select({ holdsSets: holdsSetsSql }).from(user).where(eq(user.id, u.id)).limit(1);
   return admit({
-    id: user.id,
-    name: user.name,
-    email: user.email,
-    role: user.role,
-    banned: user.banned,
+    id: u.id,
+    name: u.name,
+    email: u.email,
+    role: u.role,
+    banned: u.banned,
     sessionId: session.id,
     createdAt: new Date(session.createdAt),
+    holdsSets: holder?.holdsSets ?? false,
   });
 }
 
@@ -40,6 +53,7 @@ async function admit(row: {
   banned: boolean | null | undefined;
   sessionId: string;
   createdAt: Date;
+  holdsSets: boolean | null;
 }): Promise<Viewer | null> {
   if (row.banned) return null;
   if (Date.now() - row.createdAt.getTime() > SESSION_ABSOLUTE_SECONDS * 1000) {
@@ -47,7 +61,14 @@ async function admit(row: {
     return null;
   }
   const role = row.role && isRole(row.role) ? row.role : "customer";
-  return { id: row.id, name: row.name, email: row.email, role, sessionId: row.sessionId };
+  return {
+    id: row.id,
+    name: row.name,
+    email: row.email,
+    role,
+    sessionId: row.sessionId,
+    holdsSets: role !== "customer" && row.holdsSets === true,
+  };
 }
 
 // Prepared once per database connection: the statement every signed-in request runs.
@@ -63,6 +84,7 @@ function prepareSessionByToken() {
       email: user.email,
       role: user.role,
       banned: user.banned,
+      holdsSets: holdsSetsSql,
     })
     .from(sessionTable)
     .innerJoin(user, eq(user.id, sessionTable.userId))
@@ -139,6 +161,6 @@ export async function requireViewer(nextPath?: string): Promise<Viewer> {
 
 export async function requirePermission(permission: Permission, nextPath?: string): Promise<Viewer> {
   const viewer = await requireViewer(nextPath);
-  if (!can(viewer.role, permission)) notFound();
+  if (!canAccess(viewer, permission)) notFound();
   return viewer;
 }

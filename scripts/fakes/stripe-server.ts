@@ -194,6 +194,8 @@ async function deliver(ev: StoredEvent, attempt: number): Promise<void> {
 
 // ---- the API ----
 
+const MINIMUM_CHARGE: Record<string, number> = { usd: 50, jpy: 50 };
+
 function createSession(params: Obj): { status: number; body: Json } {
   const items = list(params.line_items);
   if (!items.length)
@@ -216,6 +218,21 @@ function createSession(params: Obj): { status: number; body: Json } {
     amount += unit * qty;
     names.push(str(obj(pd.product_data).name) ?? "Item");
   }
+  // The processor refuses a charge below its minimum (USD 0.50 = 50 minor units, REFERENCES.md "Payments";
+  // JPY ¥50, whole yen, from memory of the same minimum-charge table).
+  const minimum = MINIMUM_CHARGE[currency ?? ""];
+  if (minimum !== undefined && amount < minimum)
+    return {
+      status: 400,
+      body: {
+        error: {
+          type: "invalid_request_error",
+          code: "amount_too_small",
+          message: `The Checkout Session's total amount due must add up to at least ${minimum} ${currency} minor units`,
+          param: "line_items",
+        },
+      },
+    };
   const successUrl = str(params.success_url);
   const cancelUrl = str(params.cancel_url);
   if (!successUrl)

@@ -6,6 +6,7 @@ import { TestClient } from "../support/http";
 import { listMail, waitForMail } from "../support/mail";
 import { paidPaymentWithCharge } from "./office-fixtures";
 import { createCertificate, stopQueue } from "./certificates-fixtures";
+import { createJob } from "./bench-fixtures";
 
 // Staff invitations are their own single-use tokens, made only by the owner's invite action; a
 // password-reset request, which anyone may send for any address, never produces one. Tokens are stored as
@@ -136,5 +137,77 @@ describe("irreversible acts tell the person concerned", () => {
     );
     const mail = await waitForMail(email, `Warranty certificate ${cert.code} was revoked`, { after: started });
     expect(mail.html).toContain("Issued for the wrong chassis");
+  });
+});
+
+describe("a set owner's account converted to staff", () => {
+  it("keeps its own jobs, certificates and claims in the portal, answers them as their owner, and sees no one else's", async () => {
+    // A set owner with a returned job and its certificate, and a job whose estimate is waiting for an answer.
+    const { client: before, email } = await newCustomer("converted");
+    const holderId = await userIdOf(email);
+    const cert = await createCertificate({ customerId: holderId });
+    const waiting = await createJob({ customerEmail: email, state: "in_triage", technicianEmail: DEMO.tech.email });
+    const shop = await signedIn(DEMO.tech);
+    const { version, lines } = (await (await shop.get(`/api/bench/jobs/${waiting.jobId}/estimate`)).json()) as {
+      version: number;
+      lines: unknown[];
+    };
+    const saved = await shop.request(`/api/bench/jobs/${waiting.jobId}/estimate`, { method: "PUT", json: { version, lines } });
+    const sent = await shop.post(`/api/bench/jobs/${waiting.jobId}/estimate/send`, {
+      version: ((await saved.json()) as { version: number }).version,
+    });
+    expect(sent.status).toBe(200);
+    expect((await before.get("/api/portal/jobs")).status).toBe(200);
+    // Someone else's job, which the converted account must not reach through the portal.
+    const other = await createJob({ customerEmail: DEMO.customer.email });
+
+    // What the owner's confirmed conversion writes (inviteStaffMember): the role changes, sessions end and an
+    // invitation is made; the person then sets a password through the real invitation route.
+    await sql(`update "user" set role = 'technician' where id = $1`, [holderId]);
+    await sql(`delete from session where user_id = $1`, [holderId]);
+    const token = randomBytes(32).toString("base64url");
+    await sql(
+      `insert into staff_invitation (id, user_id, token_hash, role, invited_by, expires_at)
+       values ($1, $2, $3, 'technician', 'demo-owner-odile', now() + interval '7 days')`,
+      [randomUUID(), holderId, createHash("sha256").update(token).digest("hex")],
+    );
+    expect((await new TestClient().post("/api/staff-invitations/accept", { token, password: "grid-leak-resistor-52" })).status).toBe(200);
+    const converted = new TestClient();
+    await converted.signIn(email, "grid-leak-resistor-52");
+
+    // Its own jobs are listed (old behaviour: 404, the portal was gone with the customer role).
+    const list = await converted.get("/api/portal/jobs");
+    expect(list.status).toBe(200);
+    const ids = ((await list.json()) as { jobs: { id: string }[] }).jobs.map((j) => j.id);
+    expect(ids).toEqual(expect.arrayContaining([cert.jobId, waiting.jobId]));
+    expect(ids).not.toContain(other.jobId);
+    expect((await converted.get(`/api/portal/jobs/${other.jobId}`)).status).toBe(404);
+
+    // The certificate is on its job page and under warranty claims, and its PDF downloads.
+    const claimsPage = await (await converted.get("/portal/claims")).text();
+    expect(claimsPage).toContain(cert.code);
+    expect((await converted.get(`/api/certificates/${cert.certificateId}/pdf`)).status).toBe(200);
+
+    // It answers its own estimate as the set's owner.
+    const view = (await (await converted.get(`/api/portal/jobs/${waiting.jobId}`)).json()) as { estimate: { id: string } };
+    const approved = await converted.post(`/api/portal/jobs/${waiting.jobId}/estimate/approve`, { revisionId: view.estimate.id });
+    expect(approved.status).toBe(200);
+    const [row] = await sql<{ state: string; decided_by: string }>(
+      "select j.state, r.decided_by from job j join estimate_revision r on r.job_id = j.id where j.id = $1 and r.status = 'approved'",
+      [waiting.jobId],
+    );
+    expect(row).toEqual({ state: "approved", decided_by: holderId });
+
+    // Staff views are unchanged, and the header offers both areas.
+    expect((await converted.get("/api/bench/staff")).status).toBe(200);
+    const portalPage = await (await converted.get("/portal")).text();
+    expect(portalPage).toMatch(/href="\/portal"[^>]*>My sets</);
+    expect(portalPage).toMatch(/href="\/bench"[^>]*>Bench</);
+    // New requests stay with set owners' accounts.
+    expect((await converted.get("/portal/request")).status).toBe(404);
+
+    // A staff account holding nothing of its own has no portal, as before.
+    expect((await shop.get("/api/portal/jobs")).status).toBe(404);
+    expect(await (await shop.get("/bench")).text()).not.toMatch(/href="\/portal"[^>]*>My sets</);
   });
 });

@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
+import { canAccess } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 
 export default async function PortalLayout({ children }: { children: ReactNode }) {
@@ -10,7 +11,8 @@ export default async function PortalLayout({ children }: { children: ReactNode }
       title="My sets"
       nav={[
         { href: "/portal", label: "My jobs" },
-        { href: "/portal/request", label: "Request a quote" },
+        // A staff account that keeps its own sets answers them here; new requests come from owners' accounts.
+        ...(canAccess(viewer, "quote.request") ? [{ href: "/portal/request", label: "Request a quote" }] : []),
         { href: "/portal/claims", label: "Warranty claims" },
       ]}
     >

@@ -3,6 +3,7 @@ import Link from "next/link";
 import { StateBadge } from "@/components/state-badge";
 import { listJobsForCustomer } from "@/db/queries/jobs";
 import { jobNumber } from "@/lib/engine/jobs/states";
+import { canAccess } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "My jobs" };
@@ -17,9 +18,11 @@ export default async function PortalPage() {
           <h1 className="text-3xl font-bold">My jobs</h1>
           <p className="text-bakelite-soft">Every set you have sent us, where it is, and what we need from you.</p>
         </div>
-        <Link href="/portal/request" className="btn-primary">
-          Request a quote
-        </Link>
+        {canAccess(viewer, "quote.request") ? (
+          <Link href="/portal/request" className="btn-primary">
+            Request a quote
+          </Link>
+        ) : null}
       </div>
       {jobs.length === 0 ? (
         <div className="card p-6">

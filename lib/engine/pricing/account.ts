@@ -3,7 +3,9 @@ import { checkAmount } from "./money";
 // One account of what is owed on a job, read by every page, e-mail, checkout, report and export.
 // Money the processor has taken counts once it is paid; money going back counts as soon as a refund is
 // asked for (pending) so that nothing is offered back twice, and is only "refunded" once the processor
-// confirms it.
+// confirms it. A remainder below the processor's smallest charge cannot be collected online: the shop waives
+// it explicitly (recorded on the job with who and when), and the waiver counts like a payment that never
+// has to be given back.
 
 export type AccountPayment = {
   amountMinor: number;
@@ -31,11 +33,16 @@ export type Account = {
   refundPendingMinor: number;
   /** What the shop holds: paid − refunded − pending refunds. */
   heldMinor: number;
+  /** A remainder the shop waived because it was below the processor's smallest charge. */
+  waivedMinor: number;
   /** What the owner still has to pay (never negative). */
   owedMinor: number;
   /** What the shop has to give back (never negative): held beyond the total. */
   owedBackMinor: number;
 };
+
+/** How a waived remainder is named to the owner and the office. */
+export const WAIVED_WORDING = "waived, below the smallest card payment";
 
 const PENDING = new Set(["requested", "pending"]);
 const HELD = new Set(["paid", "duplicate"]);
@@ -44,12 +51,15 @@ export function accountOf({
   totalMinor,
   payments,
   refunds,
+  waivedMinor = 0,
 }: {
   totalMinor: number;
   payments: readonly AccountPayment[];
   refunds: readonly AccountRefund[];
+  waivedMinor?: number;
 }): Account {
   const total = checkAmount(totalMinor, "totalMinor");
+  const waived = Math.min(checkAmount(waivedMinor, "waivedMinor"), total);
   let paid = 0;
   for (const p of payments) if (HELD.has(p.status)) paid += checkAmount(p.amountMinor, "payments.amountMinor");
   let refunded = 0;
@@ -59,13 +69,25 @@ export function accountOf({
     else if (PENDING.has(r.status)) pending += checkAmount(r.amountMinor, "refunds.amountMinor");
   }
   const held = paid - refunded - pending;
+  // What the owner has to cover: the total less what the shop let go.
+  const due = total - waived;
   return {
     totalMinor: total,
     paidMinor: paid,
     refundedMinor: refunded,
     refundPendingMinor: pending,
     heldMinor: held,
-    owedMinor: Math.max(0, total - held),
-    owedBackMinor: Math.max(0, held - total),
+    waivedMinor: waived,
+    owedMinor: Math.max(0, due - held),
+    owedBackMinor: Math.max(0, held - due),
   };
+}
+
+/**
+ * What is still owed when it is a positive amount below the processor's smallest charge: the owner cannot pay
+ * it online, so the shop settles it by waiving it (zero otherwise, including when nothing is owed).
+ */
+export function remainderBelowMinimum(account: Pick<Account, "owedMinor">, processorMinimumMinor: number): number {
+  const minimum = checkAmount(processorMinimumMinor, "processorMinimumMinor");
+  return account.owedMinor > 0 && account.owedMinor < minimum ? account.owedMinor : 0;
 }

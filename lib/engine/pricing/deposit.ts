@@ -1,4 +1,4 @@
-import type { ShopPolicy } from "../shop-policy";
+import { defaultShopPolicy, type ShopPolicy } from "../shop-policy";
 import { applyBasisPoints, checkAmount } from "./money";
 
 /**
@@ -23,4 +23,32 @@ export function computeDeposit(amounts: { totalMinor: number; partsMinor: number
 export function computeBalance(amounts: { totalMinor: number; paidMinor: number; additionsMinor?: number }): number {
   const owed = checkAmount(amounts.totalMinor, "totalMinor") + checkAmount(amounts.additionsMinor ?? 0, "additionsMinor");
   return Math.max(0, owed - checkAmount(amounts.paidMinor, "paidMinor"));
+}
+
+/**
+ * The deposit to ask for now on an approved revision: its deposit less the deposits already paid, never more
+ * than is owed. A difference that is a positive amount below the processor's minimum could not be charged: it
+ * is not asked for now and is settled with the balance instead (zero is returned).
+ */
+export function depositToCollect(
+  amounts: { depositMinor: number; paidDepositsMinor: number; owedMinor: number },
+  processorMinimumMinor: number,
+): number {
+  const deposit = checkAmount(amounts.depositMinor, "depositMinor");
+  const paid = checkAmount(amounts.paidDepositsMinor, "paidDepositsMinor");
+  const owed = checkAmount(amounts.owedMinor, "owedMinor");
+  const due = Math.min(deposit - paid, owed);
+  if (due <= 0 || due < checkAmount(processorMinimumMinor, "processorMinimumMinor")) return 0;
+  return due;
+}
+
+/**
+ * The processor minimum a revision was priced with (stored with its pricing, in its currency); the default
+ * policy's figure for a revision that did not record one.
+ */
+export function recordedProcessorMinimum(pricing: Record<string, unknown> | null | undefined): number {
+  const recorded = (pricing?.deposit as { processorMinimumMinor?: unknown } | undefined)?.processorMinimumMinor;
+  return typeof recorded === "number" && Number.isSafeInteger(recorded) && recorded >= 0
+    ? recorded
+    : defaultShopPolicy.deposit.processorMinimumMinor;
 }

@@ -4,6 +4,7 @@ import { estimateLines, estimateRevisions, jobs } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { AppError } from "@/lib/server/errors";
+import { depositToCollect } from "@/lib/engine/pricing/deposit";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { syncTasks } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
@@ -80,17 +81,28 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     actorId: input.customerId,
     note: `Revision ${revision.revision} approved`,
   });
-  const depositDue = revision.depositMinor - (await loadJobAccount(ctx.tx, job.id)).paidDepositsMinor;
-  if (depositDue <= 0) {
+  const { account, paidDepositsMinor, processorMinimumMinor } = await loadJobAccount(ctx.tx, job.id);
+  const difference = revision.depositMinor - paidDepositsMinor;
+  // A difference below the processor's smallest charge cannot be asked for online: it joins the balance.
+  const depositDue = depositToCollect(
+    { depositMinor: revision.depositMinor, paidDepositsMinor, owedMinor: account.owedMinor },
+    processorMinimumMinor,
+  );
+  if (depositDue === 0) {
     await transitionJob(ctx, {
       jobId: job.id,
       to: "deposit_paid",
       actor: "system",
       actorId: null,
-      note: revision.depositMinor === 0 ? "No deposit to pay" : "Deposit already covered by an earlier payment",
+      note:
+        revision.depositMinor === 0
+          ? "No deposit to pay"
+          : difference <= 0
+            ? "Deposit already covered by an earlier payment"
+            : "The rest of the deposit is below the smallest card payment and is settled with the balance",
     });
   }
-  return { revisionId: revision.id, depositDueMinor: Math.max(0, depositDue) };
+  return { revisionId: revision.id, depositDueMinor: depositDue };
 }
 
 export type AfterDecline = "approved-scope" | "return-as-is";

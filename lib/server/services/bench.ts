@@ -433,7 +433,7 @@ export async function completeJob(ctx: TxContext, { jobId, actorId }: { jobId: s
     patch: { completedAt: new Date() },
   });
   // Warranty work and jobs already paid for have nothing to collect: they move on by themselves.
-  const { account, movedOn } = await settleIfNothingOwed(ctx, jobId);
+  const { account, movedOn, waivedMinor } = await settleIfNothingOwed(ctx, jobId, { actorId });
   const currency = approved.revision.currency;
   await queueEmail(ctx, {
     to: customer.email,
@@ -446,12 +446,14 @@ export async function completeJob(ctx: TxContext, { jobId, actorId }: { jobId: s
       balanceText: moneyText(account.owedMinor, currency, exponent),
       ...(movedOn ? { settled: true } : {}),
       ...(account.owedBackMinor > 0 ? { owedBackText: moneyText(account.owedBackMinor, currency, exponent) } : {}),
+      ...(waivedMinor > 0 ? { waivedText: moneyText(waivedMinor, currency, exponent) } : {}),
     },
     dedupeKey: `balance-due:${jobId}:r${approved.revision.revision}`,
   });
   return {
     balanceMinor: account.owedMinor,
     owedBackMinor: account.owedBackMinor,
+    waivedMinor,
     movedOn,
     currency: approved.revision.currency,
     exponent,

@@ -163,16 +163,22 @@ async function planCheckout(ctx: TxContext, input: { jobId: string; customerId: 
         : "There is no balance to pay on this job right now.",
     );
   }
-  const { account, revision, paidDepositsMinor } = await loadJobAccount(tx, job.id);
+  const { account, revision, paidDepositsMinor, processorMinimumMinor, exponent } = await loadJobAccount(tx, job.id);
   if (!revision) throw new AppError("conflict", "This job has no approved estimate yet.");
 
   // Deposit: the approved revision's deposit less deposits already paid (a revision sent before the set
   // came in asks only for the difference), never more than what is owed. Balance: what the account says is
-  // owed (payments less refunds, against the approved total).
+  // owed (payments less refunds, less anything waived, against the approved total).
   const amountMinor =
     input.purpose === "deposit" ? Math.min(revision.depositMinor - paidDepositsMinor, account.owedMinor) : account.owedMinor;
   if (amountMinor <= 0) throw new AppError("conflict", "Nothing is left to pay on this job.");
   const currency = revision.currency;
+  // The processor would refuse it: never ask. The shop settles such a remainder (see settleIfNothingOwed).
+  if (amountMinor < processorMinimumMinor)
+    throw new AppError(
+      "conflict",
+      `${moneyText(amountMinor, currency, exponent)} is below the smallest card payment (${moneyText(processorMinimumMinor, currency, exponent)}) and cannot be paid online; the shop settles it for you.`,
+    );
 
   for (const live of await listLiveCheckouts(tx, { revisionId: revision.id, purpose: input.purpose })) {
     if (live.status === "paid" || live.status === "processing") return { kind: "confirming", paymentId: live.id };

@@ -1,7 +1,8 @@
 import "server-only";
 import { ownerForecast } from "./turnaround";
 import { listPaymentsForCustomer, listRefundsForCustomer } from "@/db/queries/payments";
-import { accountOf } from "@/lib/engine/pricing/account";
+import { accountOf, remainderBelowMinimum } from "@/lib/engine/pricing/account";
+import { depositToCollect, recordedProcessorMinimum } from "@/lib/engine/pricing/deposit";
 import {
   getPortalJobForCustomer,
   listMessagesForCustomer,
@@ -108,11 +109,20 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
     totalMinor: job.settledTotalMinor ?? approved?.totalMinor ?? 0,
     payments: paymentRows,
     refunds: refundRows,
+    waivedMinor: job.waivedMinor,
   });
   let due: { purpose: "deposit" | "balance"; amount: Money } | null = null;
-  const depositDue = approved ? Math.min(approved.depositMinor - paidDeposits, account.owedMinor) : 0;
+  const depositDue = approved
+    ? depositToCollect(
+        { depositMinor: approved.depositMinor, paidDepositsMinor: paidDeposits, owedMinor: account.owedMinor },
+        recordedProcessorMinimum(approved.pricing),
+      )
+    : 0;
   if (approved && job.state === "approved" && depositDue > 0) due = { purpose: "deposit", amount: m(depositDue) };
-  if (approved && job.state === "balance_due" && account.owedMinor > 0) due = { purpose: "balance", amount: m(account.owedMinor) };
+  // A remainder below the processor's smallest charge is never offered for payment: the shop waives it.
+  const belowMinimum = approved ? remainderBelowMinimum(account, recordedProcessorMinimum(approved.pricing)) > 0 : false;
+  if (approved && job.state === "balance_due" && account.owedMinor > 0 && !belowMinimum)
+    due = { purpose: "balance", amount: m(account.owedMinor) };
   const inFlight = paymentRows.find((p) => p.status === "processing");
 
   const estimate = current
@@ -220,6 +230,10 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
       refundPending: m(account.refundPendingMinor),
       owed: m(account.owedMinor),
       owedBack: m(account.owedBackMinor),
+      // Still to pay, but below the smallest card payment: not asked for online, waived when the work is done.
+      belowMinimum,
+      // A remainder below the smallest card payment, waived by the shop when the balance fell due.
+      waived: account.waivedMinor > 0 ? { ...m(account.waivedMinor), at: job.waivedAt?.toISOString() ?? null } : null,
     },
     confirming: Boolean(inFlight),
     forecast,

@@ -62,7 +62,8 @@ export async function inviteStaffMember({ input, actorId }: { input: InviteInput
     }
     const userId = existing?.id ?? randomUUID();
     if (existing) {
-      // Its jobs, certificates and claims keep their rows and their owner; staff reach them on the bench.
+      // Its jobs, certificates and claims keep their rows and their owner: staff reach them on the bench, and
+      // the account itself still answers them in the portal (`holdsSets` in lib/server/session.ts).
       await ctx.tx.update(user).set({ role: input.role, updatedAt: new Date() }).where(eq(user.id, userId));
       await ctx.tx.delete(session).where(eq(session.userId, userId));
     } else {

@@ -2,7 +2,7 @@ import "server-only";
 import { createUploadthing, type FileRouter } from "uploadthing/next";
 import { UploadThingError, UTApi } from "uploadthing/server";
 import { countPhotosByUploaderSince } from "@/db/queries/photos";
-import { can } from "@/lib/engine/permissions";
+import { canAccess } from "@/lib/engine/permissions";
 import { viewerFromHeaders } from "@/lib/server/session";
 import { acceptPhoto, PhotoRefused } from "@/lib/server/uploads/photos";
 import { MAX_PHOTO_BYTES, MAX_PHOTOS } from "@/lib/validation/quote";
@@ -39,7 +39,7 @@ export const uploadRouter = {
   quotePhotos: f({ image: { maxFileSize: "32MB", maxFileCount: MAX_PHOTOS } }, { awaitServerData: true })
     .middleware(async ({ req }) => {
       const viewer = await viewerFromHeaders(req.headers);
-      if (!viewer || !(can(viewer.role, "quote.request") || can(viewer.role, "claim.open"))) {
+      if (!viewer || !(canAccess(viewer, "quote.request") || canAccess(viewer, "claim.open"))) {
         throw new UploadThingError({ code: "FORBIDDEN", message: "Please sign in to add photos." });
       }
       const recent = await countPhotosByUploaderSince({ uploaderId: viewer.id, since: new Date(Date.now() - 24 * 3600 * 1000) });

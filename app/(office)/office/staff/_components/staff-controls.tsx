@@ -164,8 +164,8 @@ export function InviteForm() {
         <div role="alertdialog" aria-labelledby="convert-account" className="space-y-2 rounded-card border border-fail p-3 sm:col-span-2">
           <p id="convert-account" className="text-sm">
             Convert the set owner&apos;s account {conversion.values.email} into a staff account? It holds {conversion.holdings}. They keep
-            their records, which staff reach from the bench and the office, but lose their customer portal and gain staff access to every
-            customer&apos;s jobs.
+            their records and still see and answer their own jobs, certificates and claims under &ldquo;My sets&rdquo;, and they gain staff
+            access to every customer&apos;s jobs.
           </p>
           <div className="flex flex-wrap gap-2">
             <button

@@ -5,6 +5,7 @@ import type { ReactNode } from "react";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
+import { WAIVED_WORDING } from "@/lib/engine/pricing/account";
 import type { PortalJobView } from "@/lib/server/services/portal-view";
 import { QueueForecast } from "./queue-forecast";
 import { api } from "../../../_lib/api";
@@ -151,6 +152,13 @@ export function JobView({
           </p>
         </Notice>
       ) : null}
+      {v.account.waived ? (
+        <Notice tone="info" title="A small remainder was waived">
+          <p data-testid="account-waived">
+            {v.account.waived.text} {WAIVED_WORDING}: the shop does not ask for it, and nothing is left to pay.
+          </p>
+        </Notice>
+      ) : null}
       {v.account.total.minor > 0 || v.account.paid.minor > 0 ? (
         <dl
           className="card figure grid grid-cols-2 gap-x-6 gap-y-1 p-5 sm:grid-cols-4"
@@ -179,6 +187,12 @@ export function JobView({
         </dl>
       ) : null}
 
+      {v.account.belowMinimum ? (
+        <p className="text-sm" data-testid="below-minimum">
+          {v.account.owed.text} is below the smallest card payment: it is not asked for online, and the shop waives it when the work is
+          done.
+        </p>
+      ) : null}
       {v.estimate ? <EstimatePanel jobId={jobId} estimate={v.estimate} /> : null}
 
       {v.payments.length ? (
