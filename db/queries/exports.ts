@@ -5,7 +5,7 @@ import { db } from "@/db";
 // with the currency's exponent beside them; the service writes the decimal amounts.
 
 export type PaymentExportRow = {
-  kind: "payment" | "refund";
+  kind: "payment" | "refund" | "waiver";
   at: Date;
   job_number: number;
   customer_name: string;
@@ -19,7 +19,10 @@ export type PaymentExportRow = {
   reason: string | null;
 };
 
-/** Payments received (by the day they were paid) and refunds confirmed (by the day they settled). */
+/**
+ * Payments received (by the day they were paid), refunds confirmed (by the day they settled), and remainders the
+ * shop waived because they were below the smallest card payment (by the day they were waived).
+ */
 export async function paymentExportRows(start: Date, end: Date): Promise<PaymentExportRow[]> {
   const r = await db.execute<PaymentExportRow>(sql`
     select * from (
@@ -36,6 +39,12 @@ export async function paymentExportRows(start: Date, end: Date): Promise<Payment
       from refund f join payment p on p.id = f.payment_id join job j on j.id = p.job_id join "user" u on u.id = j.customer_id
       join estimate_revision r on r.id = p.revision_id
       where f.status = 'succeeded' and f.settled_at >= ${start.toISOString()} and f.settled_at < ${end.toISOString()}
+      union all
+      select 'waiver', j.waived_at, j.number, u.name, u.email, 'balance', 'waived', j.waived_minor, a.currency,
+             coalesce((a.pricing->>'exponent')::int, 2), null, 'below the smallest card payment'
+      from job j join "user" u on u.id = j.customer_id
+      join lateral (select r.currency, r.pricing from estimate_revision r where r.job_id = j.id and r.status = 'approved' order by r.revision desc limit 1) a on true
+      where j.waived_minor > 0 and j.waived_at >= ${start.toISOString()} and j.waived_at < ${end.toISOString()}
     ) x order by at, kind, job_number
   `);
   return r.rows;
