@@ -71,6 +71,7 @@ function useStateChange(jobId: string) {
     void qc.invalidateQueries({ queryKey: benchKeys.queues() });
     void qc.invalidateQueries({ queryKey: benchKeys.estimate(jobId) });
     void qc.invalidateQueries({ queryKey: benchKeys.sheet(jobId) });
+    void qc.invalidateQueries({ queryKey: benchKeys.messages(jobId) });
   };
 }
 
@@ -467,7 +468,14 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
             <dd data-testid="owner-contact">
               {detail.job.contactPreference === "phone" ? (
                 <>
-                  By phone{detail.customer.phone ? <>: <a href={`tel:${detail.customer.phone}`}>{detail.customer.phone}</a></> : " (no number given)"}
+                  By phone
+                  {detail.customer.phone ? (
+                    <>
+                      : <a href={`tel:${detail.customer.phone}`}>{detail.customer.phone}</a>
+                    </>
+                  ) : (
+                    " (no number given)"
+                  )}
                   <span className="block text-bakelite-muted">E-mail: {detail.customer.email}</span>
                 </>
               ) : (

@@ -56,21 +56,15 @@ const yearSchema = z.preprocess(
 const DIAL_NUMBER_MESSAGE = "Write the number as printed on the dial, for example 55 or 5.9, or leave it empty.";
 const dialNumber = z.preprocess(
   (v) => (v === "" || v === null || v === undefined ? undefined : typeof v === "string" ? v.trim().replace(",", ".") : v),
-  z.coerce
-    .number({ error: DIAL_NUMBER_MESSAGE })
-    .positive(DIAL_NUMBER_MESSAGE)
-    .max(100_000, DIAL_NUMBER_MESSAGE)
-    .optional(),
+  z.coerce.number({ error: DIAL_NUMBER_MESSAGE }).positive(DIAL_NUMBER_MESSAGE).max(100_000, DIAL_NUMBER_MESSAGE).optional(),
 );
 
 /** The lowest and highest number printed at the ends of one band's dial scale, as the owner reads them. */
-export const dialEndsSchema = z
-  .object({ low: dialNumber, high: dialNumber })
-  .superRefine((v, ctx) => {
-    if (v.low !== undefined && v.high !== undefined && v.high <= v.low) {
-      ctx.addIssue({ code: "custom", path: ["high"], message: "The highest number must be above the lowest one." });
-    }
-  });
+export const dialEndsSchema = z.object({ low: dialNumber, high: dialNumber }).superRefine((v, ctx) => {
+  if (v.low !== undefined && v.high !== undefined && v.high <= v.low) {
+    ctx.addIssue({ code: "custom", path: ["high"], message: "The highest number must be above the lowest one." });
+  }
+});
 
 export type DialEnds = z.infer<typeof dialEndsSchema>;
 
@@ -89,7 +83,12 @@ export const quoteRequestSchema = z
     dialMarkings: optionalText(300, "Keep the dial markings under 300 characters."),
     // Per band ticked above; ends of bands not ticked are dropped when the request is stored.
     dialEnds: z
-      .object({ LW: dialEndsSchema.optional(), MW: dialEndsSchema.optional(), SW: dialEndsSchema.optional(), FM: dialEndsSchema.optional() })
+      .object({
+        LW: dialEndsSchema.optional(),
+        MW: dialEndsSchema.optional(),
+        SW: dialEndsSchema.optional(),
+        FM: dialEndsSchema.optional(),
+      })
       .optional()
       .default({}),
     symptoms: z.string().trim().min(10, "Tell us in a sentence or two what is wrong.").max(4000, "Keep it under 4000 characters."),

@@ -210,10 +210,7 @@ export async function markThreadRead(
   ctx: TxContext,
   input: { jobId: string; reader: Author; lastMessageId: string },
 ): Promise<{ readUpTo: string }> {
-  const scope =
-    input.reader.side === "customer"
-      ? and(eq(jobs.customerId, input.reader.id), eq(messages.internal, false))
-      : undefined;
+  const scope = input.reader.side === "customer" ? and(eq(jobs.customerId, input.reader.id), eq(messages.internal, false)) : undefined;
   const [msg] = await ctx.tx
     .select({ createdAt: messages.createdAt })
     .from(messages)

@@ -224,7 +224,10 @@ export type PortalJobView = Awaited<ReturnType<typeof getPortalJobView>>;
 export async function getPortalMessages({ jobId, customerId }: { jobId: string; customerId: string }) {
   const job = await getPortalJobForCustomer({ jobId, customerId });
   if (!job) throw new AppError("not_found", "That job was not found.");
-  const [rows, readUpTo] = await Promise.all([listMessagesForCustomer({ jobId, customerId }), readUpToOf(db, { jobId, userId: customerId })]);
+  const [rows, readUpTo] = await Promise.all([
+    listMessagesForCustomer({ jobId, customerId }),
+    readUpToOf(db, { jobId, userId: customerId }),
+  ]);
   // Ids from the owner-scoped query above: workshop notes, and so their photos, are never among them.
   const pics = await listPhotosForMessages({ messageIds: rows.map((r) => r.id) });
   return rows.map((r) => ({

@@ -22,8 +22,7 @@ export function MessageThread({ jobId }: { jobId: string }) {
   });
   // Seeing the thread marks it read up to its newest message; the "New" marks stay for this visit.
   const markRead = useMutation({
-    mutationFn: (lastMessageId: string) =>
-      api(`/api/portal/jobs/${jobId}/messages/read`, { method: "POST", body: { lastMessageId } }),
+    mutationFn: (lastMessageId: string) => api(`/api/portal/jobs/${jobId}/messages/read`, { method: "POST", body: { lastMessageId } }),
   });
   const newest = messages.data?.messages.at(-1);
   const unread = messages.data?.unread ?? 0;

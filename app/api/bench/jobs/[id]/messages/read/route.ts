@@ -9,6 +9,8 @@ export const POST = route<{ id: string }, typeof messageReadSchema>(
   { permission: "bench.use", body: messageReadSchema },
   async ({ viewer, params, body }) => {
     const jobId = await jobIdFrom(params);
-    return transaction((ctx) => markThreadRead(ctx, { jobId, reader: { id: viewer.id, side: "staff" }, lastMessageId: body.lastMessageId }));
+    return transaction((ctx) =>
+      markThreadRead(ctx, { jobId, reader: { id: viewer.id, side: "staff" }, lastMessageId: body.lastMessageId }),
+    );
   },
 );
