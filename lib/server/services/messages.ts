@@ -210,15 +210,24 @@ export async function markThreadRead(
   ctx: TxContext,
   input: { jobId: string; reader: Author; lastMessageId: string },
 ): Promise<{ readUpTo: string }> {
-  const scope = input.reader.side === "customer" ? and(eq(jobs.customerId, input.reader.id), eq(messages.internal, false)) : undefined;
+  const owner = input.reader.side === "customer" ? eq(jobs.customerId, input.reader.id) : undefined;
+  const [job] = await ctx.tx
+    .select({ id: jobs.id })
+    .from(jobs)
+    .where(and(eq(jobs.id, input.jobId), owner))
+    .limit(1);
+  if (!job) throw new AppError("not_found", "That job was not found.");
+  const visible = input.reader.side === "customer" ? eq(messages.internal, false) : undefined;
   const [msg] = await ctx.tx
     .select({ createdAt: messages.createdAt })
     .from(messages)
-    .innerJoin(jobs, eq(jobs.id, messages.jobId))
-    .where(and(eq(messages.id, input.lastMessageId), eq(messages.jobId, input.jobId), scope))
+    .where(and(eq(messages.id, input.lastMessageId), eq(messages.jobId, job.id), visible))
     .limit(1);
-  if (!msg) throw new AppError("not_found", "That message was not found.");
-  await markReadUpTo(ctx, { jobId: input.jobId, userId: input.reader.id, upTo: msg.createdAt });
+  if (!msg) {
+    const message = "That message is not on this job's thread. Reload the page.";
+    throw new AppError("invalid_input", message, { lastMessageId: message });
+  }
+  await markReadUpTo(ctx, { jobId: job.id, userId: input.reader.id, upTo: msg.createdAt });
   return { readUpTo: msg.createdAt.toISOString() };
 }
 
