@@ -35,7 +35,7 @@ const stateOf = async (jobId: string) => (await sql<{ state: string }>("select s
 const movesOf = async (jobId: string) =>
   (await sql<{ n: number }>("select count(*)::int as n from job_state_history where job_id = $1", [jobId]))[0]!.n;
 const queueUnread = async (client: TestClient, email: string, jobId: string) => {
-  const page = (await (await client.get(`/api/bench/queue?q=${encodeURIComponent(email)}&includeClosed=true`)).json()) as {
+  const page = (await (await client.get(`/api/bench/queue?q=${encodeURIComponent(email)}&includeClosed=1`)).json()) as {
     rows: { id: string; unread: number }[];
   };
   return page.rows.find((r) => r.id === jobId)?.unread;
