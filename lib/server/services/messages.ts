@@ -160,7 +160,7 @@ export async function postMessage(
     after: { jobId: job.id, photos: tickets.length },
   });
   // Whoever writes has read the thread up to their own message.
-  await markReadUpTo(ctx, { jobId: job.id, userId: input.author.id, upTo: row!.createdAt });
+  await markReadUpTo(ctx, { jobId: job.id, userId: input.author.id, messageId: row!.id });
   if (input.author.side === "customer" && job.state === "awaiting_owner") {
     await transitionJob(ctx, { jobId: job.id, to: "in_triage", actor: "customer", actorId: input.author.id, note: "The owner answered" });
   }
@@ -192,7 +192,10 @@ export async function postMessage(
   return { id: row!.id, createdAt: row!.createdAt, duplicate: false };
 }
 
-async function markReadUpTo(ctx: TxContext, { jobId, userId, upTo }: { jobId: string; userId: string; upTo: Date }) {
+// The read-at is copied from the message's own timestamp inside the database: PostgreSQL keeps microseconds,
+// a JavaScript Date only milliseconds, and a rounded copy would leave the message itself unread.
+async function markReadUpTo(ctx: TxContext, { jobId, userId, messageId }: { jobId: string; userId: string; messageId: string }) {
+  const upTo = sql`(select ${messages.createdAt} from ${messages} where ${messages.id} = ${messageId})`;
   await ctx.tx
     .insert(messageReads)
     .values({ jobId, userId, readUpTo: upTo })
@@ -227,18 +230,22 @@ export async function markThreadRead(
     const message = "That message is not on this job's thread. Reload the page.";
     throw new AppError("invalid_input", message, { lastMessageId: message });
   }
-  await markReadUpTo(ctx, { jobId: job.id, userId: input.reader.id, upTo: msg.createdAt });
+  await markReadUpTo(ctx, { jobId: job.id, userId: input.reader.id, messageId: input.lastMessageId });
   return { readUpTo: msg.createdAt.toISOString() };
 }
 
-/** When this person last read the job's thread (null: never). */
-export async function readUpToOf(tx: Database, { jobId, userId }: { jobId: string; userId: string }): Promise<Date | null> {
-  const [row] = await tx
-    .select({ readUpTo: messageReads.readUpTo })
-    .from(messageReads)
-    .where(and(eq(messageReads.jobId, jobId), eq(messageReads.userId, userId)))
-    .limit(1);
-  return row?.readUpTo ?? null;
+/** The job's messages written after this person last read its thread (compared in the database, to the microsecond). */
+export async function messagesAfterReadAt(tx: Database, { jobId, userId }: { jobId: string; userId: string }): Promise<Set<string>> {
+  const rows = await tx
+    .select({ id: messages.id })
+    .from(messages)
+    .where(
+      and(
+        eq(messages.jobId, jobId),
+        sql`${messages.createdAt} > coalesce((select ${messageReads.readUpTo} from ${messageReads} where ${messageReads.jobId} = ${jobId} and ${messageReads.userId} = ${userId}), '-infinity')`,
+      ),
+    );
+  return new Set(rows.map((r) => r.id));
 }
 
 const photoLinks = (p: { id: string; displayName: string; width: number; height: number }) => ({
@@ -257,7 +264,7 @@ const photoLinks = (p: { id: string; displayName: string; width: number; height:
 export async function getStaffThread({ jobId, viewerId }: { jobId: string; viewerId: string }) {
   const [job] = await db.select({ customerId: jobs.customerId }).from(jobs).where(eq(jobs.id, jobId)).limit(1);
   if (!job) throw new AppError("not_found", "That job was not found.");
-  const [rows, readUpTo] = await Promise.all([listMessagesForStaff({ jobId }), readUpToOf(db, { jobId, userId: viewerId })]);
+  const [rows, after] = await Promise.all([listMessagesForStaff({ jobId }), messagesAfterReadAt(db, { jobId, userId: viewerId })]);
   const pics = await listPhotosForMessages({ messageIds: rows.map((r) => r.id) });
   const list = rows.map((r) => ({
     id: r.id,
@@ -268,7 +275,7 @@ export async function getStaffThread({ jobId, viewerId }: { jobId: string; viewe
     mine: r.authorId === viewerId,
     authorName: r.authorName,
     createdAt: r.createdAt.toISOString(),
-    unread: r.authorId === job.customerId && (!readUpTo || r.createdAt > readUpTo),
+    unread: r.authorId === job.customerId && after.has(r.id),
     photos: pics.filter((p) => p.messageId === r.id).map(photoLinks),
   }));
   return { messages: list, unread: list.filter((m) => m.unread).length };

@@ -14,7 +14,7 @@ import {
 import type { JobState } from "@/lib/engine/jobs/states";
 import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { AppError } from "@/lib/server/errors";
-import { readUpToOf } from "@/lib/server/services/messages";
+import { messagesAfterReadAt } from "@/lib/server/services/messages";
 import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
 import { coveredWording, exclusionWording, type CoveredWordingKey, type ExclusionCode } from "@/lib/engine/warranty/exclusions";
 import { CATEGORY_LABEL, moneyText, type DraftCategory } from "@/lib/validation/estimate";
@@ -224,9 +224,9 @@ export type PortalJobView = Awaited<ReturnType<typeof getPortalJobView>>;
 export async function getPortalMessages({ jobId, customerId }: { jobId: string; customerId: string }) {
   const job = await getPortalJobForCustomer({ jobId, customerId });
   if (!job) throw new AppError("not_found", "That job was not found.");
-  const [rows, readUpTo] = await Promise.all([
+  const [rows, after] = await Promise.all([
     listMessagesForCustomer({ jobId, customerId }),
-    readUpToOf(db, { jobId, userId: customerId }),
+    messagesAfterReadAt(db, { jobId, userId: customerId }),
   ]);
   // Ids from the owner-scoped query above: workshop notes, and so their photos, are never among them.
   const pics = await listPhotosForMessages({ messageIds: rows.map((r) => r.id) });
@@ -237,7 +237,7 @@ export async function getPortalMessages({ jobId, customerId }: { jobId: string; 
     from: r.authorId === customerId ? "You" : `${r.authorName.split(" ")[0]} at the shop`,
     isQuestion: r.isQuestion,
     createdAt: r.createdAt.toISOString(),
-    unread: r.authorId !== customerId && (!readUpTo || r.createdAt > readUpTo),
+    unread: r.authorId !== customerId && after.has(r.id),
     photos: pics
       .filter((p) => p.messageId === r.id)
       .map((p) => ({ id: p.id, name: p.displayName, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}?size=thumb` })),
