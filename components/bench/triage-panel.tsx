@@ -162,7 +162,7 @@ function ProfileEditor({ detail, saved, setSaved }: { detail: JobDetailJson; sav
         </div>
       </div>
 
-      <fieldset className="space-y-2">
+      <fieldset className="min-w-0 space-y-2">
         <legend className="field-label">Bands, as printed on the dial (kHz, FM too: 88–108 MHz is 88000–108000)</legend>
         {pe?.bands?.message ? <p className="field-error">{pe.bands.message}</p> : null}
         <div className="overflow-x-auto">
@@ -450,7 +450,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
       ) : null}
       {state === "awaiting_owner" ? <Notice tone="info">Waiting for the owner to answer the shop&apos;s question.</Notice> : null}
 
-      <div className="grid gap-3 lg:grid-cols-3">
+      <div className="grid grid-cols-1 gap-3 lg:grid-cols-3">
         <section className="card space-y-2 p-3 text-sm lg:col-span-1" aria-labelledby="request-heading">
           <h3 id="request-heading" className="text-lg font-semibold">
             What the owner wrote
@@ -516,7 +516,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
           )}
           <p className="text-bakelite-muted">Messages and workshop notes are in the thread below the tabs.</p>
         </section>
-        <div className="space-y-3 lg:col-span-2">
+        <div className="min-w-0 space-y-3 lg:col-span-2">
           <ProfileEditor key={detail.set.updatedAt} detail={detail} saved={profileSaved} setSaved={setProfileSaved} />
           {state === "in_triage" ? (
             <div className="grid gap-3 md:grid-cols-2">
