@@ -29,10 +29,21 @@ export function PhotoPicker({
   onChange,
   error,
   describedById,
+  endpoint = "quotePhotos",
+  max = MAX_PHOTOS,
+  inputId = "photos",
+  label = "Photos of the set",
+  compact = false,
 }: {
   onChange: (s: PhotoPickerState) => void;
   error?: string;
   describedById?: string;
+  /** Which upload slug: both run the same byte checks, re-encoding and metadata stripping. */
+  endpoint?: "quotePhotos" | "messagePhotos";
+  max?: number;
+  inputId?: string;
+  label?: string;
+  compact?: boolean;
 }) {
   const [items, setItems] = useState<Item[]>([]);
   const [announce, setAnnounce] = useState("");
@@ -65,7 +76,7 @@ export function PhotoPicker({
       const controller = new AbortController();
       patch(item.id, { status: "uploading", progress: 0, message: undefined, controller });
       try {
-        const [result] = await uploadFiles("quotePhotos", {
+        const [result] = await uploadFiles(endpoint, {
           files: [item.file],
           signal: controller.signal,
           onUploadProgress: ({ progress }) => patch(item.id, { progress }),
@@ -87,17 +98,17 @@ export function PhotoPicker({
         setAnnounce(`${item.file.name} did not upload: ${message}`);
       }
     },
-    [patch],
+    [patch, endpoint],
   );
 
   const add = useCallback(
     (files: FileList | File[]) => {
       setNote(null);
       const list = Array.from(files);
-      const room = MAX_PHOTOS - itemsRef.current.filter((i) => i.status !== "refused").length;
+      const room = max - itemsRef.current.filter((i) => i.status !== "refused").length;
       if (list.length > room)
         setNote(
-          `At most ${MAX_PHOTOS} photos per request: ${list.length - Math.max(0, room)} ${list.length - room === 1 ? "was" : "were"} not added.`,
+          `At most ${max} photos per ${endpoint === "quotePhotos" ? "request" : "message"}: ${list.length - Math.max(0, room)} ${list.length - room === 1 ? "was" : "were"} not added.`,
         );
       const fresh: Item[] = list.slice(0, Math.max(0, room)).map((file) => {
         const item: Item = { id: crypto.randomUUID(), file, preview: URL.createObjectURL(file), progress: 0, status: "uploading" };
@@ -115,7 +126,7 @@ export function PhotoPicker({
       if (uploading.length) setAnnounce(`Uploading ${uploading.map((i) => i.file.name).join(", ")}…`);
       for (const item of uploading) void start(item);
     },
-    [start],
+    [start, max, endpoint],
   );
 
   const remove = (item: Item) => {
@@ -136,7 +147,7 @@ export function PhotoPicker({
   return (
     <div className="space-y-3">
       <div
-        className={`rounded-card border-2 border-dashed p-6 text-center ${dragging ? "border-ember bg-ember-light" : error ? "border-fail bg-white" : "border-bakelite-muted bg-white"}`}
+        className={`rounded-card border-2 border-dashed ${compact ? "p-3" : "p-6"} text-center ${dragging ? "border-ember bg-ember-light" : error ? "border-fail bg-white" : "border-bakelite-muted bg-white"}`}
         onDragOver={(e) => {
           e.preventDefault();
           setDragging(true);
@@ -148,11 +159,11 @@ export function PhotoPicker({
           if (e.dataTransfer.files.length) add(e.dataTransfer.files);
         }}
       >
-        <p className="text-base">Drag photos here, or</p>
+        <p className={compact ? "text-sm" : "text-base"}>Drag photos here, or</p>
         <button
           ref={chooseRef}
           type="button"
-          className="btn-secondary mt-2"
+          className={compact ? "btn-secondary mt-1 px-2 py-1" : "btn-secondary mt-2"}
           onClick={() => inputRef.current?.click()}
           aria-describedby={describedById}
         >
@@ -160,22 +171,29 @@ export function PhotoPicker({
         </button>
         <input
           ref={inputRef}
-          id="photos"
+          id={inputId}
           type="file"
           accept={ACCEPT.join(",")}
           multiple
           className="sr-only"
           tabIndex={-1}
-          aria-label="Photos of the set"
+          aria-label={label}
           onChange={(e) => {
             if (e.target.files?.length) add(e.target.files);
             e.target.value = "";
           }}
         />
-        <p className="field-hint">
-          JPEG, PNG or WebP, up to {MAX_PHOTO_BYTES / 1024 / 1024} MB each, 1 to {MAX_PHOTOS} photos. Front, back, chassis, dial and any
-          labels help most.
-        </p>
+        {endpoint === "quotePhotos" ? (
+          <p className="field-hint">
+            JPEG, PNG or WebP, up to {MAX_PHOTO_BYTES / 1024 / 1024} MB each, 1 to {max} photos. Front, back, chassis, dial and any labels
+            help most.
+          </p>
+        ) : (
+          <p className="field-hint">
+            Optional: JPEG, PNG or WebP, up to {MAX_PHOTO_BYTES / 1024 / 1024} MB each, at most {max}. Location and camera details are
+            removed.
+          </p>
+        )}
       </div>
       {note ? <p className="field-error">{note}</p> : null}
       <p className="sr-only" role="status" aria-live="polite">

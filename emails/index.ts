@@ -10,6 +10,7 @@ import { BalanceReceipt, DepositReceipt, type PaymentReceiptProps } from "./paym
 import QuoteReceived, { type QuoteReceivedProps } from "./quote-received";
 import ResetPassword from "./reset-password";
 import SetReturned, { type SetReturnedProps } from "./set-returned";
+import ShopMessage, { type ShopMessageProps } from "./shop-message";
 import ShopQuestion, { type ShopQuestionProps } from "./shop-question";
 import StaffInvite from "./staff-invite";
 import VerifyEmail from "./verify-email";
@@ -59,6 +60,10 @@ export const TEMPLATES = {
   "shop-question": define<ShopQuestionProps>({
     component: ShopQuestion,
     subject: (p) => `A question about your ${p.setName} (${p.jobNumber})`,
+  }),
+  "shop-message": define<ShopMessageProps>({
+    component: ShopMessage,
+    subject: (p) => `A message about your ${p.setName} (${p.jobNumber})`,
   }),
   "estimate-ready": define<EstimateReadyProps>({
     component: EstimateReady,

@@ -474,6 +474,7 @@ function BenchNote({ jobId }: { jobId: string }) {
       setBody("");
       setIdempotencyKey(crypto.randomUUID());
       void qc.invalidateQueries({ queryKey: benchKeys.job(jobId) });
+      void qc.invalidateQueries({ queryKey: benchKeys.messages(jobId) });
     },
     onError: (e) => {
       // Another text under a key that already stored a note: the next try is a note of its own.

@@ -16,6 +16,7 @@ import { EstimatePanel } from "./estimate-builder";
 import { benchKeys } from "@/lib/client/bench-query-keys";
 import { TriagePanel } from "./triage-panel";
 import { CancelJobPanel } from "./cancel-job-panel";
+import { JobThread } from "./job-thread";
 import type { JobDetailJson } from "./types";
 
 const TABS = [
@@ -121,6 +122,8 @@ export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canC
         ) : null}
         {current === "completion" ? <CompletionPanel detail={d} /> : null}
       </div>
+
+      <JobThread jobId={jobId} />
 
       {canCancel && (SHOP_CANCELLABLE.includes(d.job.state) || d.job.state === "cancelled") ? (
         <CancelJobPanel jobId={jobId} cancelled={d.job.state === "cancelled"} />

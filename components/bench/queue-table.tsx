@@ -37,6 +37,8 @@ type QueueRow = {
   customerEmail: string;
   technicianId: string | null;
   technicianName: string | null;
+  /** The owner's messages this staff member has not read. */
+  unread: number;
 };
 type QueuePage = { rows: QueueRow[]; total: number; page: number; pageSize: number; pageCount: number };
 type StaffMember = { id: string; name: string; role: string };
@@ -153,9 +155,17 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
       id: "number",
       header: "Job",
       cell: (info) => (
-        <Link className="figure font-semibold" href={`/bench/jobs/${info.row.original.id}`}>
-          {jobNumber(info.getValue())}
-        </Link>
+        <span className="inline-flex flex-wrap items-center gap-1">
+          <Link className="figure font-semibold" href={`/bench/jobs/${info.row.original.id}`}>
+            {jobNumber(info.getValue())}
+          </Link>
+          {info.row.original.unread > 0 ? (
+            <span className="rounded-full border border-ember px-1.5 text-xs font-semibold text-ember-dark" data-testid="unread-messages">
+              {info.row.original.unread} new
+              <span className="sr-only"> {info.row.original.unread === 1 ? "message" : "messages"} from the owner</span>
+            </span>
+          ) : null}
+        </span>
       ),
     }),
     helper.accessor((r) => `${r.maker} ${r.model}`, {

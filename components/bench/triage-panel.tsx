@@ -71,6 +71,7 @@ function useStateChange(jobId: string) {
     void qc.invalidateQueries({ queryKey: benchKeys.queues() });
     void qc.invalidateQueries({ queryKey: benchKeys.estimate(jobId) });
     void qc.invalidateQueries({ queryKey: benchKeys.sheet(jobId) });
+    void qc.invalidateQueries({ queryKey: benchKeys.messages(jobId) });
   };
 }
 
@@ -460,7 +461,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
       ) : null}
       {state === "awaiting_owner" ? <Notice tone="info">Waiting for the owner to answer the shop&apos;s question.</Notice> : null}
 
-      <div className="grid gap-3 lg:grid-cols-3">
+      <div className="grid grid-cols-1 gap-3 lg:grid-cols-3">
         <section className="card min-w-0 space-y-2 p-3 text-sm lg:col-span-1" aria-labelledby="request-heading">
           <h3 id="request-heading" className="text-lg font-semibold">
             What the owner wrote
@@ -474,14 +475,49 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
             <dd>{detail.job.poweredRecently}</dd>
             <dt className="font-semibold">Delivery</dt>
             <dd>{detail.job.delivery}</dd>
+            <dt className="font-semibold">How to reach the owner</dt>
+            <dd data-testid="owner-contact">
+              {detail.job.contactPreference === "phone" ? (
+                <>
+                  By phone
+                  {detail.customer.phone ? (
+                    <>
+                      : <a href={`tel:${detail.customer.phone}`}>{detail.customer.phone}</a>
+                    </>
+                  ) : (
+                    " (no number given)"
+                  )}
+                  <span className="block text-bakelite-muted">E-mail: {detail.customer.email}</span>
+                </>
+              ) : (
+                <>
+                  By e-mail: {detail.customer.email}
+                  {detail.customer.phone ? <span className="block text-bakelite-muted">Phone: {detail.customer.phone}</span> : null}
+                </>
+              )}
+            </dd>
+            <dt className="font-semibold">Numbers at the ends of the dial scales</dt>
+            <dd data-testid="owner-dial-ends">
+              {detail.ownerReport.dialEnds.length ? (
+                <ul>
+                  {detail.ownerReport.dialEnds.map((e) => (
+                    <li key={e.band} className="figure">
+                      {e.band}: {e.low ?? "?"} – {e.high ?? "?"}
+                    </li>
+                  ))}
+                </ul>
+              ) : null}
+              {detail.ownerReport.dialMarkings ? <p className="whitespace-pre-wrap">{detail.ownerReport.dialMarkings}</p> : null}
+              {!detail.ownerReport.dialEnds.length && !detail.ownerReport.dialMarkings ? "—" : null}
+            </dd>
           </dl>
           {detail.photos.length ? (
-            <ul className="grid grid-cols-3 gap-1" aria-label="Photos">
+            <ul className="grid grid-cols-3 gap-1" aria-label="Owner's photos">
               {detail.photos.map((p) => (
                 <li key={p.id}>
-                  <a href={p.url ?? "#"} target="_blank" rel="noreferrer">
+                  <a href={p.url} target="_blank" rel="noreferrer">
                     {/* eslint-disable-next-line @next/next/no-img-element -- photos come re-encoded from our own authorised route; the image optimiser would fetch them without the session */}
-                    <img src={p.thumbUrl ?? p.url ?? ""} alt={p.displayName} className="h-20 w-full rounded object-cover" />
+                    <img src={p.thumbUrl} alt={p.displayName} className="h-20 w-full rounded object-cover" />
                   </a>
                 </li>
               ))}
@@ -489,23 +525,7 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
           ) : (
             <p className="text-bakelite-muted">No photos.</p>
           )}
-          <h4 className="pt-2 font-semibold">Messages</h4>
-          {detail.messages.length ? (
-            <ol className="space-y-1">
-              {detail.messages.map((m) => (
-                <li key={m.id} className="rounded border border-dial-rule p-1.5">
-                  <p className="text-xs text-bakelite-muted">
-                    {m.authorName}
-                    {m.internal ? " · workshop only" : ""}
-                    {m.isQuestion ? " · question" : ""} · {new Date(m.createdAt).toLocaleString("en-US")}
-                  </p>
-                  <p className="whitespace-pre-wrap">{m.body}</p>
-                </li>
-              ))}
-            </ol>
-          ) : (
-            <p className="text-bakelite-muted">No messages yet.</p>
-          )}
+          <p className="text-bakelite-muted">Messages and workshop notes are in the thread below the tabs.</p>
         </section>
         {/* min-w-0: a grid item is otherwise as wide as its widest content, and the band table would push the
             card past its column instead of scrolling inside it. */}

@@ -1,7 +1,7 @@
 import { and, asc, desc, eq, ilike, inArray, isNull, notInArray, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db, type Database } from "@/db";
-import { jobs, jobStateHistory, jobTasks, messages, photos, radioSets, readings, user } from "@/db/schema";
+import { jobs, jobStateHistory, jobTasks, messageReads, messages, photos, radioSets, readings, user } from "@/db/schema";
 import type { JobState } from "@/db/schema/enums";
 import { parseJobNumber, type QueueQuery } from "@/lib/engine/jobs/queue-query";
 
@@ -10,6 +10,14 @@ const technician = alias(user, "technician");
 
 function escapeLike(s: string): string {
   return s.replace(/[\\%_]/g, (c) => `\\${c}`);
+}
+
+// The set owner's messages this staff member has not read yet on the outer query's job (colleagues' messages
+// and notes are not counted: the marker says the owner wrote).
+function staffUnread(viewerId: string) {
+  return sql<number>`(select count(*)::int from ${messages} m
+    where m.job_id = ${jobs.id} and m.author_id = ${jobs.customerId}
+      and m.created_at > coalesce((select r.read_up_to from ${messageReads} r where r.job_id = ${jobs.id} and r.user_id = ${viewerId}), '-infinity'))`;
 }
 
 // The bench queue: every job (staff see all of them), filtered, sorted and paged in SQL.
@@ -62,6 +70,7 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
       customerEmail: user.email,
       technicianId: jobs.technicianId,
       technicianName: technician.name,
+      unread: staffUnread(viewerId),
       total: sql<number>`(count(*) over ())::int`,
     })
     .from(jobs)
@@ -100,7 +109,7 @@ export async function getJobDetailForStaff({ jobId }: { jobId: string }, tx: Dat
     .select({
       job: jobs,
       set: radioSets,
-      customer: { id: user.id, name: user.name, email: user.email },
+      customer: { id: user.id, name: user.name, email: user.email, phone: user.phone },
       technicianName: technician.name,
     })
     .from(jobs)
@@ -120,6 +129,7 @@ export async function listMessagesForStaff({ jobId }: { jobId: string }, tx: Dat
       internal: messages.internal,
       isQuestion: messages.isQuestion,
       createdAt: messages.createdAt,
+      authorId: messages.authorId,
       authorName: user.name,
       authorRole: user.role,
     })
@@ -133,14 +143,12 @@ export async function listPhotosForStaff({ jobId }: { jobId: string }, tx: Datab
   return tx
     .select({
       id: photos.id,
-      url: photos.url,
-      thumbUrl: photos.thumbUrl,
       displayName: photos.displayName,
       width: photos.width,
       height: photos.height,
     })
     .from(photos)
-    .where(eq(photos.jobId, jobId))
+    .where(and(eq(photos.jobId, jobId), isNull(photos.messageId)))
     .orderBy(asc(photos.createdAt));
 }
 

@@ -1,6 +1,6 @@
-import { and, desc, eq } from "drizzle-orm";
+import { and, desc, eq, sql } from "drizzle-orm";
 import { db } from "@/db";
-import { jobs, radioSets } from "@/db/schema";
+import { jobs, messageReads, messages, radioSets } from "@/db/schema";
 
 export async function listJobsForCustomer({ customerId }: { customerId: string }) {
   return db
@@ -15,6 +15,10 @@ export async function listJobsForCustomer({ customerId }: { customerId: string }
       maker: radioSets.maker,
       model: radioSets.model,
       year: radioSets.year,
+      // The shop's messages (never workshop notes) written after the owner last read the thread.
+      unread: sql<number>`(select count(*)::int from ${messages} m
+        where m.job_id = ${jobs.id} and not m.internal and m.author_id <> ${customerId}
+          and m.created_at > coalesce((select r.read_up_to from ${messageReads} r where r.job_id = ${jobs.id} and r.user_id = ${customerId}), '-infinity'))`,
     })
     .from(jobs)
     .innerJoin(radioSets, eq(radioSets.id, jobs.setId))

@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull } from "drizzle-orm";
 import { db } from "@/db";
 import { estimateLines, estimateRevisions, jobs, jobStateHistory, messages, photos, radioSets, user } from "@/db/schema";
 import { revisionSummaryColumns } from "./estimates";
@@ -74,7 +74,7 @@ export async function listPhotosForCustomer({ jobId, customerId }: { jobId: stri
     .select({ id: photos.id, displayName: photos.displayName, width: photos.width, height: photos.height, createdAt: photos.createdAt })
     .from(photos)
     .innerJoin(jobs, eq(jobs.id, photos.jobId))
-    .where(and(eq(photos.jobId, jobId), eq(jobs.customerId, customerId)))
+    .where(and(eq(photos.jobId, jobId), eq(jobs.customerId, customerId), isNull(photos.messageId)))
     .orderBy(asc(photos.createdAt));
 }
 

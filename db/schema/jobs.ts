@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { boolean, index, integer, jsonb, pgTable, serial, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import { boolean, index, integer, jsonb, pgTable, primaryKey, serial, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { user } from "./auth";
 import { deliveryMethod, jobState, returnMethod, setKind } from "./enums";
 
@@ -102,6 +102,8 @@ export const photos = pgTable(
       .references(() => user.id),
     jobId: uuid("job_id").references(() => jobs.id, { onDelete: "cascade" }),
     claimId: uuid("claim_id"),
+    // Set when the photo came with a message; such a photo is seen by whoever may read that message.
+    messageId: uuid("message_id").references(() => messages.id, { onDelete: "cascade" }),
     storageKey: text("storage_key").notNull().unique(),
     thumbKey: text("thumb_key"),
     url: text("url"),
@@ -113,7 +115,7 @@ export const photos = pgTable(
     bytes: integer("bytes").notNull(),
     createdAt: timestamp("created_at", { withTimezone: true }).notNull().defaultNow(),
   },
-  (t) => [index("photo_job_idx").on(t.jobId), index("photo_uploader_idx").on(t.uploaderId)],
+  (t) => [index("photo_job_idx").on(t.jobId), index("photo_uploader_idx").on(t.uploaderId), index("photo_message_idx").on(t.messageId)],
 );
 
 export const messages = pgTable(
@@ -143,6 +145,21 @@ export const messages = pgTable(
   ],
 );
 
+// How far each person has read a job's thread: messages after this moment are unread for them.
+export const messageReads = pgTable(
+  "message_read",
+  {
+    jobId: uuid("job_id")
+      .notNull()
+      .references(() => jobs.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    readUpTo: timestamp("read_up_to", { withTimezone: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.jobId, t.userId] })],
+);
+
 // Checklist lines ticked at the bench (who and when).
 export const jobTasks = pgTable(
   "job_task",
@@ -164,3 +181,4 @@ export type Job = typeof jobs.$inferSelect;
 export type JobStateHistoryRow = typeof jobStateHistory.$inferSelect;
 export type Photo = typeof photos.$inferSelect;
 export type Message = typeof messages.$inferSelect;
+export type MessageRead = typeof messageReads.$inferSelect;

@@ -9,5 +9,6 @@ export const benchKeys = {
   job: (jobId: string) => [...benchKeys.all, "job", jobId] as const,
   estimate: (jobId: string) => [...benchKeys.all, "estimate", jobId] as const,
   sheet: (jobId: string) => [...benchKeys.all, "sheet", jobId] as const,
+  messages: (jobId: string) => [...benchKeys.all, "messages", jobId] as const,
   alignment: (input: unknown) => [...benchKeys.all, "alignment", input] as const,
 };

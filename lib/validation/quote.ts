@@ -54,6 +54,21 @@ const yearSchema = z.preprocess(
     .optional(),
 );
 
+const DIAL_NUMBER_MESSAGE = "Dial scale ends: write the number as printed on the dial, for example 55 or 5.9, or leave it empty.";
+const dialNumber = z.preprocess(
+  (v) => (v === "" || v === null || v === undefined ? undefined : typeof v === "string" ? v.trim().replace(",", ".") : v),
+  z.coerce.number({ error: DIAL_NUMBER_MESSAGE }).positive(DIAL_NUMBER_MESSAGE).max(100_000, DIAL_NUMBER_MESSAGE).optional(),
+);
+
+/** The lowest and highest number printed at the ends of one band's dial scale, as the owner reads them. */
+export const dialEndsSchema = z.object({ low: dialNumber, high: dialNumber }).superRefine((v, ctx) => {
+  if (v.low !== undefined && v.high !== undefined && v.high <= v.low) {
+    ctx.addIssue({ code: "custom", path: ["high"], message: "Dial scale ends: the highest number must be above the lowest one." });
+  }
+});
+
+export type DialEnds = z.infer<typeof dialEndsSchema>;
+
 export const quoteRequestSchema = z
   .object({
     maker: z.string().trim().min(1, "Maker: write it as printed on the set.").max(80, "Maker: keep it under 80 characters."),
@@ -70,6 +85,16 @@ export const quoteRequestSchema = z
       .min(1, "Bands: tick at least one band printed on the dial.")
       .max(4, "Bands: four at most."),
     dialMarkings: optionalText(300, "Dial numbers: keep them under 300 characters."),
+    // Per band ticked above; ends of bands not ticked are dropped when the request is stored.
+    dialEnds: z
+      .object({
+        LW: dialEndsSchema.optional(),
+        MW: dialEndsSchema.optional(),
+        SW: dialEndsSchema.optional(),
+        FM: dialEndsSchema.optional(),
+      })
+      .optional()
+      .default({}),
     symptoms: z
       .string()
       .trim()

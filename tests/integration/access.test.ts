@@ -4,7 +4,7 @@ import { PERMISSIONS } from "@/lib/engine/permissions";
 import { DEMO } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
-import { fixturesFromSeed, pathOf } from "./access/fixtures";
+import { fixturesFromSeed, pathOf, storePhoto } from "./access/fixtures";
 import { actionInventory, pageInventory, routeInventory } from "./access/inventory";
 import { ACTIONS, LOCAL_DEMO_PAGES, PAGES, ROUTES, type Fixtures, type Role, type RouteEntry } from "./access/matrix";
 
@@ -159,6 +159,54 @@ describe("field-level access", () => {
       expect(text).not.toMatch(/partCostMinor|markupBp|part_cost_minor|markup_bp/);
       expect(text).not.toContain("cheap supplier");
     }
+  });
+
+  it("never lets the owner of a job read a workshop note, its photo or its existence through any route or page", async () => {
+    // A note (and a photo tied to it, as a stored row) on the owner's open job; the one thing the owner must
+    // never learn is its text, its photo or even that one was written (unread counts).
+    const secret = `Workshop only: owner seemed unsure about paying ${randomUUID().slice(0, 8)}`;
+    const [note] = await sql<{ id: string }>(
+      "insert into message (job_id, author_id, body, internal) values ($1, 'demo-tech-tomas', $2, true) returning id",
+      [fixtures.jobOpenA, secret],
+    );
+    const photoId = await storePhoto({ uploaderId: "demo-tech-tomas", jobId: fixtures.jobOpenA, displayName: "note-photo.jpg" });
+    await sql("update photo set message_id = $1 where id = $2", [note!.id, photoId]);
+    const a = new TestClient();
+    await a.signIn(DEMO.customer.email, DEMO.customer.password);
+    const before = (await (await a.get(`/api/portal/jobs/${fixtures.jobOpenA}/messages`)).json()) as { unread: number };
+    for (const path of [
+      `/api/portal/jobs/${fixtures.jobOpenA}`,
+      `/api/portal/jobs/${fixtures.jobOpenA}/messages`,
+      "/api/portal/jobs",
+      `/portal/jobs/${fixtures.jobOpenA}`,
+      "/portal",
+    ]) {
+      const res = await a.get(path);
+      expect(res.status, path).toBe(200);
+      const text = await res.text();
+      expect(text, path).not.toContain(secret);
+      expect(text, path).not.toContain(note!.id);
+      expect(text, path).not.toContain(photoId);
+    }
+    // The note's photo answers as if it did not exist; staff see it.
+    expect((await a.get(`/api/photos/${photoId}`)).status).toBe(404);
+    expect((await a.get(`/api/photos/${photoId}?size=thumb`)).status).toBe(404);
+    const tech = new TestClient();
+    await tech.signIn(DEMO.tech.email, DEMO.tech.password);
+    expect((await tech.get(`/api/photos/${photoId}`)).status).toBe(200);
+    // Marking the thread read up to the note is refused as if the message were not there.
+    const mark = await a.post(`/api/portal/jobs/${fixtures.jobOpenA}/messages/read`, { lastMessageId: note!.id });
+    expect(mark.status).toBe(400);
+    // Staff see the note on the bench thread, marked workshop only.
+    const thread = (await (await tech.get(`/api/bench/jobs/${fixtures.jobOpenA}/messages`)).json()) as {
+      messages: { id: string; internal: boolean; photos: { id: string }[] }[];
+    };
+    const seen = thread.messages.find((m) => m.id === note!.id);
+    expect(seen?.internal).toBe(true);
+    expect(seen?.photos.map((p) => p.id)).toEqual([photoId]);
+    // And the note does not count as a new message for the owner.
+    const after = (await (await a.get(`/api/portal/jobs/${fixtures.jobOpenA}/messages`)).json()) as { unread: number };
+    expect(after.unread).toBe(before.unread);
   });
 
   it("ignores fields a customer should not set", async () => {

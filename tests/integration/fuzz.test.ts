@@ -278,6 +278,7 @@ const SHAPES: Record<string, Shape> = {
       "kind",
       "bands",
       "dialMarkings",
+      "dialEnds",
       "symptoms",
       "priorWork",
       "poweredRecently",
@@ -304,9 +305,15 @@ const SHAPES: Record<string, Shape> = {
     }),
   },
   "POST /api/portal/jobs/[id]/messages": {
-    fields: ["body", "idempotencyKey", "internal", "authorId", "jobId"],
+    fields: ["body", "idempotencyKey", "photos", "internal", "authorId", "jobId"],
     base: () => ({ body: "Is the set on the bench yet?", idempotencyKey: randomUUID() }),
   },
+  "POST /api/portal/jobs/[id]/messages/read": { fields: ["lastMessageId"], base: () => ({ lastMessageId: randomUUID() }) },
+  "POST /api/bench/jobs/[id]/messages": {
+    fields: ["body", "idempotencyKey", "photos", "internal"],
+    base: () => ({ body: "The new dial cord is fitted.", idempotencyKey: randomUUID() }),
+  },
+  "POST /api/bench/jobs/[id]/messages/read": { fields: ["lastMessageId"], base: () => ({ lastMessageId: randomUUID() }) },
   "POST /api/portal/jobs/[id]/estimate/approve": { fields: ["revisionId"], base: (f) => ({ revisionId: f.revisionA }) },
   "POST /api/portal/jobs/[id]/estimate/decline": {
     fields: ["revisionId", "reason"],

@@ -44,7 +44,18 @@ export default async function PortalPage() {
                   </Link>
                 </h2>
               </div>
-              <StateBadge state={j.state} audience="owner" returnMethod={j.returnMethod} />
+              <div className="flex flex-wrap items-center gap-2">
+                {j.unread > 0 ? (
+                  <Link
+                    href={`/portal/jobs/${j.id}#messages-title`}
+                    className="rounded-full border border-ember px-2 py-0.5 text-sm font-semibold text-ember-dark"
+                    data-testid="unread-messages"
+                  >
+                    {j.unread === 1 ? "1 new message" : `${j.unread} new messages`}
+                  </Link>
+                ) : null}
+                <StateBadge state={j.state} audience="owner" returnMethod={j.returnMethod} />
+              </div>
             </li>
           ))}
         </ul>

@@ -96,7 +96,9 @@ const PROFILE_STATES: readonly JobState[] = [
 export async function updateProfile(ctx: TxContext, { jobId, actorId, input }: { jobId: string; actorId: string; input: ProfileUpdate }) {
   const { job, set } = await loadJob(ctx.tx, jobId, { lock: true });
   requireState(job, PROFILE_STATES, "change the set profile");
-  const profile = input.profile as Record<string, unknown>;
+  // What the owner reported with the request stays beside the technician's profile, whatever is edited.
+  const ownerReport = (set.profile as Record<string, unknown>).ownerReport;
+  const profile = { ...(input.profile as Record<string, unknown>), ...(ownerReport === undefined ? {} : { ownerReport }) };
   await ctx.tx
     .update(radioSets)
     .set({ maker: input.maker, model: input.model, year: input.year ?? null, kind: input.profile.kind, profile, updatedAt: new Date() })
@@ -612,6 +614,24 @@ function received(r: ReadingRequirement, s: StoredReading | undefined) {
 
 export type BenchSheet = Awaited<ReturnType<typeof getBenchSheet>>;
 
+type OwnerDialEnds = { band: string; low: number | null; high: number | null };
+
+/** What the owner reported with the request (dial markings as they read them), read defensively from the profile. */
+function ownerReportOf(profile: unknown): { dialMarkings: string; dialEnds: OwnerDialEnds[] } {
+  const report = ((profile ?? {}) as { ownerReport?: unknown }).ownerReport as { dialMarkings?: unknown; dialEnds?: unknown } | undefined;
+  const num = (v: unknown) => (typeof v === "number" && Number.isFinite(v) ? v : null);
+  const ends = report?.dialEnds && typeof report.dialEnds === "object" ? (report.dialEnds as Record<string, unknown>) : {};
+  return {
+    dialMarkings: typeof report?.dialMarkings === "string" ? report.dialMarkings : "",
+    dialEnds: ["LW", "MW", "SW", "FM"]
+      .filter((b) => ends[b] && typeof ends[b] === "object")
+      .map((b) => {
+        const e = ends[b] as { low?: unknown; high?: unknown };
+        return { band: b, low: num(e.low), high: num(e.high) };
+      }),
+  };
+}
+
 /** The job page's header, triage data, messages, photos and history. */
 export async function getJobDetail({ jobId }: { jobId: string }) {
   const row = await getJobDetailForStaff({ jobId });
@@ -631,7 +651,9 @@ export async function getJobDetail({ jobId }: { jobId: string }) {
     customer: row.customer,
     technicianName: row.technicianName,
     messages: messageRows,
-    photos: photoRows,
+    // Served by the authorised photo route (the session cookie goes with the image request).
+    photos: photoRows.map((p) => ({ ...p, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}?size=thumb` })),
+    ownerReport: ownerReportOf(row.set.profile),
     history,
     staff,
   };

@@ -1,6 +1,8 @@
 import "server-only";
 import { ownerForecast } from "./turnaround";
+import { db } from "@/db";
 import { listPaymentsForCustomer, listRefundsForCustomer } from "@/db/queries/payments";
+import { listPhotosForMessages } from "@/db/queries/photos";
 import { accountOf, remainderBelowMinimum } from "@/lib/engine/pricing/account";
 import { depositToCollect, recordedProcessorMinimum } from "@/lib/engine/pricing/deposit";
 import {
@@ -13,6 +15,7 @@ import {
 import type { JobState } from "@/lib/engine/jobs/states";
 import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { AppError } from "@/lib/server/errors";
+import { messagesAfterReadAt } from "@/lib/server/services/messages";
 import { jobNumber, ownerStateLabel, STATE_LABEL } from "@/lib/engine/jobs/states";
 import {
   coveredWording,
@@ -245,7 +248,12 @@ export type PortalJobView = Awaited<ReturnType<typeof getPortalJobView>>;
 export async function getPortalMessages({ jobId, customerId }: { jobId: string; customerId: string }) {
   const job = await getPortalJobForCustomer({ jobId, customerId });
   if (!job) throw new AppError("not_found", "That job was not found.");
-  const rows = await listMessagesForCustomer({ jobId, customerId });
+  const [rows, after] = await Promise.all([
+    listMessagesForCustomer({ jobId, customerId }),
+    messagesAfterReadAt(db, { jobId, userId: customerId }),
+  ]);
+  // Ids from the owner-scoped query above: workshop notes, and so their photos, are never among them.
+  const pics = await listPhotosForMessages({ messageIds: rows.map((r) => r.id) });
   return rows.map((r) => ({
     id: r.id,
     body: r.body,
@@ -253,6 +261,10 @@ export async function getPortalMessages({ jobId, customerId }: { jobId: string; 
     from: r.authorId === customerId ? "You" : `${r.authorName.split(" ")[0]} at the shop`,
     isQuestion: r.isQuestion,
     createdAt: r.createdAt.toISOString(),
+    unread: r.authorId !== customerId && after.has(r.id),
+    photos: pics
+      .filter((p) => p.messageId === r.id)
+      .map((p) => ({ id: p.id, name: p.displayName, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}?size=thumb` })),
   }));
 }
 

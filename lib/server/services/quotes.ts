@@ -28,6 +28,16 @@ function draftBands(kinds: QuoteRequest["bands"]): Band[] {
   return out;
 }
 
+// The dial-scale ends the owner gave, for the bands they ticked, leaving out bands with neither end given.
+function dialEndsOf(input: QuoteRequest): Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> {
+  const out: Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> = {};
+  for (const band of input.bands) {
+    const ends = input.dialEnds[band];
+    if (ends && (ends.low !== undefined || ends.high !== undefined)) out[band] = { low: ends.low ?? null, high: ends.high ?? null };
+  }
+  return out;
+}
+
 function isUniqueViolation(e: unknown): boolean {
   const code = (e as { code?: string }).code ?? (e as { cause?: { code?: string } }).cause?.code;
   return code === "23505";
@@ -82,7 +92,12 @@ export async function submitQuote(viewer: Viewer, input: QuoteRequest): Promise<
             electrolytics: 0,
             paperCapacitors: 0,
             // What the owner told us, kept apart from the technician's corrected profile.
-            ownerReport: { bands: input.bands, dialMarkings: input.dialMarkings, poweredRecently: input.poweredRecently },
+            ownerReport: {
+              bands: input.bands,
+              dialMarkings: input.dialMarkings,
+              dialEnds: dialEndsOf(input),
+              poweredRecently: input.poweredRecently,
+            },
           },
         })
         .returning({ id: radioSets.id });

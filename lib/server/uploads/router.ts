@@ -5,6 +5,7 @@ import { countPhotosByUploaderSince } from "@/db/queries/photos";
 import { canAccess } from "@/lib/engine/permissions";
 import { viewerFromHeaders } from "@/lib/server/session";
 import { acceptPhoto, PhotoRefused } from "@/lib/server/uploads/photos";
+import { MAX_MESSAGE_PHOTOS } from "@/lib/validation/messages";
 import { MAX_PHOTO_BYTES, MAX_PHOTOS } from "@/lib/validation/quote";
 
 /** Photos one person may store per day: generous for real requests, a ceiling for abuse. */
@@ -35,41 +36,61 @@ async function fetchCapped(url: string, cap: number): Promise<Buffer | "too-larg
   return Buffer.concat(chunks);
 }
 
+type Viewer = NonNullable<Awaited<ReturnType<typeof viewerFromHeaders>>>;
+
+// Who may store photos through a slug, then the per-person daily quota shared by every slug.
+function photoMiddleware(allowed: (viewer: Viewer) => boolean) {
+  return async ({ req }: { req: Request }) => {
+    const viewer = await viewerFromHeaders(req.headers);
+    if (!viewer || !allowed(viewer)) {
+      throw new UploadThingError({ code: "FORBIDDEN", message: "Please sign in to add photos." });
+    }
+    const recent = await countPhotosByUploaderSince({ uploaderId: viewer.id, since: new Date(Date.now() - 24 * 3600 * 1000) });
+    if (recent >= DAILY_PHOTO_QUOTA) {
+      throw new UploadThingError({
+        code: "FILE_LIMIT_EXCEEDED",
+        message: "You have sent a lot of photos today. Please try again tomorrow or write to the shop.",
+      });
+    }
+    return { uploaderId: viewer.id };
+  };
+}
+
+// The same byte checks, re-encoding and metadata stripping for every photo, whichever form it came from.
+async function completePhoto({
+  file,
+  metadata,
+}: {
+  file: { ufsUrl: string; name: string; key: string };
+  metadata: { uploaderId: string };
+}): Promise<PhotoServerData> {
+  // Warnings and errors only: the SDK logs signed file URLs at its default level.
+  const utapi = new UTApi({ logLevel: "Warning" });
+  try {
+    const bytes = await fetchCapped(file.ufsUrl, MAX_PHOTO_BYTES);
+    if (bytes === "too-large") {
+      return { ok: false, error: `This photo is larger than ${MAX_PHOTO_BYTES / 1024 / 1024} MB. Please send a smaller one.` };
+    }
+    const accepted = await acceptPhoto({ bytes, name: file.name, uploaderId: metadata.uploaderId });
+    return { ok: true, ...accepted };
+  } catch (error) {
+    if (error instanceof PhotoRefused) return { ok: false, error: error.message };
+    console.error("[bandedge] photo processing failed", error);
+    return { ok: false, error: "This photo could not be processed. Please try again." };
+  } finally {
+    // The original keeps its metadata (GPS included): only the re-encoded copy is kept.
+    await utapi.deleteFiles(file.key).catch((e: unknown) => console.error("[bandedge] could not delete the original upload", e));
+  }
+}
+
 export const uploadRouter = {
   quotePhotos: f({ image: { maxFileSize: "32MB", maxFileCount: MAX_PHOTOS } }, { awaitServerData: true })
-    .middleware(async ({ req }) => {
-      const viewer = await viewerFromHeaders(req.headers);
-      if (!viewer || !(canAccess(viewer, "quote.request") || canAccess(viewer, "claim.open"))) {
-        throw new UploadThingError({ code: "FORBIDDEN", message: "Please sign in to add photos." });
-      }
-      const recent = await countPhotosByUploaderSince({ uploaderId: viewer.id, since: new Date(Date.now() - 24 * 3600 * 1000) });
-      if (recent >= DAILY_PHOTO_QUOTA) {
-        throw new UploadThingError({
-          code: "FILE_LIMIT_EXCEEDED",
-          message: "You have sent a lot of photos today. Please try again tomorrow or write to the shop.",
-        });
-      }
-      return { uploaderId: viewer.id };
-    })
-    .onUploadComplete(async ({ file, metadata }): Promise<PhotoServerData> => {
-      // Warnings and errors only: the SDK logs signed file URLs at its default level.
-      const utapi = new UTApi({ logLevel: "Warning" });
-      try {
-        const bytes = await fetchCapped(file.ufsUrl, MAX_PHOTO_BYTES);
-        if (bytes === "too-large") {
-          return { ok: false, error: `This photo is larger than ${MAX_PHOTO_BYTES / 1024 / 1024} MB. Please send a smaller one.` };
-        }
-        const accepted = await acceptPhoto({ bytes, name: file.name, uploaderId: metadata.uploaderId });
-        return { ok: true, ...accepted };
-      } catch (error) {
-        if (error instanceof PhotoRefused) return { ok: false, error: error.message };
-        console.error("[bandedge] photo processing failed", error);
-        return { ok: false, error: "This photo could not be processed. Please try again." };
-      } finally {
-        // The original keeps its metadata (GPS included): only the re-encoded copy is kept.
-        await utapi.deleteFiles(file.key).catch((e: unknown) => console.error("[bandedge] could not delete the original upload", e));
-      }
-    }),
+    .middleware(photoMiddleware((v) => canAccess(v, "quote.request") || canAccess(v, "claim.open")))
+    .onUploadComplete(completePhoto),
+  // Photos for a message on a job's thread, from the owner or the workshop; attached when the message is posted.
+  messagePhotos: f({ image: { maxFileSize: "32MB", maxFileCount: MAX_MESSAGE_PHOTOS } }, { awaitServerData: true })
+    .middleware(photoMiddleware((v) => canAccess(v, "message.post")))
+    .onUploadComplete(completePhoto),
 } satisfies FileRouter;
 
 export type UploadRouter = typeof uploadRouter;

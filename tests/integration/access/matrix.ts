@@ -116,6 +116,15 @@ export const ROUTES: RouteEntry[] = [
   },
   {
     method: "POST",
+    route: "/api/portal/jobs/[id]/messages/read",
+    action: "message.read (own)",
+    rules: customerOwn,
+    params: job,
+    // A message id not on the thread: the owner of the job gets past authorization to a 400 on the field.
+    body: () => ({ lastMessageId: randomUUID() }),
+  },
+  {
+    method: "POST",
     route: "/api/portal/jobs/[id]/estimate/approve",
     action: "estimate.approve (own)",
     rules: customerOwn,
@@ -255,6 +264,16 @@ export const ROUTES: RouteEntry[] = [
   { method: "POST", route: "/api/bench/jobs/[id]/passband", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/tasks", action: "reading.record", rules: staff(), params: job, body: () => ({}) },
   { method: "POST", route: "/api/bench/jobs/[id]/notes", action: "bench.use", rules: staff(), params: job, body: () => ({}) },
+  { method: "GET", route: "/api/bench/jobs/[id]/messages", action: "bench.use", rules: staff(), params: job },
+  { method: "POST", route: "/api/bench/jobs/[id]/messages", action: "bench.use", rules: staff(), params: job, body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/bench/jobs/[id]/messages/read",
+    action: "bench.use",
+    rules: staff(),
+    params: job,
+    body: () => ({ lastMessageId: randomUUID() }),
+  },
   { method: "POST", route: "/api/bench/jobs/[id]/final-checks", action: "job.complete", rules: staff(), params: jobDone, body: () => ({}) },
   {
     method: "POST",

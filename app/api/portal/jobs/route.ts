@@ -16,6 +16,7 @@ export const GET = route({ permission: "portal.use" }, async ({ viewer }) => {
       set: `${j.maker} ${j.model}${j.year ? ` (${j.year})` : ""}`,
       isWarranty: j.isWarranty,
       updatedAt: j.updatedAt.toISOString(),
+      unreadMessages: j.unread,
     })),
   };
 });

@@ -35,6 +35,7 @@ export function QuoteForm() {
   });
   const { errors, isSubmitting } = formState;
   const contact = useWatch({ control, name: "contactPreference" });
+  const tickedBands = (useWatch({ control, name: "bands" }) ?? []) as (typeof DIAL_BANDS)[number][];
 
   const onPhotos = useCallback(
     (s: PhotoPickerState) => {
@@ -52,7 +53,8 @@ export function QuoteForm() {
     },
     onError: (e) => {
       if (e instanceof ApiError && Object.keys(e.fields).length) {
-        for (const [field, message] of Object.entries(e.fields)) setError(field.split(".")[0] as Path<QuoteRequestInput>, { message });
+        for (const [field, message] of Object.entries(e.fields))
+          setError((field.startsWith("dialEnds.") ? field : field.split(".")[0]) as Path<QuoteRequestInput>, { message });
         setProblem("Some answers need another look; see the notes beside them.");
       } else setProblem(e instanceof Error ? e.message : "We could not send your request. Please try again.");
     },
@@ -137,10 +139,48 @@ export function QuoteForm() {
             </p>
           ) : null}
         </fieldset>
+        {tickedBands.length ? (
+          <fieldset className="space-y-2">
+            <legend className="field-label">Numbers at the ends of each dial scale (optional)</legend>
+            <p id="dialEnds-hint" className="field-hint">
+              The lowest and the highest number printed on each band&apos;s scale, as you read them: for example 55 and 160 on MW, or 6 and
+              18 on SW. They help us plan the alignment.
+            </p>
+            <div className="space-y-2">
+              {DIAL_BANDS.filter((b) => tickedBands.includes(b)).map((b) => {
+                const bandErrors = (
+                  errors.dialEnds as Record<string, { low?: { message?: string }; high?: { message?: string } }> | undefined
+                )?.[b];
+                const end = (which: "low" | "high") => {
+                  const id = `dialEnds-${b}-${which}`;
+                  const message = bandErrors?.[which]?.message;
+                  return (
+                    <Field id={id} label={`${b}: ${which === "low" ? "lowest" : "highest"} number`} error={message}>
+                      <input
+                        id={id}
+                        className="field-input figure"
+                        inputMode="decimal"
+                        aria-invalid={!!message}
+                        aria-describedby={describedBy(id, { error: message })}
+                        {...register(`dialEnds.${b}.${which}` as Path<QuoteRequestInput>)}
+                      />
+                    </Field>
+                  );
+                };
+                return (
+                  <div key={b} className="grid grid-cols-2 gap-3 sm:max-w-md">
+                    {end("low")}
+                    {end("high")}
+                  </div>
+                );
+              })}
+            </div>
+          </fieldset>
+        ) : null}
         <Field
           id="dialMarkings"
-          label="Numbers at the ends of each dial scale (optional)"
-          hint='For example "55 … 160" or "6 … 18 Mc". It helps us plan the alignment.'
+          label="Anything else printed on the dial scales (optional)"
+          hint='Units or extra scales, for example "Mc", "kc/s" or "metres".'
           error={errors.dialMarkings?.message}
         >
           <input {...input("dialMarkings", true)} {...register("dialMarkings")} />

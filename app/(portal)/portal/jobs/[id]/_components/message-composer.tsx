@@ -2,10 +2,11 @@
 
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
-import { useState } from "react";
+import { useCallback, useState } from "react";
+import { PhotoPicker, type PhotoPickerState } from "@/components/photo-picker";
 import { useForm } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
-import { messageFormSchema, type MessageForm, type MessageInput } from "@/lib/validation/messages";
+import { MAX_MESSAGE_PHOTOS, messageFormSchema, type MessageForm, type MessageInput } from "@/lib/validation/messages";
 import { api, ApiError } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
 
@@ -23,6 +24,14 @@ export default function MessageComposer({ jobId }: { jobId: string }) {
   const queryClient = useQueryClient();
   // One key per composed message: kept while this message is retried, renewed once it is stored.
   const [idempotencyKey, setIdempotencyKey] = useState(() => crypto.randomUUID());
+  // The picker is remounted (new key) once a message is stored, so its photos go with that message only.
+  const [pickerKey, setPickerKey] = useState(0);
+  const [photos, setPhotos] = useState<PhotoPickerState>({ tickets: [], busy: false });
+  const [waitNote, setWaitNote] = useState(false);
+  const onPhotos = useCallback((s: PhotoPickerState) => {
+    setPhotos(s);
+    if (!s.busy) setWaitNote(false);
+  }, []);
   const { register, handleSubmit, reset, formState } = useForm<MessageForm>({
     resolver: zodResolver(messageFormSchema),
     defaultValues: { body: "" },
@@ -34,6 +43,8 @@ export default function MessageComposer({ jobId }: { jobId: string }) {
     onSuccess: async () => {
       reset({ body: "" });
       setIdempotencyKey(crypto.randomUUID());
+      setPickerKey((k) => k + 1);
+      setPhotos({ tickets: [], busy: false });
       // An answer may also move the job (the shop was waiting on it).
       await Promise.all([
         queryClient.invalidateQueries({ queryKey: portalKeys.messages(jobId) }),
@@ -51,7 +62,17 @@ export default function MessageComposer({ jobId }: { jobId: string }) {
   });
 
   return (
-    <form noValidate onSubmit={handleSubmit((v) => post.mutate({ ...v, idempotencyKey }))} className="space-y-2">
+    <form
+      noValidate
+      onSubmit={handleSubmit((v) => {
+        if (photos.busy) {
+          setWaitNote(true);
+          return;
+        }
+        post.mutate({ ...v, idempotencyKey, photos: photos.tickets });
+      })}
+      className="space-y-2"
+    >
       <Field
         id="message-body"
         label="Write to the shop"
@@ -66,6 +87,16 @@ export default function MessageComposer({ jobId }: { jobId: string }) {
           {...register("body")}
         />
       </Field>
+      <PhotoPicker
+        key={pickerKey}
+        endpoint="messagePhotos"
+        max={MAX_MESSAGE_PHOTOS}
+        inputId="message-photos"
+        label="Photos for this message"
+        compact
+        onChange={onPhotos}
+      />
+      {waitNote ? <p className="field-error">Please wait until every photo has finished uploading.</p> : null}
       <button type="submit" className="btn-secondary" disabled={post.isPending}>
         {post.isPending ? "Sending…" : "Send message"}
       </button>
