@@ -1,6 +1,7 @@
 import Link from "next/link";
 import type { ReactNode } from "react";
 import { Providers } from "./providers";
+import { ShopTimeZoneProvider } from "./shop-time-zone";
 import { SiteFooter, SiteHeader, type HeaderViewer } from "./site-header";
 
 // The signed-in areas fetch their data through the query client; public pages ship without it.
@@ -10,12 +11,15 @@ export function AreaShell({
   nav,
   children,
   dense,
+  timeZone,
 }: {
   viewer: HeaderViewer;
   title: string;
   nav: { href: string; label: string }[];
   children: ReactNode;
   dense?: boolean;
+  /** The shop's zone, for every date and time the area's client components print. */
+  timeZone: string;
 }) {
   return (
     <>
@@ -34,7 +38,9 @@ export function AreaShell({
         </div>
       </div>
       <main id="main" className={`mx-auto max-w-page px-4 ${dense ? "py-4" : "py-8"}`}>
-        <Providers>{children}</Providers>
+        <ShopTimeZoneProvider timeZone={timeZone}>
+          <Providers>{children}</Providers>
+        </ShopTimeZoneProvider>
       </main>
       <SiteFooter />
     </>

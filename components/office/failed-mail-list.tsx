@@ -7,11 +7,13 @@ import { TableScroll } from "@/components/ui/table-scroll";
 import type { listFailedEmailsForOffice } from "@/db/queries/office";
 import { officeFetch } from "@/lib/client/office-api";
 import { formatWhen, type Jsonify } from "./format";
+import { useShopTimeZone } from "@/components/shop-time-zone";
 
 export type FailedMail = Jsonify<Awaited<ReturnType<typeof listFailedEmailsForOffice>>[number]>;
 
 // E-mail that could not be sent, with why, and a button that puts each back in the queue.
 export function FailedMailList({ rows }: { rows: FailedMail[] }) {
+  const timeZone = useShopTimeZone();
   const router = useRouter();
   const [busy, setBusy] = useState<string | null>(null);
   const [outcome, setOutcome] = useState<{ tone: "success" | "error"; text: string } | null>(null);
@@ -61,7 +63,7 @@ export function FailedMailList({ rows }: { rows: FailedMail[] }) {
           <tbody>
             {rows.map((r) => (
               <tr key={r.id}>
-                <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
+                <td className="figure whitespace-nowrap">{formatWhen(r.createdAt, timeZone)}</td>
                 <td className="break-all">{r.toAddress}</td>
                 <td>{r.template}</td>
                 <td className="max-w-sm whitespace-pre-wrap break-words">

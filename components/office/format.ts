@@ -1,3 +1,4 @@
+import { formatDate, formatDateTime } from "@/lib/engine/dates";
 import { formatMinor } from "@/lib/engine/pricing/money";
 
 export type Currency = { code: string; exponent: number };
@@ -15,18 +16,14 @@ export function majorUnits(amountMinor: number, currency: Currency): string {
   return formatMinor(Math.max(amountMinor, 0), currency.exponent);
 }
 
-/** One way to write a moment in the office: "2026-03-04 14:05 UTC". */
-export function formatWhen(value: string | Date | null | undefined): string {
-  if (!value) return "—";
-  const d = typeof value === "string" ? new Date(value) : value;
-  if (Number.isNaN(d.getTime())) return "—";
-  return `${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
+/** One way to write a moment for staff, in the shop's zone: "2 Dec 2026, 14:05". */
+export function formatWhen(value: string | Date | null | undefined, timeZone: string): string {
+  return formatDateTime(value, { timeZone, style: "compact" });
 }
 
-export function formatDay(value: string | Date | null | undefined): string {
-  if (!value) return "—";
-  const d = typeof value === "string" ? new Date(value) : value;
-  return Number.isNaN(d.getTime()) ? "—" : d.toISOString().slice(0, 10);
+/** The day of a moment for staff, in the shop's zone: "2 Dec 2026". */
+export function formatDay(value: string | Date | null | undefined, timeZone: string): string {
+  return formatDate(value, { timeZone, style: "compact" });
 }
 
 export type Jsonify<T> = T extends Date

@@ -12,6 +12,7 @@ import { jobNumber } from "@/lib/engine/jobs/states";
 import { refundFormSchema, type RefundFormValues } from "@/lib/validation/office";
 import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatMoney, formatWhen, type Currency, type Jsonify } from "./format";
+import { useShopTimeZone } from "@/components/shop-time-zone";
 import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL, REFUND_STATUS_LABEL } from "./labels";
 import { officeKeys } from "@/lib/client/office-query-keys";
 
@@ -22,6 +23,7 @@ type RefundAnswer = { refundId: string; amountMinor: number; status: keyof typeo
 const OPEN = new Set<string>(["requested", "pending"]);
 
 export function RefundPanel({ initial, currency }: { initial: PaymentDetail; currency: Currency }) {
+  const timeZone = useShopTimeZone();
   const queryClient = useQueryClient();
   const key = officeKeys.payment(initial.id);
   // The refund just asked for, until the processor's webhook has settled it.
@@ -126,7 +128,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
             </div>
             <div>
               <dt className="text-bakelite-muted">Paid at</dt>
-              <dd className="figure">{formatWhen(payment.paidAt)}</dd>
+              <dd className="figure">{formatWhen(payment.paidAt, timeZone)}</dd>
             </div>
             <div>
               <dt className="text-bakelite-muted">Refunded so far</dt>
@@ -168,12 +170,12 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                 <tbody>
                   {payment.refunds.map((r) => (
                     <tr key={r.id}>
-                      <td className="figure whitespace-nowrap">{formatWhen(r.createdAt)}</td>
+                      <td className="figure whitespace-nowrap">{formatWhen(r.createdAt, timeZone)}</td>
                       <td className="figure whitespace-nowrap text-right">{formatMoney(r.amountMinor, currency)}</td>
                       <td>
                         <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
                         {REFUND_STATUS_LABEL[r.status].text}
-                        {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt)}</span> : null}
+                        {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt, timeZone)}</span> : null}
                         {r.status === "pending" ? (
                           <button
                             type="button"

@@ -2,6 +2,7 @@
 
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { get, useForm, useWatch, type FieldErrors, type Path, type UseFormRegister } from "react-hook-form";
 import { describedBy, Field } from "@/components/ui/field";
@@ -38,6 +39,7 @@ function TextField({
   inputMode,
   number,
   className = "",
+  list,
 }: {
   name: Path<SettingsFormValues>;
   label: string;
@@ -50,6 +52,8 @@ function TextField({
   inputMode?: "decimal" | "numeric" | "email" | "tel";
   number?: boolean;
   className?: string;
+  /** Id of a datalist of suggestions. */
+  list?: string;
 }) {
   const id = `f-${name.replaceAll(".", "-")}`;
   const error = errorAt(errors, name);
@@ -62,6 +66,7 @@ function TextField({
           type={type}
           step={type === "number" ? "any" : undefined}
           inputMode={inputMode}
+          list={list}
           className={`field-input ${number || inputMode === "decimal" ? "figure" : ""}`}
           aria-invalid={!!error}
           aria-describedby={describedBy(id, { error, hint })}
@@ -167,7 +172,8 @@ const SECTIONS = [
 
 type Problem = { kind: "stale" | "invalid" | "other"; message: string } | null;
 
-export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
+export function SettingsForm({ initial, timeZones }: { initial: SettingsSnapshot; timeZones: string[] }) {
+  const router = useRouter();
   const queryClient = useQueryClient();
   const [snapshot, setSnapshot] = useState(initial);
   const [problem, setProblem] = useState<Problem>(null);
@@ -184,10 +190,13 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
     mutationFn: (values: SettingsFormValues) => officeFetch<SettingsSnapshot>("/api/office/settings", { method: "PUT", json: values }),
     onSuccess: (next) => {
       queryClient.setQueryData(officeKeys.settings(), next);
+      const zoneChanged = next.values.identity.timeZone !== snapshot.values.identity.timeZone;
       setSnapshot(next);
       reset(next.values);
       setProblem(null);
-      setSaved(`Saved at ${formatWhen(next.updatedAt)}. Estimates priced from now on use these figures.`);
+      // The area's layout hands the zone to every client component: render it again with the new one.
+      if (zoneChanged) router.refresh();
+      setSaved(`Saved at ${formatWhen(next.updatedAt, next.values.identity.timeZone)}. Estimates priced from now on use these figures.`);
     },
     onError: (e) => {
       setSaved(null);
@@ -228,7 +237,7 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
       reset(next.values);
       setProblem(null);
       setSaved(
-        `Showing the version saved at ${formatWhen(next.updatedAt)}${next.updatedByName ? ` by ${next.updatedByName}` : ""}. Your edits were set aside.`,
+        `Showing the version saved at ${formatWhen(next.updatedAt, next.values.identity.timeZone)}${next.updatedByName ? ` by ${next.updatedByName}` : ""}. Your edits were set aside.`,
       );
     } catch (e) {
       setProblem({ kind: "other", message: e instanceof Error ? e.message : "Could not load the saved version." });
@@ -272,7 +281,7 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
         {snapshot.updatedAt ? (
           <>
             {" "}
-            · last saved {formatWhen(snapshot.updatedAt)}
+            · last saved {formatWhen(snapshot.updatedAt, snapshot.values.identity.timeZone)}
             {snapshot.updatedByName ? ` by ${snapshot.updatedByName}` : ""}
           </>
         ) : null}
@@ -291,6 +300,19 @@ export function SettingsForm({ initial }: { initial: SettingsSnapshot }) {
           />
           <TextField name="identity.phone" label="Phone" type="tel" inputMode="tel" register={register} errors={errors} />
           <TextField name="identity.email" label="E-mail" type="email" inputMode="email" register={register} errors={errors} />
+          <TextField
+            name="identity.timeZone"
+            label="Time zone"
+            hint="Where the shop is, as a region name (America/New_York, Europe/London). Every date and time in pages, e-mails and certificates is shown in it."
+            list="time-zone-choices"
+            register={register}
+            errors={errors}
+          />
+          <datalist id="time-zone-choices">
+            {timeZones.map((z) => (
+              <option key={z} value={z} />
+            ))}
+          </datalist>
         </div>
       </Section>
 

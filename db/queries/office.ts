@@ -41,6 +41,7 @@ export async function updateShopSettingsIfVersion(
       addressLines: string[];
       phone: string;
       email: string;
+      timeZone: string;
       policy: Record<string, unknown>;
       warrantyTerms: Record<string, unknown>;
     };

@@ -1,4 +1,5 @@
 import { integer, jsonb, pgTable, text, timestamp } from "drizzle-orm/pg-core";
+import { DEFAULT_SHOP_TIME_ZONE } from "@/lib/engine/dates";
 import { user } from "./auth";
 
 // One row per shop (id "shop"); policy holds every figure the engine reads.
@@ -8,6 +9,8 @@ export const shopSettings = pgTable("shop_settings", {
   addressLines: jsonb("address_lines").$type<string[]>().notNull().default([]),
   phone: text("phone").notNull().default(""),
   email: text("email").notNull().default(""),
+  /** IANA zone name; every date and time shown to a person is in this zone. */
+  timeZone: text("time_zone").notNull().default(DEFAULT_SHOP_TIME_ZONE),
   policy: jsonb("policy").$type<Record<string, unknown>>().notNull(),
   warrantyTerms: jsonb("warranty_terms").$type<Record<string, unknown>>().notNull().default({}),
   version: integer("version").notNull().default(1),

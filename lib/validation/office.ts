@@ -2,6 +2,7 @@ import { z } from "zod";
 import "./field-words";
 import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
 import { billingRoundings } from "@/lib/engine/pricing/billing-rounding";
+import { canonicalTimeZone } from "@/lib/engine/dates";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
 import { partCodes, partCodeSchema } from "@/lib/engine/pricing/parts";
 import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
@@ -81,7 +82,18 @@ export function parseWarrantyTerms(raw: unknown): WarrantyTerms {
   return warrantyTermsSchema.parse(merged);
 }
 
-type ShopIdentity = { name: string; addressLines: string[]; phone: string; email: string };
+type ShopIdentity = { name: string; addressLines: string[]; phone: string; email: string; timeZone: string };
+
+/** An IANA zone name ("America/New_York", "Europe/London"), as the system's time-zone data knows it. */
+export const timeZoneText = z
+  .string()
+  .trim()
+  .min(1, "Time zone: choose the shop's time zone, such as America/New_York or Europe/London.")
+  .max(64, "Time zone: a zone name is at most 64 characters.")
+  .refine(
+    (s) => canonicalTimeZone(s) !== null,
+    "Time zone: not a known time zone. Use a region name from the list, such as America/New_York or Europe/London; offsets such as +01:00 are not accepted.",
+  );
 
 // ─── The office settings form (shared by the form and the server) ───
 
@@ -133,6 +145,8 @@ export const settingsFormSchema = z
         .refine((s) => addressLines(s).every((l) => l.length <= 120), "Address: keep each line under 120 characters."),
       phone: z.string().trim().max(40, "Phone: keep it under 40 characters."),
       email: emailOrBlank,
+      /** Every date and time shown to people, in pages, e-mails and certificates, is in this zone. */
+      timeZone: timeZoneText,
     }),
     currency: z.object({
       code: z.string().regex(/^[A-Z]{3}$/, "Currency: a three-letter code such as USD."),
@@ -261,6 +275,7 @@ export function settingsToForm(shop: {
   addressLines: string[];
   phone: string;
   email: string;
+  timeZone: string;
   policy: ShopPolicy;
   warrantyTerms: unknown;
   version: number;
@@ -269,7 +284,13 @@ export function settingsToForm(shop: {
   const exp = p.currency.exponent;
   return {
     version: shop.version,
-    identity: { name: shop.name, addressText: shop.addressLines.join("\n"), phone: shop.phone, email: shop.email },
+    identity: {
+      name: shop.name,
+      addressText: shop.addressLines.join("\n"),
+      phone: shop.phone,
+      email: shop.email,
+      timeZone: shop.timeZone,
+    },
     currency: { ...p.currency },
     labourRate: formatMinor(p.labourRateMinorPerHour, exp),
     billingIncrementMinutes: p.billingIncrementMinutes,
@@ -348,6 +369,7 @@ export function settingsFromForm(v: SettingsFormValues): { identity: ShopIdentit
       addressLines: addressLines(v.identity.addressText),
       phone: v.identity.phone.trim(),
       email: v.identity.email.trim(),
+      timeZone: canonicalTimeZone(v.identity.timeZone) ?? v.identity.timeZone.trim(),
     },
     policy: shopPolicySchema.parse(policy),
     warrantyTerms: warrantyTermsSchema.parse(v.warrantyTerms),

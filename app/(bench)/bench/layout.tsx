@@ -1,12 +1,14 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
 import { requirePermission } from "@/lib/server/session";
+import { shopTimeZone } from "@/lib/server/services/shop";
 
 export default async function BenchLayout({ children }: { children: ReactNode }) {
   const viewer = await requirePermission("bench.use", "/bench");
   return (
     <AreaShell
       viewer={viewer}
+      timeZone={await shopTimeZone()}
       dense
       title="Bench"
       nav={[

@@ -1,6 +1,7 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
 import { requirePermission } from "@/lib/server/session";
+import { shopTimeZone } from "@/lib/server/services/shop";
 
 const OFFICE_NAV = [
   { href: "/office", label: "Overview" },
@@ -16,7 +17,7 @@ const OFFICE_NAV = [
 export default async function OfficeLayout({ children }: { children: ReactNode }) {
   const viewer = await requirePermission("office.use", "/office");
   return (
-    <AreaShell viewer={viewer} title="Office" nav={OFFICE_NAV}>
+    <AreaShell viewer={viewer} timeZone={await shopTimeZone()} title="Office" nav={OFFICE_NAV}>
       {children}
     </AreaShell>
   );

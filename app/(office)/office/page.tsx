@@ -87,7 +87,7 @@ export default async function OfficePage() {
                   {formatMoney(r.amountMinor, currency)} for job {jobNumber(r.jobNumber)} ({r.customerName})
                 </Link>{" "}
                 — <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
-                {REFUND_STATUS_LABEL[r.status].text}, asked {formatWhen(r.createdAt)}
+                {REFUND_STATUS_LABEL[r.status].text}, asked {formatWhen(r.createdAt, shop.timeZone)}
               </li>
             ))}
           </ul>

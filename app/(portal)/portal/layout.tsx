@@ -2,12 +2,14 @@ import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
 import { canAccess } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
+import { shopTimeZone } from "@/lib/server/services/shop";
 
 export default async function PortalLayout({ children }: { children: ReactNode }) {
   const viewer = await requirePermission("portal.use", "/portal");
   return (
     <AreaShell
       viewer={viewer}
+      timeZone={await shopTimeZone()}
       title="My sets"
       nav={[
         { href: "/portal", label: "My jobs" },

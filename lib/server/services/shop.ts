@@ -1,7 +1,9 @@
 import "server-only";
+import { cache } from "react";
 import { eq } from "drizzle-orm";
 import { db, type Database } from "@/db";
 import { shopSettings } from "@/db/schema";
+import { canonicalTimeZone, DEFAULT_SHOP_TIME_ZONE } from "@/lib/engine/dates";
 import { defaultShopPolicy, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
 
 export type Shop = {
@@ -9,6 +11,8 @@ export type Shop = {
   addressLines: string[];
   phone: string;
   email: string;
+  /** IANA zone in which every date and time is shown. */
+  timeZone: string;
   policy: ShopPolicy;
   version: number;
   warrantyTerms: Record<string, unknown>;
@@ -23,6 +27,7 @@ export async function getShop(tx: Database = db): Promise<Shop> {
       addressLines: [],
       phone: "",
       email: "",
+      timeZone: DEFAULT_SHOP_TIME_ZONE,
       policy: defaultShopPolicy,
       version: 0,
       warrantyTerms: {},
@@ -33,8 +38,15 @@ export async function getShop(tx: Database = db): Promise<Shop> {
     addressLines: row.addressLines,
     phone: row.phone,
     email: row.email,
+    timeZone: canonicalTimeZone(row.timeZone) ?? DEFAULT_SHOP_TIME_ZONE,
     policy: parsed.success ? parsed.data : defaultShopPolicy,
     version: row.version,
     warrantyTerms: row.warrantyTerms,
   };
 }
+
+/** The shop's time zone, read once per request however many dates a page prints. */
+export const shopTimeZone = cache(async (): Promise<string> => {
+  const [row] = await db.select({ timeZone: shopSettings.timeZone }).from(shopSettings).where(eq(shopSettings.id, "shop")).limit(1);
+  return (row && canonicalTimeZone(row.timeZone)) ?? DEFAULT_SHOP_TIME_ZONE;
+});

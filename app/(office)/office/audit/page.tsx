@@ -164,7 +164,7 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
               <tbody>
                 {rows.map((r) => (
                   <tr key={r.id}>
-                    <td className="figure whitespace-nowrap">{formatWhen(r.at)}</td>
+                    <td className="figure whitespace-nowrap">{formatWhen(r.at, shop.timeZone)}</td>
                     <td className="min-w-56">
                       <p>
                         <span className="font-semibold">{r.actorId ? (r.actorName ?? "A former account") : "Bandedge"}</span>{" "}

@@ -89,7 +89,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                       <span aria-hidden="true">{PAYMENT_STATUS_LABEL[p.status].icon} </span>
                       {PAYMENT_STATUS_LABEL[p.status].text}
                     </td>
-                    <td className="figure whitespace-nowrap">{formatWhen(p.paidAt)}</td>
+                    <td className="figure whitespace-nowrap">{formatWhen(p.paidAt, shop.timeZone)}</td>
                     <td className="figure whitespace-nowrap text-right">
                       {formatMoney(p.refundedMinor, currency)}
                       {p.inFlightMinor > 0 ? (

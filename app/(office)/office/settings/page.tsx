@@ -1,5 +1,6 @@
 import type { Metadata } from "next";
 import { SettingsForm } from "@/components/office/settings-form";
+import { timeZoneChoices } from "@/lib/engine/dates";
 import { requirePermission } from "@/lib/server/session";
 import { loadSettingsForOffice } from "@/lib/server/services/settings";
 
@@ -17,7 +18,7 @@ export default async function SettingsPage() {
           estimates already sent keep the figures they were sent with.
         </p>
       </div>
-      <SettingsForm initial={initial} />
+      <SettingsForm initial={initial} timeZones={timeZoneChoices()} />
     </div>
   );
 }
