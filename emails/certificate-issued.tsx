@@ -1,4 +1,5 @@
 import { Button, Heading, Link, Text } from "@react-email/components";
+import { formatDay } from "@/lib/engine/dates";
 import { MailLayout, mailStyles } from "./components/mail-layout";
 
 export type CertificateIssuedProps = {
@@ -39,7 +40,7 @@ export default function CertificateIssued({
           : "Its certificate lists the work we did, the parts we fitted and the band edges we measured."}
       </Text>
       <Text style={mailStyles.p}>
-        {kind} warranty, {termDays} days, until {endsOn}. Certificate code: <strong>{code}</strong>
+        {kind} warranty, {termDays} days, until {formatDay(endsOn)}. Certificate code: <strong>{code}</strong>
       </Text>
       <Button href={pdfUrl} style={mailStyles.button}>
         Download the certificate (PDF)

@@ -14,6 +14,8 @@ import { SafetyCautions } from "./safety-cautions";
 import type { BenchSheetJson } from "./types";
 import { VerdictBadge } from "./verdict-badge";
 import { proposedInstrument, READING_PHASE_LABEL, READING_PHASES, type InstrumentKind, type ReadingPhase } from "@/lib/engine/instruments";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 type SheetForm = { readings: { text: string; note: string }[] };
 type Requirement = BenchSheetJson["requirements"][number];
@@ -106,6 +108,7 @@ function ReadingRow({
   onInstrument: (id: string) => void;
   namedElsewhere: Map<string, { label: string; calibrationDueOn: string }>;
 }) {
+  const timeZone = useShopTimeZone();
   const stored = storedIn(r, phase);
   const other = storedIn(r, phase === "as_returned" ? "as_received" : "as_returned");
   const choices = offered.filter((i) => (r.instrumentKinds as readonly string[]).includes(i.kind));
@@ -219,7 +222,7 @@ function ReadingRow({
           </button>
         ) : stored ? (
           <span>
-            Saved{stored.recordedByName ? ` by ${stored.recordedByName}` : ""}, {new Date(stored.recordedAt).toLocaleString("en-US")}
+            Saved{stored.recordedByName ? ` by ${stored.recordedByName}` : ""}, {formatDateTime(stored.recordedAt, { timeZone, style: "compact" })}
             {storedInstrumentText ? <span className="block">with {storedInstrumentText}</span> : null}
             {stored.instrumentOverdue ? (
               <span className="block font-semibold text-fail" data-flag="calibration-overdue">
@@ -373,6 +376,7 @@ function Readings({ sheet, jobId, phase }: { sheet: BenchSheetJson; jobId: strin
 }
 
 function Tasks({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
+  const timeZone = useShopTimeZone();
   const qc = useQueryClient();
   const tickKey = [...benchKeys.sheet(jobId), "tick"];
   // A tick shows at once (local state); the server's answer then lands in the sheet, or the tick is taken back.
@@ -444,7 +448,7 @@ function Tasks({ sheet, jobId }: { sheet: BenchSheetJson; jobId: string }) {
                   {t.code in local
                     ? "Saving…"
                     : t.doneAt
-                      ? `✓ Done by ${t.doneByName ?? "you"}, ${new Date(t.doneAt).toLocaleString("en-US")}`
+                      ? `✓ Done by ${t.doneByName ?? "you"}, ${formatDateTime(t.doneAt, { timeZone, style: "compact" })}`
                       : "○ Open"}
                 </span>
               </span>

@@ -11,6 +11,8 @@ import { moneyText } from "@/lib/validation/estimate";
 import { api, ApiError, errorText } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { BenchSheetJson, JobDetailJson } from "./types";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDate } from "@/lib/engine/dates";
 
 type ReturnForm = z.input<typeof returnFormSchema>;
 
@@ -114,6 +116,7 @@ function ReturnPanel({ jobId }: { jobId: string }) {
 }
 
 export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
+  const timeZone = useShopTimeZone();
   const jobId = detail.job.id;
   const state = detail.job.state;
   const onChange = useStateChange(jobId);
@@ -234,7 +237,7 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
           {detail.job.returnMethod === "shipped"
             ? `by ${detail.job.carrier}, tracking ${detail.job.trackingNumber}`
             : "— picked up at the shop"}
-          {detail.job.returnedAt ? ` on ${new Date(detail.job.returnedAt).toLocaleDateString("en-US")}` : ""}.
+          {detail.job.returnedAt ? ` on ${formatDate(detail.job.returnedAt, { timeZone, style: "compact" })}` : ""}.
         </Notice>
       ) : null}
     </div>

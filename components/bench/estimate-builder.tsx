@@ -22,6 +22,8 @@ import {
 import { api, ApiError, errorText } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { EstimateViewJson } from "./types";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 type FormValues = { lines: DraftLineInput[] };
 
@@ -104,6 +106,7 @@ function LineFigures({ policy, lines, index }: { policy: ShopPolicy; lines: Draf
 }
 
 function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => void }) {
+  const timeZone = useShopTimeZone();
   const jobId = view.jobId;
   const qc = useQueryClient();
   const policy = view.policy;
@@ -610,7 +613,7 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                     <td className="figure">{r.revision}</td>
                     <td>{STATUS_WORDS[r.status] ?? r.status}</td>
                     <td className="figure">
-                      {new Date(r.sentAt).toLocaleString("en-US")} {r.sentByName ? `by ${r.sentByName}` : ""}
+                      {formatDateTime(r.sentAt, { timeZone, style: "compact" })} {r.sentByName ? `by ${r.sentByName}` : ""}
                     </td>
                     <td className="figure text-right">{moneyText(r.totalMinor, r.currency, policy.currency.exponent)}</td>
                     <td className="figure text-right">{moneyText(r.depositMinor, r.currency, policy.currency.exponent)}</td>

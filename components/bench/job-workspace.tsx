@@ -18,6 +18,8 @@ import { TriagePanel } from "./triage-panel";
 import { CancelJobPanel } from "./cancel-job-panel";
 import { JobThread } from "./job-thread";
 import type { JobDetailJson } from "./types";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 const TABS = [
   { id: "triage", label: "Triage" },
@@ -49,6 +51,7 @@ function profileBands(detail: JobDetailJson): Band[] {
 }
 
 export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canCancel?: boolean }) {
+  const timeZone = useShopTimeZone();
   const q = useQuery({ queryKey: benchKeys.job(jobId), queryFn: () => api<JobDetailJson>(`/api/bench/jobs/${jobId}`) });
   const [tab, setTab] = useState<TabId | null>(null);
   const tabRefs = useRef<Record<string, HTMLButtonElement | null>>({});
@@ -134,7 +137,7 @@ export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canC
         <ol className="mt-1 space-y-0.5">
           {d.history.map((h) => (
             <li key={h.id} className="figure text-xs">
-              {new Date(h.at).toLocaleString("en-US")} — {h.fromState ? `${STATE_LABEL[h.fromState].staff} → ` : ""}
+              {formatDateTime(h.at, { timeZone, style: "compact" })} — {h.fromState ? `${STATE_LABEL[h.fromState].staff} → ` : ""}
               {STATE_LABEL[h.toState].staff}
               {h.actorName ? ` by ${h.actorName}` : ""}
               {h.note ? ` · ${h.note}` : ""}

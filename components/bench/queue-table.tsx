@@ -21,6 +21,8 @@ import { INITIAL_QUEUE_PARAMS } from "@/lib/validation/queue-params";
 import { api, errorText } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
 import { TableScroll } from "@/components/ui/table-scroll";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 type QueueRow = {
   id: string;
@@ -46,16 +48,6 @@ type StaffMember = { id: string; name: string; role: string };
 const features = tableFeatures({ rowSortingFeature, rowPaginationFeature });
 const helper = createColumnHelper<typeof features, QueueRow>();
 const emptyRows: QueueRow[] = [];
-
-// Rendered first on the server, so the time is given in UTC (named) and reads the same in every browser.
-const dateFmt = new Intl.DateTimeFormat("en-US", {
-  month: "short",
-  day: "numeric",
-  hour: "2-digit",
-  minute: "2-digit",
-  hourCycle: "h23",
-  timeZone: "UTC",
-});
 
 function AssignCell({ row, staff }: { row: QueueRow; staff: StaffMember[] }) {
   const qc = useQueryClient();
@@ -99,6 +91,7 @@ function AssignCell({ row, staff }: { row: QueueRow; staff: StaffMember[] }) {
 type InitialQueue = { queue: QueuePage; staff: StaffMember[]; readAt: number };
 
 export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: InitialQueue }) {
+  const timeZone = useShopTimeZone();
   const [sorting, setSorting] = useState<SortingState>([{ id: "updatedAt", desc: true }]);
   const [pagination, setPagination] = useState<PaginationState>({ pageIndex: 0, pageSize: 25 });
   const [stateFilter, setStateFilter] = useState<string>("");
@@ -189,7 +182,7 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
     helper.accessor("updatedAt", {
       id: "updatedAt",
       header: "Last change",
-      cell: (info) => <span className="figure">{dateFmt.format(new Date(info.getValue()))} UTC</span>,
+      cell: (info) => <span className="figure">{formatDateTime(info.getValue(), { timeZone, style: "compact" })}</span>,
     }),
   ]);
 

@@ -175,7 +175,9 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                       <td>
                         <span aria-hidden="true">{REFUND_STATUS_LABEL[r.status].icon} </span>
                         {REFUND_STATUS_LABEL[r.status].text}
-                        {r.settledAt ? <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt, timeZone)}</span> : null}
+                        {r.settledAt ? (
+                          <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt, timeZone)}</span>
+                        ) : null}
                         {r.status === "pending" ? (
                           <button
                             type="button"

@@ -4,6 +4,8 @@ import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import type { ClaimSummary } from "@/lib/server/services/claims";
 import { warrantyKeys } from "@/lib/client/warranty-query-keys";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDate } from "@/lib/engine/dates";
 
 async function fetchMyClaims(): Promise<ClaimSummary[]> {
   const res = await fetch("/api/claims", { headers: { accept: "application/json" } });
@@ -12,6 +14,7 @@ async function fetchMyClaims(): Promise<ClaimSummary[]> {
 }
 
 export function MyClaims({ initial }: { initial: ClaimSummary[] }) {
+  const timeZone = useShopTimeZone();
   const { data, error } = useQuery({ queryKey: warrantyKeys.myClaims(), queryFn: fetchMyClaims, initialData: initial });
   if (error) return <p role="alert">{error.message}</p>;
   if (data.length === 0) return <p className="text-bakelite-soft">You have not opened any claims.</p>;
@@ -21,7 +24,7 @@ export function MyClaims({ initial }: { initial: ClaimSummary[] }) {
         <li key={c.id} className="card flex flex-wrap items-center justify-between gap-3 p-4">
           <div>
             <p className="figure text-xs text-bakelite-muted">
-              {c.createdAt.slice(0, 10)} · {c.certificateCode}
+              {formatDate(c.createdAt, { timeZone })} · {c.certificateCode}
             </p>
             <Link href={`/portal/claims/${c.id}`} className="font-semibold">
               {c.setName}

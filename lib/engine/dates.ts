@@ -83,7 +83,10 @@ export function formatDate(value: DateInput, { timeZone, style = "long", locale 
 }
 
 /** The time of day in the shop's zone, 24-hour: "14:05", or "14:05 GMT" with the zone. */
-export function formatTime(value: DateInput, { timeZone, locale = DISPLAY_LOCALE, showZone = false }: ZoneOptions & { showZone?: boolean }): string {
+export function formatTime(
+  value: DateInput,
+  { timeZone, locale = DISPLAY_LOCALE, showZone = false }: ZoneOptions & { showZone?: boolean },
+): string {
   const d = toInstant(value);
   if (!d) return EMPTY;
   return formatter(locale, timeZone, showZone ? { ...TIME_PARTS, timeZoneName: "short" } : TIME_PARTS).format(d);
@@ -101,7 +104,11 @@ export function formatDateTime(value: DateInput, options: ZoneOptions & { showZo
 }
 
 /** Two instants as a span of days in the shop's zone: "2 – 20 December 2026", "30 Nov – 2 Dec 2026". */
-export function formatDateRange(from: DateInput, to: DateInput, { timeZone, style = "long", locale = DISPLAY_LOCALE }: ZoneOptions): string {
+export function formatDateRange(
+  from: DateInput,
+  to: DateInput,
+  { timeZone, style = "long", locale = DISPLAY_LOCALE }: ZoneOptions,
+): string {
   const a = toInstant(from);
   const b = toInstant(to);
   if (!a || !b) return EMPTY;
@@ -121,14 +128,21 @@ function dayAsInstant(isoDay: string): Date | null {
 }
 
 /** "2026-12-02" → "2 December 2026" (long) or "2 Dec 2026" (compact); text that is not a day is left as it is. */
-export function formatDay(isoDay: string | null | undefined, { style = "long", locale = DISPLAY_LOCALE }: { style?: DateStyle; locale?: string } = {}): string {
+export function formatDay(
+  isoDay: string | null | undefined,
+  { style = "long", locale = DISPLAY_LOCALE }: { style?: DateStyle; locale?: string } = {},
+): string {
   if (!isoDay) return EMPTY;
   const d = dayAsInstant(isoDay);
   return d ? formatter(locale, "UTC", DAY_PARTS[style]).format(d) : isoDay;
 }
 
 /** Two stored days as a span: "2 – 20 December 2026". */
-export function formatDayRange(fromDay: string, toDay: string, { style = "long", locale = DISPLAY_LOCALE }: { style?: DateStyle; locale?: string } = {}): string {
+export function formatDayRange(
+  fromDay: string,
+  toDay: string,
+  { style = "long", locale = DISPLAY_LOCALE }: { style?: DateStyle; locale?: string } = {},
+): string {
   const a = dayAsInstant(fromDay);
   const b = dayAsInstant(toDay);
   if (!a || !b) return `${formatDay(fromDay, { style, locale })} – ${formatDay(toDay, { style, locale })}`;

@@ -112,7 +112,7 @@ describe("warranty term: counted from the day after the return (REFERENCES: comm
 
   test("both dates in words", () => {
     expect(describeTerm(computeWarrantyTerm("2025-03-01", 90), "2025-03-01")).toBe(
-      "90 days after the set was returned on 2025-03-01: from 2025-03-02 to 2025-05-30, both days included.",
+      "90 days after the set was returned on 1 March 2025: from 2 March 2025 to 30 May 2025, both days included.",
     );
   });
 

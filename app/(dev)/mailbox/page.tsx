@@ -3,6 +3,8 @@ import { notFound } from "next/navigation";
 import { SiteHeader } from "@/components/site-header";
 import { getViewer } from "@/lib/server/session";
 import { env } from "@/lib/server/env";
+import { formatDateTime } from "@/lib/engine/dates";
+import { shopTimeZone } from "@/lib/server/services/shop";
 
 export const metadata: Metadata = { title: "Mailbox (development)", robots: { index: false } };
 export const dynamic = "force-dynamic";
@@ -26,6 +28,7 @@ export default async function MailboxPage({ searchParams }: { searchParams: Prom
     problem = "The local mail stand-in is not answering.";
   }
   const open = messages.find((m) => m.id === id) ?? messages[0];
+  const timeZone = await shopTimeZone();
   return (
     <>
       <SiteHeader viewer={await getViewer()} />
@@ -55,7 +58,9 @@ export default async function MailboxPage({ searchParams }: { searchParams: Prom
                 >
                   <span className="block font-semibold">{m.subject}</span>
                   <span className="block text-bakelite-muted">to {m.to.join(", ")}</span>
-                  <span className="figure block text-xs text-bakelite-muted">{new Date(m.createdAt).toLocaleString("en-US")}</span>
+                  <span className="figure block text-xs text-bakelite-muted">
+                    {formatDateTime(m.createdAt, { timeZone, style: "compact", showZone: true })}
+                  </span>
                 </a>
               </li>
             ))}

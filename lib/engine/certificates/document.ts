@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { dayInZone } from "../dates";
 import { describeTerm } from "../warranty/term";
 import { INSTRUMENT_KINDS } from "../instruments";
 import { certificateContentSchema } from "./content";
@@ -122,8 +123,9 @@ export function parseCertificateDocument(content: unknown): CertificateDocument 
 
 export type CertificateStatus = "valid" | "expired" | "revoked" | "superseded" | "unverifiable";
 
-export function todayIso(now = new Date()): string {
-  return now.toISOString().slice(0, 10);
+/** Today's calendar day in the shop's zone (UTC when none is given), as "YYYY-MM-DD". */
+export function todayIso(now = new Date(), timeZone = "UTC"): string {
+  return dayInZone(now, timeZone);
 }
 
 /** "AU-52-1187" → "AU••••87": enough for a buyer to match the set in front of them, not its length or the rest. */

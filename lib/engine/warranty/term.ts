@@ -1,3 +1,4 @@
+import { formatDay } from "../dates";
 import { EngineError } from "../engine-error";
 
 const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
@@ -60,12 +61,13 @@ export function isWithinTerm(term: WarrantyTerm, onDate: string): boolean {
 }
 
 /**
- * The term in words, with both dates. Certificates signed before the term counted from the day after
+ * The term in words, with both dates written out ("2 March 2025"): the days are calendar days and print as
+ * themselves in any zone. Certificates signed before the term counted from the day after
  * the return start on the return day itself and are described as they were signed.
  */
 export function describeTerm(term: { termDays: number; startsOn: string; endsOn: string }, returnedOn: string): string {
   if (term.termDays === 0) return "No warranty term.";
   return term.startsOn === returnedOn
-    ? `${term.termDays} days from ${term.startsOn}, the day the set was returned, to ${term.endsOn}.`
-    : `${term.termDays} days after the set was returned on ${returnedOn}: from ${term.startsOn} to ${term.endsOn}, both days included.`;
+    ? `${term.termDays} days from ${formatDay(term.startsOn)}, the day the set was returned, to ${formatDay(term.endsOn)}.`
+    : `${term.termDays} days after the set was returned on ${formatDay(returnedOn)}: from ${formatDay(term.startsOn)} to ${formatDay(term.endsOn)}, both days included.`;
 }

@@ -4,6 +4,7 @@ import { join } from "node:path";
 import { Document, Font, Image, Page, StyleSheet, Text, View, renderToBuffer } from "@react-pdf/renderer";
 import QRCode from "qrcode";
 import { setKindLabels } from "@/lib/engine/checklist/profile";
+import { formatDay } from "@/lib/engine/dates";
 import { describeTerm } from "@/lib/engine/warranty/term";
 import type { CertificateDocument, CertificateReading } from "@/lib/engine/certificates/document";
 import { woffToSfnt } from "@/lib/server/pdf/woff";
@@ -328,7 +329,7 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
             <Text style={s.code}>Code {d.code}</Text>
             {d.answers ? (
               <Text style={s.small}>
-                Warranty work under certificate {d.answers.certificateCode}, claim of {d.answers.claimOpenedOn} (ref.{" "}
+                Warranty work under certificate {d.answers.certificateCode}, claim of {formatDay(d.answers.claimOpenedOn)} (ref.{" "}
                 {d.answers.claimId.slice(0, 8)}). Covers the work and parts listed here.
               </Text>
             ) : null}
@@ -353,10 +354,10 @@ function CertificatePdf({ document: d, verifyUrl, keyId, qr, status }: Certifica
           <Fact label="Serial" value={d.set.serial ?? "not recorded"} />
           <Fact label="Issued to" value={d.owner.name || "—"} />
           <Fact label="Technician" value={d.technician.name} />
-          <Fact label="Returned" value={d.completedOn} />
-          <Fact label="Term starts" value={d.warranty.startsOn} />
-          <Fact label="Term ends" value={d.warranty.endsOn} />
-          <Fact label="Issued" value={d.issuedOn} />
+          <Fact label="Returned" value={formatDay(d.completedOn)} />
+          <Fact label="Term starts" value={formatDay(d.warranty.startsOn)} />
+          <Fact label="Term ends" value={formatDay(d.warranty.endsOn)} />
+          <Fact label="Issued" value={formatDay(d.issuedOn)} />
         </View>
 
         <Text style={s.h2}>Band edges, measured against the dial</Text>

@@ -20,6 +20,7 @@ import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
 import { getShop, type Shop } from "@/lib/server/services/shop";
+import { dayInZone } from "@/lib/engine/dates";
 import { queueRevocationNotice } from "./notices";
 import { buildPerformanceSection } from "@/lib/engine/certificates/performance-section";
 import { isPerformanceKey, listPerformanceReadings } from "@/lib/engine/performance";
@@ -116,8 +117,9 @@ export function certificateStatus(
 
 // ---------------------------------------------------------------------------------------------
 
-function isoDay(d: Date | null | undefined): string {
-  return (d ?? new Date()).toISOString().slice(0, 10);
+// The calendar day on which something happened at the shop, in the shop's zone.
+function isoDay(d: Date | null | undefined, timeZone: string): string {
+  return dayInZone(d ?? new Date(), timeZone);
 }
 
 // Part lines are coded "part.<catalogue code>[.n]"; the certificate names the catalogue part itself.
@@ -231,7 +233,7 @@ function buildDocument(
     ordered.length > 0 ? ordered.map((t) => ({ code: t.code, title: t.title })) : workLines.map((l) => ({ code: l.code, title: l.title }));
   const parts = partLines.map((l) => ({ code: bareCode(l.code), title: l.title, quantity: l.quantity }));
 
-  const completedOn = isoDay(src.job.returnedAt ?? src.job.completedAt);
+  const completedOn = isoDay(src.job.returnedAt ?? src.job.completedAt, shop.timeZone);
   const content = buildCertificateContent(
     {
       code,
@@ -247,7 +249,7 @@ function buildDocument(
       owner: { name: src.owner?.name ?? "" },
       technician: { name: technicianName },
       completedOn,
-      issuedOn: todayIso(),
+      issuedOn: todayIso(new Date(), shop.timeZone),
       profile: profile.data,
       work,
       parts,
@@ -371,6 +373,7 @@ async function queueIssuedMail(ctx: TxContext, src: Sources, row: Certificate, d
 async function answersOf(
   ctx: TxContext,
   job: { isWarranty: boolean; certificateId: string | null; claimId: string | null },
+  timeZone: string,
 ): Promise<CertificateDocument["answers"]> {
   if (!job.isWarranty || !job.certificateId || !job.claimId) return undefined;
   const [original] = await ctx.tx
@@ -380,7 +383,7 @@ async function answersOf(
     .limit(1);
   const [claim] = await ctx.tx.select({ createdAt: claims.createdAt }).from(claims).where(eq(claims.id, job.claimId)).limit(1);
   if (!original || !claim) return undefined;
-  return { certificateCode: original.code, claimId: job.claimId, claimOpenedOn: claim.createdAt.toISOString().slice(0, 10) };
+  return { certificateCode: original.code, claimId: job.claimId, claimOpenedOn: dayInZone(claim.createdAt, timeZone) };
 }
 
 /**
@@ -410,7 +413,7 @@ export async function issueCertificate(
     generateCertificateCode(),
     technicianName,
     undefined,
-    await answersOf(ctx, src.job),
+    await answersOf(ctx, src.job, shop.timeZone),
   );
   const row = await insertSigned(ctx, src, doc, null);
   await audit(ctx, {
@@ -449,7 +452,7 @@ export async function reissueCertificate(
     generateCertificateCode(),
     technicianName,
     { supersedesCode: old.code, reason },
-    await answersOf(ctx, src.job),
+    await answersOf(ctx, src.job, shop.timeZone),
   );
   // The term runs from the original completion, whatever day the correction is made.
   const row = await insertSigned(ctx, src, doc, old.id);

@@ -15,7 +15,7 @@ import { certificateStatus } from "@/lib/server/services/certificates";
 import { todayIso, type CertificateDocument } from "@/lib/engine/certificates/document";
 import { saveDraft } from "@/lib/server/services/estimates";
 import { recordJobCreated, transitionJob } from "@/lib/server/services/jobs";
-import { getShop } from "@/lib/server/services/shop";
+import { getShop, readShopTimeZone } from "@/lib/server/services/shop";
 import { readTicket } from "@/lib/server/uploads/photos";
 import type { DraftLine } from "@/lib/validation/estimate";
 import type { ClaimDecision } from "@/lib/validation/claims";
@@ -128,7 +128,7 @@ export async function openClaim(ctx: TxContext, args: OpenClaimArgs): Promise<Cl
       });
   }
 
-  const reportedOn = todayIso();
+  const reportedOn = todayIso(new Date(), await readShopTimeZone(ctx.tx));
   const findings: ClaimFinding[] = args.statements.map((code) => ({ code, status: "confirmed" }));
   const advice = computeAdvice(document, { reportedOn, symptom: args.symptomCategory, findings }, "claimant");
 
@@ -218,7 +218,11 @@ export async function decideClaim(
     for (const code of findings) merged.set(code, { code, status: "confirmed" });
     advice = computeAdvice(
       document,
-      { reportedOn: previous.reportedOn ?? todayIso(), symptom: claim.symptomCategory as ClaimSymptom, findings: [...merged.values()] },
+      {
+        reportedOn: previous.reportedOn ?? todayIso(new Date(), await readShopTimeZone(ctx.tx)),
+        symptom: claim.symptomCategory as ClaimSymptom,
+        findings: [...merged.values()],
+      },
       "staff",
     );
   }

@@ -16,6 +16,8 @@ import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/accou
 import { applyRefundEvent } from "@/lib/server/services/refunds";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { moneyText } from "@/lib/validation/estimate";
+import { formatDate } from "@/lib/engine/dates";
+import { readShopTimeZone } from "@/lib/server/services/shop";
 
 export type PaymentPurpose = "deposit" | "balance";
 type PaymentRow = typeof payments.$inferSelect;
@@ -480,7 +482,7 @@ async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: st
       setName: `${row.set.maker} ${row.set.model}`,
       url: `${env().APP_URL}/portal/jobs/${row.job.id}`,
       amountText: moneyText(payment.amountMinor, payment.currency, exponentOf(row.revision)),
-      paidAt: paidAt.toLocaleDateString("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" }),
+      paidAt: formatDate(paidAt, { timeZone: await readShopTimeZone(tx) }),
       reference: paymentIntentId ?? payment.id,
     },
     dedupeKey: `receipt:${payment.id}`,

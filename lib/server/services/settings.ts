@@ -8,6 +8,7 @@ import {
 import { transaction } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { isEngineError } from "@/lib/engine/engine-error";
+import { formatDateTime } from "@/lib/engine/dates";
 import { currencyChangeRefusal } from "@/lib/engine/pricing/currency-change";
 import { AppError } from "@/lib/server/errors";
 import { getShop } from "@/lib/server/services/shop";
@@ -80,10 +81,10 @@ export async function saveSettings({ values, actorId }: { values: SettingsFormVa
     if (refusal) throw new AppError("conflict", refusal, { "currency.code": refusal });
     if (current.version !== values.version) {
       const who = (await getSettingsEditorForOwner({ userId: current.updatedBy })) ?? "someone";
-      const when = current.updatedAt.toISOString().replace("T", " ").slice(0, 16);
+      const when = formatDateTime(current.updatedAt, { timeZone: stored.timeZone, style: "compact", showZone: true });
       throw new AppError(
         "stale",
-        `These settings were saved by ${who} at ${when} UTC after you opened them. Nothing was saved; your changes are still in the form. Compare, then save again.`,
+        `These settings were saved by ${who} at ${when} after you opened them. Nothing was saved; your changes are still in the form. Compare, then save again.`,
       );
     }
     const updated = await updateShopSettingsIfVersion(ctx, {

@@ -45,8 +45,11 @@ export async function getShop(tx: Database = db): Promise<Shop> {
   };
 }
 
-/** The shop's time zone, read once per request however many dates a page prints. */
-export const shopTimeZone = cache(async (): Promise<string> => {
-  const [row] = await db.select({ timeZone: shopSettings.timeZone }).from(shopSettings).where(eq(shopSettings.id, "shop")).limit(1);
+/** The shop's time zone (inside a transaction, pass its handle). */
+export async function readShopTimeZone(tx: Database = db): Promise<string> {
+  const [row] = await tx.select({ timeZone: shopSettings.timeZone }).from(shopSettings).where(eq(shopSettings.id, "shop")).limit(1);
   return (row && canonicalTimeZone(row.timeZone)) ?? DEFAULT_SHOP_TIME_ZONE;
-});
+}
+
+/** The shop's time zone, read once per request however many dates a page prints. */
+export const shopTimeZone = cache(() => readShopTimeZone());

@@ -4,6 +4,8 @@ import { listClaimsForStaff } from "@/db/queries/claims";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { CLAIM_STATUS_LABEL, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
 import { requirePermission } from "@/lib/server/session";
+import { shopTimeZone } from "@/lib/server/services/shop";
+import { formatDate } from "@/lib/engine/dates";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
 import type { ClaimSymptom } from "@/lib/engine/warranty";
 import { TableScroll } from "@/components/ui/table-scroll";
@@ -16,7 +18,7 @@ export default async function BenchClaimsPage({ searchParams }: { searchParams: 
   await requirePermission("claim.review", "/bench/claims");
   const { show } = await searchParams;
   const filter = show === "decided" || show === "all" ? show : "open";
-  const rows = await listClaimsForStaff({ statuses: [...FILTERS[filter]] });
+  const [rows, timeZone] = await Promise.all([listClaimsForStaff({ statuses: [...FILTERS[filter]] }), shopTimeZone()]);
   return (
     <div className="space-y-3">
       <div className="flex flex-wrap items-end justify-between gap-3">
@@ -57,7 +59,7 @@ export default async function BenchClaimsPage({ searchParams }: { searchParams: 
                 const status = CLAIM_STATUS_LABEL[r.claim.status];
                 return (
                   <tr key={r.claim.id}>
-                    <td className="figure">{r.claim.createdAt.toISOString().slice(0, 10)}</td>
+                    <td className="figure">{formatDate(r.claim.createdAt, { timeZone, style: "compact" })}</td>
                     <td>
                       <Link href={`/bench/claims/${r.claim.id}`}>
                         {set?.maker} {set?.model}

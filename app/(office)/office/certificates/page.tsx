@@ -7,6 +7,7 @@ import { jobNumber } from "@/lib/engine/jobs/states";
 import { can } from "@/lib/engine/permissions";
 import { certificateStatus } from "@/lib/server/services/certificates";
 import { requirePermission } from "@/lib/server/session";
+import { formatDay } from "@/lib/engine/dates";
 import { TableScroll } from "@/components/ui/table-scroll";
 
 export const metadata: Metadata = { title: "Certificates" };
@@ -50,7 +51,7 @@ export default async function OfficeCertificatesPage() {
                     <td>{d ? `${d.set.maker} ${d.set.model}` : "—"}</td>
                     <td>{customerName}</td>
                     <td className="figure">{jobNumber(n)}</td>
-                    <td className="figure">{d?.warranty.endsOn ?? "—"}</td>
+                    <td className="figure">{formatDay(d?.warranty.endsOn, { style: "compact" })}</td>
                     <td>
                       <CertificateStatusBadge status={status} />
                       {c.revokeReason ? <p className="text-xs">{c.revokeReason}</p> : null}

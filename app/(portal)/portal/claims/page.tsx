@@ -7,6 +7,7 @@ import { listClaimsForClaimant } from "@/db/queries/claims";
 import { certificateStatus } from "@/lib/server/services/certificates";
 import { claimSummary } from "@/lib/server/services/claims";
 import { requirePermission } from "@/lib/server/session";
+import { formatDay } from "@/lib/engine/dates";
 
 export const metadata: Metadata = { title: "Warranty claims" };
 
@@ -42,7 +43,7 @@ export default async function PortalClaimsPage() {
                   <div>
                     <p className="figure text-xs text-bakelite-muted">{c.code}</p>
                     <p className="font-semibold">{d ? `${d.set.maker} ${d.set.model}` : "Certificate"}</p>
-                    {d ? <p className="text-sm text-bakelite-soft">Warranty until {d.warranty.endsOn}</p> : null}
+                    {d ? <p className="text-sm text-bakelite-soft">Warranty until {formatDay(d.warranty.endsOn)}</p> : null}
                   </div>
                   <div className="flex flex-wrap items-center gap-3">
                     <CertificateStatusBadge status={status} />

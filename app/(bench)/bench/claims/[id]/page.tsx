@@ -11,6 +11,8 @@ import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
 import { CLAIM_STATUS_LABEL, computeAdvice, OUTCOME_LABEL, type StoredAdvice } from "@/lib/server/services/claims";
 import { isSafetySymptom } from "@/lib/engine/warranty/advise-claim";
 import { requirePermission } from "@/lib/server/session";
+import { shopTimeZone } from "@/lib/server/services/shop";
+import { formatDateTime, formatDay } from "@/lib/engine/dates";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
 import { exclusionWording, type ClaimSymptom } from "@/lib/engine/warranty";
 
@@ -19,6 +21,7 @@ export const metadata: Metadata = { title: "Claim" };
 export default async function BenchClaimPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
   const viewer = await requirePermission("claim.review", `/bench/claims/${id}`);
+  const timeZone = await shopTimeZone();
   const row = isUuid(id) ? await getClaimForStaff({ claimId: id }) : null;
   if (!row) notFound();
   const photos = await listClaimPhotos({ claimId: id });
@@ -63,7 +66,7 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
           </h2>
           <p>
             <strong>{SYMPTOM_LABEL[row.claim.symptomCategory as ClaimSymptom] ?? row.claim.symptomCategory}</strong> · opened{" "}
-            {row.claim.createdAt.toISOString().slice(0, 10)} by {row.claimantName} ({row.claimantEmail})
+            {formatDateTime(row.claim.createdAt, { timeZone, style: "compact" })} by {row.claimantName} ({row.claimantEmail})
             {row.certificateCustomerId !== row.claim.claimantId ? " — a later owner, claiming with the code" : ""}
           </p>
           <p className="whitespace-pre-wrap">{row.claim.description}</p>
@@ -129,7 +132,8 @@ export default async function BenchClaimPage({ params }: { params: Promise<{ id:
         {d ? (
           <div className="grid gap-3 text-sm md:grid-cols-3">
             <p>
-              Term {d.warranty.startsOn} to {d.warranty.endsOn} ({d.warranty.termDays} days)
+              Term {formatDay(d.warranty.startsOn, { style: "compact" })} to {formatDay(d.warranty.endsOn, { style: "compact" })} (
+              {d.warranty.termDays} days)
             </p>
             <p>Work: {d.work.map((w) => w.title).join("; ")}</p>
             <p>Parts: {d.parts.map((p) => `${p.title} × ${p.quantity}`).join("; ") || "none"}</p>

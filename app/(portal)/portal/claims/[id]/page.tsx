@@ -5,6 +5,8 @@ import { getClaimForClaimant } from "@/db/queries/claims";
 import { isUuid } from "@/lib/server/services/certificates";
 import { CLAIM_STATUS_LABEL, claimSummary } from "@/lib/server/services/claims";
 import { requirePermission } from "@/lib/server/session";
+import { formatDate } from "@/lib/engine/dates";
+import { shopTimeZone } from "@/lib/server/services/shop";
 import { SYMPTOM_LABEL } from "@/lib/validation/claims";
 import type { ClaimSymptom } from "@/lib/engine/warranty";
 
@@ -13,6 +15,7 @@ export const metadata: Metadata = { title: "Warranty claim" };
 export default async function ClaimPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
   const viewer = await requirePermission("claim.open", `/portal/claims/${id}`);
+  const timeZone = await shopTimeZone();
   const row = isUuid(id) ? await getClaimForClaimant({ claimId: id, claimantId: viewer.id }) : null;
   if (!row) notFound();
   const c = claimSummary(row);
@@ -31,7 +34,7 @@ export default async function ClaimPage({ params }: { params: Promise<{ id: stri
         <dl className="grid grid-cols-1 gap-2 sm:grid-cols-2">
           <div>
             <dt className="field-label">Opened</dt>
-            <dd className="figure">{c.createdAt.slice(0, 10)}</dd>
+            <dd>{formatDate(c.createdAt, { timeZone })}</dd>
           </div>
           <div>
             <dt className="field-label">Certificate</dt>
@@ -44,7 +47,7 @@ export default async function ClaimPage({ params }: { params: Promise<{ id: stri
           {c.decidedAt ? (
             <div>
               <dt className="field-label">Decided</dt>
-              <dd className="figure">{c.decidedAt.slice(0, 10)}</dd>
+              <dd>{formatDate(c.decidedAt, { timeZone })}</dd>
             </div>
           ) : null}
         </dl>

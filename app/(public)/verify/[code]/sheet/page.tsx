@@ -13,6 +13,8 @@ import { EngineError } from "@/lib/engine/engine-error";
 import { certificateStatus } from "@/lib/server/services/certificates";
 import { isVerifyRenderRequest } from "@/lib/server/verify-pages";
 import { maskSerial } from "@/lib/engine/certificates/document";
+import { formatDate, formatDay } from "@/lib/engine/dates";
+import { shopTimeZone } from "@/lib/server/services/shop";
 
 export const dynamic = "force-dynamic";
 export const metadata: Metadata = { title: "Certificate check", robots: { index: false, follow: false } };
@@ -126,19 +128,18 @@ export default async function VerifyCodeSheet({
         </div>
         {status === "valid" ? (
           <p>
-            {designation} warranty of {d.warranty.termDays} days, in force from <strong className="figure">{d.warranty.startsOn}</strong>{" "}
-            until <strong className="figure">{d.warranty.endsOn}</strong>.
+            {designation} warranty of {d.warranty.termDays} days, in force from <strong>{formatDay(d.warranty.startsOn)}</strong> until{" "}
+            <strong>{formatDay(d.warranty.endsOn)}</strong>.
           </p>
         ) : null}
         {status === "expired" ? (
           <p>
-            The {designation.toLowerCase()} warranty of {d.warranty.termDays} days ended on{" "}
-            <strong className="figure">{d.warranty.endsOn}</strong>. The measurements below are still those recorded when the set left the
-            shop.
+            The {designation.toLowerCase()} warranty of {d.warranty.termDays} days ended on <strong>{formatDay(d.warranty.endsOn)}</strong>.
+            The measurements below are still those recorded when the set left the shop.
           </p>
         ) : null}
         {status === "revoked" ? (
-          <Notice tone="error" title={`Revoked on ${row.revokedAt!.toISOString().slice(0, 10)}`}>
+          <Notice tone="error" title={`Revoked on ${formatDate(row.revokedAt, { timeZone: await shopTimeZone() })}`}>
             <p>The shop revoked this certificate. Reason given: {row.revokeReason}</p>
           </Notice>
         ) : null}
@@ -161,8 +162,8 @@ export default async function VerifyCodeSheet({
         {d.correction ? <p className="text-sm">This certificate corrects an earlier one ({d.correction.supersedesCode}).</p> : null}
         {d.answers ? (
           <p className="text-sm" data-testid="answers">
-            Warranty work under certificate {d.answers.certificateCode} (claim of {d.answers.claimOpenedOn}): it covers the work and parts
-            listed here.
+            Warranty work under certificate {d.answers.certificateCode} (claim of {formatDay(d.answers.claimOpenedOn)}): it covers the work
+            and parts listed here.
           </p>
         ) : null}
         <dl className="grid grid-cols-1 gap-x-6 gap-y-2 sm:grid-cols-2">
@@ -183,7 +184,7 @@ export default async function VerifyCodeSheet({
           </div>
           <div>
             <dt className="field-label">Restoration completed</dt>
-            <dd className="figure">{d.completedOn}</dd>
+            <dd>{formatDay(d.completedOn)}</dd>
           </div>
           <div>
             <dt className="field-label">Passes to a later owner</dt>

@@ -5,6 +5,8 @@ import { AppError } from "@/lib/server/errors";
 import { certificatePdfFailure, renderCertificatePdfOffThread } from "@/lib/server/pdf/certificate-pdf-pool";
 import { RenderPoolError } from "@/lib/server/pdf/render-pool";
 import { can } from "@/lib/engine/permissions";
+import { formatDate } from "@/lib/engine/dates";
+import { shopTimeZone } from "@/lib/server/services/shop";
 import { certificateStatus, isUuid } from "@/lib/server/services/certificates";
 
 export const runtime = "nodejs";
@@ -26,7 +28,9 @@ export const GET = route<{ id: string }>({ permission: "certificate.download" },
     issuedAt: row.issuedAt,
     status: {
       revoked:
-        status === "revoked" && row.revokedAt ? { reason: row.revokeReason ?? "", on: row.revokedAt.toISOString().slice(0, 10) } : null,
+        status === "revoked" && row.revokedAt
+          ? { reason: row.revokeReason ?? "", on: formatDate(row.revokedAt, { timeZone: await shopTimeZone() }) }
+          : null,
       supersededByCode: newer?.code ?? null,
     },
   };

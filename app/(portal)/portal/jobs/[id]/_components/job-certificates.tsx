@@ -1,6 +1,7 @@
 import { CertificateStatusBadge } from "@/components/warranty/certificate-status";
 import { listCertificatesForJobOfCustomer } from "@/db/queries/certificates";
 import { certificateStatus } from "@/lib/server/services/certificates";
+import { formatDay } from "@/lib/engine/dates";
 
 /** For the owner's job page: the job's certificates with their PDF download. Renders nothing before return. */
 export async function JobCertificates({ jobId, customerId }: { jobId: string; customerId: string }) {
@@ -18,7 +19,7 @@ export async function JobCertificates({ jobId, customerId }: { jobId: string; cu
             <li key={c.id} className="flex flex-wrap items-center gap-3">
               <span className="figure text-sm">{c.code}</span>
               <CertificateStatusBadge status={status} />
-              {d ? <span className="text-sm">until {d.warranty.endsOn}</span> : null}
+              {d ? <span className="text-sm">until {formatDay(d.warranty.endsOn)}</span> : null}
               <a className="btn-secondary" href={`/api/certificates/${c.id}/pdf`}>
                 Download the certificate (PDF)
               </a>

@@ -14,6 +14,8 @@ import { EstimatePanel } from "./estimate-panel";
 import { MessageThread } from "./message-thread";
 import { PayButton } from "./pay-button";
 import { WithdrawRequest } from "./withdraw-request";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
   requested: "A technician will read your request and look at the photos. You will hear from us by e-mail.",
@@ -35,9 +37,9 @@ const NEXT_STEP: Partial<Record<PortalJobView["job"]["state"], string>> = {
 const SHIPPED_STEP =
   "Your set is on its way back to you with the carrier. Its warranty certificate is below: keep the PDF, and show its code to a later buyer.";
 
-// The first render happens on the server: a fixed time zone keeps server and browser text identical.
-function when(iso: string): string {
-  return `${new Date(iso).toLocaleString("en-GB", { day: "numeric", month: "long", year: "numeric", hour: "2-digit", minute: "2-digit", timeZone: "UTC" })} UTC`;
+// Owners may live far from the shop: times are the shop's, with its zone named.
+function when(iso: string, timeZone: string): string {
+  return formatDateTime(iso, { timeZone, showZone: true });
 }
 
 // `initial` is the same view loaded by the page on the server, so the job shows in the first HTML
@@ -55,6 +57,7 @@ export function JobView({
   paymentCancelled: boolean;
   certificates?: ReactNode;
 }) {
+  const timeZone = useShopTimeZone();
   const query = useQuery({
     queryKey: portalKeys.job(jobId),
     queryFn: () => api<PortalJobView>(`/api/portal/jobs/${jobId}`),
@@ -208,7 +211,7 @@ export function JobView({
                 <span>
                   {p.status === "paid" ? (
                     <span className="text-pass">
-                      <span aria-hidden="true">✓ </span>Paid{p.paidAt ? ` on ${when(p.paidAt)}` : ""}
+                      <span aria-hidden="true">✓ </span>Paid{p.paidAt ? ` on ${when(p.paidAt, timeZone)}` : ""}
                     </span>
                   ) : p.status === "duplicate" ? (
                     <span>
@@ -288,7 +291,7 @@ export function JobView({
                 {t.icon}
               </span>
               <span className="font-semibold">{t.label}</span>
-              <span className="ml-2 text-sm text-bakelite-muted">{when(t.at)}</span>
+              <span className="ml-2 text-sm text-bakelite-muted">{when(t.at, timeZone)}</span>
             </li>
           ))}
         </ol>

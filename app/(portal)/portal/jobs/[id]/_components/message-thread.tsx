@@ -7,6 +7,8 @@ import { Notice } from "@/components/ui/notice";
 import type { PortalMessage } from "@/lib/server/services/portal-view";
 import { api } from "../../../_lib/api";
 import { portalKeys } from "../../../_lib/query-keys";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 // Same height as the form it stands in for, so nothing moves when the form arrives.
 function ComposerPlaceholder() {
@@ -16,6 +18,7 @@ function ComposerPlaceholder() {
 const MessageComposer = dynamic(() => import("./message-composer"), { ssr: false, loading: ComposerPlaceholder });
 
 export function MessageThread({ jobId }: { jobId: string }) {
+  const timeZone = useShopTimeZone();
   const messages = useQuery({
     queryKey: portalKeys.messages(jobId),
     queryFn: () => api<{ messages: PortalMessage[]; unread: number }>(`/api/portal/jobs/${jobId}/messages`),
@@ -57,9 +60,7 @@ export function MessageThread({ jobId }: { jobId: string }) {
                 {m.unread ? <span className="mr-2 rounded border border-ember px-1 text-xs text-ember-dark">New</span> : null}
                 {m.from}
                 {m.isQuestion ? <span className="ml-2 text-ember-dark">asked a question</span> : null}
-                <span className="ml-2 font-normal text-bakelite-muted">
-                  {new Date(m.createdAt).toLocaleString("en-GB", { day: "numeric", month: "short", hour: "2-digit", minute: "2-digit" })}
-                </span>
+                <span className="ml-2 font-normal text-bakelite-muted">{formatDateTime(m.createdAt, { timeZone, showZone: true })}</span>
               </p>
               <p className="mt-1 whitespace-pre-line">{m.body}</p>
               {m.photos.length ? (
