@@ -30,7 +30,9 @@ const ISO_DAY = /^(\d{4})-(\d{2})-(\d{2})$/;
  */
 export function canonicalTimeZone(name: string): string | null {
   const trimmed = name.trim();
-  if (!trimmed || /^[+-]/.test(trimmed)) return null;
+  // Region names only ("Area/City"), or UTC: abbreviations such as "EST" are ambiguous and some map to a
+  // zone the owner did not mean.
+  if (!/^(?:[A-Za-z][A-Za-z0-9_+-]*(?:\/[A-Za-z0-9_+-]+)+|UTC)$/i.test(trimmed)) return null;
   try {
     return new Intl.DateTimeFormat("en", { timeZone: trimmed }).resolvedOptions().timeZone;
   } catch {
@@ -70,6 +72,10 @@ const DAY_PARTS: Record<DateStyle, Intl.DateTimeFormatOptions> = {
 };
 const TIME_PARTS: Intl.DateTimeFormatOptions = { hour: "2-digit", minute: "2-digit", hourCycle: "h23" };
 
+// Locale data versions differ in thin and narrow no-break spaces (around a range's dash, before a zone name):
+// plain spaces keep the server's and the browser's text identical.
+const plain = (text: string) => text.replace(/[\u2009\u202f\u00a0]/g, " ");
+
 function toInstant(value: DateInput): Date | null {
   if (value === null || value === undefined || value === "") return null;
   const d = value instanceof Date ? value : new Date(value);
@@ -89,7 +95,7 @@ export function formatTime(
 ): string {
   const d = toInstant(value);
   if (!d) return EMPTY;
-  return formatter(locale, timeZone, showZone ? { ...TIME_PARTS, timeZoneName: "short" } : TIME_PARTS).format(d);
+  return plain(formatter(locale, timeZone, showZone ? { ...TIME_PARTS, timeZoneName: "short" } : TIME_PARTS).format(d));
 }
 
 /**
@@ -113,7 +119,7 @@ export function formatDateRange(
   const b = toInstant(to);
   if (!a || !b) return EMPTY;
   const [first, last] = a.getTime() <= b.getTime() ? [a, b] : [b, a];
-  return formatter(locale, timeZone, DAY_PARTS[style]).formatRange(first, last);
+  return plain(formatter(locale, timeZone, DAY_PARTS[style]).formatRange(first, last));
 }
 
 // ─── Calendar days (warranty terms, issue and return days) ───
@@ -146,7 +152,8 @@ export function formatDayRange(
   const a = dayAsInstant(fromDay);
   const b = dayAsInstant(toDay);
   if (!a || !b) return `${formatDay(fromDay, { style, locale })} – ${formatDay(toDay, { style, locale })}`;
-  return formatter(locale, "UTC", DAY_PARTS[style]).formatRange(a.getTime() <= b.getTime() ? a : b, a.getTime() <= b.getTime() ? b : a);
+  const [first, last] = a.getTime() <= b.getTime() ? [a, b] : [b, a];
+  return plain(formatter(locale, "UTC", DAY_PARTS[style]).formatRange(first, last));
 }
 
 /** The ISO calendar day ("2026-12-02") on which an instant falls in the shop's zone: for data and for day counts. */
