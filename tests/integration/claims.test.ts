@@ -1,4 +1,5 @@
 import { afterAll, describe, expect, it } from "vitest";
+import { dayInZone } from "@/lib/engine/dates";
 import type { StoredAdvice } from "@/lib/server/services/claims";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
@@ -66,7 +67,11 @@ describe("coverage advice on a new claim", () => {
     const [{ content }] = (await sql<{ content: { warranty: { endsOn: string } } }>("select content from certificate where id = $1", [
       c.certificateId,
     ])) as [{ content: { warranty: { endsOn: string } } }];
-    expect(content.warranty.endsOn).toBe(new Date(Date.now() - 86_400_000).toISOString().slice(0, 10));
+    // Days are the shop's calendar days, counted in its zone.
+    const [{ time_zone }] = (await sql<{ time_zone: string }>("select time_zone from shop_settings where id = 'shop'")) as [
+      { time_zone: string },
+    ];
+    expect(content.warranty.endsOn).toBe(dayInZone(Date.now() - 86_400_000, time_zone));
     const owner = await signedIn(DEMO.customer);
     const res = await owner.post("/api/claims", { ...hum, certificateId: c.certificateId });
     expect(res.status).toBe(201);
