@@ -4,6 +4,7 @@
 // the calendar, not from the forecast's arithmetic (that is tested against hand-worked days in the unit tests).
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { dayInZone } from "@/lib/engine/dates";
 import { DEMO } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
 import { sql } from "../support/db";
@@ -93,7 +94,10 @@ describe("turnaround forecast", () => {
     expect(text).toMatch(/Expected on the bench (on|between) \d{1,2} [A-Z][a-z]+ \d{4}/);
     // Never a day before today (calendar, in the shop's days).
     const first = /(?:on|between) (\d{1,2} [A-Z][a-z]+ \d{4})/.exec(text)![1]!;
-    expect(Date.parse(`${first} UTC`)).toBeGreaterThanOrEqual(Date.parse(`${new Date().toISOString().slice(0, 10)}T00:00:00Z`));
+    const [{ time_zone }] = (await sql<{ time_zone: string }>("select time_zone from shop_settings where id = 'shop'")) as [
+      { time_zone: string },
+    ];
+    expect(Date.parse(`${first} UTC`)).toBeGreaterThanOrEqual(Date.parse(`${dayInZone(new Date(), time_zone)}T00:00:00Z`));
     await snap(p, "portal-queue-forecast");
 
     // With no bench hours anywhere, the owner is told so rather than given a date.

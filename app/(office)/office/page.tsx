@@ -29,7 +29,8 @@ export default async function OfficePage() {
     { label: "Refunds waiting for the processor", value: String(figures.refunds_in_flight), href: "/office/payments" },
     {
       label: "Bench backlog",
-      value: forecast.backlogWeeks === null ? "No bench hours set" : `${forecast.backlogWeeks.toLocaleString("en-GB")} weeks`,
+      value:
+        forecast.backlogWeeks === null ? "No bench hours set" : `${new Intl.NumberFormat("en-GB").format(forecast.backlogWeeks)} weeks`,
       href: "/office/staff",
     },
     { label: "Active technicians", value: String(figures.technicians), href: "/office/staff" },

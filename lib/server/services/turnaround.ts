@@ -12,10 +12,12 @@ import type { BenchWeekValues } from "@/lib/validation/bench-week";
 import { BENCH_WEEK_FIELDS } from "@/lib/validation/bench-week";
 import { audit } from "../audit";
 import { AppError } from "../errors";
+import { dayInZone } from "@/lib/engine/dates";
+import { shopTimeZone } from "./shop";
 
-/** Today as a calendar day where the shop works. */
-function shopToday(now = new Date()): string {
-  return now.toISOString().slice(0, 10);
+/** Today as a calendar day where the shop works, in its time zone. */
+async function shopToday(now = new Date()): Promise<string> {
+  return dayInZone(now, await shopTimeZone());
 }
 
 function asWeek(minutes: number[] | undefined): BenchWeek | null {
@@ -34,12 +36,12 @@ export async function benchStaff() {
 }
 
 export async function shopForecast(now = new Date()) {
-  const [staff, queued] = await Promise.all([benchStaff(), listQueuedJobs()]);
+  const [staff, queued, today] = await Promise.all([benchStaff(), listQueuedJobs(), shopToday(now)]);
   const technicians: ForecastTechnician[] = staff
     .filter((s) => s.week.some((m) => m > 0))
     .map((s) => ({ id: s.id, week: s.week, daysOff: s.daysOff }));
   const forecast = forecastTurnaround({
-    today: shopToday(now),
+    today,
     technicians,
     jobs: queued.map((j) => ({
       id: j.id,

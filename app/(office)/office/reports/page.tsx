@@ -6,6 +6,7 @@ import { reportsForOwner, resolveMonthRange } from "@/db/queries/reports";
 import { zodFields } from "@/lib/server/route-handler";
 import { STATE_LABEL } from "@/lib/engine/jobs/states";
 import { getShop } from "@/lib/server/services/shop";
+import { dayInZone } from "@/lib/engine/dates";
 import { requirePermission } from "@/lib/server/session";
 import { reportRangeSchema } from "@/lib/validation/office";
 import { TableScroll } from "@/components/ui/table-scroll";
@@ -269,7 +270,7 @@ export default async function ReportsPage({ searchParams }: { searchParams: Prom
           CSV files for a range of days (UTC), both days included: payments received and refunds confirmed; jobs opened; tax on jobs paid in
           full, by month, labour and parts apart; and the audit log.
         </p>
-        <ExportForm defaultFrom={`${r.range.from}-01`} defaultTo={new Date().toISOString().slice(0, 10)} />
+        <ExportForm defaultFrom={`${r.range.from}-01`} defaultTo={dayInZone(new Date(), "UTC")} />
       </section>
     </div>
   );

@@ -1,10 +1,8 @@
+import { formatDay } from "@/lib/engine/dates";
 import type { OwnerForecast } from "@/lib/server/services/turnaround";
 
-const DAY = new Intl.DateTimeFormat("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" });
-
-function day(text: string): string {
-  return DAY.format(new Date(`${text}T00:00:00Z`));
-}
+// Forecast days are calendar days: written out, never shifted by a zone.
+const day = (text: string): string => formatDay(text);
 
 // The set's place in the bench queue and the days it is expected on the bench, while it waits for the bench.
 export function QueueForecast({ forecast }: { forecast: OwnerForecast | null }) {
