@@ -222,7 +222,8 @@ function ReadingRow({
           </button>
         ) : stored ? (
           <span>
-            Saved{stored.recordedByName ? ` by ${stored.recordedByName}` : ""}, {formatDateTime(stored.recordedAt, { timeZone, style: "compact" })}
+            Saved{stored.recordedByName ? ` by ${stored.recordedByName}` : ""},{" "}
+            {formatDateTime(stored.recordedAt, { timeZone, style: "compact" })}
             {storedInstrumentText ? <span className="block">with {storedInstrumentText}</span> : null}
             {stored.instrumentOverdue ? (
               <span className="block font-semibold text-fail" data-flag="calibration-overdue">

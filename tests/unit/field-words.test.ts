@@ -116,6 +116,7 @@ const SCHEMAS: [string, z.ZodType, unknown][] = [
     settingsToForm({
       name: "Kestrel Lane Wireless",
       addressLines: ["14 Kestrel Lane", "Port Alder"],
+      timeZone: "America/New_York",
       phone: "555-0100",
       email: "",
       policy: defaultShopPolicy,

@@ -1,4 +1,5 @@
 import "server-only";
+import { dayInZone } from "@/lib/engine/dates";
 import { and, asc, count, eq, isNull, sql } from "drizzle-orm";
 import { db, type Database } from "@/db";
 import { instrumentChoices, instruments, readings, type Instrument } from "@/db/schema";
@@ -11,7 +12,7 @@ import type { InstrumentCreate, InstrumentUpdate } from "@/lib/validation/instru
 // The instrument register: the office keeps it, the bench reads it, each reading names one.
 
 export function todayUtc(now = new Date()): string {
-  return now.toISOString().slice(0, 10);
+  return dayInZone(now, "UTC");
 }
 
 export type InstrumentView = {
