@@ -10,6 +10,8 @@ import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { StaffThread } from "@/lib/server/services/messages";
 import { benchNoteSchema } from "@/lib/validation/bench";
 import { MAX_MESSAGE_PHOTOS, messageFormSchema } from "@/lib/validation/messages";
+import { useShopTimeZone } from "@/components/shop-time-zone";
+import { formatDateTime } from "@/lib/engine/dates";
 
 type Audience = "owner" | "workshop";
 
@@ -114,6 +116,7 @@ function Composer({ jobId }: { jobId: string }) {
 }
 
 export function JobThread({ jobId }: { jobId: string }) {
+  const timeZone = useShopTimeZone();
   const qc = useQueryClient();
   const q = useQuery({ queryKey: benchKeys.messages(jobId), queryFn: () => api<StaffThread>(`/api/bench/jobs/${jobId}/messages`) });
   const markRead = useMutation({
@@ -148,7 +151,7 @@ export function JobThread({ jobId }: { jobId: string }) {
                 {m.unread ? <span className="mr-1 rounded border border-ember px-1 font-semibold text-ember-dark">New</span> : null}
                 <span className="font-semibold text-bakelite">{m.fromOwner ? `${m.authorName} (owner)` : m.authorName}</span>
                 {m.internal ? " · workshop only" : ""}
-                {m.isQuestion ? " · question" : ""} · {new Date(m.createdAt).toLocaleString("en-US")}
+                {m.isQuestion ? " · question" : ""} · {formatDateTime(m.createdAt, { timeZone, style: "compact" })}
               </p>
               <p className="whitespace-pre-wrap">{m.body}</p>
               {m.photos.length ? (
