@@ -5,7 +5,7 @@ import { headers } from "next/headers";
 import { notFound, redirect } from "next/navigation";
 import { cache } from "react";
 import { db } from "@/db";
-import { certificates, claims, jobs, session as sessionTable, user } from "@/db/schema";
+import { session as sessionTable, user } from "@/db/schema";
 import type { Role } from "@/lib/engine/permissions";
 import { auth, SESSION_ABSOLUTE_SECONDS } from "./auth";
 import { canAccess, isRole, type Permission } from "@/lib/engine/permissions";
@@ -18,10 +18,10 @@ import { canAccess, isRole, type Permission } from "@/lib/engine/permissions";
 export type Viewer = { id: string; name: string; email: string; role: Role; sessionId: string; holdsSets: boolean };
 
 // Whether a staff account holds a set owner's records: read with the session, in the same query.
-const holdsSetsSql = sql<boolean>`(${user.role} <> 'customer' and (
-  exists (select 1 from ${jobs} where ${jobs.customerId} = ${user.id})
-  or exists (select 1 from ${certificates} where ${certificates.customerId} = ${user.id})
-  or exists (select 1 from ${claims} where ${claims.claimantId} = ${user.id})))`;
+const holdsSetsSql = sql<boolean>`("user"."role" <> 'customer' and (
+  exists (select 1 from "job" j where j."customer_id" = "user"."id")
+  or exists (select 1 from "certificate" c where c."customer_id" = "user"."id")
+  or exists (select 1 from "claim" k where k."claimant_id" = "user"."id")))`;
 
 // Resolves the session against the database on every request (no cookie cache), so a revoked
 // or deactivated account stops working at the next request.

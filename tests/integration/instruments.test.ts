@@ -217,7 +217,7 @@ describe("readings and their instruments", () => {
     ]);
     const bad = await tech.post(`/api/bench/jobs/${job.jobId}/readings`, { key: "leakage.plug-a", value: 0.1, phase: "at_intake" });
     expect(bad.status).toBe(400);
-    expect(((await bad.json()) as { error: { fields: Record<string, string> } }).error.fields.phase).toMatch(/as_received or as_returned/);
+    expect(((await bad.json()) as { error: { fields: Record<string, string> } }).error.fields.phase).toMatch(/as received or as returned/);
   });
 });
 

@@ -46,13 +46,13 @@ export function BenchWeekForm({ person }: { person: Person }) {
         <legend className="field-label">
           Bench hours per day{person.assumed ? " (not set yet: the forecast assumes the hours shown)" : ""}
         </legend>
-        <div className="mt-1 grid grid-cols-4 gap-2 sm:grid-cols-7">
+        <div className="mt-1 grid grid-cols-2 gap-2 sm:grid-cols-4 lg:grid-cols-7">
           {BENCH_WEEK_FIELDS.map((f, i) => (
-            <Field key={f} id={`${base}-${f}`} label={WEEKDAY_NAMES[i]} error={errors[f]?.message}>
+            <Field key={f} id={`${base}-${f}`} label={WEEKDAY_NAMES[i]} error={errors[f]?.message} className="min-w-0">
               <input
                 id={`${base}-${f}`}
                 inputMode="decimal"
-                className="field-input w-full"
+                className="field-input w-full min-w-0"
                 aria-invalid={!!errors[f]}
                 aria-describedby={describedBy(`${base}-${f}`, { error: errors[f] })}
                 {...register(f)}
@@ -70,7 +70,7 @@ export function BenchWeekForm({ person }: { person: Person }) {
         <textarea
           id={`${base}-off`}
           rows={3}
-          className="field-input w-full font-mono text-sm"
+          className="field-input w-full min-w-0 font-mono text-sm"
           aria-invalid={!!errors.daysOff}
           aria-describedby={describedBy(`${base}-off`, { error: errors.daysOff, hint: true })}
           {...register("daysOff")}
