@@ -1,3 +1,4 @@
+import { TableScroll } from "@/components/ui/table-scroll";
 import { bandEdgeRows } from "@/lib/engine/certificates/tables";
 import type { CertificateDocument } from "@/lib/engine/certificates/document";
 
@@ -15,7 +16,7 @@ export function BandEdgeTable({
   // Certificates with readings taken as the set came in show them beside the ones it went back with.
   const received = rows.some((r) => r.lowAsReceived !== null || r.highAsReceived !== null);
   return (
-    <div className="overflow-x-auto">
+    <TableScroll label={caption ?? "Band edges"}>
       <table className="dense-table w-full">
         <caption className="mb-1 text-left font-semibold">{caption}</caption>
         <thead>
@@ -54,6 +55,6 @@ export function BandEdgeTable({
           ))}
         </tbody>
       </table>
-    </div>
+    </TableScroll>
   );
 }

@@ -1,3 +1,4 @@
+import { TableScroll } from "@/components/ui/table-scroll";
 import { instrumentRows } from "@/lib/engine/certificates/instruments";
 import type { CertificateDocument } from "@/lib/engine/certificates/document";
 
@@ -6,7 +7,7 @@ export function InstrumentsUsed({ document }: { document: Pick<CertificateDocume
   const rows = instrumentRows(document);
   if (rows.length === 0) return null;
   return (
-    <div className="overflow-x-auto">
+    <TableScroll label="Instruments used">
       <table className="dense-table w-full">
         <caption className="mb-1 text-left font-semibold">Instruments used</caption>
         <thead>
@@ -35,6 +36,6 @@ export function InstrumentsUsed({ document }: { document: Pick<CertificateDocume
           ))}
         </tbody>
       </table>
-    </div>
+    </TableScroll>
   );
 }

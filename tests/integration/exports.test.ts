@@ -12,6 +12,9 @@ import { seedJobWithEstimate } from "../fixtures/jobs";
 const FROM = new Date(Date.now() - 3_600 * 86_400_000).toISOString().slice(0, 10);
 const TO = new Date(Date.now() + 2 * 86_400_000).toISOString().slice(0, 10);
 const RANGE = `from=${FROM}&to=${TO}`;
+// The same range as instants, for the database's side of each check: from the start of FROM to the end of TO.
+const START = `${FROM}T00:00:00Z`;
+const END = new Date(Date.parse(`${TO}T00:00:00Z`) + 86_400_000).toISOString();
 
 let owner: TestClient;
 
@@ -39,10 +42,12 @@ describe("office exports", () => {
     expect(res.headers.get("content-disposition")).toMatch(/attachment; filename="payments-\d{4}-\d{2}-\d{2}-to-\d{4}-\d{2}-\d{2}\.csv"/);
     const rows = parse(await res.text());
     const [db] = await sql<{ paid: number; refunded: number; n: number; r: number }>(
-      `select (select coalesce(sum(amount_minor), 0)::int from payment where paid_at is not null and status in ('paid', 'duplicate') and currency = 'USD') as paid,
-              (select coalesce(sum(f.amount_minor), 0)::int from refund f join payment p on p.id = f.payment_id where f.status = 'succeeded' and p.currency = 'USD') as refunded,
-              (select count(*)::int from payment where paid_at is not null and status in ('paid', 'duplicate')) as n,
-              (select count(*)::int from refund where status = 'succeeded') as r`,
+      `select (select coalesce(sum(amount_minor), 0)::int from payment where paid_at >= $1 and paid_at < $2 and status in ('paid', 'duplicate') and currency = 'USD') as paid,
+              (select coalesce(sum(f.amount_minor), 0)::int from refund f join payment p on p.id = f.payment_id
+                where f.status = 'succeeded' and f.settled_at >= $1 and f.settled_at < $2 and p.currency = 'USD') as refunded,
+              (select count(*)::int from payment where paid_at >= $1 and paid_at < $2 and status in ('paid', 'duplicate')) as n,
+              (select count(*)::int from refund where status = 'succeeded' and settled_at >= $1 and settled_at < $2) as r`,
+      [START, END],
     );
     const usd = rows.filter((r) => r.currency === "USD");
     expect(rows.filter((r) => r.kind === "payment")).toHaveLength(db!.n);
@@ -54,7 +59,7 @@ describe("office exports", () => {
 
   it("lists the jobs opened in the range, the tax of jobs paid in full by month, and the audit log", async () => {
     const jobs = parse(await (await owner.get(`/api/office/exports/jobs.csv?${RANGE}`)).text());
-    const [count] = await sql<{ n: number }>("select count(*)::int as n from job");
+    const [count] = await sql<{ n: number }>("select count(*)::int as n from job where created_at >= $1 and created_at < $2", [START, END]);
     expect(jobs).toHaveLength(count!.n);
     expect(jobs.every((j) => /^KL-\d{4,}$/.test(j.job!))).toBe(true);
 
@@ -63,7 +68,10 @@ describe("office exports", () => {
       `select coalesce(sum((r.pricing->>'labourTaxMinor')::int), 0)::int as labour, coalesce(sum((r.pricing->>'partsTaxMinor')::int), 0)::int as parts,
               count(*)::int as jobs
        from job j join lateral (select pricing, currency from estimate_revision where job_id = j.id and status = 'approved' order by revision desc limit 1) r on true
-       where r.currency = 'USD' and exists (select 1 from job_state_history h where h.job_id = j.id and h.to_state = 'paid_in_full')`,
+       where r.currency = 'USD'
+         and (select min(h.at) from job_state_history h where h.job_id = j.id and h.to_state = 'paid_in_full') >= $1
+         and (select min(h.at) from job_state_history h where h.job_id = j.id and h.to_state = 'paid_in_full') < $2`,
+      [START, END],
     );
     const usdTax = tax.filter((r) => r.currency === "USD");
     expect(usdTax.reduce((s, r) => s + minorOf(r.labour_tax!), 0)).toBe(t!.labour);
@@ -72,7 +80,7 @@ describe("office exports", () => {
     for (const r of usdTax) expect(minorOf(r.total_tax!)).toBe(minorOf(r.labour_tax!) + minorOf(r.parts_tax!));
     expect(usdTax.every((r) => /^\d{4}-\d{2}$/.test(r.month!))).toBe(true);
 
-    const [before] = await sql<{ n: number }>("select count(*)::int as n from audit_event");
+    const [before] = await sql<{ n: number }>("select count(*)::int as n from audit_event where at >= $1 and at < $2", [START, END]);
     const audit = parse(await (await owner.get(`/api/office/exports/audit.csv?${RANGE}`)).text());
     // Other requests may add rows meanwhile (a sign-in, say), never remove them.
     expect(audit.length).toBeGreaterThanOrEqual(before!.n);
