@@ -44,7 +44,7 @@ export default async function StaffPage() {
           </table>
         </TableScroll>
       </section>
-      <section aria-labelledby="bench-time" className="card space-y-4 p-4">
+      <section aria-labelledby="bench-time" className="card space-y-4 p-4 break-words">
         <div>
           <h2 id="bench-time" className="text-lg font-semibold">
             Bench time
