@@ -44,7 +44,7 @@ export default async function StaffPage() {
           </table>
         </TableScroll>
       </section>
-      <section aria-labelledby="bench-time" className="card space-y-4 p-4 break-words">
+      <section aria-labelledby="bench-time" className="card space-y-4 p-4 [overflow-wrap:anywhere]">
         <div>
           <h2 id="bench-time" className="text-lg font-semibold">
             Bench time

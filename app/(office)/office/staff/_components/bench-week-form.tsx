@@ -76,7 +76,11 @@ export function BenchWeekForm({ person }: { person: Person }) {
           {...register("daysOff")}
         />
       </Field>
-      <button type="submit" className="btn-secondary max-w-full text-left break-words whitespace-normal" disabled={formState.isSubmitting}>
+      <button
+        type="submit"
+        className="btn-secondary max-w-full text-left [overflow-wrap:anywhere] whitespace-normal"
+        disabled={formState.isSubmitting}
+      >
         Save bench week of {person.name}
       </button>
       {message ? (
