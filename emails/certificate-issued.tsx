@@ -11,6 +11,8 @@ export type CertificateIssuedProps = {
   termDays: number;
   endsOn: string;
   corrected: boolean;
+  /** How the set went back: a shipped set is with the carrier, not yet with its owner. */
+  returnMethod: "pick-up" | "shipped" | null;
   verifyUrl: string;
   jobUrl: string;
   pdfUrl: string;
@@ -25,16 +27,23 @@ export default function CertificateIssued({
   termDays = 90,
   endsOn = "2026-05-29",
   corrected = false,
+  returnMethod = "pick-up",
   verifyUrl = "http://127.0.0.1:3000/verify/7K2M-QX4R-9TDE-3HWP-A8NC-5VJB-2GFS",
   jobUrl = "http://127.0.0.1:3000/portal/jobs/example",
   pdfUrl = "http://127.0.0.1:3000/api/certificates/example/pdf",
 }: Partial<CertificateIssuedProps>) {
   const kind = designation === "full" ? "Full" : "Limited";
+  const where =
+    returnMethod === "shipped"
+      ? `your ${maker} ${model} is on its way back to you with the carrier.`
+      : returnMethod === "pick-up"
+        ? `your ${maker} ${model} is back with you.`
+        : `here is the warranty certificate for your ${maker} ${model}.`;
   return (
     <MailLayout preview={`Your warranty certificate for the ${maker} ${model}`}>
       <Heading style={mailStyles.h1}>{corrected ? "Your corrected warranty certificate" : "Your warranty certificate"}</Heading>
       <Text style={mailStyles.p}>
-        Hello {name}, your {maker} {model} is back with you.{" "}
+        Hello {name}, {where}{" "}
         {corrected
           ? "We corrected its certificate: this one replaces the earlier one, which now says it has been superseded."
           : "Its certificate lists the work we did, the parts we fitted and the band edges we measured."}

@@ -360,6 +360,8 @@ async function queueIssuedMail(ctx: TxContext, src: Sources, row: Certificate, d
       termDays: doc.warranty.termDays,
       endsOn: doc.warranty.endsOn,
       corrected,
+      // A correction comes later: by then the words of the day of return may no longer be true.
+      returnMethod: corrected ? null : (src.job.returnMethod ?? null),
       verifyUrl: `${base}/verify/${doc.code}`,
       jobUrl: `${base}/portal/jobs/${src.job.id}`,
       pdfUrl: `${base}/api/certificates/${row.id}/pdf`,
