@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO, newCustomer } from "../support/accounts";
 import { launchBrowser, newContext, signInPage, snap } from "../support/browser";
 import { sql } from "../support/db";
+import { TestClient } from "../support/http";
 import { firstLink, waitForMail } from "../support/mail";
 import { createCertificate, stopQueue } from "../integration/certificates-fixtures";
 
@@ -22,7 +23,7 @@ afterAll(async () => {
 describe("a set owner's account converted to staff", () => {
   it("still lists its job and certificate in the portal, and the header offers both areas", async () => {
     // Demo-like: a set owner with a restored Corvane returned to them and its warranty certificate.
-    const { email } = await newCustomer("corvane-owner");
+    const { email, password: oldPassword } = await newCustomer("corvane-owner");
     const [holder] = await sql<{ id: string }>(`select id from "user" where email = $1`, [email]);
     const cert = await createCertificate({ customerId: holder!.id, maker: "Corvane", model: "Seven-Transistor" });
 
@@ -38,6 +39,12 @@ describe("a set owner's account converted to staff", () => {
     await owner.getByRole("button", { name: "Yes, convert the account holding 1 job, 1 certificate and 0 claims" }).click();
     await expect.poll(() => owner.getByText(`Invitation sent to ${email}.`).count()).toBe(1);
     await ownerCtx.close();
+
+    // Until the invitation is accepted, the portal password opens nothing: staff access starts with the
+    // invitation (common practice: a change of role is confirmed by the person, not inherited from an old secret).
+    const early = await new TestClient().post("/api/auth/sign-in/email", { email, password: oldPassword });
+    expect(early.status).toBeGreaterThanOrEqual(400);
+    expect(await sql(`select 1 from session where user_id = $1`, [holder!.id])).toHaveLength(0);
 
     const invite = await waitForMail(email, "invited");
     const ctx = await newContext(browser);

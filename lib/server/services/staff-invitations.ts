@@ -66,6 +66,9 @@ export async function inviteStaffMember({ input, actorId }: { input: InviteInput
       // the account itself still answers them in the portal (`holdsSets` in lib/server/session.ts).
       await ctx.tx.update(user).set({ role: input.role, updatedAt: new Date() }).where(eq(user.id, userId));
       await ctx.tx.delete(session).where(eq(session.userId, userId));
+      // Staff access starts with the invitation, not with the password the set owner chose for the portal:
+      // until it is accepted the old password signs in to nothing (accepting sets a new credential).
+      await ctx.tx.delete(account).where(and(eq(account.userId, userId), eq(account.providerId, "credential")));
     } else {
       await ctx.tx.insert(user).values({ id: userId, name: input.name, email: input.email, emailVerified: true, role: input.role });
     }
