@@ -55,9 +55,13 @@ export function PassbandPlot({ id, points, curve, ifText, marks, summary }: Prop
           {curve === "response" ? "−6 dB level and edges" : "Linear range"}
         </li>
       </ul>
+      {/* The vertical axis is named above the plot, not turned along it: a turned title is clipped on a phone. */}
+      <p className="text-xs text-bakelite-muted" aria-hidden="true">
+        {curve === "response" ? "Relative response, dB" : "Output, V"}
+      </p>
       <div className="h-60 w-full" data-testid={`${id}-plot`} role="img" aria-label={`${ifText}: ${summary}`}>
         <ResponsiveContainer width="100%" height="100%">
-          <LineChart data={data} margin={{ top: 10, right: 20, bottom: 24, left: 10 }}>
+          <LineChart data={data} margin={{ top: 6, right: 16, bottom: 24, left: 0 }}>
             <CartesianGrid stroke="#d9cfbf" strokeDasharray="3 3" />
             <XAxis
               dataKey="f"
@@ -66,10 +70,7 @@ export function PassbandPlot({ id, points, curve, ifText, marks, summary }: Prop
               tickFormatter={(v: number) => formatNumber(v, 1)}
               label={{ value: `Offset from ${ifText}, kHz`, position: "insideBottom", offset: -12 }}
             />
-            <YAxis
-              tickFormatter={(v: number) => formatNumber(v, 2)}
-              label={{ value: curve === "response" ? "Relative response, dB" : "Output, V", angle: -90, position: "insideLeft", offset: 0 }}
-            />
+            <YAxis width={48} tickFormatter={(v: number) => formatNumber(v, 2)} />
             <Tooltip
               formatter={(v) => `${formatNumber(Number(v), 2)} ${unit}`}
               labelFormatter={(v) => `${formatNumber(Number(v), 2)} kHz`}
