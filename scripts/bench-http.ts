@@ -181,19 +181,52 @@ async function verifyPage(stack: Stack, db: pg.Pool) {
     rows.push({ metric: "public verification page", figure: "no certificate in the seed", goal: "—" });
     return;
   }
-  // Each request from its own address, so the figure is the verification itself rather than the rate limiter.
-  let n = 0;
-  const verify = await cannon({
-    url: `${stack.appUrl}/verify/${code}`,
-    connections: 20,
-    requests: [
-      { setupRequest: (req) => ({ ...req, headers: { ...req.headers, "x-forwarded-for": `198.51.${(++n >> 8) & 255}.${n & 255}` } }) },
-    ],
+  // One client address throughout, as a buyer (or a benchmark) behind one connection would be: views of a real
+  // certificate are never limited, so the figure is the page itself. The bare route is measured just before,
+  // at the same concurrency, so both figures see the same machine.
+  const headers = { "x-forwarded-for": "198.51.100.77" };
+  const url = `${stack.appUrl}/verify/${code}`;
+  const first = await fetch(url, { headers });
+  const firstHtml = await first.text();
+  if (first.status !== 200 || !firstHtml.includes(code))
+    throw new Error(`the verification page did not show the certificate (status ${first.status})`);
+  // Alternating short rounds, so a machine whose load drifts during the run weighs on both figures alike.
+  const rounds = 3;
+  const bare: autocannon.Result[] = [];
+  const verify: autocannon.Result[] = [];
+  for (let i = 0; i < rounds; i++) {
+    bare.push(await cannon({ url: `${stack.appUrl}/api/health`, connections: 20, headers, duration: 4 }));
+    verify.push(await cannon({ url, connections: 20, headers, duration: 4 }));
+  }
+  const rate = (rs: autocannon.Result[]) => rs.reduce((a, r) => a + r.requests.total, 0) / rs.reduce((a, r) => a + r.duration, 0);
+  const worstP97 = (rs: autocannon.Result[]) => Math.max(...rs.map((r) => r.latency.p97_5));
+  const errors = (rs: autocannon.Result[]) => rs.reduce((a, r) => a + errorsOf(r), 0);
+  rows.push({
+    metric: `bare static JSON, 20 conns, one address (${rounds} × 4 s)`,
+    figure: `${rate(bare).toFixed(0)} req/s, p97.5 ≤ ${worstP97(bare)} ms, errors ${errors(bare)}`,
+    goal: "baseline",
   });
   rows.push({
-    metric: "public verification page, 20 conns",
-    figure: `${verify.requests.average.toFixed(0)} req/s, p97.5 ${verify.latency.p97_5} ms, non-2xx ${verify.non2xx}`,
-    goal: "p97.5 ≤ 80 ms",
+    metric: `public verification page, 20 conns, one address (${rounds} × 4 s, between)`,
+    figure: `${rate(verify).toFixed(0)} req/s (${(rate(verify) / rate(bare)).toFixed(2)}× bare), p97.5 ≤ ${worstP97(verify)} ms, errors ${errors(verify)}`,
+    goal: "≥ 0.5× bare, p97.5 ≤ 80 ms, 0 errors",
+  });
+  // Guessing: unknown codes from one address meet the limit (429 with Retry-After); counted, not timed.
+  let limited = 0;
+  let retryAfter = "";
+  for (let i = 0; i < 80; i++) {
+    const guess = `${String(i).padStart(4, "0")}-0000-0000-0000-0000-0000-0000`;
+    const r = await fetch(`${stack.appUrl}/verify/${guess}`, { headers: { "x-forwarded-for": "198.51.100.78" } });
+    await r.arrayBuffer();
+    if (r.status === 429) {
+      limited++;
+      retryAfter ||= r.headers.get("retry-after") ?? "none";
+    }
+  }
+  rows.push({
+    metric: "guessing: 80 unknown codes from one address",
+    figure: `${limited} answered 429 (first Retry-After ${retryAfter || "—"} s)`,
+    goal: "limited after 60 a minute",
   });
 }
 

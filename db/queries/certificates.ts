@@ -104,16 +104,43 @@ export async function listCertificatesForStaff({ limit = 200 }: { limit?: number
     .limit(limit);
 }
 
+// A certificate's row version: PostgreSQL gives every updated row a new xmin, whoever makes the change (the
+// services or a hand-written UPDATE), so a page rendered for one version is never shown for another.
+// Prepared once per database connection: every view of the public page runs it.
+let preparedVersionByCode: ReturnType<typeof prepareVersionByCode> | undefined;
+function prepareVersionByCode() {
+  return db
+    .select({ version: sql<string>`${certificates}.xmin::text` })
+    .from(certificates)
+    .where(eq(certificates.code, sql.placeholder("code")))
+    .limit(1)
+    .prepare("bandedge_certificate_version_by_code");
+}
+
+export async function getCertificateVersionByCode({ code }: { code: string }): Promise<string | null> {
+  preparedVersionByCode ??= prepareVersionByCode();
+  const [row] = await preparedVersionByCode.execute({ code });
+  return row?.version ?? null;
+}
+
 // Fixed-window counter per client address in the shared rate_limit table (several app instances agree).
-export async function countVerifyRequest({ ip, windowSeconds }: { ip: string; windowSeconds: number }): Promise<number> {
+// Counts lookups of codes that do not exist; returns the count and when the current window started.
+export async function countVerifyGuess({
+  ip,
+  windowSeconds,
+}: {
+  ip: string;
+  windowSeconds: number;
+}): Promise<{ count: number; windowStartedAt: number }> {
   const key = `verify:${ip}`;
   const now = Date.now();
   const windowStart = now - windowSeconds * 1000;
-  const result = await db.execute<{ count: number }>(sql`
+  const result = await db.execute<{ count: number; last_request: string }>(sql`
     insert into rate_limit (id, key, count, last_request) values (${key}, ${key}, 1, ${now})
     on conflict (key) do update set
       count = case when rate_limit.last_request < ${windowStart} then 1 else rate_limit.count + 1 end,
       last_request = case when rate_limit.last_request < ${windowStart} then ${now} else rate_limit.last_request end
-    returning count`);
-  return Number(result.rows[0]?.count ?? 1);
+    returning count, last_request`);
+  const row = result.rows[0];
+  return { count: Number(row?.count ?? 1), windowStartedAt: Number(row?.last_request ?? now) };
 }

@@ -6,6 +6,9 @@ const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   DATABASE_URL: z.string().url(),
   APP_URL: z.string().url().default("http://127.0.0.1:3000"),
+  // Where the app reaches itself (the public verification page renders each certificate through it once per
+  // version); APP_URL when unset. Set it when the servers cannot reach the public address, e.g. http://127.0.0.1:3000.
+  APP_INTERNAL_URL: z.string().url().optional(),
   BETTER_AUTH_SECRET: z.string().min(32, "BETTER_AUTH_SECRET must be at least 32 characters"),
   CERT_SIGNING_KEY: z.string().min(1, "CERT_SIGNING_KEY (Ed25519 private key, PEM) is required"),
   CERT_KEY_ID: z.string().default("k1"),
@@ -86,6 +89,12 @@ const checkedEnvSchema = envSchema.superRefine((e, ctx) => {
   }
   if (!LOOPBACK_HOSTS.has(new URL(e.APP_URL).hostname))
     ctx.addIssue({ code: "custom", path: ["APP_URL"], message: "the local demo serves only this machine: use http://127.0.0.1:<port>" });
+  if (e.APP_INTERNAL_URL && !LOOPBACK_HOSTS.has(new URL(e.APP_INTERNAL_URL).hostname))
+    ctx.addIssue({
+      code: "custom",
+      path: ["APP_INTERNAL_URL"],
+      message: "the local demo serves only this machine: use http://127.0.0.1:<port>",
+    });
   if (/^(sk|rk)_live_/.test(e.STRIPE_SECRET_KEY))
     ctx.addIssue({ code: "custom", path: ["STRIPE_SECRET_KEY"], message: "the local demo refuses a live payment key" });
 });

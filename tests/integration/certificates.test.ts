@@ -325,16 +325,92 @@ describe("the public verification page", () => {
     expect(malformed).toContain("That is not a certificate code");
   });
 
-  it("is rate-limited per client address", async () => {
-    const c = await createCertificate();
-    const client = new TestClient({ ip: "198.51.100.23" });
-    let limited = false;
+  // Guessing codes is what a limit is for; opening a real certificate is what buyers do (common practice:
+  // a limit on failed lookups, as with sign-in, and HTTP 429 with Retry-After per RFC 6585 §4).
+  it("limits guessing per client address with 429 and Retry-After, and a page that says so", async () => {
+    const guesser = new TestClient();
+    const statuses: number[] = [];
+    let limited: Response | undefined;
     for (let i = 0; i < 70 && !limited; i++) {
-      const html = await (await client.get(`/verify/${c.code}`)).text();
-      if (html.includes("Too many checks")) limited = true;
+      const res = await guesser.get(`/verify/${String(i).padStart(4, "0")}-7777-7777-7777-7777-7777-7777`);
+      statuses.push(res.status);
+      if (res.status === 429) limited = res;
+      else expect(await res.text()).toContain("No certificate has this code");
     }
-    expect(limited).toBe(true);
-    expect(await (await new TestClient().get(`/verify/${c.code}`)).text()).toContain("Valid");
+    expect(statuses.slice(0, 60).every((s) => s === 404)).toBe(true);
+    expect(limited?.status).toBe(429);
+    const retryAfter = Number(limited!.headers.get("retry-after"));
+    expect(retryAfter).toBeGreaterThanOrEqual(1);
+    expect(retryAfter).toBeLessThanOrEqual(60);
+    const html = await limited!.text();
+    expect(html).toContain("Too many unknown codes from your connection");
+    expect(html).toContain("<main");
+    // A real certificate still opens from the same address, and other addresses are not limited.
+    const c = await createCertificate();
+    const own = await guesser.get(`/verify/${c.code}`);
+    expect(own.status).toBe(200);
+    expect(await own.text()).toContain("Valid");
+    expect((await new TestClient().get("/verify/0000-7777-7777-7777-7777-7777-7777")).status).toBe(404);
+  });
+
+  it("opens a real certificate any number of times from one address", async () => {
+    const c = await createCertificate();
+    const buyer = new TestClient();
+    const answers = new Set<string>();
+    for (let i = 0; i < 200; i++) {
+      const res = await buyer.get(`/verify/${c.code}`);
+      const html = await res.text();
+      answers.add(`${res.status} ${html.includes(c.code) && html.includes("Valid") ? "the certificate" : "something else"}`);
+    }
+    expect([...answers]).toEqual(["200 the certificate"]);
+  });
+
+  it("serves the kept page without scripts, under the response's security policy", async () => {
+    const c = await createCertificate();
+    for (let i = 0; i < 2; i++) {
+      const res = await new TestClient().get(`/verify/${c.code}`);
+      expect(res.headers.get("content-security-policy")).toContain("script-src");
+      const html = await res.text();
+      expect(html).toContain(c.code);
+      expect(html).not.toMatch(/<script\b/i);
+      expect(html).toMatch(/<link[^>]+rel="stylesheet"/);
+    }
+    // The address the app renders from is not a way around the checks.
+    const direct = await new TestClient().get(`/verify/${c.code}/sheet`);
+    expect(direct.status).toBeGreaterThanOrEqual(300);
+    expect(direct.status).toBeLessThan(400);
+    expect(direct.headers.get("location")).toContain(`/verify/${c.code}`);
+    const forged = await new TestClient().get(`/verify/${c.code}/sheet`, { headers: { "x-bandedge-verify-render": "guess" } });
+    expect(forged.headers.get("location")).toContain(`/verify/${c.code}`);
+  });
+
+  it("shows a revocation at the very next view after a page was kept", async () => {
+    const c = await createCertificate();
+    const buyer = new TestClient();
+    for (let i = 0; i < 3; i++) expect(await (await buyer.get(`/verify/${c.code}`)).text()).toContain("Valid");
+    const owner = await signedIn(DEMO.owner);
+    expect((await owner.post(`/api/certificates/${c.certificateId}/revoke`, { reason: "Chassis number misread" })).status).toBe(200);
+    const after = await (await buyer.get(`/verify/${c.code}`)).text();
+    expect(after).toContain("Revoked");
+    expect(after).toContain("Chassis number misread");
+  });
+
+  it("shows a row changed by hand as not valid once it changes, even after the page was kept", async () => {
+    const c = await createCertificate();
+    const buyer = new TestClient();
+    const signedMaker = (await loadRow(c.certificateId)).content.set.maker;
+    for (let i = 0; i < 3; i++) expect(await (await buyer.get(`/verify/${c.code}`)).text()).toContain("Valid");
+    // The signed set changes maker: nothing in the services sees this, only the row does.
+    await sql(`update certificate set content = jsonb_set(content, '{set,maker}', '"Corvane"') where id = $1`, [c.certificateId]);
+    const after = await (await buyer.get(`/verify/${c.code}`)).text();
+    expect(after).toContain("This certificate cannot be verified");
+    expect(after).not.toContain("Valid");
+    // And back to what was signed: genuine again.
+    await sql(`update certificate set content = jsonb_set(content, '{set,maker}', to_jsonb($2::text)) where id = $1`, [
+      c.certificateId,
+      signedMaker,
+    ]);
+    expect(await (await buyer.get(`/verify/${c.code}`)).text()).toContain("Valid");
   });
 });
 

@@ -25,6 +25,7 @@ import { queueRevocationNotice } from "./notices";
 import { buildPerformanceSection } from "@/lib/engine/certificates/performance-section";
 import { isPerformanceKey, listPerformanceReadings } from "@/lib/engine/performance";
 import { loadPerformanceSetup, passbandSectionFor } from "./performance";
+import { forgetVerifyPages } from "@/lib/server/verify-pages";
 import { listRequiredReadings, parseReadingKey, type ReadingRequirement } from "@/lib/engine/verdicts";
 import { parseWarrantyTerms } from "@/lib/validation/office";
 import { dayNumber } from "@/lib/engine/warranty";
@@ -458,6 +459,8 @@ export async function reissueCertificate(
   // The term runs from the original completion, whatever day the correction is made.
   const row = await insertSigned(ctx, src, doc, old.id);
   await ctx.tx.update(certificates).set({ supersededById: row.id }).where(eq(certificates.id, old.id));
+  // The row's new version already keeps the old page from being served; this frees it at once.
+  forgetVerifyPages(old.code);
   await audit(ctx, {
     actorId,
     action: "certificate.reissue",
@@ -479,6 +482,7 @@ export async function revokeCertificate(
   if (row.revokedAt) throw new AppError("conflict", "This certificate is already revoked.");
   const revokedAt = new Date();
   await ctx.tx.update(certificates).set({ revokedAt, revokedBy: actorId, revokeReason: reason }).where(eq(certificates.id, certificateId));
+  forgetVerifyPages(row.code);
   await audit(ctx, {
     actorId,
     action: "certificate.revoke",
@@ -491,8 +495,8 @@ export async function revokeCertificate(
   return { certificateId };
 }
 
-/** Verification views allowed per client address per minute. */
-export const VERIFY_LIMIT_PER_MINUTE = 60;
+/** Lookups of codes that do not exist allowed per client address per minute (views of real certificates are not counted). */
+export const VERIFY_GUESS_LIMIT_PER_MINUTE = 60;
 
 export function isUuid(value: string): boolean {
   return /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(value);

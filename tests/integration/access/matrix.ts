@@ -71,6 +71,13 @@ export const ROUTES: RouteEntry[] = [
     body: () => ({}),
   },
   { method: "GET", route: "/api/health", action: "health", rules: everyone },
+  {
+    method: "GET",
+    route: "/verify/[code]",
+    action: "certificate check (public)",
+    rules: everyone,
+    params: () => ({ code: "KL-NOPE-0000" }),
+  },
   { method: "GET", route: "/api/ready", action: "readiness (touches the database)", rules: everyone },
   {
     method: "POST",
@@ -376,7 +383,8 @@ export const PAGES: PageEntry[] = [
   { route: "/reset-password", rules: everyone },
   { route: "/welcome", rules: everyone },
   { route: "/verify", rules: everyone },
-  { route: "/verify/[code]", rules: everyone, params: () => ({ code: "KL-NOPE-0000" }) },
+  // Rendered by the app for itself; anyone else is sent on to /verify/[code].
+  { route: "/verify/[code]/sheet", rules: everyone, params: () => ({ code: "KL-NOPE-0000" }) },
   { route: "/after-sign-in", rules: { anonymous: "deny", customerA: "allow", customerB: "allow", technician: "allow", owner: "allow" } },
   { route: "/mailbox", rules: everyone },
   { route: "/portal", rules: customers },

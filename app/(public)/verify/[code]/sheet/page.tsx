@@ -6,12 +6,12 @@ import { BandEdgeTable } from "@/components/warranty/band-edge-table";
 import { InstrumentsUsed } from "@/components/warranty/instruments-used";
 import { CertificateStatusBadge } from "@/components/warranty/certificate-status";
 import { Notice } from "@/components/ui/notice";
-import { countVerifyRequest, getCertificateByCode, getCertificateById } from "@/db/queries/certificates";
+import { getCertificateByCode, getCertificateById } from "@/db/queries/certificates";
 import { normaliseCertificateCode } from "@/lib/engine/certificates";
 import { setKindLabels } from "@/lib/engine/checklist/profile";
 import { EngineError } from "@/lib/engine/engine-error";
-import { clientAddressKey } from "@/lib/server/client-address";
-import { certificateStatus, VERIFY_LIMIT_PER_MINUTE } from "@/lib/server/services/certificates";
+import { certificateStatus } from "@/lib/server/services/certificates";
+import { isVerifyRenderRequest } from "@/lib/server/verify-pages";
 import { maskSerial } from "@/lib/engine/certificates/document";
 import { formatDate, formatDay } from "@/lib/engine/dates";
 import { shopTimeZone } from "@/lib/server/services/shop";
@@ -30,19 +30,45 @@ function Shell({ children }: { children: React.ReactNode }) {
   );
 }
 
-export default async function VerifyCodePage({ params }: { params: Promise<{ code: string }> }) {
+// The certificate check as the app renders it for itself: /verify/<code> (route.ts beside this folder) keeps
+// the result per certificate version and serves it, and answers unknown codes and their limit. Anyone else
+// asking for this address is sent to /verify/<code>.
+function UnknownCode() {
+  return (
+    <Shell>
+      <h1 className="text-3xl font-bold">Certificate check</h1>
+      <Notice tone="error" title="No certificate has this code">
+        <p>Check the code against the printed certificate. If it still is not found, the certificate was not issued by this shop.</p>
+      </Notice>
+    </Shell>
+  );
+}
+
+export default async function VerifyCodeSheet({
+  params,
+  searchParams,
+}: {
+  params: Promise<{ code: string }>;
+  searchParams: Promise<{ notice?: string }>;
+}) {
   const { code: rawCode } = await params;
-  const count = await countVerifyRequest({ ip: clientAddressKey(await headers()), windowSeconds: 60 });
-  if (count > VERIFY_LIMIT_PER_MINUTE) {
+  if (!isVerifyRenderRequest(await headers())) redirect(`/verify/${rawCode}`);
+  const { notice } = await searchParams;
+  if (notice === "limited") {
     return (
       <Shell>
         <h1 className="text-3xl font-bold">Certificate check</h1>
-        <Notice tone="caution" title="Too many checks from your connection" live>
-          <p>Please wait a minute and try again.</p>
+        <Notice tone="caution" title="Too many unknown codes from your connection">
+          <p>
+            Several codes checked from your connection in the last minute were not issued by this shop, so checks of unknown codes are
+            paused for a minute. Certificates that exist can still be opened at any time. Please compare the code with the printed
+            certificate and try again in a minute.
+          </p>
         </Notice>
       </Shell>
     );
   }
+  if (notice === "unknown") return <UnknownCode />;
 
   let code: string;
   try {
@@ -63,17 +89,11 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
 
   const row = await getCertificateByCode({ code });
   if (!row) {
-    return (
-      <Shell>
-        <h1 className="text-3xl font-bold">Certificate check</h1>
-        <Notice tone="error" title="No certificate has this code">
-          <p>Check the code against the printed certificate. If it still is not found, the certificate was not issued by this shop.</p>
-        </Notice>
-      </Shell>
-    );
+    return <UnknownCode />;
   }
 
-  // The signature is checked on every view: a row changed behind the shop's back is not shown as genuine.
+  // The signature is checked whenever the page is rendered, which is once per row version: a row changed
+  // behind the shop's back is not shown as genuine.
   const { status, document: d } = certificateStatus(row);
   if (status === "unverifiable" || !d) {
     return (
@@ -104,7 +124,7 @@ export default async function VerifyCodePage({ params }: { params: Promise<{ cod
       <div className="card space-y-3 p-5">
         <div className="flex flex-wrap items-center gap-3">
           <CertificateStatusBadge status={status} />
-          <span className="text-sm text-bakelite-soft">Signature checked just now: the contents are as the shop issued them.</span>
+          <span className="text-sm text-bakelite-soft">Signature checked: the contents are as the shop issued them.</span>
         </div>
         {status === "valid" ? (
           <p>

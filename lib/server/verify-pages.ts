@@ -1,0 +1,94 @@
+import "server-only";
+import { createHmac, timingSafeEqual } from "node:crypto";
+import { env } from "./env";
+
+// The public verification page, rendered once per certificate version and served from memory.
+//
+// A certificate's signed content never changes; what a buyer sees changes only when its row does (revoked,
+// superseded, or altered behind the shop's back) or when its term runs out. So the page is rendered by the
+// app itself (the ordinary page at /verify/<code>/sheet, which checks the signature as it renders) and kept
+// here under code + row version + day. Every view reads the row version first (one indexed query), so any
+// change to the row, by the services or by hand in SQL, is seen by the very next view.
+//
+// The kept HTML carries no scripts: the page needs none, and scripts would need the nonce of each response's
+// Content Security Policy (proxy.ts). It is rendered as for a visitor who is not signed in.
+
+/** The request header by which the app asks itself for the page to keep. */
+export const VERIFY_RENDER_HEADER = "x-bandedge-verify-render";
+
+const MAX_PAGES = 500;
+const RENDER_TIMEOUT_MS = 10_000;
+
+let token: string | undefined;
+function renderToken(): string {
+  // Derived from the app's secret so every instance accepts another's render request, and no one else can.
+  token ??= createHmac("sha256", env().BETTER_AUTH_SECRET).update("bandedge verification page render").digest("base64url");
+  return token;
+}
+
+/** True when the request is the app asking itself to render the page to keep. */
+export function isVerifyRenderRequest(h: Headers): boolean {
+  const given = Buffer.from(h.get(VERIFY_RENDER_HEADER) ?? "");
+  const expected = Buffer.from(renderToken());
+  return given.length === expected.length && timingSafeEqual(given, expected);
+}
+
+/** Removes every script (and script preload) from a rendered page: what is left is plain HTML and CSS. */
+export function withoutScripts(html: string): string {
+  return html
+    .replace(/<script\b[^>]*>[\s\S]*?<\/script>/gi, "")
+    .replace(/<link\b[^>]*\bas="script"[^>]*>/gi, "")
+    .replace(/<link\b[^>]*\brel="modulepreload"[^>]*>/gi, "")
+    .replace(/\snonce="[^"]*"/gi, "");
+}
+
+// Insertion-ordered Map as a small LRU: a hit moves the entry to the end, the oldest goes first.
+const pages = new Map<string, string>();
+const rendering = new Map<string, Promise<string>>();
+
+function remember(key: string, html: string) {
+  pages.delete(key);
+  pages.set(key, html);
+  while (pages.size > MAX_PAGES) pages.delete(pages.keys().next().value!);
+}
+
+async function render(path: string): Promise<string> {
+  const base = env().APP_INTERNAL_URL ?? env().APP_URL;
+  const res = await fetch(new URL(path, base), {
+    headers: { [VERIFY_RENDER_HEADER]: renderToken(), accept: "text/html" },
+    redirect: "manual",
+    cache: "no-store",
+    signal: AbortSignal.timeout(RENDER_TIMEOUT_MS),
+  });
+  const body = await res.text();
+  if (res.status !== 200) throw new Error(`rendering ${path} answered ${res.status}`);
+  return withoutScripts(body);
+}
+
+/**
+ * The page for `key`, rendered from `path` at most once at a time. `stillCurrent`, asked after the render,
+ * says whether the source is unchanged since the key was made; only then is the page kept.
+ */
+export async function keptPage(key: string, path: string, stillCurrent: () => Promise<boolean> = async () => true): Promise<string> {
+  const hit = pages.get(key);
+  if (hit !== undefined) {
+    pages.delete(key);
+    pages.set(key, hit);
+    return hit;
+  }
+  let pending = rendering.get(key);
+  if (!pending) {
+    pending = (async () => {
+      const html = await render(path);
+      if (await stillCurrent()) remember(key, html);
+      return html;
+    })().finally(() => rendering.delete(key));
+    rendering.set(key, pending);
+  }
+  return pending;
+}
+
+/** Drops every kept page of a certificate (revoked or reissued): nothing of it is served from memory again. */
+export function forgetVerifyPages(code: string) {
+  for (const key of pages.keys()) if (key.startsWith(`cert:${code}:`)) pages.delete(key);
+}
