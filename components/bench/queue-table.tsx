@@ -104,16 +104,13 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
   const sizeId = useId();
 
   // Typing settles for a moment before the queue is asked again.
-  // Nothing to do while the box says what was last searched (on first paint above all: the hydrated table
-  // is not rendered a second time for nothing).
   useEffect(() => {
-    if (search.trim() === q) return;
     const t = setTimeout(() => {
       setQ(search.trim());
       setPagination((p) => ({ ...p, pageIndex: 0 }));
     }, 250);
     return () => clearTimeout(t);
-  }, [search, q]);
+  }, [search]);
 
   const sort = sorting[0];
   const params: QueueQueryInput = {

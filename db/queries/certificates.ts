@@ -1,6 +1,18 @@
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db, type Database } from "@/db";
-import { certificates, estimateLines, estimateRevisions, instruments, jobs, jobTasks, radioSets, readings, user } from "@/db/schema";
+import {
+  certificates,
+  estimateLines,
+  estimateRevisions,
+  instruments,
+  jobs,
+  jobTasks,
+  radioSets,
+  readings,
+  shopSettings,
+  user,
+} from "@/db/schema";
+import { DEFAULT_SHOP_TIME_ZONE } from "@/lib/engine/dates";
 
 // Everything a certificate is built from: the job, its set, the people, ticked lines, the approved
 // revision's lines and every stored reading. Read inside the issuing transaction.
@@ -104,23 +116,32 @@ export async function listCertificatesForStaff({ limit = 200 }: { limit?: number
     .limit(limit);
 }
 
-// A certificate's row version: PostgreSQL gives every updated row a new xmin, whoever makes the change (the
-// services or a hand-written UPDATE), so a page rendered for one version is never shown for another.
-// Prepared once per database connection: every view of the public page runs it.
-let preparedVersionByCode: ReturnType<typeof prepareVersionByCode> | undefined;
-function prepareVersionByCode() {
+// Everything the public verification page of a certificate is rendered from, as version stamps: the
+// certificate row's xmin and the shop settings row's xmin (PostgreSQL gives every updated row a new xmin,
+// whoever makes the change: the services or a hand-written UPDATE), plus the shop's time zone, in which the
+// page prints the revocation date. A page rendered for one stamp is never shown for another. Prepared once per
+// database connection: every view of the public page runs it.
+export type VerifyPageStamp = { certificate: string; shop: string; timeZone: string };
+
+let preparedVerifyPageStamp: ReturnType<typeof prepareVerifyPageStamp> | undefined;
+function prepareVerifyPageStamp() {
   return db
-    .select({ version: sql<string>`${certificates}.xmin::text` })
+    .select({
+      certificate: sql<string>`${certificates}.xmin::text`,
+      shop: sql<string>`coalesce(${shopSettings}.xmin::text, '0')`,
+      timeZone: sql<string>`coalesce(${shopSettings.timeZone}, ${DEFAULT_SHOP_TIME_ZONE})`,
+    })
     .from(certificates)
+    .leftJoin(shopSettings, eq(shopSettings.id, "shop"))
     .where(eq(certificates.code, sql.placeholder("code")))
     .limit(1)
-    .prepare("bandedge_certificate_version_by_code");
+    .prepare("bandedge_verify_page_stamp");
 }
 
-export async function getCertificateVersionByCode({ code }: { code: string }): Promise<string | null> {
-  preparedVersionByCode ??= prepareVersionByCode();
-  const [row] = await preparedVersionByCode.execute({ code });
-  return row?.version ?? null;
+export async function getVerifyPageStamp({ code }: { code: string }): Promise<VerifyPageStamp | null> {
+  preparedVerifyPageStamp ??= prepareVerifyPageStamp();
+  const [row] = await preparedVerifyPageStamp.execute({ code });
+  return row ?? null;
 }
 
 // Fixed-window counter per client address in the shared rate_limit table (several app instances agree).

@@ -412,6 +412,44 @@ describe("the public verification page", () => {
     ]);
     expect(await (await buyer.get(`/verify/${c.code}`)).text()).toContain("Valid");
   });
+
+  // 2026-03-01 02:00 UTC is 28 February, 18:00 in Los Angeles (UTC−8 in winter) and 1 March, 15:00 in Auckland
+  // (UTC+13 in the southern summer) (IANA tz database, from memory). The zone is changed in SQL, as another
+  // app instance or a hand edit would: only the shared row tells this instance that its kept page is stale.
+  it("prints the revocation day in the shop's zone of the moment, even after the page was kept", async () => {
+    const c = await createCertificate();
+    const [{ time_zone: zoneBefore }] = (await sql<{ time_zone: string }>("select time_zone from shop_settings where id = 'shop'")) as [
+      { time_zone: string },
+    ];
+    try {
+      await sql("update shop_settings set time_zone = 'America/Los_Angeles' where id = 'shop'");
+      await sql(`update certificate set revoked_at = '2026-03-01T02:00:00Z', revoke_reason = 'Chassis number misread' where id = $1`, [
+        c.certificateId,
+      ]);
+      const buyer = new TestClient();
+      for (let i = 0; i < 3; i++) expect(await (await buyer.get(`/verify/${c.code}`)).text()).toContain("Revoked on 28 February 2026");
+      await sql("update shop_settings set time_zone = 'Pacific/Auckland' where id = 'shop'");
+      const after = await (await buyer.get(`/verify/${c.code}`)).text();
+      expect(after).toContain("Revoked on 1 March 2026");
+      expect(after).not.toContain("28 February 2026");
+    } finally {
+      await sql("update shop_settings set time_zone = $1 where id = 'shop'", [zoneBefore]);
+    }
+  });
+
+  // The client router asks for a Server Components payload (header RSC: 1) when it prefetches or follows a link
+  // (Next.js App Router, common practice); a body it cannot read would stay open, so the answer has none and
+  // the router loads the address as a document.
+  it("answers the client router's payload request without a body", async () => {
+    const c = await createCertificate();
+    const client = new TestClient();
+    let res = await client.get(`/verify/${c.code}`, { headers: { rsc: "1", "next-router-prefetch": "1" } });
+    // The framework first sends the router to the address with its cache-busting parameter.
+    for (let hops = 0; hops < 3 && res.status >= 300 && res.status < 400; hops++)
+      res = await client.get(res.headers.get("location")!, { headers: { rsc: "1", "next-router-prefetch": "1" } });
+    expect(res.status).toBe(204);
+    expect(await res.text()).toBe("");
+  });
 });
 
 describe("who may see certificates", () => {

@@ -1,5 +1,5 @@
 import type { NextRequest } from "next/server";
-import { countVerifyGuess, getCertificateVersionByCode } from "@/db/queries/certificates";
+import { countVerifyGuess, getVerifyPageStamp, type VerifyPageStamp } from "@/db/queries/certificates";
 import { normaliseCertificateCode } from "@/lib/engine/certificates";
 import { todayIso } from "@/lib/engine/certificates/document";
 import { EngineError } from "@/lib/engine/engine-error";
@@ -22,6 +22,11 @@ function page(html: string, status: number, extra: Record<string, string> = {}):
 }
 
 export async function GET(request: NextRequest, { params }: { params: Promise<{ code: string }> }) {
+  // A link to this address inside the app (the office's certificate list, the portal, a superseded
+  // certificate's notice) is prefetched and followed by the client router, which asks for a React Server
+  // Components payload. This address answers only with a whole document, so the router is told, by an answer
+  // without a body, to load it as one; an HTML body here would be left unread and keep the connection open.
+  if (request.headers.get("rsc") !== null) return new Response(null, { status: 204, headers: { "cache-control": "no-store" } });
   const { code: rawCode } = await params;
   let code: string;
   try {
@@ -33,8 +38,8 @@ export async function GET(request: NextRequest, { params }: { params: Promise<{ 
   }
   if (code !== rawCode) return new Response(null, { status: 307, headers: { location: `/verify/${code}`, "cache-control": "no-store" } });
 
-  const version = await getCertificateVersionByCode({ code });
-  if (version === null) {
+  const stamp = await getVerifyPageStamp({ code });
+  if (stamp === null) {
     const { count, windowStartedAt } = await countVerifyGuess({ ip: clientAddressKey(request.headers), windowSeconds: WINDOW_SECONDS });
     if (count > VERIFY_GUESS_LIMIT_PER_MINUTE) {
       const retryAfter = Math.max(1, Math.ceil((windowStartedAt + WINDOW_SECONDS * 1000 - Date.now()) / 1000));
@@ -42,11 +47,17 @@ export async function GET(request: NextRequest, { params }: { params: Promise<{ 
     }
     return page(await keptPage("notice:unknown", "/verify/notice/sheet?notice=unknown"), 404);
   }
-  // The day is part of the key: a certificate's term ends at a day's turn without its row changing.
-  const html = await keptPage(
-    `cert:${code}:${version}:${todayIso()}`,
-    `/verify/${code}/sheet`,
-    async () => (await getCertificateVersionByCode({ code })) === version,
-  );
+  // Every input of the rendered page is in the key: the certificate row's version (revocation, reissue, any
+  // change by hand), the shop settings' version and time zone (the revocation date is printed in the shop's
+  // zone), and the day (a certificate's term ends at a day's turn without its row changing).
+  const key = pageKey(code, stamp);
+  const html = await keptPage(key, `/verify/${code}/sheet`, async () => {
+    const now = await getVerifyPageStamp({ code });
+    return now !== null && pageKey(code, now) === key;
+  });
   return page(html, 200);
+}
+
+function pageKey(code: string, stamp: VerifyPageStamp): string {
+  return `cert:${code}:${stamp.certificate}:${stamp.shop}:${stamp.timeZone}:${todayIso()}`;
 }
