@@ -5,10 +5,11 @@ import { env } from "./env";
 // The public verification page, rendered once per certificate version and served from memory.
 //
 // A certificate's signed content never changes; what a buyer sees changes only when its row does (revoked,
-// superseded, or altered behind the shop's back) or when its term runs out. So the page is rendered by the
-// app itself (the ordinary page at /verify/<code>/sheet, which checks the signature as it renders) and kept
-// here under code + row version + day. Every view reads the row version first (one indexed query), so any
-// change to the row, by the services or by hand in SQL, is seen by the very next view.
+// superseded, or altered behind the shop's back), when the shop's settings do (the revocation date is printed
+// in the shop's time zone) or when its term runs out. So the page is rendered by the app itself (the ordinary
+// page at /verify/<code>/sheet, which checks the signature as it renders) and kept here under code + certificate
+// row version + shop settings version and zone + day. Every view reads those stamps first (one indexed query),
+// so any change to either row, by this instance, another one or by hand in SQL, is seen by the very next view.
 //
 // The kept HTML carries no scripts: the page needs none, and scripts would need the nonce of each response's
 // Content Security Policy (proxy.ts). It is rendered as for a visitor who is not signed in.
