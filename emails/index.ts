@@ -13,6 +13,7 @@ import SetReturned, { type SetReturnedProps } from "./set-returned";
 import ShopMessage, { type ShopMessageProps } from "./shop-message";
 import ShopQuestion, { type ShopQuestionProps } from "./shop-question";
 import StaffInvite from "./staff-invite";
+import StaffNotice, { type StaffNoticeProps } from "./staff-notice";
 import VerifyEmail from "./verify-email";
 
 type TemplateDef<P> = { component: ComponentType<Partial<P>>; subject: (props: P) => string };
@@ -52,6 +53,10 @@ export const TEMPLATES = {
   "staff-invite": define<{ name: string; url: string; roleLabel: string; invitedBy: string }>({
     component: StaffInvite,
     subject: () => "You are invited to the Kestrel Lane workshop",
+  }),
+  "staff-notice": define<StaffNoticeProps>({
+    component: StaffNotice,
+    subject: (p) => p.title,
   }),
   "quote-received": define<QuoteReceivedProps>({
     component: QuoteReceived,

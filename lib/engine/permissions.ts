@@ -23,6 +23,8 @@ export const PERMISSIONS = {
   "tools.use": ["technician", "owner"],
   "claim.review": ["technician", "owner"],
   "claim.decide": ["technician", "owner"],
+  // Every staff account has its own profile: notification choices and the list of what happened.
+  "notifications.use": ["technician", "owner"],
   "office.use": ["owner"],
   "settings.edit": ["owner"],
   // The instrument register is shop settings: whoever may edit those keeps it. The bench reads it on the sheet.

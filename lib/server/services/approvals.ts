@@ -1,6 +1,6 @@
 import "server-only";
 import { and, desc, eq } from "drizzle-orm";
-import { estimateLines, estimateRevisions, jobs } from "@/db/schema";
+import { estimateLines, estimateRevisions, jobs, radioSets, user } from "@/db/schema";
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { AppError } from "@/lib/server/errors";
@@ -8,6 +8,9 @@ import { depositToCollect } from "@/lib/engine/pricing/deposit";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { syncTasks } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
+import { notifyStaff } from "@/lib/server/services/notifications";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { moneyText } from "@/lib/validation/estimate";
 
 type DecisionInput = { jobId: string; customerId: string; revisionId: string };
 
@@ -63,6 +66,7 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     before: { status: "sent" },
     after: { status: "approved", totalMinor: revision.totalMinor, depositMinor: revision.depositMinor },
   });
+  await notifyDecision(ctx, job, revision, "approved", job.state === "bench_revision" ? "The work goes on at the bench." : "");
   if (job.state === "bench_revision") {
     await syncTasksToRevision(ctx, job.id, revision.id);
     await transitionJob(ctx, {
@@ -132,6 +136,15 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
     before: { status: "sent" },
     after: { status: "declined", reason: input.reason, ...(atBench ? { afterDecline: input.afterDecline } : {}) },
   });
+  await notifyDecision(
+    ctx,
+    job,
+    revision,
+    "declined",
+    `Reason: ${input.reason}${
+      !atBench ? "" : input.afterDecline === "approved-scope" ? "\nCarry on with the work approved before." : "\nReturn the set as it is."
+    }`,
+  );
   if (!atBench) {
     await transitionJob(ctx, { jobId: job.id, to: "declined_by_owner", actor: "customer", actorId: input.customerId, note: input.reason });
     return { revisionId: revision.id };
@@ -160,6 +173,30 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
   });
   await settleIfNothingOwed(ctx, job.id);
   return { revisionId: revision.id };
+}
+
+type Revision = Awaited<ReturnType<typeof pendingRevision>>["revision"];
+type JobRow = Awaited<ReturnType<typeof pendingRevision>>["job"];
+
+// The owner's decision reaches the technician holding the job, else the shop, with the same transaction.
+async function notifyDecision(ctx: TxContext, job: JobRow, revision: Revision, decision: "approved" | "declined", detail: string) {
+  const [row] = await ctx.tx
+    .select({ name: user.name, maker: radioSets.maker, model: radioSets.model })
+    .from(radioSets)
+    .innerJoin(user, eq(user.id, job.customerId))
+    .where(eq(radioSets.id, job.setId))
+    .limit(1);
+  const exponent = typeof revision.pricing.exponent === "number" ? revision.pricing.exponent : 2;
+  const total = moneyText(revision.totalMinor, revision.currency, exponent);
+  await notifyStaff(ctx, {
+    kind: "estimate_decided",
+    jobId: job.id,
+    technicianId: job.technicianId,
+    actorId: job.customerId,
+    title: `Estimate ${decision} on ${jobNumber(job.number)}${row ? `: ${row.maker} ${row.model}` : ""}`,
+    body: `${row?.name ?? "The owner"} ${decision} revision ${revision.revision} (${total}).${detail ? `\n${detail}` : ""}`,
+    dedupeKey: `estimate:${revision.id}`,
+  });
 }
 
 async function latestApproved(ctx: TxContext, jobId: string) {

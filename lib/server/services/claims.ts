@@ -10,6 +10,9 @@ import { EngineError } from "@/lib/engine/engine-error";
 import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
+import { notifyStaff } from "@/lib/server/services/notifications";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { CLAIM_SYMPTOM_WORDS, isSafetySymptom } from "@/lib/engine/warranty/advise-claim";
 import { formatMinor } from "@/lib/engine/pricing/money";
 import { certificateStatus } from "@/lib/server/services/certificates";
 import { todayIso, type CertificateDocument } from "@/lib/engine/certificates/document";
@@ -182,6 +185,23 @@ export async function openClaim(ctx: TxContext, args: OpenClaimArgs): Promise<Cl
       laterOwner: !isHolder,
       photos: tickets.length,
     },
+  });
+  // The technician who did the certified work hears of it first; without one (or no longer active), the shop.
+  const [work] = await ctx.tx
+    .select({ technicianId: jobs.technicianId, number: jobs.number, maker: radioSets.maker, model: radioSets.model })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .where(eq(jobs.id, cert.jobId))
+    .limit(1);
+  const symptom = CLAIM_SYMPTOM_WORDS[args.symptomCategory] ?? "A symptom";
+  await notifyStaff(ctx, {
+    kind: "claim_opened",
+    claimId: claim.id,
+    technicianId: work?.technicianId ?? null,
+    actorId: args.claimantId,
+    title: `Warranty claim opened${work ? ` on ${jobNumber(work.number)}: ${work.maker} ${work.model}` : ""}`,
+    body: `${symptom}${isSafetySymptom(args.symptomCategory) ? " (a safety symptom)" : ""}${isHolder ? "" : ", reported by a later owner"}.\n${args.description}`,
+    dedupeKey: `claim:${claim.id}`,
   });
   return claim;
 }

@@ -10,6 +10,7 @@ import { audit } from "@/lib/server/audit";
 import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
+import { notifyStaff } from "@/lib/server/services/notifications";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { readTicket, type PhotoTicket } from "@/lib/server/uploads/photos";
 
@@ -108,7 +109,14 @@ export async function postMessage(
   const where =
     input.author.side === "customer" ? and(eq(jobs.id, input.jobId), eq(jobs.customerId, input.author.id)) : eq(jobs.id, input.jobId);
   const [job] = await ctx.tx
-    .select({ id: jobs.id, state: jobs.state, number: jobs.number, customerId: jobs.customerId, setId: jobs.setId })
+    .select({
+      id: jobs.id,
+      state: jobs.state,
+      number: jobs.number,
+      customerId: jobs.customerId,
+      setId: jobs.setId,
+      technicianId: jobs.technicianId,
+    })
     .from(jobs)
     .where(where)
     .for("update")
@@ -163,6 +171,24 @@ export async function postMessage(
   await markReadUpTo(ctx, { jobId: job.id, userId: input.author.id, messageId: row!.id });
   if (input.author.side === "customer" && job.state === "awaiting_owner") {
     await transitionJob(ctx, { jobId: job.id, to: "in_triage", actor: "customer", actorId: input.author.id, note: "The owner answered" });
+  }
+  if (input.author.side === "customer") {
+    // Only the owner's own words go out: the notification carries this message, never the thread's notes.
+    const [who] = await ctx.tx
+      .select({ name: user.name, maker: radioSets.maker, model: radioSets.model })
+      .from(user)
+      .innerJoin(radioSets, eq(radioSets.id, job.setId))
+      .where(eq(user.id, job.customerId))
+      .limit(1);
+    await notifyStaff(ctx, {
+      kind: "owner_message",
+      jobId: job.id,
+      technicianId: job.technicianId,
+      actorId: input.author.id,
+      title: `Message from ${who?.name ?? "the owner"} on ${jobNumber(job.number)}${who ? `: ${who.maker} ${who.model}` : ""}`,
+      body: tickets.length ? `${input.body}\n(${tickets.length === 1 ? "one photo" : `${tickets.length} photos`} attached)` : input.body,
+      dedupeKey: `message:${row!.id}`,
+    });
   }
   if (input.author.side === "staff" && !internal) {
     const [who] = await ctx.tx

@@ -14,6 +14,7 @@ import { queueEmail } from "@/lib/server/mail";
 import { stripe } from "@/lib/server/payments";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { applyRefundEvent } from "@/lib/server/services/refunds";
+import { notifyStaff } from "@/lib/server/services/notifications";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { moneyText } from "@/lib/validation/estimate";
 import { formatDate } from "@/lib/engine/dates";
@@ -486,6 +487,19 @@ async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: st
       reference: paymentIntentId ?? payment.id,
     },
     dedupeKey: `receipt:${payment.id}`,
+  });
+  // Keyed by the payment: the event id already stops a redelivery, and a second event for it tells nobody again.
+  await notifyStaff(ctx, {
+    kind: "payment_received",
+    jobId: row.job.id,
+    technicianId: row.job.technicianId,
+    actorId: row.job.customerId,
+    title: `${payment.purpose === "deposit" ? "Deposit" : "Balance"} of ${amountText} received on ${jobNumber(row.job.number)}: ${row.set.maker} ${row.set.model}`,
+    body:
+      outcome === "paid-superseded"
+        ? `Paid by ${row.name} for a checkout that was superseded; see the office's payments to refund or credit it.`
+        : `Paid by ${row.name}.`,
+    dedupeKey: `payment:${payment.id}`,
   });
   return outcome;
 }

@@ -9,6 +9,7 @@ import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { queueEmail } from "@/lib/server/mail";
+import { notifyStaff } from "@/lib/server/services/notifications";
 import { recordJobCreated } from "@/lib/server/services/jobs";
 import { readTicket } from "@/lib/server/uploads/photos";
 import type { QuoteRequest } from "@/lib/validation/quote";
@@ -144,6 +145,15 @@ export async function submitQuote(viewer: Viewer, input: QuoteRequest): Promise<
           delivery: input.delivery,
         },
         dedupeKey: `quote-received:${job!.id}`,
+      });
+      await notifyStaff(ctx, {
+        kind: "quote_requested",
+        jobId: job!.id,
+        technicianId: null,
+        actorId: viewer.id,
+        title: `New quote request ${jobNumber(job!.number)}: ${input.maker} ${input.model}`,
+        body: input.symptoms,
+        dedupeKey: `quote:${job!.id}`,
       });
       return { jobId: job!.id, number: job!.number, duplicate: false };
     });

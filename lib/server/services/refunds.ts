@@ -20,6 +20,10 @@ import { stripe } from "@/lib/server/payments";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
 import { queueRefundNotice } from "@/lib/server/services/notices";
 import { getShop } from "@/lib/server/services/shop";
+import { notifyStaff } from "@/lib/server/services/notifications";
+import { jobNumber } from "@/lib/engine/jobs/states";
+import { jobs, payments, radioSets, refunds } from "@/db/schema";
+import { eq } from "drizzle-orm";
 import type { RefundFormValues } from "@/lib/validation/office";
 
 export type RefundOutcome = {
@@ -192,6 +196,7 @@ async function applyAnswer({
       return "pending";
     }
     await settleRefundRow(ctx, { refundId, status, processorRefundId });
+    await notifyRefundSettled(ctx, refundId, status);
     await audit(ctx, {
       actorId,
       action: `refund.${status}`,
@@ -291,6 +296,7 @@ export async function applyRefundEvent(ctx: TxContext, paymentId: string, curren
     return "refund-pending";
   }
   await settleRefundRow(ctx, { refundId, status, processorRefundId: refund.id });
+  await notifyRefundSettled(ctx, refundId, status);
   await audit(ctx, {
     actorId: null,
     action: `refund.${status}`,
@@ -303,3 +309,38 @@ export async function applyRefundEvent(ctx: TxContext, paymentId: string, curren
 }
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i;
+
+// The shop hears how a refund ended; whoever asked for it is told on the spot by the office page instead.
+async function notifyRefundSettled(ctx: TxContext, refundId: string, status: "succeeded" | "failed") {
+  const [row] = await ctx.tx
+    .select({
+      refund: refunds,
+      currency: payments.currency,
+      jobId: jobs.id,
+      number: jobs.number,
+      maker: radioSets.maker,
+      model: radioSets.model,
+    })
+    .from(refunds)
+    .innerJoin(payments, eq(payments.id, refunds.paymentId))
+    .innerJoin(jobs, eq(jobs.id, payments.jobId))
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .where(eq(refunds.id, refundId))
+    .limit(1);
+  if (!row) return;
+  const { exponent, code } = (await getShop()).policy.currency;
+  const amount = money(row.refund.amountMinor, exponent, code);
+  await notifyStaff(ctx, {
+    kind: "refund_settled",
+    jobId: row.jobId,
+    technicianId: null,
+    actorId: row.refund.createdBy,
+    shopOnly: true,
+    title: `Refund of ${amount} ${status === "succeeded" ? "settled" : "failed"} on ${jobNumber(row.number)}: ${row.maker} ${row.model}`,
+    body:
+      status === "succeeded"
+        ? `Reason given: ${row.refund.reason}`
+        : `The processor refused it; the money was not returned. Reason given: ${row.refund.reason}`,
+    dedupeKey: `refund:${refundId}`,
+  });
+}
