@@ -1,5 +1,6 @@
 import Link from "next/link";
 import { canAccess, ROLE_LABEL, type Role } from "@/lib/engine/permissions";
+import { NotificationBell } from "./notification-bell";
 import { SignOutButton } from "./sign-out-button";
 
 // The dial-scale rule under the brand is our mark: ticks like a tuning scale.
@@ -25,7 +26,13 @@ function DialMark() {
  * Who is signed in, as the header shows them; the page or layout reads the session. `holdsSets`: a staff
  * account that also holds its own sets is offered both its portal and its staff areas.
  */
-export type HeaderViewer = { name: string; role: Role; holdsSets?: boolean } | null;
+export type HeaderViewer = {
+  name: string;
+  role: Role;
+  holdsSets?: boolean;
+  /** Staff: unread notifications when the page was drawn (the bell reads it again itself). */
+  unreadNotifications?: number;
+} | null;
 
 export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
   // One link per area; each area's own sections are in the bar beneath (AreaShell), never repeated here.
@@ -34,7 +41,9 @@ export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
     if (canAccess(viewer, "portal.use")) links.push({ href: "/portal", label: "My sets" });
     if (canAccess(viewer, "bench.use")) links.push({ href: "/bench", label: "Bench" });
     if (canAccess(viewer, "office.use")) links.push({ href: "/office", label: "Office" });
+    if (canAccess(viewer, "notifications.use")) links.push({ href: "/staff/profile", label: "My profile" });
   }
+  const staff = viewer !== null && canAccess(viewer, "notifications.use");
   return (
     <header className="border-b-4 border-walnut bg-bakelite text-dial">
       <div className="mx-auto flex max-w-page flex-wrap items-center gap-x-6 gap-y-2 px-4 py-3">
@@ -59,6 +68,7 @@ export function SiteHeader({ viewer }: { viewer: HeaderViewer }) {
               <span className="hidden text-dial-deep sm:inline">
                 {viewer.name} <span className="text-brass-light">· {ROLE_LABEL[viewer.role]}</span>
               </span>
+              {staff ? <NotificationBell initialUnread={viewer.unreadNotifications} /> : null}
               <SignOutButton />
             </>
           ) : (

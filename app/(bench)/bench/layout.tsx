@@ -2,12 +2,13 @@ import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
 import { requirePermission } from "@/lib/server/session";
 import { shopTimeZone } from "@/lib/server/services/shop";
+import { withUnreadCount } from "@/lib/server/services/notifications";
 
 export default async function BenchLayout({ children }: { children: ReactNode }) {
   const viewer = await requirePermission("bench.use", "/bench");
   return (
     <AreaShell
-      viewer={viewer}
+      viewer={await withUnreadCount(viewer)}
       timeZone={await shopTimeZone()}
       dense
       title="Bench"

@@ -2,6 +2,7 @@ import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
 import { requirePermission } from "@/lib/server/session";
 import { shopTimeZone } from "@/lib/server/services/shop";
+import { withUnreadCount } from "@/lib/server/services/notifications";
 
 const OFFICE_NAV = [
   { href: "/office", label: "Overview" },
@@ -17,7 +18,7 @@ const OFFICE_NAV = [
 export default async function OfficeLayout({ children }: { children: ReactNode }) {
   const viewer = await requirePermission("office.use", "/office");
   return (
-    <AreaShell viewer={viewer} timeZone={await shopTimeZone()} title="Office" nav={OFFICE_NAV}>
+    <AreaShell viewer={await withUnreadCount(viewer)} timeZone={await shopTimeZone()} title="Office" nav={OFFICE_NAV}>
       {children}
     </AreaShell>
   );

@@ -185,3 +185,8 @@ export async function saveNotificationPreferences({ userId, preferences }: { use
     });
   return getNotificationPreferences({ userId });
 }
+
+/** The header's viewer with the unread count drawn in, so the bell shows it before any script runs. */
+export async function withUnreadCount<V extends { id: string }>(viewer: V): Promise<V & { unreadNotifications: number }> {
+  return { ...viewer, unreadNotifications: await unreadCount({ userId: viewer.id }) };
+}
