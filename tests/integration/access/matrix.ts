@@ -345,6 +345,34 @@ export const ROUTES: RouteEntry[] = [
     params: (f) => ({ id: f.instrumentAny }),
     body: () => ({}),
   },
+  // One's own notifications and choices: every staff role; the ids are only ever one's own (a random id is 404).
+  { method: "GET", route: "/api/staff/notifications", action: "notifications.use (own)", rules: staff() },
+  { method: "GET", route: "/api/staff/notifications/unread", action: "notifications.use (own)", rules: staff() },
+  {
+    method: "POST",
+    route: "/api/staff/notifications/read-all",
+    action: "notifications.use (own)",
+    rules: staff(),
+    body: () => ({}),
+  },
+  {
+    method: "POST",
+    route: "/api/staff/notifications/[id]/read",
+    action: "notifications.use (own)",
+    // An id that is nobody's: staff get past authorization to a 404 of the data, checked in notifications.test.ts.
+    rules: { anonymous: "deny", customerA: "deny", customerB: "deny", technician: "deny", owner: "deny" },
+    params: () => ({ id: randomUUID() }),
+    body: () => ({ read: true }),
+  },
+  { method: "GET", route: "/api/staff/notification-preferences", action: "notifications.use (own)", rules: staff() },
+  {
+    method: "PUT",
+    route: "/api/staff/notification-preferences",
+    action: "notifications.use (own)",
+    rules: staff(),
+    // Not a full set of choices: staff get past authorization to a 400, and nobody's choices change.
+    body: () => ({ preferences: {} }),
+  },
   {
     method: "DELETE",
     route: "/api/office/instruments/[id]",
@@ -399,6 +427,8 @@ export const PAGES: PageEntry[] = [
   { route: "/bench/claims", rules: pageStaff },
   { route: "/bench/claims/[id]", rules: pageStaff, params: (f) => ({ id: f.claimA }) },
   { route: "/bench/jobs/[id]", rules: pageStaff, params: (f) => ({ id: f.jobOpenA }) },
+  { route: "/staff/notifications", rules: pageStaff },
+  { route: "/staff/profile", rules: pageStaff },
   { route: "/office", rules: ownerOnly },
   { route: "/office/audit", rules: ownerOnly },
   { route: "/office/certificates", rules: ownerOnly },
