@@ -53,12 +53,7 @@ export async function listUnattachedUploads({ before, limit }: { before: Date; l
   return db
     .select({ key: storedUploads.key, thumbKey: storedUploads.thumbKey })
     .from(storedUploads)
-    .where(
-      and(
-        lt(storedUploads.createdAt, before),
-        sql`not exists (select 1 from ${photos} p where p.storage_key = ${storedUploads.key})`,
-      ),
-    )
+    .where(and(lt(storedUploads.createdAt, before), sql`not exists (select 1 from ${photos} p where p.storage_key = ${storedUploads.key})`))
     .orderBy(asc(storedUploads.createdAt))
     .limit(limit);
 }

@@ -12,8 +12,10 @@
 //                             the file is kept under its custom id when it has one, as the hosted store lets
 //                             a file be addressed by either
 //   GET  /a/:appId/:id        a private file only with a valid signature (UTApi.generateSignedURL)
-// Tests switch faults on with POST /control/faults?mode=down|slow|off (down: every API, ingest and file call
-// answers 503; slow: they answer after 30 s).
+// Tests switch faults on with POST /control/faults?mode=…: "down" (every API, ingest and file call answers
+// 503), "slow" (they answer 503 after 30 s), "store-down" / "store-slow" (the same for the calls the app's
+// photo store makes only: server uploads, private reads, deletes by custom id; the browser's upload flow
+// keeps working), "off".
 // This mirrors the SDK's internal protocol, not a documented API: keep the versions pinned.
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -82,10 +84,20 @@ function verifyPresigned(url: URL): { ok: true; params: URLSearchParams } | { ok
 const keyPath = (key: string) => join(dir, key.replace(/[^A-Za-z0-9._-]/g, "").replace(/^\.+/, ""));
 
 type Meta = { type: string; name: string; acl?: string; key?: string; customId?: string | null };
-let faults: "off" | "down" | "slow" = "off";
+const FAULT_MODES = ["off", "down", "slow", "store-down", "store-slow"] as const;
+let faults: (typeof FAULT_MODES)[number] = "off";
+
+// Answers a store call with the fault in force, if any; true when it did.
+async function storeFault(res: ServerResponse): Promise<boolean> {
+  if (faults !== "store-down" && faults !== "store-slow") return false;
+  if (faults === "store-slow") await new Promise((r) => setTimeout(r, 30_000));
+  send(res, 503, { error: "The upload service is unavailable." });
+  return true;
+}
 
 // A server-side upload (UTApi.uploadFiles): nothing registered, the signed URL carries everything.
 async function handleServerPut(req: IncomingMessage, res: ServerResponse, params: URLSearchParams, key: string) {
+  if (await storeFault(res)) return;
   const raw = await readBody(req);
   const form = await new Response(new Uint8Array(raw), {
     headers: { "content-type": String(req.headers["content-type"] ?? "") },
@@ -185,12 +197,12 @@ const server = createServer(async (req, res) => {
     const url = new URL(req.url ?? "/", req.headers.host ? `http://${req.headers.host}` : origin);
     const path = url.pathname;
     if (req.method === "POST" && path === "/control/faults") {
-      const mode = url.searchParams.get("mode");
-      if (mode !== "off" && mode !== "down" && mode !== "slow") return send(res, 400, { error: "mode: off, down or slow" });
+      const mode = FAULT_MODES.find((m) => m === url.searchParams.get("mode"));
+      if (!mode) return send(res, 400, { error: `mode: one of ${FAULT_MODES.join(", ")}` });
       faults = mode;
       return send(res, 200, { faults });
     }
-    if (faults !== "off" && path !== "/health") {
+    if ((faults === "down" || faults === "slow") && path !== "/health") {
       if (faults === "slow") await new Promise((r) => setTimeout(r, 30_000));
       return send(res, 503, { error: "The upload service is unavailable." });
     }
@@ -227,6 +239,7 @@ const server = createServer(async (req, res) => {
         return send(res, 200, { ok: true });
       }
       if (path === "/v6/deleteFiles") {
+        if (body.customIds && (await storeFault(res))) return;
         let deletedCount = 0;
         for (const key of [...((body.fileKeys as string[]) ?? []), ...((body.customIds as string[]) ?? [])]) {
           const p = keyPath(key);
@@ -247,6 +260,7 @@ const server = createServer(async (req, res) => {
       if (!existsSync(p)) return send(res, 404, { error: "not found" });
       const meta = JSON.parse(readFileSync(`${p}.json`, "utf8")) as Meta;
       if (meta.acl === "private") {
+        if (await storeFault(res)) return;
         const check = verifyPresigned(url);
         if (!check.ok) return send(res, 403, { error: `This file is private: ${check.message}` });
       }
