@@ -257,7 +257,8 @@ const server = createServer(async (req, res) => {
     const served = /^\/(?:a\/[^/]+|f)\/([A-Za-z0-9_-][A-Za-z0-9._-]*)$/.exec(path);
     if (req.method === "GET" && served) {
       const p = keyPath(served[1]!);
-      if (!existsSync(p)) return send(res, 404, { error: "not found" });
+      // A file's metadata sits beside it and is not itself a file.
+      if (p.endsWith(".json") || !existsSync(p)) return send(res, 404, { error: "not found" });
       const meta = JSON.parse(readFileSync(`${p}.json`, "utf8")) as Meta;
       if (meta.acl === "private") {
         if (await storeFault(res)) return;
