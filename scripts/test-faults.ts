@@ -652,8 +652,9 @@ async function main() {
     if (dupKeys!.n > 0) violation(`${dupKeys!.n} idempotency keys have more than one job`);
 
     // Uploads: the re-encoded photo behind every acknowledged ticket is in the store.
-    const storeRoot = join(env.UPLOAD_DIR!, "store");
-    const missingFiles = ledger.uploads.filter((u) => !existsSync(join(storeRoot, u.storageKey)));
+    // Photos live in the upload store (the stand-in keeps each under its custom id: the key, slash made a dash).
+    const storeRoot = join(env.UPLOAD_DIR!, "ingest");
+    const missingFiles = ledger.uploads.filter((u) => !existsSync(join(storeRoot, u.storageKey.replace("/", "-"))));
     for (const u of missingFiles.slice(0, 10)) violation(`upload ${u.storageKey}: acknowledged but the stored photo is missing`);
     if (missingFiles.length > 10) violation(`${missingFiles.length} acknowledged uploads have no stored photo`);
 

@@ -21,6 +21,13 @@ const envSchema = z.object({
   STRIPE_API_BASE: z.string().url().optional(),
   UPLOADTHING_TOKEN: z.string().optional(),
   UPLOAD_DIR: z.string().optional(),
+  // Where re-encoded photos are kept (lib/server/uploads/storage.ts): the hosted upload store through its
+  // server SDK (needs UPLOADTHING_TOKEN), or "disk" under UPLOAD_DIR for a single instance without it.
+  PHOTO_STORE: z.enum(["hosted", "disk"]).optional(),
+  // Each call to the upload store gives up after this long (milliseconds), answered as retryable.
+  PHOTO_STORE_TIMEOUT_MS: z.coerce.number().int().positive().default(10_000),
+  // How often each instance removes uploads never attached to anything (seconds).
+  PHOTO_SWEEP_SECONDS: z.coerce.number().int().positive().default(600),
   // Sign-in throttling; tests turn it down only through this setting, never through code paths.
   AUTH_RATE_LIMIT_MAX: z.coerce.number().int().positive().default(5),
   AUTH_RATE_LIMIT_WINDOW_SECONDS: z.coerce.number().int().positive().default(60),

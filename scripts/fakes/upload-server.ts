@@ -6,7 +6,16 @@
 //                             the app, wait for its /callback-result, and answer with the URLs and server data
 //   POST /callback-result     the app's onUploadComplete result
 //   GET  /a/:appId/:key, /f/:key   the stored file
-//   POST /v6/deleteFiles      UTApi.deleteFiles
+//   POST /v6/deleteFiles      UTApi.deleteFiles (file keys or custom ids)
+// and what the app's photo store calls through UTApi on the server:
+//   PUT  /:key?…&signature    UTApi.uploadFiles (no route registration; ACL and custom id from the signed URL);
+//                             the file is kept under its custom id when it has one, as the hosted store lets
+//                             a file be addressed by either
+//   GET  /a/:appId/:id        a private file only with a valid signature (UTApi.generateSignedURL)
+// Tests switch faults on with POST /control/faults?mode=…: "down" (every API, ingest and file call answers
+// 503), "slow" (they answer 503 after 30 s), "store-down" / "store-slow" (the same for the calls the app's
+// photo store makes only: server uploads, private reads, deletes by custom id; the browser's upload flow
+// keeps working), "off".
 // This mirrors the SDK's internal protocol, not a documented API: keep the versions pinned.
 import { createHash, createHmac, timingSafeEqual } from "node:crypto";
 import { existsSync, mkdirSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -72,7 +81,46 @@ function verifyPresigned(url: URL): { ok: true; params: URLSearchParams } | { ok
   return { ok: true, params: url.searchParams };
 }
 
-const keyPath = (key: string) => join(dir, key.replace(/[^A-Za-z0-9_-]/g, ""));
+const keyPath = (key: string) => join(dir, key.replace(/[^A-Za-z0-9._-]/g, "").replace(/^\.+/, ""));
+
+type Meta = { type: string; name: string; acl?: string; key?: string; customId?: string | null };
+const FAULT_MODES = ["off", "down", "slow", "store-down", "store-slow"] as const;
+let faults: (typeof FAULT_MODES)[number] = "off";
+
+// Answers a store call with the fault in force, if any; true when it did.
+async function storeFault(res: ServerResponse): Promise<boolean> {
+  if (faults !== "store-down" && faults !== "store-slow") return false;
+  if (faults === "store-slow") await new Promise((r) => setTimeout(r, 30_000));
+  send(res, 503, { error: "The upload service is unavailable." });
+  return true;
+}
+
+// A server-side upload (UTApi.uploadFiles): nothing registered, the signed URL carries everything.
+async function handleServerPut(req: IncomingMessage, res: ServerResponse, params: URLSearchParams, key: string) {
+  if (await storeFault(res)) return;
+  const raw = await readBody(req);
+  const form = await new Response(new Uint8Array(raw), {
+    headers: { "content-type": String(req.headers["content-type"] ?? "") },
+  }).formData();
+  const file = form.get("file");
+  if (!file || typeof file === "string") return send(res, 400, { error: "No file in the upload." });
+  const bytes = Buffer.from(await file.arrayBuffer());
+  const declared = Number(decodeURIComponent(params.get("x-ut-file-size") ?? "0"));
+  if (bytes.length !== declared) return send(res, 400, { error: "The file size does not match what was announced." });
+  const customId = params.get("x-ut-custom-id") ? decodeURIComponent(params.get("x-ut-custom-id")!) : null;
+  const id = customId ?? key;
+  if (existsSync(keyPath(id))) return send(res, 409, { error: `A file with the custom id ${id} already exists.` });
+  const meta: Meta = {
+    type: decodeURIComponent(params.get("x-ut-file-type") ?? "application/octet-stream"),
+    name: decodeURIComponent(params.get("x-ut-file-name") ?? "file"),
+    acl: decodeURIComponent(params.get("x-ut-acl") ?? "public-read"),
+    key,
+    customId,
+  };
+  writeFileSync(keyPath(id), bytes);
+  writeFileSync(`${keyPath(id)}.json`, JSON.stringify(meta));
+  send(res, 200, { ...fileUrls(key), fileHash: createHash("md5").update(bytes).digest("hex") });
+}
 
 function fileUrls(key: string) {
   return {
@@ -86,7 +134,7 @@ async function handlePut(req: IncomingMessage, res: ServerResponse, url: URL, ke
   const check = verifyPresigned(url);
   if (!check.ok) return send(res, 403, { error: check.message });
   const reg = registrations.get(key);
-  if (!reg) return send(res, 404, { error: "This upload was not registered." });
+  if (!reg) return handleServerPut(req, res, check.params, key);
   const raw = await readBody(req);
   const form = await new Response(new Uint8Array(raw), {
     headers: { "content-type": String(req.headers["content-type"] ?? "") },
@@ -145,8 +193,19 @@ async function handlePut(req: IncomingMessage, res: ServerResponse, url: URL, ke
 
 const server = createServer(async (req, res) => {
   try {
-    const url = new URL(req.url ?? "/", origin);
+    // Signatures cover the URL as the SDK wrote it, host included (the ingest and file hosts differ).
+    const url = new URL(req.url ?? "/", req.headers.host ? `http://${req.headers.host}` : origin);
     const path = url.pathname;
+    if (req.method === "POST" && path === "/control/faults") {
+      const mode = FAULT_MODES.find((m) => m === url.searchParams.get("mode"));
+      if (!mode) return send(res, 400, { error: `mode: one of ${FAULT_MODES.join(", ")}` });
+      faults = mode;
+      return send(res, 200, { faults });
+    }
+    if ((faults === "down" || faults === "slow") && path !== "/health") {
+      if (faults === "slow") await new Promise((r) => setTimeout(r, 30_000));
+      return send(res, 503, { error: "The upload service is unavailable." });
+    }
     if (req.method === "OPTIONS") {
       // Allow whatever headers the browser asks for (clients add tracing and proxy headers of their own).
       const asked = req.headers["access-control-request-headers"];
@@ -180,8 +239,9 @@ const server = createServer(async (req, res) => {
         return send(res, 200, { ok: true });
       }
       if (path === "/v6/deleteFiles") {
+        if (body.customIds && (await storeFault(res))) return;
         let deletedCount = 0;
-        for (const key of (body.fileKeys as string[]) ?? []) {
+        for (const key of [...((body.fileKeys as string[]) ?? []), ...((body.customIds as string[]) ?? [])]) {
           const p = keyPath(key);
           if (existsSync(p)) {
             rmSync(p, { force: true });
@@ -194,13 +254,25 @@ const server = createServer(async (req, res) => {
       return send(res, 404, { error: `not supported here: ${path}` });
     }
 
-    const served = /^\/(?:a\/[^/]+|f)\/([A-Za-z0-9_-]+)$/.exec(path);
+    const served = /^\/(?:a\/[^/]+|f)\/([A-Za-z0-9_-][A-Za-z0-9._-]*)$/.exec(path);
     if (req.method === "GET" && served) {
       const p = keyPath(served[1]!);
-      if (!existsSync(p)) return send(res, 404, { error: "not found" });
-      const meta = JSON.parse(readFileSync(`${p}.json`, "utf8")) as { type: string };
-      res.writeHead(200, { "content-type": "application/octet-stream", "x-declared-type": meta.type, ...CORS });
-      return res.end(readFileSync(p));
+      // A file's metadata sits beside it and is not itself a file.
+      if (p.endsWith(".json") || !existsSync(p)) return send(res, 404, { error: "not found" });
+      const meta = JSON.parse(readFileSync(`${p}.json`, "utf8")) as Meta;
+      if (meta.acl === "private") {
+        if (await storeFault(res)) return;
+        const check = verifyPresigned(url);
+        if (!check.ok) return send(res, 403, { error: `This file is private: ${check.message}` });
+      }
+      const bytes = readFileSync(p);
+      res.writeHead(200, {
+        "content-type": "application/octet-stream",
+        "content-length": String(bytes.length),
+        "x-declared-type": meta.type,
+        ...CORS,
+      });
+      return res.end(bytes);
     }
 
     const ingest = /^\/([A-Za-z0-9_-]+)$/.exec(path);

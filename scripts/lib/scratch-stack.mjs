@@ -91,6 +91,8 @@ export async function bootScratchStack({
         TEST_SCRATCH: scratch,
         // The test client plays the one reverse proxy in front of the app: it appends the client address.
         TRUSTED_PROXY_HOPS: "1",
+        // Abandoned uploads are swept every few seconds, so a test sees the sweep without waiting ten minutes.
+        PHOTO_SWEEP_SECONDS: "3",
         ...extraEnv,
       },
     });

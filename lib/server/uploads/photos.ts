@@ -5,6 +5,7 @@ import sharp from "sharp";
 import { env } from "../env";
 import { AppError } from "../errors";
 import { photoStore } from "./storage";
+import { recordStoredUpload } from "@/db/queries/photos";
 import { MAX_PHOTO_BYTES } from "@/lib/validation/quote";
 
 // What the server accepts as a photo, judged from the bytes only (the browser's type and size are claims).
@@ -123,7 +124,7 @@ export type PhotoTicket = {
   at: number;
 };
 
-const TICKET_TTL_MS = 24 * 3600 * 1000;
+export const TICKET_TTL_MS = 24 * 3600 * 1000;
 
 function ticketKey(): Buffer {
   return createHmac("sha256", env().BETTER_AUTH_SECRET).update("bandedge:photo-ticket").digest();
@@ -155,15 +156,28 @@ export function readTicket(token: string, uploaderId: string): PhotoTicket {
   return t;
 }
 
-/** Processes and stores one uploaded file under generated keys; returns the ticket for the quote form. */
+/**
+ * Processes and stores one uploaded file under generated keys, records the upload (the quota and the sweep of
+ * abandoned uploads read that row), and returns the ticket for the form. Nothing is acknowledged unless
+ * both files are in the store and the row is written; a half-done upload is taken back out of the store.
+ * A store that fails or is slow throws PhotoStoreUnavailable.
+ */
 export async function acceptPhoto({ bytes, name, uploaderId }: { bytes: Buffer; name: string; uploaderId: string }) {
   const processed = await processPhoto(bytes);
   const id = randomUUID();
   const key = `photos/${id}.jpg`;
   const thumbKey = `photos/${id}-thumb.jpg`;
   const store = photoStore();
-  await store.put(key, processed.image, processed.mime);
-  await store.put(thumbKey, processed.thumb, processed.mime);
+  const takeBack = (why: unknown) =>
+    store.remove([key, thumbKey]).catch((e: unknown) => console.error("[bandedge] could not take back a half-stored photo", why, e));
+  try {
+    await store.put(key, processed.image, processed.mime);
+    await store.put(thumbKey, processed.thumb, processed.mime);
+    await recordStoredUpload({ key, thumbKey, uploaderId, bytes: processed.image.length + processed.thumb.length });
+  } catch (e) {
+    await takeBack(e);
+    throw e;
+  }
   const ticket: PhotoTicket = {
     key,
     thumbKey,

@@ -1,10 +1,11 @@
 import "server-only";
 import { createUploadthing, type FileRouter } from "uploadthing/next";
 import { UploadThingError, UTApi } from "uploadthing/server";
-import { countPhotosByUploaderSince } from "@/db/queries/photos";
+import { countStoredPhotosByUploaderSince } from "@/db/queries/photos";
 import { canAccess } from "@/lib/engine/permissions";
 import { viewerFromHeaders } from "@/lib/server/session";
 import { acceptPhoto, PhotoRefused } from "@/lib/server/uploads/photos";
+import { PHOTO_STORE_RETRY_MESSAGE, PhotoStoreUnavailable } from "@/lib/server/uploads/storage";
 import { MAX_MESSAGE_PHOTOS } from "@/lib/validation/messages";
 import { MAX_PHOTO_BYTES, MAX_PHOTOS } from "@/lib/validation/quote";
 
@@ -45,7 +46,7 @@ function photoMiddleware(allowed: (viewer: Viewer) => boolean) {
     if (!viewer || !allowed(viewer)) {
       throw new UploadThingError({ code: "FORBIDDEN", message: "Please sign in to add photos." });
     }
-    const recent = await countPhotosByUploaderSince({ uploaderId: viewer.id, since: new Date(Date.now() - 24 * 3600 * 1000) });
+    const recent = await countStoredPhotosByUploaderSince({ uploaderId: viewer.id, since: new Date(Date.now() - 24 * 3600 * 1000) });
     if (recent >= DAILY_PHOTO_QUOTA) {
       throw new UploadThingError({
         code: "FILE_LIMIT_EXCEEDED",
@@ -75,6 +76,10 @@ async function completePhoto({
     return { ok: true, ...accepted };
   } catch (error) {
     if (error instanceof PhotoRefused) return { ok: false, error: error.message };
+    if (error instanceof PhotoStoreUnavailable) {
+      console.error("[bandedge] photo store unavailable during an upload", error.message, error.cause);
+      return { ok: false, error: PHOTO_STORE_RETRY_MESSAGE };
+    }
     console.error("[bandedge] photo processing failed", error);
     return { ok: false, error: "This photo could not be processed. Please try again." };
   } finally {

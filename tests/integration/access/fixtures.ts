@@ -1,9 +1,8 @@
 // Ids the access matrix's routes are called with, and how a matrix entry becomes a request path.
 // Shared by the access suite (demo data) and the fuzz suite (its own rows).
 import { randomUUID } from "node:crypto";
-import { mkdirSync, writeFileSync } from "node:fs";
-import { join } from "node:path";
 import sharp from "sharp";
+import { UTApi, UTFile } from "uploadthing/server";
 import { sql } from "../../support/db";
 import type { Fixtures, RouteEntry } from "./matrix";
 
@@ -25,12 +24,18 @@ export async function storePhoto({
 }): Promise<string> {
   const photoId = randomUUID();
   const key = `photos/${randomUUID()}.jpg`;
-  const dir = join(process.env.UPLOAD_DIR!, "store", "photos");
-  mkdirSync(dir, { recursive: true });
   const jpeg = await sharp({ create: { width: 8, height: 8, channels: 3, background: "#884422" } })
     .jpeg()
     .toBuffer();
-  writeFileSync(join(process.env.UPLOAD_DIR!, "store", key), jpeg);
+  // Into the upload store as the app keeps photos there: private, under the key as custom id (slash a dash).
+  const id = key.replace("/", "-");
+  const out = await new UTApi({ logLevel: "Warning" }).uploadFiles(
+    new UTFile([new Uint8Array(jpeg)], id, { type: "image/jpeg", customId: id }),
+    {
+      acl: "private",
+    },
+  );
+  if (out.error) throw new Error(`fixture photo not stored: ${out.error.message}`);
   await sql(
     "insert into photo (id, uploader_id, job_id, storage_key, display_name, mime, width, height, bytes) values ($1, $2, $3, $4, $5, 'image/jpeg', 8, 8, $6)",
     [photoId, uploaderId, jobId, key, displayName, jpeg.length],
