@@ -186,7 +186,13 @@ export function IntakeForm() {
                   {matches.data.customers.map((m) => (
                     <li key={m.id}>
                       <label className="card flex cursor-pointer gap-3 p-3 has-[:checked]:border-ember">
-                        <input type="radio" name="customer-choice" checked={chosen?.id === m.id} onChange={() => choose(m)} className="mt-1" />
+                        <input
+                          type="radio"
+                          name="customer-choice"
+                          checked={chosen?.id === m.id}
+                          onChange={() => choose(m)}
+                          className="mt-1"
+                        />
                         <span className="min-w-0 [overflow-wrap:anywhere]">
                           <span className="block font-semibold">{m.name}</span>
                           <span className="block text-sm text-bakelite-muted">

@@ -73,7 +73,11 @@ function createAuth() {
       // Always the password-reset message: staff invitations are their own tokens (services/staff-invitations.ts).
       sendResetPassword: async ({ user: who, url }) => {
         // A contact the shop keeps without sign-in gets no password by the back door; the shop invites them.
-        const [row] = await getDb().select({ contactOnly: schema.user.contactOnly }).from(schema.user).where(eq(schema.user.id, who.id)).limit(1);
+        const [row] = await getDb()
+          .select({ contactOnly: schema.user.contactOnly })
+          .from(schema.user)
+          .where(eq(schema.user.id, who.id))
+          .limit(1);
         if (row?.contactOnly) return;
         const user = who;
         await queueEmailNow({

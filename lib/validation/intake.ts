@@ -24,13 +24,7 @@ export const intakeSchema = z
     customerMode: z.enum(CUSTOMER_MODES, { error: "Customer: choose an existing customer or add a new one." }),
     customerId: text(64, "Customer: choose one from the search results."),
     customerName: text(120, "Customer's name: keep it under 120 characters."),
-    customerEmail: z
-      .string()
-      .trim()
-      .toLowerCase()
-      .max(254, "Customer's e-mail: keep it under 254 characters.")
-      .optional()
-      .default(""),
+    customerEmail: z.string().trim().toLowerCase().max(254, "Customer's e-mail: keep it under 254 characters.").optional().default(""),
     customerPhone: text(40, "Customer's phone: keep it under 40 characters."),
     access: z.enum(NEW_CUSTOMER_ACCESS, { error: "Sign-in: choose to invite the customer or keep them as a contact." }).default("contact"),
     ...setProfileShape,
@@ -49,14 +43,17 @@ export const intakeSchema = z
     } else {
       if (!v.customerName) issue("customerName", "Customer's name: enter the name the customer gives.");
       const email = v.customerEmail;
-      if (email && !z.email().safeParse(email).success) issue("customerEmail", "Customer's e-mail: enter a valid address, or leave it empty.");
+      if (email && !z.email().safeParse(email).success)
+        issue("customerEmail", "Customer's e-mail: enter a valid address, or leave it empty.");
       if (v.customerPhone && !PHONE_PATTERN.test(v.customerPhone))
         issue("customerPhone", "Customer's phone: digits, spaces and + ( ) . - only, 6 to 40 characters.");
-      if (!email && !v.customerPhone) issue("customerEmail", "Customer's e-mail: give an e-mail or a phone number, so the shop can reach them.");
+      if (!email && !v.customerPhone)
+        issue("customerEmail", "Customer's e-mail: give an e-mail or a phone number, so the shop can reach them.");
       if (v.access === "invite" && !email) issue("customerEmail", "Customer's e-mail: an invitation needs an e-mail address to go to.");
       if (v.contactPreference === "email" && !email)
         issue("contactPreference", "Reaching the customer: without an e-mail address, choose phone.");
-      if (v.contactPreference === "phone" && !v.customerPhone) issue("customerPhone", "Customer's phone: give a number to call, or choose e-mail.");
+      if (v.contactPreference === "phone" && !v.customerPhone)
+        issue("customerPhone", "Customer's phone: give a number to call, or choose e-mail.");
     }
     if (v.channel === "phone" && v.setAtShop) issue("setAtShop", "Set at the shop: a set taken in by phone is not at the shop yet.");
   });

@@ -43,7 +43,13 @@ export default async function OfficePage() {
       text: "Shop identity, labour rate, billing increment, minutes per checklist rule, parts, tax, deposit policy, warranty wording and tolerances.",
     },
     ...(canAccess(viewer, "job.intake")
-      ? [{ href: "/bench/intake", title: "Take in a set", text: "A customer at the counter or on the phone: find or add them, open the job." }]
+      ? [
+          {
+            href: "/bench/intake",
+            title: "Take in a set",
+            text: "A customer at the counter or on the phone: find or add them, open the job.",
+          },
+        ]
       : []),
     { href: "/office/staff", title: "Staff", text: "Invite technicians, change roles, deactivate accounts." },
     { href: "/office/payments", title: "Payments", text: "Deposits and balances received; full or partial refunds." },

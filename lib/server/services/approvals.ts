@@ -140,7 +140,13 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
   }
   await ctx.tx
     .update(estimateRevisions)
-    .set({ status: "declined", decidedBy: input.customerId, decidedAt: new Date(), declineReason: input.reason, ...recordedColumns(input.recorded) })
+    .set({
+      status: "declined",
+      decidedBy: input.customerId,
+      decidedAt: new Date(),
+      declineReason: input.reason,
+      ...recordedColumns(input.recorded),
+    })
     .where(eq(estimateRevisions.id, revision.id));
   const actorId = input.recorded?.staffId ?? input.customerId;
   await audit(ctx, {
@@ -203,7 +209,11 @@ async function syncTasksToRevision(ctx: TxContext, jobId: string, revisionId: st
   await syncTasks(ctx, jobId, labour);
 }
 
-const MEDIUM_WORDS: Record<DecisionMedium, string> = { "in-person": "given in person", phone: "given by phone", letter: "given in writing" };
+const MEDIUM_WORDS: Record<DecisionMedium, string> = {
+  "in-person": "given in person",
+  phone: "given by phone",
+  letter: "given in writing",
+};
 function recordedWords(r: RecordedBy): string {
   return `${MEDIUM_WORDS[r.medium]}, recorded by staff`;
 }

@@ -228,7 +228,11 @@ export async function takeInJob(
     to: "in_triage",
     actor: "staff",
     actorId: actor.id,
-    note: atShop ? "Taken in at the counter; the set is at the shop" : input.channel === "counter" ? "Taken in at the counter" : "Taken in by phone",
+    note: atShop
+      ? "Taken in at the counter; the set is at the shop"
+      : input.channel === "counter"
+        ? "Taken in at the counter"
+        : "Taken in by phone",
     patch: atShop ? { receivedAt: now } : {},
   });
 

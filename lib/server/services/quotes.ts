@@ -29,7 +29,9 @@ export function draftBands(kinds: QuoteRequest["bands"]): Band[] {
 }
 
 // The dial-scale ends the owner gave, for the bands they ticked, leaving out bands with neither end given.
-export function dialEndsOf(input: Pick<QuoteRequest, "bands" | "dialEnds">): Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> {
+export function dialEndsOf(
+  input: Pick<QuoteRequest, "bands" | "dialEnds">,
+): Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> {
   const out: Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> = {};
   for (const band of input.bands) {
     const ends = input.dialEnds[band];

@@ -8,7 +8,13 @@ import { intakeSchema } from "@/lib/validation/intake";
 export const POST = route({ permission: "job.intake", body: intakeSchema }, async ({ viewer, body }) => {
   const result = await submitIntake({ input: body, actor: { id: viewer.id, name: viewer.name } });
   return Response.json(
-    { jobId: result.jobId, number: jobNumber(result.number), customerId: result.customerId, invited: result.invited, duplicate: result.duplicate },
+    {
+      jobId: result.jobId,
+      number: jobNumber(result.number),
+      customerId: result.customerId,
+      invited: result.invited,
+      duplicate: result.duplicate,
+    },
     { status: result.duplicate ? 200 : 201, headers: { "cache-control": "no-store" } },
   );
 });
