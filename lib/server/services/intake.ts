@@ -30,10 +30,12 @@ export type CustomerMatch = {
 const tokenHash = (token: string) => createHash("sha256").update(token).digest("hex");
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
 
+// Columns written out with their table: inside a select from "user", Drizzle names them bare, and a bare "id"
+// in a subquery would be the subquery's own table's.
 const accessSql = sql<CustomerAccess>`case
-  when ${user.contactOnly} then 'contact'
-  when exists (select 1 from ${account} a where a.user_id = ${user.id} and a.provider_id = 'credential') then 'account'
-  when exists (select 1 from ${staffInvitation} i where i.user_id = ${user.id} and i.used_at is null and i.expires_at > now()) then 'invited'
+  when "user"."contact_only" then 'contact'
+  when exists (select 1 from "account" a where a.user_id = "user"."id" and a.provider_id = 'credential') then 'account'
+  when exists (select 1 from "staff_invitation" i where i.user_id = "user"."id" and i.used_at is null and i.expires_at > now()) then 'invited'
   else 'account' end`;
 
 /** Set owners whose name, e-mail or phone contains the words typed at the counter (a phone's digits alone match too). */
@@ -47,7 +49,7 @@ export async function searchCustomers({ q }: { q: string }): Promise<CustomerMat
       email: user.email,
       phone: user.phone,
       access: accessSql,
-      jobs: sql<number>`(select count(*)::int from ${jobs} j where j.customer_id = ${user.id})`,
+      jobs: sql<number>`(select count(*)::int from "job" j where j.customer_id = "user"."id")`,
     })
     .from(user)
     .where(
@@ -55,9 +57,9 @@ export async function searchCustomers({ q }: { q: string }): Promise<CustomerMat
         eq(user.role, "customer"),
         or(
           ilike(user.name, like),
-          and(ilike(user.email, like), sql`${user.email} not like '%.invalid'`),
+          and(ilike(user.email, like), sql`"user"."email" not like '%.invalid'`),
           ilike(user.phone, like),
-          digits.length >= 4 ? sql`regexp_replace(coalesce(${user.phone}, ''), '\\D', '', 'g') like ${`%${digits}%`}` : sql`false`,
+          digits.length >= 4 ? sql`regexp_replace(coalesce("user"."phone", ''), '\\D', '', 'g') like ${`%${digits}%`}` : sql`false`,
         ),
       ),
     )
