@@ -42,7 +42,7 @@ describe("taking a set in", () => {
     await page.getByLabel("A new customer").check();
     // Sending too early names the fields that need answers.
     await page.getByRole("button", { name: "Open the job" }).click();
-    await expect.poll(() => page.getByText("Customer's name: enter the name the customer gives.").count()).toBe(1);
+    await expect.poll(() => page.getByText("Maker: write it as printed on the set.").count()).toBe(1);
     await page.getByLabel("Customer's name").fill("Perrin Ashdown");
     await page.getByLabel("Customer's phone").fill("+1 555 0163");
     await page.getByLabel("Keep them as a contact, without sign-in").check();
