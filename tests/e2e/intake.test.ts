@@ -86,7 +86,7 @@ describe("taking a set in", () => {
     expect(await pageWidth(page)).toBeLessThanOrEqual(PHONE.viewport.width + 1);
     await page.getByRole("button", { name: "Open the job" }).click();
     await page.waitForURL(/\/bench\/jobs\/[0-9a-f-]{36}/, { timeout: 30_000 });
-    await expect.poll(() => page.locator("header").first().textContent()).toContain("Taken in by phone");
+    await expect.poll(() => page.locator("header").filter({ hasText: "Phone-in 7" }).textContent()).toContain("Taken in by phone");
     await snap(page, "intake-04-phone-job");
     const jobId = /jobs\/([0-9a-f-]{36})/.exec(page.url())![1]!;
     const [row] = await sql<{ customer: string; received: boolean }>(
