@@ -16,10 +16,12 @@ export function StateBadge({
   state,
   audience,
   returnMethod,
+  setAtShop = false,
 }: {
   state: JobState;
   audience: "owner" | "staff";
   returnMethod?: ReturnMethod | null;
+  setAtShop?: boolean;
 }) {
   const label = STATE_LABEL[state];
   return (
@@ -27,7 +29,7 @@ export function StateBadge({
       className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${TONE[state] ?? "border-bakelite-soft text-bakelite"}`}
     >
       <span aria-hidden="true">{label.icon}</span>
-      {audience === "owner" ? ownerStateLabel(state, returnMethod) : label.staff}
+      {audience === "owner" ? ownerStateLabel(state, returnMethod, setAtShop) : label.staff}
     </span>
   );
 }

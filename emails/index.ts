@@ -7,6 +7,7 @@ import BalanceDue, { type BalanceDueProps } from "./balance-due";
 import EstimateReady, { type EstimateReadyProps } from "./estimate-ready";
 import EstimateRevised from "./estimate-revised";
 import { BalanceReceipt, DepositReceipt, type PaymentReceiptProps } from "./payment-receipt";
+import OwnerInvite, { type OwnerInviteProps } from "./owner-invite";
 import QuoteReceived, { type QuoteReceivedProps } from "./quote-received";
 import ResetPassword from "./reset-password";
 import SetReturned, { type SetReturnedProps } from "./set-returned";
@@ -57,6 +58,10 @@ export const TEMPLATES = {
   "staff-notice": define<StaffNoticeProps>({
     component: StaffNotice,
     subject: (p) => p.title,
+  }),
+  "owner-invite": define<OwnerInviteProps>({
+    component: OwnerInvite,
+    subject: (p) => `Follow your ${p.setName} online (${p.jobNumber})`,
   }),
   "quote-received": define<QuoteReceivedProps>({
     component: QuoteReceived,

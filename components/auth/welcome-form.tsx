@@ -11,9 +11,9 @@ import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { resetSchema } from "@/lib/validation/account";
 
-// Sets the first password of someone the shop owner invited, with the invitation's single-use token.
+// Sets the first password of someone the shop invited (to the staff, or a customer taken in at the counter), with the invitation's single-use token.
 export function WelcomeForm({ token }: { token: string }) {
-  const [done, setDone] = useState(false);
+  const [done, setDone] = useState<null | "customer" | "staff">(null);
   const [problem, setProblem] = useState<string | null>(null);
   const { register, handleSubmit, formState } = useForm<z.infer<typeof resetSchema>>({ resolver: zodResolver(resetSchema) });
   const onSubmit = handleSubmit(async ({ password }) => {
@@ -34,13 +34,15 @@ export function WelcomeForm({ token }: { token: string }) {
       setProblem(body?.error?.fields?.password ?? body?.error?.message ?? "That did not work. Please try again.");
       return;
     }
-    setDone(true);
+    const body = (await res.json().catch(() => null)) as { role?: string } | null;
+    setDone(body?.role === "customer" ? "customer" : "staff");
   });
   if (done) {
     return (
       <Notice tone="success" title="Password set" live>
         <p>
-          Your password is set. <Link href="/sign-in">Sign in</Link> to reach the bench.
+          Your password is set. <Link href="/sign-in">Sign in</Link>{" "}
+          {done === "customer" ? "to follow your job with the shop." : "to reach the bench."}
         </p>
       </Notice>
     );

@@ -17,6 +17,8 @@ import { benchKeys } from "@/lib/client/bench-query-keys";
 import { TriagePanel } from "./triage-panel";
 import { CancelJobPanel } from "./cancel-job-panel";
 import { JobThread } from "./job-thread";
+import { RecordDecisionPanel, RecordedDecisions } from "./recorded-decision-panel";
+import { CHANNEL_LABEL } from "@/lib/engine/contacts";
 import type { JobDetailJson } from "./types";
 import { useShopTimeZone } from "@/components/shop-time-zone";
 import { formatDateTime } from "@/lib/engine/dates";
@@ -50,7 +52,7 @@ function profileBands(detail: JobDetailJson): Band[] {
   );
 }
 
-export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canCancel?: boolean }) {
+export function JobWorkspace({ jobId, canCancel = false, canRecord = false }: { jobId: string; canCancel?: boolean; canRecord?: boolean }) {
   const timeZone = useShopTimeZone();
   const q = useQuery({ queryKey: benchKeys.job(jobId), queryFn: () => api<JobDetailJson>(`/api/bench/jobs/${jobId}`) });
   const [tab, setTab] = useState<TabId | null>(null);
@@ -85,8 +87,10 @@ export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canC
         </h1>
         <StateBadge state={d.job.state} audience="staff" />
         <p className="text-sm">
-          {kind ? setKindLabels[kind] : d.set.kind} · owner {d.customer.name} ({d.customer.email}) ·{" "}
-          {d.technicianName ? `with ${d.technicianName}` : "unassigned"}
+          {kind ? setKindLabels[kind] : d.set.kind} · owner {d.customer.name} (
+          {[d.customer.email, d.customer.phone].filter(Boolean).join(", ") || "no contact details"}
+          {d.customer.contactOnly ? ", contact without sign-in" : ""}) · {CHANNEL_LABEL[d.job.channel]}
+          {d.job.receivedAt ? " · set at the shop" : ""} · {d.technicianName ? `with ${d.technicianName}` : "unassigned"}
           {d.job.isWarranty ? " · warranty job" : ""}
         </p>
       </header>
@@ -125,6 +129,9 @@ export function JobWorkspace({ jobId, canCancel = false }: { jobId: string; canC
         ) : null}
         {current === "completion" ? <CompletionPanel detail={d} /> : null}
       </div>
+
+      {canRecord ? <RecordDecisionPanel detail={d} /> : null}
+      <RecordedDecisions detail={d} />
 
       <JobThread jobId={jobId} />
 

@@ -487,11 +487,11 @@ export function TriagePanel({ detail }: { detail: JobDetailJson }) {
                   ) : (
                     " (no number given)"
                   )}
-                  <span className="block text-bakelite-muted">E-mail: {detail.customer.email}</span>
+                  <span className="block text-bakelite-muted">E-mail: {detail.customer.email ?? "none given"}</span>
                 </>
               ) : (
                 <>
-                  By e-mail: {detail.customer.email}
+                  By e-mail: {detail.customer.email ?? "no address given"}
                   {detail.customer.phone ? <span className="block text-bakelite-muted">Phone: {detail.customer.phone}</span> : null}
                 </>
               )}

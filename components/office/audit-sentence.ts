@@ -56,6 +56,14 @@ const TEXT: Record<string, (row: Row, money: string | null) => string> = {
   "estimate.send": (_r, m) => (m ? `sent an estimate of ${m} to the owner` : "sent the estimate to the owner"),
   "estimate.approve": (_r, m) => (m ? `approved the estimate of ${m}` : "approved the estimate"),
   "estimate.decline": () => "declined the estimate",
+  "estimate.approve_recorded": (r, m) =>
+    `recorded the owner's approval of the estimate${m ? ` of ${m}` : ""}, given ${mediumWords(r.after?.medium)}`,
+  "estimate.decline_recorded": (r) => `recorded the owner's decline of the estimate, given ${mediumWords(r.after?.medium)}`,
+  "job.intake": (r) => (r.after?.channel === "phone" ? "took a job in by phone" : "took a set in at the counter"),
+  "customer.create_at_intake": (r) =>
+    r.after?.contactOnly === true ? "added a customer kept as a contact without sign-in" : "added a customer at intake",
+  "customer.invite": () => "invited a customer to set a password",
+  "customer.invitation_accepted": () => "set a password with a customer invitation",
   "reading.record": () => "recorded a bench reading",
   "payment.checkout": (_r, m) => (m ? `started a checkout for ${m}` : "started a checkout"),
   "payment.paid": (_r, m) => (m ? `recorded a payment of ${m}` : "recorded a payment"),
@@ -148,4 +156,8 @@ export function fieldValue(key: string, value: unknown, currency: Currency): str
   if (typeof value === "boolean") return value ? "yes" : "no";
   if (typeof value === "number") return String(value);
   return JSON.stringify(value, null, 1);
+}
+
+function mediumWords(medium: unknown): string {
+  return medium === "phone" ? "by phone" : medium === "letter" ? "in writing" : "in person";
 }

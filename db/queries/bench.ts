@@ -1,7 +1,7 @@
 import { and, asc, desc, eq, ilike, inArray, isNull, notInArray, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db, type Database } from "@/db";
-import { jobs, jobStateHistory, jobTasks, messageReads, messages, photos, radioSets, readings, user } from "@/db/schema";
+import { estimateRevisions, jobs, jobStateHistory, jobTasks, messageReads, messages, photos, radioSets, readings, user } from "@/db/schema";
 import type { JobState } from "@/db/schema/enums";
 import { parseJobNumber, type QueueQuery } from "@/lib/engine/jobs/queue-query";
 
@@ -109,7 +109,7 @@ export async function getJobDetailForStaff({ jobId }: { jobId: string }, tx: Dat
     .select({
       job: jobs,
       set: radioSets,
-      customer: { id: user.id, name: user.name, email: user.email, phone: user.phone },
+      customer: { id: user.id, name: user.name, email: user.email, phone: user.phone, contactOnly: user.contactOnly },
       technicianName: technician.name,
     })
     .from(jobs)
@@ -191,4 +191,28 @@ export async function listTasksForStaff({ jobId }: { jobId: string }, tx: Databa
     .from(jobTasks)
     .leftJoin(user, eq(user.id, jobTasks.doneBy))
     .where(eq(jobTasks.jobId, jobId));
+}
+
+const recorder = alias(user, "recorder");
+
+/** Each revision's decision, with who recorded it when staff took the owner's answer in person or by phone. */
+export async function listRevisionDecisionsForStaff({ jobId }: { jobId: string }, tx: Database = db) {
+  return tx
+    .select({
+      id: estimateRevisions.id,
+      revision: estimateRevisions.revision,
+      status: estimateRevisions.status,
+      totalMinor: estimateRevisions.totalMinor,
+      depositMinor: estimateRevisions.depositMinor,
+      currency: estimateRevisions.currency,
+      decidedAt: estimateRevisions.decidedAt,
+      declineReason: estimateRevisions.declineReason,
+      decisionMedium: estimateRevisions.decisionMedium,
+      decisionNote: estimateRevisions.decisionNote,
+      recordedByName: recorder.name,
+    })
+    .from(estimateRevisions)
+    .leftJoin(recorder, eq(recorder.id, estimateRevisions.decisionRecordedBy))
+    .where(eq(estimateRevisions.jobId, jobId))
+    .orderBy(asc(estimateRevisions.revision));
 }

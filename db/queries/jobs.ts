@@ -12,6 +12,7 @@ export async function listJobsForCustomer({ customerId }: { customerId: string }
       updatedAt: jobs.updatedAt,
       isWarranty: jobs.isWarranty,
       returnMethod: jobs.returnMethod,
+      receivedAt: jobs.receivedAt,
       maker: radioSets.maker,
       model: radioSets.model,
       year: radioSets.year,

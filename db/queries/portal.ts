@@ -18,6 +18,7 @@ export async function getPortalJobForCustomer({ jobId, customerId }: { jobId: st
       contactPreference: jobs.contactPreference,
       isWarranty: jobs.isWarranty,
       returnMethod: jobs.returnMethod,
+      receivedAt: jobs.receivedAt,
       carrier: jobs.carrier,
       trackingNumber: jobs.trackingNumber,
       settledTotalMinor: jobs.settledTotalMinor,

@@ -14,6 +14,9 @@ export const user = pgTable("user", {
   banReason: text("ban_reason"),
   banExpires: timestamp("ban_expires", { withTimezone: true }),
   phone: text("phone"),
+  // A customer the shop took in at the counter or on the phone and keeps as a contact: no credential, no
+  // sign-in, no password reset. Staff record their decisions for them (lib/server/services/intake.ts).
+  contactOnly: boolean("contact_only").notNull().default(false),
 });
 
 export const session = pgTable(

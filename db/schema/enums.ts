@@ -16,3 +16,5 @@ export const verdict = pgEnum("verdict", ["pass", "fail", "missing", "recorded"]
 export const claimStatus = pgEnum("claim_status", ["open", "inspecting", "accepted", "rejected", "withdrawn"]);
 export const emailStatus = pgEnum("email_status", ["queued", "sent", "failed"]);
 export const returnMethod = pgEnum("return_method", ["pick-up", "shipped"]);
+export const intakeChannel = pgEnum("intake_channel", ["online", "counter", "phone"]);
+export const decisionMedium = pgEnum("decision_medium", ["in-person", "phone", "letter"]);

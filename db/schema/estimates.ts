@@ -1,6 +1,6 @@
 import { index, integer, jsonb, pgTable, text, timestamp, unique, uuid } from "drizzle-orm/pg-core";
 import { user } from "./auth";
-import { lineCategory, revisionStatus } from "./enums";
+import { decisionMedium, lineCategory, revisionStatus } from "./enums";
 import { jobs } from "./jobs";
 
 // The working estimate of a job; `version` guards concurrent edits (409 on a stale save).
@@ -44,6 +44,11 @@ export const estimateRevisions = pgTable(
     decidedBy: text("decided_by").references(() => user.id),
     decidedAt: timestamp("decided_at", { withTimezone: true }),
     declineReason: text("decline_reason"),
+    // A decision the owner gave in person, by phone or in writing and staff recorded for them: who typed it in,
+    // how it was given and what was said. `decided_by` stays the owner whose decision it is.
+    decisionRecordedBy: text("decision_recorded_by").references(() => user.id),
+    decisionMedium: decisionMedium("decision_medium"),
+    decisionNote: text("decision_note"),
   },
   (t) => [unique("estimate_revision_job_rev_uq").on(t.jobId, t.revision), index("estimate_revision_job_idx").on(t.jobId)],
 );

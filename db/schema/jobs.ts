@@ -1,7 +1,7 @@
 import { sql } from "drizzle-orm";
 import { boolean, index, integer, jsonb, pgTable, primaryKey, serial, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { user } from "./auth";
-import { deliveryMethod, jobState, returnMethod, setKind } from "./enums";
+import { deliveryMethod, intakeChannel, jobState, returnMethod, setKind } from "./enums";
 
 export const radioSets = pgTable(
   "radio_set",
@@ -41,6 +41,8 @@ export const jobs = pgTable(
     poweredRecently: text("powered_recently").notNull().default("unknown"),
     delivery: deliveryMethod("delivery").notNull().default("mail-in"),
     contactPreference: text("contact_preference").notNull().default("email"),
+    // How the job came in: the owner's own request online, or taken in by staff at the counter or on the phone.
+    channel: intakeChannel("channel").notNull().default("online"),
     cautionsAcknowledgedAt: timestamp("cautions_acknowledged_at", { withTimezone: true }),
     // Warranty work: the certificate and claim this job answers.
     certificateId: uuid("certificate_id"),

@@ -11,4 +11,5 @@ export const benchKeys = {
   sheet: (jobId: string) => [...benchKeys.all, "sheet", jobId] as const,
   messages: (jobId: string) => [...benchKeys.all, "messages", jobId] as const,
   alignment: (input: unknown) => [...benchKeys.all, "alignment", input] as const,
+  customers: (q: string) => [...benchKeys.all, "customers", q] as const,
 };

@@ -13,6 +13,10 @@ export const PERMISSIONS = {
   "photo.view": ["customer", "technician", "owner"],
   "claim.open": ["customer"],
   "bench.use": ["technician", "owner"],
+  // Taking a set in at the counter or on the phone: find or add the customer, open the job for them.
+  "job.intake": ["technician", "owner"],
+  // Recording a decision the set owner gave in person or by phone (approval or decline of an estimate).
+  "decision.record": ["technician", "owner"],
   "job.triage": ["technician", "owner"],
   "job.assign": ["technician", "owner"],
   "estimate.edit": ["technician", "owner"],

@@ -6,6 +6,7 @@ import { nextCookies } from "better-auth/next-js";
 import { admin } from "better-auth/plugins";
 import { createAccessControl } from "better-auth/plugins/access";
 import { defaultStatements } from "better-auth/plugins/admin/access";
+import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import * as schema from "@/db/schema";
 import { env } from "./env";
@@ -70,7 +71,15 @@ function createAuth() {
       resetPasswordTokenExpiresIn: 60 * 60,
       password: { hash: hashPassword, verify: verifyPassword },
       // Always the password-reset message: staff invitations are their own tokens (services/staff-invitations.ts).
-      sendResetPassword: async ({ user, url }) => {
+      sendResetPassword: async ({ user: who, url }) => {
+        // A contact the shop keeps without sign-in gets no password by the back door; the shop invites them.
+        const [row] = await getDb()
+          .select({ contactOnly: schema.user.contactOnly })
+          .from(schema.user)
+          .where(eq(schema.user.id, who.id))
+          .limit(1);
+        if (row?.contactOnly) return;
+        const user = who;
         await queueEmailNow({
           to: user.email,
           template: "reset-password",

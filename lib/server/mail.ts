@@ -5,6 +5,7 @@ import { db } from "@/db";
 import { auditEvents, emailOutbox } from "@/db/schema";
 import { transaction, type TxContext } from "@/db/transaction";
 import { isTemplateName, renderEmail, type TemplateName, type TemplateProps } from "@/emails";
+import { isReachableEmail } from "@/lib/engine/contacts";
 import { env } from "./env";
 import { getBoss, QUEUES } from "./queue";
 
@@ -16,6 +17,8 @@ type QueueArgs<T extends TemplateName> = { to: string; template: T; props: Templ
 // Writes the message to the outbox and queues its delivery in the caller's transaction:
 // either both happen with the change that caused them, or neither does.
 export async function queueEmail<T extends TemplateName>(ctx: TxContext, args: QueueArgs<T>): Promise<void> {
+  // A phone-only contact has no address to write to; the shop reaches them by phone.
+  if (!isReachableEmail(args.to)) return;
   const [row] = await ctx.tx
     .insert(emailOutbox)
     .values({ dedupeKey: args.dedupeKey, toAddress: args.to, template: args.template, props: args.props as Record<string, unknown> })

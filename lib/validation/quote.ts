@@ -69,39 +69,46 @@ export const dialEndsSchema = z.object({ low: dialNumber, high: dialNumber }).su
 
 export type DialEnds = z.infer<typeof dialEndsSchema>;
 
+/** The set and what is wrong with it: the same fields, checked the same way, online and at the counter. */
+export const setProfileShape = {
+  maker: z.string().trim().min(1, "Maker: write it as printed on the set.").max(80, "Maker: keep it under 80 characters."),
+  model: z
+    .string()
+    .trim()
+    .min(1, "Model: write it as printed, e.g. on the back or the label.")
+    .max(80, "Model: keep it under 80 characters."),
+  year: yearSchema,
+  serial: optionalText(60, "Serial number: keep it under 60 characters."),
+  kind: z.enum(SET_KINDS, { error: "Kind of set: choose one of the kinds listed." }),
+  bands: z
+    .array(z.enum(DIAL_BANDS, { error: "Bands: tick from the bands listed." }))
+    .min(1, "Bands: tick at least one band printed on the dial.")
+    .max(4, "Bands: four at most."),
+  dialMarkings: optionalText(300, "Dial numbers: keep them under 300 characters."),
+  // Per band ticked above; ends of bands not ticked are dropped when the request is stored.
+  dialEnds: z
+    .object({
+      LW: dialEndsSchema.optional(),
+      MW: dialEndsSchema.optional(),
+      SW: dialEndsSchema.optional(),
+      FM: dialEndsSchema.optional(),
+    })
+    .optional()
+    .default({}),
+  symptoms: z
+    .string()
+    .trim()
+    .min(10, "What it does: tell us in a sentence or two what is wrong, at least 10 characters.")
+    .max(4000, "What it does: keep it under 4000 characters."),
+  priorWork: optionalText(4000, "Earlier work: keep it under 4000 characters."),
+  poweredRecently: z.enum(POWERED_RECENTLY, { error: "Powered recently: choose one of the answers." }),
+};
+
+export const PHONE_PATTERN = /^[+()\d\s.-]{6,40}$/;
+
 export const quoteRequestSchema = z
   .object({
-    maker: z.string().trim().min(1, "Maker: write it as printed on the set.").max(80, "Maker: keep it under 80 characters."),
-    model: z
-      .string()
-      .trim()
-      .min(1, "Model: write it as printed, e.g. on the back or the label.")
-      .max(80, "Model: keep it under 80 characters."),
-    year: yearSchema,
-    serial: optionalText(60, "Serial number: keep it under 60 characters."),
-    kind: z.enum(SET_KINDS, { error: "Kind of set: choose one of the kinds listed." }),
-    bands: z
-      .array(z.enum(DIAL_BANDS, { error: "Bands: tick from the bands listed." }))
-      .min(1, "Bands: tick at least one band printed on the dial.")
-      .max(4, "Bands: four at most."),
-    dialMarkings: optionalText(300, "Dial numbers: keep them under 300 characters."),
-    // Per band ticked above; ends of bands not ticked are dropped when the request is stored.
-    dialEnds: z
-      .object({
-        LW: dialEndsSchema.optional(),
-        MW: dialEndsSchema.optional(),
-        SW: dialEndsSchema.optional(),
-        FM: dialEndsSchema.optional(),
-      })
-      .optional()
-      .default({}),
-    symptoms: z
-      .string()
-      .trim()
-      .min(10, "What it does: tell us in a sentence or two what is wrong, at least 10 characters.")
-      .max(4000, "What it does: keep it under 4000 characters."),
-    priorWork: optionalText(4000, "Earlier work: keep it under 4000 characters."),
-    poweredRecently: z.enum(POWERED_RECENTLY, { error: "Powered recently: choose one of the answers." }),
+    ...setProfileShape,
     delivery: z.enum(DELIVERY, { error: "Getting the set to us: choose mail-in or drop-off." }),
     contactPreference: z.enum(CONTACT, { error: "Reaching you: choose e-mail or phone." }),
     phone: optionalText(40, "Phone number: keep it under 40 characters."),
@@ -113,7 +120,7 @@ export const quoteRequestSchema = z
     idempotencyKey: z.string().uuid(),
   })
   .superRefine((v, ctx) => {
-    if (v.contactPreference === "phone" && !/^[+()\d\s.-]{6,40}$/.test(v.phone)) {
+    if (v.contactPreference === "phone" && !PHONE_PATTERN.test(v.phone)) {
       ctx.addIssue({
         code: "custom",
         path: ["phone"],

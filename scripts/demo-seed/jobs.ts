@@ -316,7 +316,7 @@ function reached(target: JobState, step: JobState): boolean {
 }
 
 // Stands in for the processor's confirmed webhook: demo data only, never used by the app itself.
-async function recordDemoPayment(ctx: TxContext, job: { id: string; key: string }, purpose: "deposit" | "balance", to: JobState) {
+export async function recordDemoPayment(ctx: TxContext, job: { id: string; key: string }, purpose: "deposit" | "balance", to: JobState) {
   const [rev] = await ctx.tx
     .execute<{ id: string; total_minor: number; deposit_minor: number; currency: string }>(
       sql`select id, total_minor, deposit_minor, currency from estimate_revision where job_id = ${job.id} and status = 'approved' order by revision desc limit 1`,
@@ -379,7 +379,7 @@ async function requirementsOf(ctx: TxContext, jobId: string): Promise<ReadingReq
   return requiredReadingsFor(setProfileSchema.parse(row!.profile), shop.policy.tolerances, codes);
 }
 
-async function recordAsReceived(ctx: TxContext, jobId: string, actorId: string, byKind: Instruments) {
+export async function recordAsReceived(ctx: TxContext, jobId: string, actorId: string, byKind: Instruments) {
   const phase: ReadingPhase = "as_received";
   for (const req of await requirementsOf(ctx, jobId)) {
     await saveReading(ctx, {
@@ -390,7 +390,7 @@ async function recordAsReceived(ctx: TxContext, jobId: string, actorId: string, 
   }
 }
 
-async function passAllReadings(ctx: TxContext, jobId: string, actorId: string, byKind?: Instruments) {
+export async function passAllReadings(ctx: TxContext, jobId: string, actorId: string, byKind?: Instruments) {
   const reqs = await requirementsOf(ctx, jobId);
   for (const req of reqs) {
     let value = req.nominal ?? (req.unit === "mA" ? 0.12 : 118);
@@ -554,7 +554,7 @@ async function warrantyToCertificate(
 
 // Spreads the demo history over past weeks so lists, timelines and reports look lived-in; the latest
 // move of each job stays at today, so a certificate's own dates match its job's timeline.
-async function backdate(ctx: TxContext, jobId: string, daysAgo: number) {
+export async function backdate(ctx: TxContext, jobId: string, daysAgo: number) {
   const start = sql`now() - make_interval(days => ${daysAgo})`;
   await ctx.tx.execute(sql`
     with h as (select id, row_number() over (order by at, ctid) - 1 as i, count(*) over () as n from job_state_history where job_id = ${jobId})

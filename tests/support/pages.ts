@@ -23,7 +23,7 @@ export const AUDIENCES: {
   {
     who: "technician",
     login: DEMO.tech,
-    pages: ["/bench", "/bench/calculator", "/bench/claims"],
+    pages: ["/bench", "/bench/intake", "/bench/calculator", "/bench/claims"],
     follow: [
       // The queue's first page fills up with the jobs other tests create: these two are searched for.
       { from: "/bench", search: "KL-0008", link: /KL-0008/ },

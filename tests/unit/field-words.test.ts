@@ -5,6 +5,7 @@ import { profileUpdateSchema, readingInputSchema, returnSchema } from "@/lib/val
 import { claimFormSchema, decideClaimSchema } from "@/lib/validation/claims";
 import { draftSchema } from "@/lib/validation/estimate";
 import { refundFormSchema, settingsFormSchema, settingsToForm } from "@/lib/validation/office";
+import { intakeSchema, recordDecisionSchema } from "@/lib/validation/intake";
 import { quoteRequestSchema } from "@/lib/validation/quote";
 import { aurelianTableSet } from "./support/demo-sets";
 
@@ -125,6 +126,39 @@ const SCHEMAS: [string, z.ZodType, unknown][] = [
     }),
   ],
   ["a refund", refundFormSchema, { amount: "12.00", reason: "Part not fitted." }],
+  [
+    "counter intake",
+    intakeSchema,
+    {
+      customerMode: "new",
+      customerId: "",
+      customerName: "Perrin Ashdown",
+      customerEmail: "perrin@example.org",
+      customerPhone: "+1 555 0163",
+      access: "invite",
+      maker: "Corvane",
+      model: "Seven",
+      year: 1961,
+      serial: "",
+      kind: "transistor-battery",
+      bands: ["MW"],
+      dialMarkings: "",
+      symptoms: "No sound at all, lamp lights.",
+      priorWork: "",
+      poweredRecently: "no",
+      channel: "counter",
+      setAtShop: true,
+      contactPreference: "email",
+      cautionsGiven: true,
+      photos: ["ticket-1"],
+      idempotencyKey: "0b9c1f4e-8d2a-4c3b-9e7f-1a2b3c4d5e6f",
+    },
+  ],
+  [
+    "a decision recorded for the owner",
+    recordDecisionSchema,
+    { revisionId: "0b9c1f4e-8d2a-4c3b-9e7f-1a2b3c4d5e6f", decision: "approve", medium: "phone", note: "Agreed by phone." },
+  ],
 ];
 
 describe("every field message names its field and what is allowed, never zod's default wording", () => {

@@ -74,3 +74,16 @@ describe("the owner's state words say what is true in each state", () => {
     }
   });
 });
+
+describe("a set already at the shop (handed over at the counter)", () => {
+  // Common practice at a repair counter: a set left with the shop is not asked for again. The table's move
+  // from "deposit paid" to the bench is the staff's (the set is in hand), so only the words change.
+  test("after the deposit, the owner is not asked to send the set, and is told the shop has it", () => {
+    expect(TRANSITIONS.deposit_paid.on_bench).toBe("staff");
+    expect(ownerStateLabel("deposit_paid")).toMatch(/send/i);
+    const words = ownerStateLabel("deposit_paid", null, true);
+    expect(words).not.toMatch(/send|bring|post|ship/i);
+    expect(words).toMatch(/with us/i);
+    expect(words).not.toMatch(CLAIMS_WITH_OWNER);
+  });
+});

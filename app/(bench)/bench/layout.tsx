@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { AreaShell } from "@/components/area-shell";
+import { canAccess } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 import { shopTimeZone } from "@/lib/server/services/shop";
 import { withUnreadCount } from "@/lib/server/services/notifications";
@@ -14,6 +15,7 @@ export default async function BenchLayout({ children }: { children: ReactNode })
       title="Bench"
       nav={[
         { href: "/bench", label: "Queue" },
+        ...(canAccess(viewer, "job.intake") ? [{ href: "/bench/intake", label: "Take in a set" }] : []),
         { href: "/bench/calculator", label: "Alignment calculator" },
         { href: "/bench/claims", label: "Claims" },
       ]}

@@ -7,6 +7,7 @@ import { jobNumber } from "@/lib/engine/jobs/states";
 import { listFailedEmailsForOffice, listOpenRefundsForOffice, officeOverviewFigures } from "@/db/queries/office";
 import { getShop } from "@/lib/server/services/shop";
 import { shopForecast } from "@/lib/server/services/turnaround";
+import { canAccess } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
 
 export const metadata: Metadata = { title: "Office" };
@@ -41,6 +42,15 @@ export default async function OfficePage() {
       title: "Rates & policy",
       text: "Shop identity, labour rate, billing increment, minutes per checklist rule, parts, tax, deposit policy, warranty wording and tolerances.",
     },
+    ...(canAccess(viewer, "job.intake")
+      ? [
+          {
+            href: "/bench/intake",
+            title: "Take in a set",
+            text: "A customer at the counter or on the phone: find or add them, open the job.",
+          },
+        ]
+      : []),
     { href: "/office/staff", title: "Staff", text: "Invite technicians, change roles, deactivate accounts." },
     { href: "/office/payments", title: "Payments", text: "Deposits and balances received; full or partial refunds." },
     { href: "/office/audit", title: "Audit log", text: "Every change: who, what, when, before and after." },

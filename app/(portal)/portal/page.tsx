@@ -54,7 +54,7 @@ export default async function PortalPage() {
                     {j.unread === 1 ? "1 new message" : `${j.unread} new messages`}
                   </Link>
                 ) : null}
-                <StateBadge state={j.state} audience="owner" returnMethod={j.returnMethod} />
+                <StateBadge state={j.state} audience="owner" returnMethod={j.returnMethod} setAtShop={j.receivedAt !== null} />
               </div>
             </li>
           ))}

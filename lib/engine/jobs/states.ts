@@ -88,10 +88,13 @@ export type ReturnMethod = "pick-up" | "shipped";
 
 /**
  * The state as the owner reads it. A returned set was either collected at the shop (it is with the owner) or
- * handed to a carrier (it is on its way, not yet with them), so the words depend on how it went back.
+ * handed to a carrier (it is on its way, not yet with them), so the words depend on how it went back; a set
+ * already at the shop is not asked for after the deposit.
  */
-export function ownerStateLabel(state: JobState, returnMethod?: ReturnMethod | null): string {
+export function ownerStateLabel(state: JobState, returnMethod?: ReturnMethod | null, setAtShop = false): string {
   if (state === "returned" && returnMethod === "shipped") return "Shipped — on its way to you";
+  // A set handed over at the counter is already here: nothing to send once the deposit is in.
+  if (state === "deposit_paid" && setAtShop) return "Deposit received — your set is with us, waiting for the bench";
   if (state === "returned" && returnMethod === "pick-up") return "Collected — back with you";
   return STATE_LABEL[state].owner;
 }

@@ -4,6 +4,7 @@ import { estimateLines, estimateRevisions, jobs, radioSets, user } from "@/db/sc
 import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { AppError } from "@/lib/server/errors";
+import type { DecisionMedium } from "@/lib/engine/contacts";
 import { depositToCollect } from "@/lib/engine/pricing/deposit";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { syncTasks } from "@/lib/server/services/estimates";
@@ -12,7 +13,18 @@ import { notifyStaff } from "@/lib/server/services/notifications";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { moneyText } from "@/lib/validation/estimate";
 
-type DecisionInput = { jobId: string; customerId: string; revisionId: string };
+/**
+ * A decision the owner gave in person, by phone or in writing, typed in by staff for them: the revision keeps
+ * the owner as the one who decided and names who recorded it, how, and what was said; the audit row's actor is
+ * the staff member.
+ */
+export type RecordedBy = { staffId: string; medium: DecisionMedium; note: string };
+type DecisionInput = { jobId: string; customerId: string; revisionId: string; recorded?: RecordedBy };
+
+const recordedColumns = (r: RecordedBy | undefined) =>
+  r ? { decisionRecordedBy: r.staffId, decisionMedium: r.medium, decisionNote: r.note } : {};
+const recordedAudit = (r: RecordedBy | undefined, customerId: string) =>
+  r ? { recordedFor: customerId, medium: r.medium, note: r.note } : {};
 
 // Locks the owner's job and returns the revision waiting for a decision; anything else is not-found or 409.
 async function pendingRevision(ctx: TxContext, input: DecisionInput) {
@@ -56,15 +68,21 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
   const now = new Date();
   await ctx.tx
     .update(estimateRevisions)
-    .set({ status: "approved", decidedBy: input.customerId, decidedAt: now })
+    .set({ status: "approved", decidedBy: input.customerId, decidedAt: now, ...recordedColumns(input.recorded) })
     .where(eq(estimateRevisions.id, revision.id));
+  const actorId = input.recorded?.staffId ?? input.customerId;
   await audit(ctx, {
-    actorId: input.customerId,
-    action: "estimate.approve",
+    actorId,
+    action: input.recorded ? "estimate.approve_recorded" : "estimate.approve",
     entity: "estimate_revision",
     entityId: revision.id,
     before: { status: "sent" },
-    after: { status: "approved", totalMinor: revision.totalMinor, depositMinor: revision.depositMinor },
+    after: {
+      status: "approved",
+      totalMinor: revision.totalMinor,
+      depositMinor: revision.depositMinor,
+      ...recordedAudit(input.recorded, input.customerId),
+    },
   });
   await notifyDecision(ctx, job, revision, "approved", job.state === "bench_revision" ? "The work goes on at the bench." : "");
   if (job.state === "bench_revision") {
@@ -73,8 +91,8 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
       jobId: job.id,
       to: "on_bench",
       actor: "customer",
-      actorId: input.customerId,
-      note: `Revision ${revision.revision} approved at the bench; the difference is settled in the balance`,
+      actorId,
+      note: `Revision ${revision.revision} approved at the bench${input.recorded ? ` (${recordedWords(input.recorded)})` : ""}; the difference is settled in the balance`,
     });
     return { revisionId: revision.id, depositDueMinor: 0 };
   }
@@ -82,8 +100,8 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     jobId: job.id,
     to: "approved",
     actor: "customer",
-    actorId: input.customerId,
-    note: `Revision ${revision.revision} approved`,
+    actorId,
+    note: `Revision ${revision.revision} approved${input.recorded ? ` (${recordedWords(input.recorded)})` : ""}`,
   });
   const { account, paidDepositsMinor, processorMinimumMinor } = await loadJobAccount(ctx.tx, job.id);
   const difference = revision.depositMinor - paidDepositsMinor;
@@ -126,15 +144,27 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
   }
   await ctx.tx
     .update(estimateRevisions)
-    .set({ status: "declined", decidedBy: input.customerId, decidedAt: new Date(), declineReason: input.reason })
+    .set({
+      status: "declined",
+      decidedBy: input.customerId,
+      decidedAt: new Date(),
+      declineReason: input.reason,
+      ...recordedColumns(input.recorded),
+    })
     .where(eq(estimateRevisions.id, revision.id));
+  const actorId = input.recorded?.staffId ?? input.customerId;
   await audit(ctx, {
-    actorId: input.customerId,
-    action: "estimate.decline",
+    actorId,
+    action: input.recorded ? "estimate.decline_recorded" : "estimate.decline",
     entity: "estimate_revision",
     entityId: revision.id,
     before: { status: "sent" },
-    after: { status: "declined", reason: input.reason, ...(atBench ? { afterDecline: input.afterDecline } : {}) },
+    after: {
+      status: "declined",
+      reason: input.reason,
+      ...(atBench ? { afterDecline: input.afterDecline } : {}),
+      ...recordedAudit(input.recorded, input.customerId),
+    },
   });
   await notifyDecision(
     ctx,
@@ -146,7 +176,7 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
     }`,
   );
   if (!atBench) {
-    await transitionJob(ctx, { jobId: job.id, to: "declined_by_owner", actor: "customer", actorId: input.customerId, note: input.reason });
+    await transitionJob(ctx, { jobId: job.id, to: "declined_by_owner", actor: "customer", actorId, note: input.reason });
     return { revisionId: revision.id };
   }
   if (input.afterDecline === "approved-scope") {
@@ -156,7 +186,7 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
       jobId: job.id,
       to: "on_bench",
       actor: "customer",
-      actorId: input.customerId,
+      actorId,
       note: `Revision ${revision.revision} declined (${input.reason}); the work goes on as approved before`,
     });
     return { revisionId: revision.id };
@@ -167,7 +197,7 @@ export async function declineRevision(ctx: TxContext, input: DecisionInput & { r
     jobId: job.id,
     to: "balance_due",
     actor: "customer",
-    actorId: input.customerId,
+    actorId,
     note: `Revision ${revision.revision} declined (${input.reason}); the owner asked for the set back as it is`,
     patch: { settledTotalMinor: Math.max(0, account.heldMinor), completedAt: new Date() },
   });
@@ -214,4 +244,13 @@ async function syncTasksToRevision(ctx: TxContext, jobId: string, revisionId: st
   const lines = await ctx.tx.select().from(estimateLines).where(eq(estimateLines.revisionId, revisionId));
   const labour = lines.filter((l) => l.category !== "parts" && l.partCostMinor === null);
   await syncTasks(ctx, jobId, labour);
+}
+
+const MEDIUM_WORDS: Record<DecisionMedium, string> = {
+  "in-person": "given in person",
+  phone: "given by phone",
+  letter: "given in writing",
+};
+function recordedWords(r: RecordedBy): string {
+  return `${MEDIUM_WORDS[r.medium]}, recorded by staff`;
 }

@@ -4,6 +4,7 @@ import { db, type Database } from "@/db";
 import {
   getJobDetailForStaff,
   listAssignableStaff,
+  listRevisionDecisionsForStaff,
   listHistoryForStaff,
   listMessagesForStaff,
   listPhotosForStaff,
@@ -15,6 +16,7 @@ import type { TxContext } from "@/db/transaction";
 import { audit } from "@/lib/server/audit";
 import { isMainsSet, type SetProfile } from "@/lib/engine/checklist/profile";
 import { env } from "@/lib/server/env";
+import { shownEmail } from "@/lib/engine/contacts";
 import { AppError } from "@/lib/server/errors";
 import { jobNumber, STATE_LABEL } from "@/lib/engine/jobs/states";
 import { queueEmail } from "@/lib/server/mail";
@@ -636,11 +638,12 @@ function ownerReportOf(profile: unknown): { dialMarkings: string; dialEnds: Owne
 export async function getJobDetail({ jobId }: { jobId: string }) {
   const row = await getJobDetailForStaff({ jobId });
   if (!row) throw new AppError("not_found", "That job was not found.");
-  const [messageRows, photoRows, history, staff] = await Promise.all([
+  const [messageRows, photoRows, history, staff, decisions] = await Promise.all([
     listMessagesForStaff({ jobId }),
     listPhotosForStaff({ jobId }),
     listHistoryForStaff({ jobId }),
     listAssignableStaff(),
+    listRevisionDecisionsForStaff({ jobId }),
   ]);
   const profile = checkProfile(row.set.profile);
   const { idempotencyKey: _key, ...job } = row.job;
@@ -648,8 +651,10 @@ export async function getJobDetail({ jobId }: { jobId: string }) {
     job: { ...job, jobNumber: jobNumber(row.job.number) },
     set: row.set,
     profileIssues: profile.ok ? null : profile.fields,
-    customer: row.customer,
+    // A phone-only contact's stored placeholder address is never shown.
+    customer: { ...row.customer, email: shownEmail(row.customer.email) },
     technicianName: row.technicianName,
+    decisions,
     messages: messageRows,
     // Served by the authorised photo route (the session cookie goes with the image request).
     photos: photoRows.map((p) => ({ ...p, url: `/api/photos/${p.id}`, thumbUrl: `/api/photos/${p.id}?size=thumb` })),

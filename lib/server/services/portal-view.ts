@@ -187,7 +187,7 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
       id: job.id,
       number: jobNumber(job.number),
       state: job.state,
-      stateLabel: ownerStateLabel(job.state, job.returnMethod),
+      stateLabel: ownerStateLabel(job.state, job.returnMethod, job.receivedAt !== null),
       stateIcon: STATE_LABEL[job.state].icon,
       symptoms: job.symptoms,
       priorWork: job.priorWork,

@@ -17,7 +17,7 @@ import type { QuoteRequest } from "@/lib/validation/quote";
 type Viewer = { id: string; name: string; email: string };
 
 // Default dial ranges per band the owner ticked; the technician corrects them (and the IF) at triage.
-function draftBands(kinds: QuoteRequest["bands"]): Band[] {
+export function draftBands(kinds: QuoteRequest["bands"]): Band[] {
   const region2 = dialPresetsFor(2);
   const region1 = dialPresetsFor(1);
   const pick = (id: string, from = region2) => from.find((p) => p.id === id)?.band;
@@ -30,7 +30,9 @@ function draftBands(kinds: QuoteRequest["bands"]): Band[] {
 }
 
 // The dial-scale ends the owner gave, for the bands they ticked, leaving out bands with neither end given.
-function dialEndsOf(input: QuoteRequest): Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> {
+export function dialEndsOf(
+  input: Pick<QuoteRequest, "bands" | "dialEnds">,
+): Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> {
   const out: Partial<Record<QuoteRequest["bands"][number], { low: number | null; high: number | null }>> = {};
   for (const band of input.bands) {
     const ends = input.dialEnds[band];

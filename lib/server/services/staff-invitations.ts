@@ -106,7 +106,13 @@ export async function inviteStaffMember({ input, actorId }: { input: InviteInput
 }
 
 /** Sets the invited person's password with the invitation's token; the token works once. */
-export async function acceptStaffInvitation({ token, password }: { token: string; password: string }): Promise<{ userId: string }> {
+export async function acceptStaffInvitation({
+  token,
+  password,
+}: {
+  token: string;
+  password: string;
+}): Promise<{ userId: string; role: string }> {
   if (isCommonPassword(password))
     throw new AppError("invalid_input", "Some fields need attention.", {
       password: "That password is on the list of the most commonly used passwords. Please choose another.",
@@ -119,7 +125,7 @@ export async function acceptStaffInvitation({ token, password }: { token: string
       .where(
         and(eq(staffInvitation.tokenHash, tokenHash(token)), isNull(staffInvitation.usedAt), gt(staffInvitation.expiresAt, sql`now()`)),
       )
-      .returning({ id: staffInvitation.id, userId: staffInvitation.userId });
+      .returning({ id: staffInvitation.id, userId: staffInvitation.userId, role: staffInvitation.role });
     if (!used) throw new AppError("not_found", "This invitation has expired or was already used. Ask the shop owner for a new one.");
     const [credential] = await ctx.tx
       .select({ id: account.id })
@@ -134,11 +140,12 @@ export async function acceptStaffInvitation({ token, password }: { token: string
     await ctx.tx.delete(session).where(eq(session.userId, used.userId));
     await audit(ctx, {
       actorId: used.userId,
-      action: "staff.invitation_accepted",
+      // Customers taken in at the counter are invited with the same single-use tokens (services/intake.ts).
+      action: used.role === "customer" ? "customer.invitation_accepted" : "staff.invitation_accepted",
       entity: "user",
       entityId: used.userId,
       after: { invitationId: used.id },
     });
-    return { userId: used.userId };
+    return { userId: used.userId, role: used.role };
   });
 }

@@ -90,7 +90,7 @@ async function completePhoto({
 
 export const uploadRouter = {
   quotePhotos: f({ image: { maxFileSize: "32MB", maxFileCount: MAX_PHOTOS } }, { awaitServerData: true })
-    .middleware(photoMiddleware((v) => canAccess(v, "quote.request") || canAccess(v, "claim.open")))
+    .middleware(photoMiddleware((v) => canAccess(v, "quote.request") || canAccess(v, "claim.open") || canAccess(v, "job.intake")))
     .onUploadComplete(completePhoto),
   // Photos for a message on a job's thread, from the owner or the workshop; attached when the message is posted.
   messagePhotos: f({ image: { maxFileSize: "32MB", maxFileCount: MAX_MESSAGE_PHOTOS } }, { awaitServerData: true })

@@ -219,6 +219,10 @@ export const ROUTES: RouteEntry[] = [
 
   { method: "GET", route: "/api/bench/queue", action: "bench.use", rules: staff(), query: "?page=1" },
   { method: "GET", route: "/api/bench/staff", action: "bench.use", rules: staff() },
+  // Counter and phone intake: staff only; an empty body gets past authorization and is refused as bad input.
+  { method: "POST", route: "/api/bench/intake", action: "job.intake", rules: staff(), body: () => ({}) },
+  { method: "GET", route: "/api/bench/customers", action: "job.intake", rules: staff(), query: "?q=holloway" },
+  { method: "POST", route: "/api/bench/jobs/[id]/decision", action: "decision.record", rules: staff(), params: job, body: () => ({}) },
   { method: "GET", route: "/api/bench/jobs/[id]", action: "bench.use", rules: staff(), params: job },
   { method: "GET", route: "/api/bench/jobs/[id]/sheet", action: "bench.use", rules: staff(), params: job },
   {
@@ -424,6 +428,7 @@ export const PAGES: PageEntry[] = [
   { route: "/portal/jobs/[id]/payment", rules: customerOwn, params: (f) => ({ id: f.jobOpenA }) },
   { route: "/bench", rules: pageStaff },
   { route: "/bench/calculator", rules: pageStaff },
+  { route: "/bench/intake", rules: pageStaff },
   { route: "/bench/claims", rules: pageStaff },
   { route: "/bench/claims/[id]", rules: pageStaff, params: (f) => ({ id: f.claimA }) },
   { route: "/bench/jobs/[id]", rules: pageStaff, params: (f) => ({ id: f.jobOpenA }) },

@@ -12,7 +12,7 @@ export const GET = route({ permission: "portal.use" }, async ({ viewer }) => {
       id: j.id,
       number: jobNumber(j.number),
       state: j.state,
-      stateLabel: ownerStateLabel(j.state, j.returnMethod),
+      stateLabel: ownerStateLabel(j.state, j.returnMethod, j.receivedAt !== null),
       set: `${j.maker} ${j.model}${j.year ? ` (${j.year})` : ""}`,
       isWarranty: j.isWarranty,
       updatedAt: j.updatedAt.toISOString(),

@@ -24,5 +24,5 @@ export default async function BenchJobPage({ params }: Props) {
   if (!parsed.success) notFound();
   const row = await getJobDetailForStaff({ jobId: parsed.data });
   if (!row) notFound();
-  return <JobWorkspace jobId={parsed.data} canCancel={can(viewer.role, "job.cancel")} />;
+  return <JobWorkspace jobId={parsed.data} canCancel={can(viewer.role, "job.cancel")} canRecord={can(viewer.role, "decision.record")} />;
 }
