@@ -14,6 +14,10 @@ export const user = pgTable("user", {
   banReason: text("ban_reason"),
   banExpires: timestamp("ban_expires", { withTimezone: true }),
   phone: text("phone"),
+  // The account's own way of being reached; a quote request starts from it.
+  contactPreference: text("contact_preference").notNull().default("email"),
+  // A closed account: personal data anonymised, sign-in ended. The row stays for the records tied to it.
+  closedAt: timestamp("closed_at", { withTimezone: true }),
 });
 
 export const session = pgTable(

@@ -11,3 +11,4 @@ export * from "./audit";
 export * from "./schedule";
 export * from "./performance";
 export * from "./notifications";
+export * from "./addresses";

@@ -10,6 +10,9 @@ export const DIAL_BANDS = ["LW", "MW", "SW", "FM"] as const;
 export const POWERED_RECENTLY = ["no", "briefly", "yes", "unknown"] as const;
 export const DELIVERY = ["mail-in", "drop-off"] as const;
 export const CONTACT = ["email", "phone"] as const;
+/** A number someone can call: digits, spaces and + ( ) . -; shared by the quote request and the account page. */
+export const PHONE_PATTERN = /^[+()\d\s.-]{6,40}$/;
+export const PHONE_NEEDED_MESSAGE = "Phone number: give one we can call (digits, spaces, + ( ) . -), or choose e-mail.";
 
 export const SET_KIND_HELP: Record<(typeof SET_KINDS)[number], { label: string; hint: string }> = {
   "tube-acdc": {
@@ -113,12 +116,8 @@ export const quoteRequestSchema = z
     idempotencyKey: z.string().uuid(),
   })
   .superRefine((v, ctx) => {
-    if (v.contactPreference === "phone" && !/^[+()\d\s.-]{6,40}$/.test(v.phone)) {
-      ctx.addIssue({
-        code: "custom",
-        path: ["phone"],
-        message: "Phone number: give one we can call (digits, spaces, + ( ) . -), or choose e-mail.",
-      });
+    if (v.contactPreference === "phone" && !PHONE_PATTERN.test(v.phone)) {
+      ctx.addIssue({ code: "custom", path: ["phone"], message: PHONE_NEEDED_MESSAGE });
     }
   });
 
