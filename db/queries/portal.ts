@@ -20,6 +20,7 @@ export async function getPortalJobForCustomer({ jobId, customerId }: { jobId: st
       returnMethod: jobs.returnMethod,
       carrier: jobs.carrier,
       trackingNumber: jobs.trackingNumber,
+      returnAddress: jobs.returnAddress,
       settledTotalMinor: jobs.settledTotalMinor,
       waivedMinor: jobs.waivedMinor,
       waivedAt: jobs.waivedAt,

@@ -23,8 +23,10 @@ export const profileSchema = z
 export type ProfileInput = z.input<typeof profileSchema>;
 export type ProfileValues = z.output<typeof profileSchema>;
 
-const line = (label: string, max: number) => z.string().trim().min(1, `${label}: fill this in.`).max(max, `${label}: keep it under ${max} characters.`);
-const optionalLine = (label: string, max: number) => z.string().trim().max(max, `${label}: keep it under ${max} characters.`).optional().default("");
+const line = (label: string, max: number) =>
+  z.string().trim().min(1, `${label}: fill this in.`).max(max, `${label}: keep it under ${max} characters.`);
+const optionalLine = (label: string, max: number) =>
+  z.string().trim().max(max, `${label}: keep it under ${max} characters.`).optional().default("");
 
 export const addressSchema = z
   .object({

@@ -21,6 +21,7 @@ import { queueEmail } from "@/lib/server/mail";
 import { issueCertificate } from "@/lib/server/services/certificates";
 import { checkProfile } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
+import { jobShipToLines, snapshotDefaultReturnAddress } from "@/lib/server/services/owner-account";
 import { settleIfNothingOwed } from "@/lib/server/services/account";
 import { findKeyedMessage } from "@/lib/server/services/messages";
 import { getShop } from "@/lib/server/services/shop";
@@ -467,6 +468,8 @@ export async function recordReturn(ctx: TxContext, { jobId, actorId, input }: { 
   const { job, set, customer } = await loadJob(ctx.tx, jobId);
   requireState(job, ["paid_in_full"], "record the return");
   const shipped = input.method === "shipped" ? input : null;
+  // A set shipped without a chosen return address goes to the owner's default: the job keeps that copy.
+  if (shipped) await snapshotDefaultReturnAddress(ctx, { jobId });
   await transitionJob(ctx, {
     jobId,
     to: "returned",
@@ -636,11 +639,12 @@ function ownerReportOf(profile: unknown): { dialMarkings: string; dialEnds: Owne
 export async function getJobDetail({ jobId }: { jobId: string }) {
   const row = await getJobDetailForStaff({ jobId });
   if (!row) throw new AppError("not_found", "That job was not found.");
-  const [messageRows, photoRows, history, staff] = await Promise.all([
+  const [messageRows, photoRows, history, staff, shipTo] = await Promise.all([
     listMessagesForStaff({ jobId }),
     listPhotosForStaff({ jobId }),
     listHistoryForStaff({ jobId }),
     listAssignableStaff(),
+    jobShipToLines({ jobId }),
   ]);
   const profile = checkProfile(row.set.profile);
   const { idempotencyKey: _key, ...job } = row.job;
@@ -656,6 +660,8 @@ export async function getJobDetail({ jobId }: { jobId: string }) {
     ownerReport: ownerReportOf(row.set.profile),
     history,
     staff,
+    // Where the set is shipped back: the owner's choice for this job, else their default address for now.
+    shipTo,
   };
 }
 

@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { db } from "@/db";
 import { account, certificates, claims, jobs, ownerAddresses, radioSets, session, user, verification } from "@/db/schema";
-import { transaction, type TxContext } from "@/db/transaction";
+import type { TxContext } from "@/db/transaction";
 import { formatPostalAddress, isCountryCode, type PostalAddress } from "@/lib/engine/addresses";
 import { isTerminal, jobNumber, STATE_LABEL, type JobState } from "@/lib/engine/jobs/states";
 import { audit } from "@/lib/server/audit";
@@ -72,7 +72,12 @@ export async function getOwnerAccount({ ownerId }: { ownerId: string }) {
   if (!u) throw new AppError("not_found", "That account was not found.");
   const [addresses, open, claimsOpen] = await Promise.all([listAddresses({ ownerId }), openJobs(db, ownerId), openClaims(db, ownerId)]);
   return {
-    profile: { name: u.name, email: u.email, phone: u.phone ?? "", contactPreference: u.contactPreference === "phone" ? "phone" : "email" } as const,
+    profile: {
+      name: u.name,
+      email: u.email,
+      phone: u.phone ?? "",
+      contactPreference: u.contactPreference === "phone" ? "phone" : "email",
+    } as const,
     addresses,
     openJobs: open,
     openClaims: claimsOpen.length,
@@ -123,7 +128,10 @@ function columns(v: AddressValues) {
 }
 
 async function clearDefault(ctx: TxContext, ownerId: string) {
-  await ctx.tx.update(ownerAddresses).set({ isDefault: false }).where(and(eq(ownerAddresses.ownerId, ownerId), eq(ownerAddresses.isDefault, true)));
+  await ctx.tx
+    .update(ownerAddresses)
+    .set({ isDefault: false })
+    .where(and(eq(ownerAddresses.ownerId, ownerId), eq(ownerAddresses.isDefault, true)));
 }
 
 export async function addAddress(ctx: TxContext, { ownerId, input }: { ownerId: string; input: AddressValues }) {
@@ -141,11 +149,20 @@ export async function addAddress(ctx: TxContext, { ownerId, input }: { ownerId: 
     .insert(ownerAddresses)
     .values({ ownerId, ...columns(input), isDefault })
     .returning();
-  await audit(ctx, { actorId: ownerId, action: "account.address_add", entity: "owner_address", entityId: row!.id, after: { country: input.country, isDefault } });
+  await audit(ctx, {
+    actorId: ownerId,
+    action: "account.address_add",
+    entity: "owner_address",
+    entityId: row!.id,
+    after: { country: input.country, isDefault },
+  });
   return toAddress(row!);
 }
 
-export async function updateAddress(ctx: TxContext, { ownerId, addressId, input }: { ownerId: string; addressId: string; input: AddressValues }) {
+export async function updateAddress(
+  ctx: TxContext,
+  { ownerId, addressId, input }: { ownerId: string; addressId: string; input: AddressValues },
+) {
   await ctx.tx.select({ id: user.id }).from(user).where(eq(user.id, ownerId)).for("update");
   const before = await ownAddress(ctx, ownerId, addressId);
   // Unticking the default is not a way to have none: another address must be made the default instead.
@@ -192,7 +209,10 @@ export function canChooseReturnAddress(state: JobState): boolean {
  * The owner chooses where the set is shipped back. The job keeps a copy of the address as it is now, so later
  * edits to the address book do not move it.
  */
-export async function chooseReturnAddress(ctx: TxContext, { ownerId, jobId, addressId }: { ownerId: string; jobId: string; addressId: string }) {
+export async function chooseReturnAddress(
+  ctx: TxContext,
+  { ownerId, jobId, addressId }: { ownerId: string; jobId: string; addressId: string },
+) {
   const [job] = await ctx.tx
     .select({ id: jobs.id, state: jobs.state, returnAddress: jobs.returnAddress })
     .from(jobs)
@@ -234,7 +254,10 @@ export async function jobShipToLines({ jobId }: { jobId: string }): Promise<{ li
 
 /** Copies the owner's default address onto a job that is shipped back without a chosen one. */
 export async function snapshotDefaultReturnAddress(ctx: TxContext, { jobId }: { jobId: string }): Promise<void> {
-  const [job] = await ctx.tx.select({ customerId: jobs.customerId, returnAddress: jobs.returnAddress }).from(jobs).where(eq(jobs.id, jobId));
+  const [job] = await ctx.tx
+    .select({ customerId: jobs.customerId, returnAddress: jobs.returnAddress })
+    .from(jobs)
+    .where(eq(jobs.id, jobId));
   if (!job || job.returnAddress) return;
   const [row] = await ctx.tx
     .select()
@@ -259,7 +282,9 @@ export async function closeAccount(ctx: TxContext, { ownerId, password }: { owne
     .from(account)
     .where(and(eq(account.userId, ownerId), eq(account.providerId, "credential")));
   if (!credential?.password || !(await verifyPassword({ hash: credential.password, password }))) {
-    throw new AppError("invalid_input", "Password: that is not your current password.", { password: "Password: that is not your current password." });
+    throw new AppError("invalid_input", "Password: that is not your current password.", {
+      password: "Password: that is not your current password.",
+    });
   }
   const open = await openJobs(ctx.tx, ownerId);
   if (open.length > 0) {
