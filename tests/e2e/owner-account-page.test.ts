@@ -18,7 +18,11 @@ async function overflow(page: Page): Promise<number> {
   return page.evaluate(() => document.documentElement.scrollWidth - document.documentElement.clientWidth);
 }
 
-async function fillAddress(page: Page, scope: string, values: { country: string; line1: string; city: string; region?: string; postalCode: string }) {
+async function fillAddress(
+  page: Page,
+  scope: string,
+  values: { country: string; line1: string; city: string; region?: string; postalCode: string },
+) {
   const form = page.getByRole("form", { name: scope });
   await form.getByLabel("Country").selectOption(values.country);
   await form.getByLabel("Street and number").fill(values.line1);
@@ -45,17 +49,32 @@ for (const device of [
       expect(await overflow(page)).toBeLessThanOrEqual(0);
 
       // A wrong ZIP code is refused in the form, naming the field (USPS: 5 digits or ZIP+4, from memory).
-      await fillAddress(page, "New address", { country: "US", line1: "14 Kestrel Lane", city: "Port Alder", region: "ME", postalCode: "0410" });
+      await fillAddress(page, "New address", {
+        country: "US",
+        line1: "14 Kestrel Lane",
+        city: "Port Alder",
+        region: "ME",
+        postalCode: "0410",
+      });
       await page.getByRole("button", { name: "Add address" }).click();
       await expect.poll(() => page.getByText(/^ZIP code: enter 5 digits or ZIP\+4/).count()).toBe(1);
-      await page.getByRole("form", { name: "New address" }).getByLabel(/^ZIP code/).fill("04101");
+      await page
+        .getByRole("form", { name: "New address" })
+        .getByLabel(/^ZIP code/)
+        .fill("04101");
       await page.getByRole("button", { name: "Add address" }).click();
       await expect.poll(() => page.getByTestId("address").count()).toBe(1);
       await expect.poll(() => page.getByText("PORT ALDER, ME 04101").count()).toBe(1);
 
       // A Canadian address: the province list and the postal code follow the country (Canada Post, from memory).
       await page.getByRole("button", { name: "Add an address" }).click();
-      await fillAddress(page, "New address", { country: "CA", line1: "24 Sussex Drive", city: "Ottawa", region: "ON", postalCode: "k1m1m4" });
+      await fillAddress(page, "New address", {
+        country: "CA",
+        line1: "24 Sussex Drive",
+        city: "Ottawa",
+        region: "ON",
+        postalCode: "k1m1m4",
+      });
       await page.getByRole("button", { name: "Add address" }).click();
       await expect.poll(() => page.getByText("OTTAWA ON K1M 1M4").count()).toBe(1);
       await snap(page, `owner-account-${device.name}-addresses`);
@@ -97,7 +116,9 @@ describe("closing an account from the page", () => {
     await page.waitForURL((u) => u.pathname === "/");
     await page.goto("/portal/account");
     await page.waitForURL(/\/sign-in/);
-    const [u] = await sql<{ closed_at: Date | null }>(`select closed_at from "user" where email like 'closed-%' and closed_at is not null order by closed_at desc limit 1`);
+    const [u] = await sql<{ closed_at: Date | null }>(
+      `select closed_at from "user" where email like 'closed-%' and closed_at is not null order by closed_at desc limit 1`,
+    );
     expect(u!.closed_at).not.toBeNull();
     await context.close();
   });

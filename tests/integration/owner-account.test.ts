@@ -63,14 +63,19 @@ describe("address book", () => {
     expect((await b.client.request(`/api/portal/account/addresses/${first}`, { method: "DELETE" })).status).toBe(404);
     expect(await sql("select 1 from owner_address where id = $1", [first])).toHaveLength(1);
     expect((await a.client.request(`/api/portal/account/addresses/${second}`, { method: "DELETE" })).status).toBe(200);
-    expect(await sql<{ is_default: boolean }>("select is_default from owner_address where id = $1", [first])).toEqual([{ is_default: true }]);
+    expect(await sql<{ is_default: boolean }>("select is_default from owner_address where id = $1", [first])).toEqual([
+      { is_default: true },
+    ]);
   });
 });
 
 describe("profile", () => {
   it("uses the quote request's phone rule: reaching by phone needs a number", async () => {
     const { client, email } = await newCustomer("profile");
-    const bad = await client.request("/api/portal/account", { method: "PATCH", json: { name: "Test Owner", phone: "", contactPreference: "phone" } });
+    const bad = await client.request("/api/portal/account", {
+      method: "PATCH",
+      json: { name: "Test Owner", phone: "", contactPreference: "phone" },
+    });
     expect(bad.status).toBe(400);
     expect(((await bad.json()) as Answer).error?.fields?.phone).toMatch(/^Phone number: /);
     const ok = await client.request("/api/portal/account", {
@@ -165,7 +170,10 @@ describe("return address on a job", () => {
 describe("closing the account", () => {
   it("is refused while a job is open, naming it; then anonymises, ends sessions and keeps the job's records", async () => {
     const { client, email, password } = await newCustomer("close");
-    await client.request("/api/portal/account", { method: "PATCH", json: { name: "Close Owner", phone: "+1 207 555 0199", contactPreference: "phone" } });
+    await client.request("/api/portal/account", {
+      method: "PATCH",
+      json: { name: "Close Owner", phone: "+1 207 555 0199", contactPreference: "phone" },
+    });
     await addAddress(client, US);
     const job = await seedJobWithEstimate({ email, state: "on_bench" });
     const [{ number }] = (await sql<{ number: number }>("select number from job where id = $1", [job.jobId])) as [{ number: number }];

@@ -79,7 +79,10 @@ describe("postal codes per country", () => {
   it("the form schema names the field in each error", () => {
     const r = addressSchema.safeParse({ ...base, country: "US", region: "NY", postalCode: "1" });
     expect(r.success).toBe(false);
-    expect(r.error!.issues[0]).toMatchObject({ path: ["postalCode"], message: expect.stringMatching(/^ZIP code: enter 5 digits or ZIP\+4/) });
+    expect(r.error!.issues[0]).toMatchObject({
+      path: ["postalCode"],
+      message: expect.stringMatching(/^ZIP code: enter 5 digits or ZIP\+4/),
+    });
   });
 });
 
@@ -118,10 +121,17 @@ describe("formatPostalAddress: the lines of a label in the country's order", () 
 
   it("Germany and the Netherlands: postal code before the town (Deutsche Post, PostNL; from memory)", () => {
     expect(formatPostalAddress(a("DE", { city: "Berlin", postalCode: "10115" })).slice(-2)).toEqual(["10115 Berlin", "GERMANY"]);
-    expect(formatPostalAddress(a("NL", { city: "Amsterdam", postalCode: "1012 AB" })).slice(-2)).toEqual(["1012 AB Amsterdam", "NETHERLANDS"]);
+    expect(formatPostalAddress(a("NL", { city: "Amsterdam", postalCode: "1012 AB" })).slice(-2)).toEqual([
+      "1012 AB Amsterdam",
+      "NETHERLANDS",
+    ]);
   });
 
   it("Ireland: town, then the Eircode on its own line (An Post, from memory)", () => {
-    expect(formatPostalAddress(a("IE", { city: "Dublin 2", postalCode: "D02 X285" })).slice(-3)).toEqual(["Dublin 2", "D02 X285", "IRELAND"]);
+    expect(formatPostalAddress(a("IE", { city: "Dublin 2", postalCode: "D02 X285" })).slice(-3)).toEqual([
+      "Dublin 2",
+      "D02 X285",
+      "IRELAND",
+    ]);
   });
 });

@@ -162,7 +162,14 @@ export const ROUTES: RouteEntry[] = [
     rules: customerOwn,
     params: (f) => ({ id: f.addressA }),
     // A valid body, so another owner's answer is the 404 of the address and not the 400 of the form.
-    body: () => ({ recipient: "Mira Holloway", line1: "14 Kestrel Lane", city: "Port Alder", region: "ME", postalCode: "04101", country: "US" }),
+    body: () => ({
+      recipient: "Mira Holloway",
+      line1: "14 Kestrel Lane",
+      city: "Port Alder",
+      region: "ME",
+      postalCode: "04101",
+      country: "US",
+    }),
   },
   {
     method: "DELETE",
