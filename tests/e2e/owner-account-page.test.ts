@@ -45,7 +45,7 @@ for (const device of [
 
       await page.getByRole("navigation", { name: "My sets sections" }).getByRole("link", { name: "My account" }).click();
       await page.waitForURL(/\/portal\/account$/);
-      await expect.poll(() => page.getByRole("heading", { name: "My account" }).count()).toBe(1);
+      await expect.poll(() => page.getByRole("heading", { name: "My account", exact: true }).count()).toBe(1);
       expect(await overflow(page)).toBeLessThanOrEqual(0);
 
       // A wrong ZIP code is refused in the form, naming the field (USPS: 5 digits or ZIP+4, from memory).
