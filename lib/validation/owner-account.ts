@@ -25,8 +25,9 @@ export type ProfileValues = z.output<typeof profileSchema>;
 
 const line = (label: string, max: number) =>
   z.string().trim().min(1, `${label}: fill this in.`).max(max, `${label}: keep it under ${max} characters.`);
+// An empty optional line may come back as null (the checked address the form sends stores it so).
 const optionalLine = (label: string, max: number) =>
-  z.string().trim().max(max, `${label}: keep it under ${max} characters.`).optional().default("");
+  z.preprocess((v) => v ?? "", z.string().trim().max(max, `${label}: keep it under ${max} characters.`));
 
 export const addressSchema = z
   .object({

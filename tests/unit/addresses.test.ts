@@ -135,3 +135,11 @@ describe("formatPostalAddress: the lines of a label in the country's order", () 
     ]);
   });
 });
+
+describe("the address form's checked values", () => {
+  it("pass the same schema again, as the server parses what the form sends", () => {
+    const first = addressSchema.parse({ ...base, country: "IE", line2: "", region: "", postalCode: "" });
+    expect(first.line2).toBeNull();
+    expect(addressSchema.parse(first)).toEqual(first);
+  });
+});
