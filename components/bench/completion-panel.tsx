@@ -26,7 +26,31 @@ function useStateChange(jobId: string) {
   };
 }
 
-function ReturnPanel({ jobId }: { jobId: string }) {
+/** Where the set is shipped back, as the label reads. */
+function ShipTo({ shipTo }: { shipTo: JobDetailJson["shipTo"] }) {
+  if (!shipTo)
+    return (
+      <p className="text-sm" data-testid="ship-to">
+        No return address on file: ask the owner before shipping.
+      </p>
+    );
+  return (
+    <div className="text-sm" data-testid="ship-to">
+      <p className="font-semibold">
+        {shipTo.chosen ? "Ship to (chosen by the owner)" : "Ship to (owner's default address; not confirmed for this job)"}
+      </p>
+      <address className="not-italic">
+        {shipTo.lines.map((l, i) => (
+          <span key={i} className="block">
+            {l}
+          </span>
+        ))}
+      </address>
+    </div>
+  );
+}
+
+function ReturnPanel({ jobId, shipTo }: { jobId: string; shipTo: JobDetailJson["shipTo"] }) {
   const onChange = useStateChange(jobId);
   const form = useForm<ReturnForm, unknown, ReturnInput>({
     resolver: zodResolver(returnFormSchema),
@@ -60,6 +84,7 @@ function ReturnPanel({ jobId }: { jobId: string }) {
           <input type="radio" value="shipped" {...form.register("method")} /> Shipped
         </label>
       </fieldset>
+      {method === "shipped" ? <ShipTo shipTo={shipTo} /> : null}
       {method === "shipped" ? (
         <div className="flex flex-wrap gap-3">
           <div>
@@ -230,7 +255,7 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
         <Notice tone="info">A revision is waiting for the owner. The set stays on the bench; the approved work can go on.</Notice>
       ) : null}
       {state === "balance_due" ? <Notice tone="info">Waiting for the owner to pay the balance online.</Notice> : null}
-      {state === "paid_in_full" ? <ReturnPanel jobId={jobId} /> : null}
+      {state === "paid_in_full" ? <ReturnPanel jobId={jobId} shipTo={detail.shipTo} /> : null}
       {state === "returned" ? (
         <Notice tone="success">
           Returned{" "}
@@ -238,6 +263,7 @@ export function CompletionPanel({ detail }: { detail: JobDetailJson }) {
             ? `by ${detail.job.carrier}, tracking ${detail.job.trackingNumber}`
             : "— picked up at the shop"}
           {detail.job.returnedAt ? ` on ${formatDate(detail.job.returnedAt, { timeZone, style: "compact" })}` : ""}.
+          {detail.job.returnMethod === "shipped" ? <ShipTo shipTo={detail.shipTo} /> : null}
         </Notice>
       ) : null}
     </div>

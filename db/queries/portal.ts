@@ -21,6 +21,7 @@ export async function getPortalJobForCustomer({ jobId, customerId }: { jobId: st
       receivedAt: jobs.receivedAt,
       carrier: jobs.carrier,
       trackingNumber: jobs.trackingNumber,
+      returnAddress: jobs.returnAddress,
       settledTotalMinor: jobs.settledTotalMinor,
       waivedMinor: jobs.waivedMinor,
       waivedAt: jobs.waivedAt,

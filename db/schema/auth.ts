@@ -17,6 +17,10 @@ export const user = pgTable("user", {
   // A customer the shop took in at the counter or on the phone and keeps as a contact: no credential, no
   // sign-in, no password reset. Staff record their decisions for them (lib/server/services/intake.ts).
   contactOnly: boolean("contact_only").notNull().default(false),
+  // The account's own way of being reached; a quote request starts from it.
+  contactPreference: text("contact_preference").notNull().default("email"),
+  // A closed account: personal data anonymised, sign-in ended. The row stays for the records tied to it.
+  closedAt: timestamp("closed_at", { withTimezone: true }),
 });
 
 export const session = pgTable(

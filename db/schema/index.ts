@@ -12,3 +12,4 @@ export * from "./schedule";
 export * from "./performance";
 export * from "./notifications";
 export * from "./uploads";
+export * from "./addresses";

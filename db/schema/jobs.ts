@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import { boolean, index, integer, jsonb, pgTable, primaryKey, serial, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
+import type { PostalAddress } from "@/lib/engine/addresses";
 import { user } from "./auth";
 import { deliveryMethod, intakeChannel, jobState, returnMethod, setKind } from "./enums";
 
@@ -51,6 +52,10 @@ export const jobs = pgTable(
     returnMethod: returnMethod("return_method"),
     carrier: text("carrier"),
     trackingNumber: text("tracking_number"),
+    // Where the owner asked for the set to be shipped back: a copy of the address as chosen, so later edits to
+    // the address book do not move a parcel already on its way (lib/server/services/owner-account.ts).
+    returnAddress: jsonb("return_address").$type<PostalAddress>(),
+    returnAddressChosenAt: timestamp("return_address_chosen_at", { withTimezone: true }),
     receivedAt: timestamp("received_at", { withTimezone: true }),
     completedAt: timestamp("completed_at", { withTimezone: true }),
     returnedAt: timestamp("returned_at", { withTimezone: true }),

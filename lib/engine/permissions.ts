@@ -12,6 +12,8 @@ export const PERMISSIONS = {
   // Seeing a photo also needs ownership (its uploader, its job's owner) or a workshop role; see db/queries/photos.
   "photo.view": ["customer", "technician", "owner"],
   "claim.open": ["customer"],
+  // The set owner's own account page: name and contact, the address book, a job's return address, closing.
+  "account.manage": ["customer"],
   "bench.use": ["technician", "owner"],
   // Taking a set in at the counter or on the phone: find or add the customer, open the job for them.
   "job.intake": ["technician", "owner"],

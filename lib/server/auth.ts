@@ -101,6 +101,9 @@ function createAuth() {
         });
       },
     },
+    // A new e-mail address takes effect only once a link sent to it is opened (the verification message through
+    // the outbox); until then the old address stays the account's.
+    user: { changeEmail: { enabled: true } },
     session: {
       expiresIn: SESSION_SLIDING_SECONDS,
       updateAge: 60 * 60 * 24,
@@ -157,6 +160,10 @@ function createAuth() {
           }
           return;
         }
+        if (ctx.path === "/change-password" && ctx.body && typeof ctx.body === "object") {
+          // A changed password ends every other session, whatever the caller asked.
+          (ctx.body as { revokeOtherSessions?: boolean }).revokeOtherSessions = true;
+        }
         if (ctx.path !== "/sign-up/email" && ctx.path !== "/reset-password" && ctx.path !== "/change-password") return;
         const body = (ctx.body ?? {}) as { password?: unknown; newPassword?: unknown };
         const candidate = typeof body.newPassword === "string" ? body.newPassword : body.password;
@@ -191,6 +198,20 @@ function createAuth() {
               entity: "sign_in",
               entityId: emailKey(email),
               after: { address },
+            });
+          }
+          return;
+        }
+        if ((ctx.path === "/change-password" || ctx.path === "/change-email") && !failed) {
+          const current = await getSessionFromCtx(ctx).catch(() => null);
+          const id = current?.user.id ?? (returned as { user?: { id?: string } } | undefined)?.user?.id;
+          if (id) {
+            await auditNow({
+              actorId: id,
+              action: ctx.path === "/change-password" ? "auth.password_change" : "auth.email_change_requested",
+              entity: "user",
+              entityId: id,
+              after: ctx.path === "/change-email" ? { address } : { address, otherSessionsEnded: true },
             });
           }
           return;

@@ -10,6 +10,9 @@ export const DIAL_BANDS = ["LW", "MW", "SW", "FM"] as const;
 export const POWERED_RECENTLY = ["no", "briefly", "yes", "unknown"] as const;
 export const DELIVERY = ["mail-in", "drop-off"] as const;
 export const CONTACT = ["email", "phone"] as const;
+/** A number someone can call: digits, spaces and + ( ) . -; shared by the quote request and the account page. */
+export const PHONE_PATTERN = /^[+()\d\s.-]{6,40}$/;
+export const PHONE_NEEDED_MESSAGE = "Phone number: give one we can call (digits, spaces, + ( ) . -), or choose e-mail.";
 
 export const SET_KIND_HELP: Record<(typeof SET_KINDS)[number], { label: string; hint: string }> = {
   "tube-acdc": {
@@ -104,8 +107,6 @@ export const setProfileShape = {
   poweredRecently: z.enum(POWERED_RECENTLY, { error: "Powered recently: choose one of the answers." }),
 };
 
-export const PHONE_PATTERN = /^[+()\d\s.-]{6,40}$/;
-
 export const quoteRequestSchema = z
   .object({
     ...setProfileShape,
@@ -121,11 +122,7 @@ export const quoteRequestSchema = z
   })
   .superRefine((v, ctx) => {
     if (v.contactPreference === "phone" && !PHONE_PATTERN.test(v.phone)) {
-      ctx.addIssue({
-        code: "custom",
-        path: ["phone"],
-        message: "Phone number: give one we can call (digits, spaces, + ( ) . -), or choose e-mail.",
-      });
+      ctx.addIssue({ code: "custom", path: ["phone"], message: PHONE_NEEDED_MESSAGE });
     }
   });
 

@@ -7,7 +7,7 @@ import { TestClient } from "../support/http";
 import { seedJobWithEstimate } from "../fixtures/jobs";
 import { AURELIAN_PROFILE, createJob } from "./bench-fixtures";
 import { createCertificate, stopQueue } from "./certificates-fixtures";
-import { pathOf, storePhoto } from "./access/fixtures";
+import { pathOf, storeAddress, storePhoto } from "./access/fixtures";
 import { ROUTES, type Fixtures, type Role, type RouteEntry } from "./access/matrix";
 
 // Random and hostile input on every JSON route of the matrix, as the role allowed to use it: the answer is
@@ -108,6 +108,8 @@ async function ownRows(): Promise<OwnRows> {
     refundAny: (await sql<{ id: string }>("select id from refund order by created_at limit 1"))[0]!.id,
     emailAny: (await sql<{ id: string }>("select id from email_outbox order by created_at limit 1"))[0]!.id,
     instrumentAny: await fuzzInstrument(shared.jobId),
+    addressA: await storeAddress(customer.id),
+    addressSparesA: [],
   };
   for (const entry of ROUTES) {
     const k = key(entry);
@@ -460,6 +462,22 @@ const SHAPES: Record<string, Shape> = {
     fields: ["token", "password"],
     base: () => ({ token: "not-a-real-invitation", password: "valve-glow-1948-x" }),
   },
+  "PATCH /api/portal/account": {
+    fields: ["name", "phone", "contactPreference"],
+    base: () => ({ name: "Fuzz Owner", phone: "+1 207 555 0100", contactPreference: "phone" }),
+  },
+  "POST /api/portal/account/addresses": {
+    fields: ["recipient", "line1", "line2", "city", "region", "postalCode", "country", "isDefault"],
+    base: () => ({ recipient: "Fuzz Owner", line1: "1 Quay Street", city: "Port Alder", region: "ME", postalCode: "04101", country: "US" }),
+  },
+  "PATCH /api/portal/account/addresses/[id]": {
+    fields: ["recipient", "line1", "line2", "city", "region", "postalCode", "country", "isDefault"],
+    base: () => ({ recipient: "Fuzz Owner", line1: "2 Quay Street", city: "Toronto", region: "ON", postalCode: "M5V 3L9", country: "CA" }),
+  },
+  "DELETE /api/portal/account/addresses/[id]": { fields: ["id"] },
+  // Never the account's password: a probe must not close the account the other probes use.
+  "POST /api/portal/account/close": { fields: ["password", "confirm"], base: () => ({ password: "not-the-password", confirm: true }) },
+  "PUT /api/portal/jobs/[id]/return-address": { fields: ["addressId"], base: (f) => ({ addressId: f.addressA }) },
   "POST /api/portal/jobs/[id]/withdraw": { fields: ["reason"], base: () => ({ reason: "Found the fault myself." }) },
   "POST /api/bench/jobs/[id]/cancel": {
     fields: ["reason", "refund"],

@@ -16,6 +16,7 @@ export default async function PortalLayout({ children }: { children: ReactNode }
         // A staff account that keeps its own sets answers them here; new requests come from owners' accounts.
         ...(canAccess(viewer, "quote.request") ? [{ href: "/portal/request", label: "Request a quote" }] : []),
         { href: "/portal/claims", label: "Warranty claims" },
+        ...(canAccess(viewer, "account.manage") ? [{ href: "/portal/account", label: "My account" }] : []),
       ]}
     >
       {children}

@@ -23,6 +23,7 @@ import { queueEmail } from "@/lib/server/mail";
 import { issueCertificate } from "@/lib/server/services/certificates";
 import { checkProfile } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
+import { jobShipToLines, snapshotDefaultReturnAddress } from "@/lib/server/services/owner-account";
 import { settleIfNothingOwed } from "@/lib/server/services/account";
 import { findKeyedMessage } from "@/lib/server/services/messages";
 import { getShop } from "@/lib/server/services/shop";
@@ -469,6 +470,8 @@ export async function recordReturn(ctx: TxContext, { jobId, actorId, input }: { 
   const { job, set, customer } = await loadJob(ctx.tx, jobId);
   requireState(job, ["paid_in_full"], "record the return");
   const shipped = input.method === "shipped" ? input : null;
+  // A set shipped without a chosen return address goes to the owner's default: the job keeps that copy.
+  if (shipped) await snapshotDefaultReturnAddress(ctx, { jobId });
   await transitionJob(ctx, {
     jobId,
     to: "returned",
@@ -638,12 +641,13 @@ function ownerReportOf(profile: unknown): { dialMarkings: string; dialEnds: Owne
 export async function getJobDetail({ jobId }: { jobId: string }) {
   const row = await getJobDetailForStaff({ jobId });
   if (!row) throw new AppError("not_found", "That job was not found.");
-  const [messageRows, photoRows, history, staff, decisions] = await Promise.all([
+  const [messageRows, photoRows, history, staff, decisions, shipTo] = await Promise.all([
     listMessagesForStaff({ jobId }),
     listPhotosForStaff({ jobId }),
     listHistoryForStaff({ jobId }),
     listAssignableStaff(),
     listRevisionDecisionsForStaff({ jobId }),
+    jobShipToLines({ jobId }),
   ]);
   const profile = checkProfile(row.set.profile);
   const { idempotencyKey: _key, ...job } = row.job;
@@ -661,6 +665,8 @@ export async function getJobDetail({ jobId }: { jobId: string }) {
     ownerReport: ownerReportOf(row.set.profile),
     history,
     staff,
+    // Where the set is shipped back: the owner's choice for this job, else their default address for now.
+    shipTo,
   };
 }
 

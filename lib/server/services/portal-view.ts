@@ -15,6 +15,8 @@ import {
 import type { JobState } from "@/lib/engine/jobs/states";
 import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { AppError } from "@/lib/server/errors";
+import { formatPostalAddress } from "@/lib/engine/addresses";
+import { canChooseReturnAddress } from "@/lib/server/services/owner-account";
 import { messagesAfterReadAt } from "@/lib/server/services/messages";
 import { jobNumber, ownerStateLabel, STATE_LABEL } from "@/lib/engine/jobs/states";
 import {
@@ -197,6 +199,9 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
       carrier: job.carrier,
       trackingNumber: job.trackingNumber,
       createdAt: job.createdAt.toISOString(),
+      // Where the set goes back: the copy kept on the job once chosen; until then the owner picks from their book.
+      returnAddress: job.returnAddress ? { lines: formatPostalAddress(job.returnAddress) } : null,
+      canChooseReturnAddress: canChooseReturnAddress(job.state),
       set: { maker: job.set.maker, model: job.set.model, year: job.set.year, serial: job.set.serial, kind: job.set.kind },
     },
     timeline: timeline.map((t) => ({

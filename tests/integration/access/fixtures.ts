@@ -43,6 +43,16 @@ export async function storePhoto({
   return photoId;
 }
 
+/** A postal address in an owner's address book. */
+export async function storeAddress(ownerId: string): Promise<string> {
+  const { id } = await one<{ id: string }>(
+    `insert into owner_address (owner_id, recipient, line1, city, region, postal_code, country)
+     values ($1, 'Mira Holloway', '14 Kestrel Lane', 'Port Alder', 'ME', '04101', 'US') returning id`,
+    [ownerId],
+  );
+  return id;
+}
+
 /** Customer A's (Mira's) demo jobs, revision, certificate, claim and payment, plus a stored photo. */
 export async function fixturesFromSeed(): Promise<Fixtures> {
   const { id: jobA } = await one<{ id: string }>(
@@ -69,7 +79,11 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     "select instrument_id as id from reading where job_id = $1 and instrument_id is not null limit 1",
     [jobA],
   );
+  const addressA = await storeAddress("demo-cust-mira");
+  const addressSparesA = await Promise.all(Array.from({ length: 12 }, () => storeAddress("demo-cust-mira")));
   return {
+    addressA,
+    addressSparesA,
     jobA,
     jobOpenA,
     revisionA,

@@ -24,6 +24,10 @@ export type Fixtures = {
   emailAny: string;
   /** An instrument some reading names: deleting it is refused, so the probes leave it in place. */
   instrumentAny: string;
+  /** Customer A's address. */
+  addressA: string;
+  /** More of customer A's addresses, one taken by each removal probe (a removed address is gone). */
+  addressSparesA: string[];
 };
 
 export type RouteEntry = {
@@ -146,6 +150,43 @@ export const ROUTES: RouteEntry[] = [
     rules: customerOwn,
     params: jobDone,
     body: () => ({ reason: "Access probe: changed my mind." }),
+  },
+  { method: "GET", route: "/api/portal/account", action: "account.manage", rules: customers },
+  { method: "PATCH", route: "/api/portal/account", action: "account.manage", rules: customers, body: () => ({}) },
+  { method: "GET", route: "/api/portal/account/addresses", action: "account.manage", rules: customers },
+  { method: "POST", route: "/api/portal/account/addresses", action: "account.manage", rules: customers, body: () => ({}) },
+  {
+    method: "PATCH",
+    route: "/api/portal/account/addresses/[id]",
+    action: "account.manage (own)",
+    rules: customerOwn,
+    params: (f) => ({ id: f.addressA }),
+    // A valid body, so another owner's answer is the 404 of the address and not the 400 of the form.
+    body: () => ({
+      recipient: "Mira Holloway",
+      line1: "14 Kestrel Lane",
+      city: "Port Alder",
+      region: "ME",
+      postalCode: "04101",
+      country: "US",
+    }),
+  },
+  {
+    method: "DELETE",
+    route: "/api/portal/account/addresses/[id]",
+    action: "account.manage (own)",
+    rules: customerOwn,
+    params: (f) => ({ id: f.addressSparesA.shift() ?? f.addressA }),
+  },
+  // An empty body: the password is never given, so no probe closes an account.
+  { method: "POST", route: "/api/portal/account/close", action: "account.manage", rules: customers, body: () => ({}) },
+  {
+    method: "PUT",
+    route: "/api/portal/jobs/[id]/return-address",
+    action: "account.manage (own job, own address)",
+    rules: customerOwn,
+    params: job,
+    body: (f) => ({ addressId: f.addressA }),
   },
   {
     method: "GET",
@@ -422,6 +463,7 @@ export const PAGES: PageEntry[] = [
   { route: "/portal", rules: customers },
   { route: "/portal/request", rules: customers },
   { route: "/portal/claims", rules: customers },
+  { route: "/portal/account", rules: customers },
   { route: "/portal/claims/new", rules: customers },
   { route: "/portal/claims/[id]", rules: customerOwn, params: (f) => ({ id: f.claimA }) },
   { route: "/portal/jobs/[id]", rules: customerOwn, params: (f) => ({ id: f.jobA }) },

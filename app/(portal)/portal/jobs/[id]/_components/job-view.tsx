@@ -14,6 +14,7 @@ import { EstimatePanel } from "./estimate-panel";
 import { MessageThread } from "./message-thread";
 import { PayButton } from "./pay-button";
 import { WithdrawRequest } from "./withdraw-request";
+import { ReturnAddress } from "./return-address";
 import { useShopTimeZone } from "@/components/shop-time-zone";
 import { formatDateTime } from "@/lib/engine/dates";
 
@@ -132,6 +133,14 @@ export function JobView({
         </section>
       ) : null}
 
+      {v.job.state === "deposit_paid" && v.job.delivery === "mail-in" ? (
+        <p data-testid="send-in-return-note">
+          {v.job.returnAddress
+            ? "When the work is done, the set comes back to the address below."
+            : "Before you send the set, tell us below where it should come back to."}
+        </p>
+      ) : null}
+      <ReturnAddress jobId={jobId} job={v.job} />
       {v.job.state === "requested" ? <WithdrawRequest jobId={jobId} /> : null}
       {v.job.state === "cancelled" ? (
         <Notice tone="info" title="This request is closed">
