@@ -10,3 +10,4 @@ export * from "./warranty";
 export * from "./audit";
 export * from "./schedule";
 export * from "./performance";
+export * from "./parts";

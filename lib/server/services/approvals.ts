@@ -8,6 +8,7 @@ import { depositToCollect } from "@/lib/engine/pricing/deposit";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { syncTasks } from "@/lib/server/services/estimates";
 import { transitionJob } from "@/lib/server/services/jobs";
+import { takeStockForRevision } from "@/lib/server/services/parts";
 
 type DecisionInput = { jobId: string; customerId: string; revisionId: string };
 
@@ -63,6 +64,7 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     before: { status: "sent" },
     after: { status: "approved", totalMinor: revision.totalMinor, depositMinor: revision.depositMinor },
   });
+  await takeStockForRevision(ctx, { jobId: job.id, revisionId: revision.id, actorId: input.customerId });
   if (job.state === "bench_revision") {
     await syncTasksToRevision(ctx, job.id, revision.id);
     await transitionJob(ctx, {
