@@ -34,7 +34,10 @@ export const partFormSchema = z.object({
     .trim()
     .min(1, "Name: give the part the name printed on the estimate.")
     .max(120, "Name: keep it under 120 characters."),
-  supplierRef: z.string({ error: "Supplier reference: text, or leave it empty." }).trim().max(80, "Supplier reference: keep it under 80 characters."),
+  supplierRef: z
+    .string({ error: "Supplier reference: text, or leave it empty." })
+    .trim()
+    .max(80, "Supplier reference: keep it under 80 characters."),
   cost: costText,
   markupPercent: markupText,
   stock: stockText,
@@ -69,4 +72,3 @@ export function percentToBp(text: string): number {
   const [whole, frac = ""] = text.trim().split(".");
   return Number(whole) * 100 + Number(frac.padEnd(2, "0"));
 }
-

@@ -449,7 +449,12 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }, byKind: In
   const shop = await getShop(ctx.tx);
   const profile = setProfileSchema.parse(job.profile);
   const [est] = await ctx.tx.select({ version: estimates.version }).from(estimates).where(eq(estimates.jobId, job.id)).limit(1);
-  await saveDraft(ctx, { jobId: job.id, actorId: tech, version: est?.version ?? 0, lines: buildDraft(profile, shop.policy, await checklistCatalogue(ctx.tx)) });
+  await saveDraft(ctx, {
+    jobId: job.id,
+    actorId: tech,
+    version: est?.version ?? 0,
+    lines: buildDraft(profile, shop.policy, await checklistCatalogue(ctx.tx)),
+  });
   const { revisionId } = await sendRevision(ctx, { jobId: job.id, actorId: tech });
   if (t === "estimate_sent") return;
   if (t === "declined_by_owner") {

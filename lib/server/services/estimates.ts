@@ -52,7 +52,11 @@ export function checkProfile(raw: unknown): ProfileCheck {
 export function buildDraft(
   profile: SetProfile,
   policy: ShopPolicy,
-  { covered = false, catalogue = {}, partIds = {} }: { covered?: boolean; catalogue?: PartsCatalogue; partIds?: Record<string, string> } = {},
+  {
+    covered = false,
+    catalogue = {},
+    partIds = {},
+  }: { covered?: boolean; catalogue?: PartsCatalogue; partIds?: Record<string, string> } = {},
 ): DraftLine[] {
   const out: DraftLine[] = [];
   const used = new Set<string>();

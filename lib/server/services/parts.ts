@@ -84,7 +84,13 @@ export async function listParts({
   return rows.map((r) => view(r, shop.policy.parts.defaultMarkupBp, uses.get(r.id) ?? 0));
 }
 
-export type PartSearchHit = Pick<PartView, "id" | "name" | "supplierRef" | "costMinor" | "effectiveMarkupBp" | "unitPriceMinor" | "stock">;
+export type PartSearchHit = Pick<
+  PartView,
+  "id" | "name" | "supplierRef" | "costMinor" | "effectiveMarkupBp" | "unitPriceMinor" | "stock"
+> & {
+  /** The checklist's code of the part, kept in the line's code (data, never shown). */
+  code: string | null;
+};
 
 /** The builder's type-ahead: parts still in the catalogue whose name or supplier reference holds the text. */
 export async function searchParts({ q, limit, tx = db }: { q: string; limit: number; tx?: Database }): Promise<PartSearchHit[]> {
@@ -94,12 +100,16 @@ export async function searchParts({ q, limit, tx = db }: { q: string; limit: num
     .from(parts)
     .where(and(isNull(parts.retiredAt), matches(q)))
     // Names that start with the text first, then the rest, each by name.
-    .orderBy(sql`lower(${parts.name}) like ${`${q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`} desc`, asc(sql`lower(${parts.name})`))
+    .orderBy(
+      sql`lower(${parts.name}) like ${`${q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`} desc`,
+      asc(sql`lower(${parts.name})`),
+    )
     .limit(limit);
   return rows.map((r) => {
     const v = view(r, shop.policy.parts.defaultMarkupBp);
     return {
       id: v.id,
+      code: r.code,
       name: v.name,
       supplierRef: v.supplierRef,
       costMinor: v.costMinor,
@@ -247,7 +257,10 @@ export async function deletePart(ctx: TxContext, { id, actorId }: { id: string; 
 // never refused for stock, the builder warns instead. Each change is one UPDATE of the part row (a row lock),
 // so two approvals at once both count.
 
-async function moveStock(ctx: TxContext, { jobId, want, actorId, why }: { jobId: string; want: Map<string, number>; actorId: string | null; why: string }) {
+async function moveStock(
+  ctx: TxContext,
+  { jobId, want, actorId, why }: { jobId: string; want: Map<string, number>; actorId: string | null; why: string },
+) {
   const had = await ctx.tx
     .select({ partId: partStockTakes.partId, quantity: partStockTakes.quantity })
     .from(partStockTakes)
@@ -279,7 +292,10 @@ async function moveStock(ctx: TxContext, { jobId, want, actorId, why }: { jobId:
 }
 
 /** On approval: the job holds the counted parts of this revision (covered lines' parts too: they are fitted all the same). */
-export async function takeStockForRevision(ctx: TxContext, { jobId, revisionId, actorId }: { jobId: string; revisionId: string; actorId: string | null }) {
+export async function takeStockForRevision(
+  ctx: TxContext,
+  { jobId, revisionId, actorId }: { jobId: string; revisionId: string; actorId: string | null },
+) {
   const lines = await ctx.tx
     .select({ partId: estimateLines.partId, quantity: estimateLines.quantity })
     .from(estimateLines)
