@@ -64,6 +64,8 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     "select instrument_id as id from reading where job_id = $1 and instrument_id is not null limit 1",
     [jobA],
   );
+  // A part the checklist calls for: never deleted, so a DELETE that gets through answers 409.
+  const { id: partAny } = await one<{ id: string }>("select id from part where code = 'fuse' limit 1");
   return {
     jobA,
     jobOpenA,
@@ -76,6 +78,7 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     refundAny,
     emailAny,
     instrumentAny,
+    partAny,
   };
 }
 

@@ -24,6 +24,7 @@ export type Fixtures = {
   emailAny: string;
   /** An instrument some reading names: deleting it is refused, so the probes leave it in place. */
   instrumentAny: string;
+  partAny: string;
 };
 
 export type RouteEntry = {
@@ -218,6 +219,7 @@ export const ROUTES: RouteEntry[] = [
   },
 
   { method: "GET", route: "/api/bench/queue", action: "bench.use", rules: staff(), query: "?page=1" },
+  { method: "GET", route: "/api/bench/parts", action: "estimate.edit", rules: staff(), query: "?q=cap" },
   { method: "GET", route: "/api/bench/staff", action: "bench.use", rules: staff() },
   { method: "GET", route: "/api/bench/jobs/[id]", action: "bench.use", rules: staff(), params: job },
   { method: "GET", route: "/api/bench/jobs/[id]/sheet", action: "bench.use", rules: staff(), params: job },
@@ -352,6 +354,23 @@ export const ROUTES: RouteEntry[] = [
     rules: ownerOnly,
     params: (f) => ({ id: f.instrumentAny }),
   },
+  { method: "GET", route: "/api/office/parts", action: "parts.manage", rules: ownerOnly },
+  { method: "POST", route: "/api/office/parts", action: "parts.manage", rules: ownerOnly, body: () => ({}) },
+  {
+    method: "PATCH",
+    route: "/api/office/parts/[id]",
+    action: "parts.manage",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.partAny }),
+    body: () => ({}),
+  },
+  {
+    method: "DELETE",
+    route: "/api/office/parts/[id]",
+    action: "parts.manage",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.partAny }),
+  },
   {
     method: "POST",
     route: "/api/office/emails/[emailId]/resend",
@@ -408,6 +427,7 @@ export const PAGES: PageEntry[] = [
   { route: "/office/settings", rules: ownerOnly },
   { route: "/office/staff", rules: ownerOnly },
   { route: "/office/instruments", rules: ownerOnly },
+  { route: "/office/parts", rules: ownerOnly },
 ];
 /** Pages that exist only in the local-demo mode. */
 export const LOCAL_DEMO_PAGES = new Set(["/mailbox"]);
