@@ -25,6 +25,7 @@ import type { DraftLine } from "@/lib/validation/estimate";
 import { instrumentKindsFor, type InstrumentKind, type ReadingPhase } from "@/lib/engine/instruments";
 import type { ReadingRequirement } from "@/lib/engine/verdicts";
 import { seedDemoInstruments } from "./instruments";
+import { seedDemoParts } from "./parts";
 import { checklistCatalogue } from "@/lib/server/services/parts";
 
 const TOMAS = "demo-tech-tomas";
@@ -582,6 +583,8 @@ async function backdate(ctx: TxContext, jobId: string, daysAgo: number) {
 export async function seedDemoJobs(ctx: TxContext): Promise<number> {
   let created = 0;
   const { byKind } = await seedDemoInstruments(ctx);
+  // Before the jobs: their approved estimates take counted parts from stock.
+  await seedDemoParts(ctx);
   for (const demo of DEMO_JOBS) {
     const [existing] = await ctx.tx
       .select({ id: jobs.id })

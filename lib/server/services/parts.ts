@@ -121,11 +121,14 @@ export async function searchParts({ q, limit, tx = db }: { q: string; limit: num
 }
 
 /** The checklist's parts by code, as the automatic part lines price them (retired ones are not offered). */
-export async function checklistCatalogue(tx: Database = db): Promise<{ catalogue: PartsCatalogue; ids: Record<string, string> }> {
+export async function checklistCatalogue(
+  tx: Database = db,
+  { includeRetired = false }: { includeRetired?: boolean } = {},
+): Promise<{ catalogue: PartsCatalogue; ids: Record<string, string> }> {
   const rows = await tx
     .select()
     .from(parts)
-    .where(and(isNotNull(parts.code), isNull(parts.retiredAt)));
+    .where(and(isNotNull(parts.code), includeRetired ? undefined : isNull(parts.retiredAt)));
   const catalogue: Record<string, { title: string; costMinor: number; markupBp?: number }> = {};
   const ids: Record<string, string> = {};
   for (const r of rows) {
