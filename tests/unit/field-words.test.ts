@@ -5,6 +5,7 @@ import { profileUpdateSchema, readingInputSchema, returnSchema } from "@/lib/val
 import { claimFormSchema, decideClaimSchema } from "@/lib/validation/claims";
 import { draftSchema } from "@/lib/validation/estimate";
 import { refundFormSchema, settingsFormSchema, settingsToForm } from "@/lib/validation/office";
+import { partFormSchema } from "@/lib/validation/parts";
 import { quoteRequestSchema } from "@/lib/validation/quote";
 import { aurelianTableSet } from "./support/demo-sets";
 
@@ -125,6 +126,11 @@ const SCHEMAS: [string, z.ZodType, unknown][] = [
     }),
   ],
   ["a refund", refundFormSchema, { amount: "12.00", reason: "Part not fitted." }],
+  [
+    "a catalogue part",
+    partFormSchema,
+    { name: "Pilot lamp 6.3 V", supplierRef: "TW-PL-063", cost: "0.90", markupPercent: "50", stock: "12" },
+  ],
 ];
 
 describe("every field message names its field and what is allowed, never zod's default wording", () => {

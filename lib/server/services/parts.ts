@@ -124,7 +124,7 @@ export async function searchParts({ q, limit, tx = db }: { q: string; limit: num
 export async function checklistCatalogue(
   tx: Database = db,
   { includeRetired = false }: { includeRetired?: boolean } = {},
-): Promise<{ catalogue: PartsCatalogue; ids: Record<string, string> }> {
+): Promise<{ catalogue: PartsCatalogue; partIds: Record<string, string> }> {
   const rows = await tx
     .select()
     .from(parts)
@@ -135,7 +135,7 @@ export async function checklistCatalogue(
     catalogue[r.code!] = { title: r.name, costMinor: r.costMinor, ...(r.markupBp !== null ? { markupBp: r.markupBp } : {}) };
     ids[r.code!] = r.id;
   }
-  return { catalogue, ids };
+  return { catalogue, partIds: ids };
 }
 
 /** Stock and names of the given parts, for the builder's warnings and the lines of parts since retired. */
