@@ -2,7 +2,7 @@ import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
-import { TestClient } from "../support/http";
+import type { TestClient } from "../support/http";
 import { createJob } from "./bench-fixtures";
 
 // The shop's parts catalogue through the routes: the office keeps it, the bench searches it, estimates keep
