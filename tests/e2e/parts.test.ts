@@ -105,7 +105,7 @@ describe("adding a searched part in the estimate builder", () => {
       await page.goto(`/bench/jobs/${jobId}`);
       await page.getByRole("tab", { name: "Estimate" }).click();
       const search = page.getByRole("combobox", { name: "Add a part from the catalogue" });
-      await search.fill(name.slice(0, 16));
+      await search.fill(name);
       const option = page.getByRole("option", { name: new RegExp(name) });
       await expect.poll(() => option.count()).toBe(1);
       expect(await option.innerText()).toMatch(/\$6\.08 each.*1 in stock/s);
