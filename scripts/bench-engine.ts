@@ -10,6 +10,7 @@ import { solveTracking } from "@/lib/engine/alignment/solve-tracking";
 import { computeChecklist } from "@/lib/engine/checklist/compute-checklist";
 import { setProfileSchema } from "@/lib/engine/checklist/profile";
 import { priceEstimate } from "@/lib/engine/pricing/price-estimate";
+import { defaultPartsCatalogue } from "@/lib/engine/pricing/parts";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 
 // The Haldane console from the demo scenario: the largest checklist the shop meets.
@@ -56,7 +57,7 @@ function measure(fn: () => unknown, batches = 200, perBatch = 50) {
 
 const estimate = measure(() => {
   const lines = computeChecklist(profile, defaultShopPolicy);
-  const priced = priceEstimate(lines, defaultShopPolicy);
+  const priced = priceEstimate(lines, defaultShopPolicy, defaultPartsCatalogue);
   const tracking = solveTracking(trackingInput);
   return priced.totals.totalMinor + tracking.maxAbsErrorKHz;
 });

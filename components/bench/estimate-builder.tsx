@@ -8,7 +8,6 @@ import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { billingNote } from "@/lib/engine/pricing/billing-note";
 import { formatMinor } from "@/lib/engine/pricing/money";
-import { partCodes } from "@/lib/engine/pricing/parts";
 import type { ShopPolicy } from "@/lib/engine/shop-policy";
 import {
   CATEGORY_LABEL,
@@ -22,6 +21,8 @@ import {
 import { api, ApiError, errorText } from "@/lib/client/bench-api";
 import { benchKeys } from "@/lib/client/bench-query-keys";
 import type { EstimateViewJson } from "./types";
+import type { PartSearchHit } from "@/lib/server/services/parts";
+import { PartSearch, stockWords } from "./part-search";
 import { useShopTimeZone } from "@/components/shop-time-zone";
 import { formatDateTime } from "@/lib/engine/dates";
 
@@ -115,7 +116,8 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
   const [notice, setNotice] = useState<{ tone: "success" | "error"; text: string } | null>(null);
   const [changeSummary, setChangeSummary] = useState("");
   const [summaryError, setSummaryError] = useState<string | null>(null);
-  const [newPart, setNewPart] = useState<string>(partCodes[0]);
+  // Stock of the catalogue parts on the lines: as the view loaded it, then as each search answered.
+  const [stockOf, setStockOf] = useState<Record<string, { name: string; stock: number | null; retired: boolean }>>(view.partsInStock);
   const form = useForm<FormValues, unknown, Draft>({ resolver: zodResolver(draftSchema), defaultValues: { lines: view.lines } });
   const { register, control, handleSubmit, formState, setError } = form;
   const lines = useFieldArray({ control, name: "lines", keyName: "fieldKey" });
@@ -217,26 +219,44 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
       covered: view.isWarranty,
     });
   };
-  const addPart = () => {
-    const custom = newPart === "other";
-    const entry = custom ? null : policy.parts.catalogue[newPart as (typeof partCodes)[number]];
-    const base = custom ? "part.other" : `part.${newPart}`;
+  const appendPart = (hit: PartSearchHit | null) => {
+    const base = hit ? (hit.code ? `part.${hit.code}` : `part.c-${hit.id.slice(0, 8)}`) : "part.other";
     let code = base;
     for (let k = 2; watched.some((l) => l.code === code); k++) code = `${base}.${k}`;
+    if (hit) setStockOf((s) => ({ ...s, [hit.id]: { name: hit.name, stock: hit.stock, retired: false } }));
     lines.append({
       key: newKey(),
       kind: "part",
       code,
-      title: entry?.title ?? "",
+      title: hit?.name ?? "",
       category: "parts",
       minutes: 0,
       quantity: 1,
       reason: "",
       readings: [],
-      unitCost: entry ? formatMinor(entry.costMinor, policy.currency.exponent) : "",
-      markupPercent: String((entry?.markupBp ?? policy.parts.defaultMarkupBp) / 100),
+      // The price the catalogue gives today, kept on the line: a later catalogue edit leaves it as it is.
+      unitCost: hit ? formatMinor(hit.costMinor, policy.currency.exponent) : "",
+      markupPercent: String((hit?.effectiveMarkupBp ?? policy.parts.defaultMarkupBp) / 100),
       covered: view.isWarranty,
+      ...(hit ? { partId: hit.id } : {}),
     });
+  };
+  // How many of each counted part the lines ask for, against the count: a warning, never a refusal.
+  const askedFor = new Map<string, number>();
+  for (const l of watched)
+    if (l.kind === "part" && l.partId) askedFor.set(l.partId, (askedFor.get(l.partId) ?? 0) + (Number(l.quantity) || 0));
+  const stockNote = (partId: string | undefined): string | null => {
+    if (!partId) return null;
+    const s = stockOf[partId];
+    if (!s) return null;
+    const notes: string[] = [];
+    if (s.retired) notes.push("Retired from the catalogue since; the line keeps its price.");
+    const asked = askedFor.get(partId) ?? 0;
+    if (s.stock !== null && asked > s.stock)
+      notes.push(
+        `Only ${Math.max(0, s.stock)} in stock and the estimate asks for ${asked}: order more before the work (it can still be sent).`,
+      );
+    return notes.length ? notes.join(" ") : null;
   };
 
   const lineErrors = formState.errors.lines;
@@ -354,6 +374,14 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
                     <p id={`${idp}-reason`} className="mt-0.5 text-xs text-bakelite-muted">
                       {line.reason || (part ? "Part" : "Labour")}
                     </p>
+                    {part && stockNote(line.partId) ? (
+                      <p className="mt-0.5 text-xs font-semibold text-ember-dark" data-stock-warning={line.partId}>
+                        <span aria-hidden="true">⚠ </span>
+                        {stockNote(line.partId)}
+                      </p>
+                    ) : part && line.partId && stockOf[line.partId] ? (
+                      <p className="text-xs text-bakelite-muted">{stockWords(stockOf[line.partId]!.stock)}</p>
+                    ) : null}
                     {line.readings.length ? (
                       <p className="text-xs text-bakelite-muted">
                         Readings: {line.readings.map((k) => view.readingLabels[k] ?? "a bench-sheet reading").join("; ")}
@@ -496,26 +524,9 @@ function Builder({ view, onReload }: { view: EstimateViewJson; onReload: () => v
           <button type="button" className="btn-secondary py-1" onClick={addLabour}>
             + Labour line
           </button>
-          <div>
-            <label htmlFor="est-new-part" className="field-label text-xs">
-              Part to add
-            </label>
-            <select
-              id="est-new-part"
-              className="field-input mt-0 py-1 text-sm"
-              value={newPart}
-              onChange={(e) => setNewPart(e.target.value)}
-            >
-              {partCodes.map((p) => (
-                <option key={p} value={p}>
-                  {policy.parts.catalogue[p].title}
-                </option>
-              ))}
-              <option value="other">Other part (own cost)</option>
-            </select>
-          </div>
-          <button type="button" className="btn-secondary py-1" onClick={addPart}>
-            + Part
+          <PartSearch currency={policy.currency} onPick={appendPart} />
+          <button type="button" className="btn-secondary py-1" onClick={() => appendPart(null)}>
+            + Part of its own (own cost)
           </button>
           <button
             type="button"

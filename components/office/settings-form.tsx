@@ -13,7 +13,6 @@ import type { SettingsSnapshot } from "@/lib/server/services/settings";
 import { coveredWording, exclusionWording, settingsFormSchema, type SettingsFormValues } from "@/lib/validation/office";
 import { coveredWordingKeys, exclusionCodes } from "@/lib/engine/warranty/exclusions";
 import { leakageCeilings } from "@/lib/engine/verdicts/tolerances";
-import { defaultPartsCatalogue, type PartCode } from "@/lib/engine/pricing/parts";
 import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatWhen } from "./format";
 import { BAND_KIND_LABEL, CATEGORY_LABEL, RULE_LABEL } from "./labels";
@@ -418,7 +417,7 @@ export function SettingsForm({ initial, timeZones }: { initial: SettingsSnapshot
       <Section
         id="s-parts"
         title="Parts and markup"
-        intro={`What each part costs the shop (in ${currency}) and the markup on it. Leave a part's markup blank to use the default. Costs are never shown to set owners.`}
+        intro="The markup on a part that has none of its own. Costs and markups are never shown to set owners."
       >
         <TextField
           name="parts.defaultMarkupPercent"
@@ -429,94 +428,12 @@ export function SettingsForm({ initial, timeZones }: { initial: SettingsSnapshot
           errors={errors}
           className="max-w-xs"
         />
-        <div className="overflow-x-auto">
-          <table className="dense-table">
-            <thead>
-              <tr>
-                <th scope="col">Part</th>
-                <th scope="col">Name on the estimate</th>
-                <th scope="col">Cost ({currency})</th>
-                <th scope="col">Markup (%)</th>
-              </tr>
-            </thead>
-            <tbody>
-              {initial.values.parts.catalogue.map((p, i) => {
-                const base = `parts.catalogue.${i}` as const;
-                const ids = {
-                  title: `f-parts-catalogue-${i}-title`,
-                  cost: `f-parts-catalogue-${i}-cost`,
-                  markup: `f-parts-catalogue-${i}-markupPercent`,
-                };
-                const e = {
-                  title: errorAt(errors, `${base}.title`),
-                  cost: errorAt(errors, `${base}.cost`),
-                  markup: errorAt(errors, `${base}.markupPercent`),
-                };
-                return (
-                  <tr key={p.code}>
-                    <th scope="row" className="bg-transparent font-normal">
-                      {defaultPartsCatalogue[p.code as PartCode]?.title ?? "Part"}
-                    </th>
-                    <td>
-                      <label htmlFor={ids.title} className="sr-only">
-                        Name printed for {defaultPartsCatalogue[p.code as PartCode]?.title ?? "this part"}
-                      </label>
-                      <input
-                        id={ids.title}
-                        className="w-full min-w-56 rounded-card border border-bakelite-muted bg-white px-2 py-1"
-                        aria-invalid={!!e.title}
-                        aria-describedby={e.title ? `${ids.title}-error` : undefined}
-                        {...register(`${base}.title`)}
-                      />
-                      {e.title ? (
-                        <p id={`${ids.title}-error`} className="field-error" role="alert">
-                          {e.title}
-                        </p>
-                      ) : null}
-                    </td>
-                    <td>
-                      <label htmlFor={ids.cost} className="sr-only">
-                        Cost of {p.title}
-                      </label>
-                      <input
-                        id={ids.cost}
-                        inputMode="decimal"
-                        className="figure w-24 rounded-card border border-bakelite-muted bg-white px-2 py-1 text-right"
-                        aria-invalid={!!e.cost}
-                        aria-describedby={e.cost ? `${ids.cost}-error` : undefined}
-                        {...register(`${base}.cost`)}
-                      />
-                      {e.cost ? (
-                        <p id={`${ids.cost}-error`} className="field-error" role="alert">
-                          {e.cost}
-                        </p>
-                      ) : null}
-                    </td>
-                    <td>
-                      <label htmlFor={ids.markup} className="sr-only">
-                        Markup on {p.title}, blank for the default
-                      </label>
-                      <input
-                        id={ids.markup}
-                        inputMode="decimal"
-                        placeholder="default"
-                        className="figure w-24 rounded-card border border-bakelite-muted bg-white px-2 py-1 text-right"
-                        aria-invalid={!!e.markup}
-                        aria-describedby={e.markup ? `${ids.markup}-error` : undefined}
-                        {...register(`${base}.markupPercent`)}
-                      />
-                      {e.markup ? (
-                        <p id={`${ids.markup}-error`} className="field-error" role="alert">
-                          {e.markup}
-                        </p>
-                      ) : null}
-                    </td>
-                  </tr>
-                );
-              })}
-            </tbody>
-          </table>
-        </div>
+        <p className="text-sm">
+          <a href="/office/parts" className="underline">
+            The parts catalogue
+          </a>{" "}
+          keeps each part&apos;s name, cost and any markup of its own.
+        </p>
       </Section>
 
       <Section

@@ -2,6 +2,7 @@ import { index, integer, jsonb, pgTable, text, timestamp, unique, uuid } from "d
 import { user } from "./auth";
 import { decisionMedium, lineCategory, revisionStatus } from "./enums";
 import { jobs } from "./jobs";
+import { parts } from "./parts";
 
 // The working estimate of a job; `version` guards concurrent edits (409 on a stale save).
 export const estimates = pgTable("estimate", {
@@ -71,6 +72,8 @@ export const estimateLines = pgTable(
     // Parts: cost is staff-only; the customer sees the price.
     partCostMinor: integer("part_cost_minor"),
     markupBp: integer("markup_bp"),
+    // The catalogue part a part line was priced from, when it came from the catalogue (stock, history).
+    partId: uuid("part_id").references(() => parts.id),
     labourMinor: integer("labour_minor").notNull().default(0),
     partsMinor: integer("parts_minor").notNull().default(0),
     coveredByWarranty: integer("covered_by_warranty").notNull().default(0),

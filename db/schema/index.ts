@@ -13,3 +13,4 @@ export * from "./performance";
 export * from "./notifications";
 export * from "./uploads";
 export * from "./addresses";
+export * from "./parts";

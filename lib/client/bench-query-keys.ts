@@ -10,6 +10,7 @@ export const benchKeys = {
   estimate: (jobId: string) => [...benchKeys.all, "estimate", jobId] as const,
   sheet: (jobId: string) => [...benchKeys.all, "sheet", jobId] as const,
   messages: (jobId: string) => [...benchKeys.all, "messages", jobId] as const,
+  partSearch: (q: string) => [...benchKeys.all, "parts", q] as const,
   alignment: (input: unknown) => [...benchKeys.all, "alignment", input] as const,
   customers: (q: string) => [...benchKeys.all, "customers", q] as const,
 };

@@ -5,4 +5,6 @@ export const officeKeys = {
   payments: () => [...officeKeys.all, "payments"] as const,
   payment: (paymentId: string) => [...officeKeys.payments(), paymentId] as const,
   instruments: () => [...officeKeys.all, "instruments"] as const,
+  parts: (q: string, show: string) => [...officeKeys.all, "parts", q, show] as const,
+  allParts: () => [...officeKeys.all, "parts"] as const,
 };

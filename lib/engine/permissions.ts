@@ -35,6 +35,8 @@ export const PERMISSIONS = {
   "settings.edit": ["owner"],
   // The instrument register is shop settings: whoever may edit those keeps it. The bench reads it on the sheet.
   "instrument.manage": ["owner"],
+  // The parts catalogue is the shop's prices: the owner keeps it; the bench searches it from the estimate.
+  "parts.manage": ["owner"],
   "staff.manage": ["owner"],
   "payment.refund": ["owner"],
   "email.resend": ["owner"],

@@ -1,6 +1,5 @@
 import { z } from "zod";
 import { ruleCodeSchema, defaultMinutesPerRule } from "./checklist/rules";
-import { defaultPartsCatalogue, partCodeSchema } from "./pricing/parts";
 import { billingRoundings } from "./pricing/billing-rounding";
 import { defaultTolerances, toleranceSettingsSchema } from "./verdicts/tolerances";
 import { coveredWordingKeySchema, exclusionCodeSchema, exclusionCodes } from "./warranty/exclusions";
@@ -27,13 +26,8 @@ export const shopPolicySchema = z.object({
   billingRounding: z.enum(billingRoundings),
   /** Standard minutes per unit for each checklist rule. */
   minutesPerRule: z.record(ruleCodeSchema, z.number().int().min(0).max(6000)),
-  parts: z.object({
-    defaultMarkupBp: basisPoints,
-    catalogue: z.record(
-      partCodeSchema,
-      z.object({ title: z.string().min(1).max(120), costMinor: minor, markupBp: basisPoints.optional() }),
-    ),
-  }),
+  /** The markup of a part with none of its own. The catalogue itself is the shop's part table. */
+  parts: z.object({ defaultMarkupBp: basisPoints }),
   tax: z.object({ labourBp: z.number().int().min(0).max(10_000), partsBp: z.number().int().min(0).max(10_000) }),
   deposit: z.object({
     percentBp: z.number().int().min(0).max(10_000),
@@ -58,7 +52,7 @@ export const defaultShopPolicy: ShopPolicy = {
   billingIncrementMinutes: 15,
   billingRounding: "job",
   minutesPerRule: { ...defaultMinutesPerRule },
-  parts: { defaultMarkupBp: 3500, catalogue: structuredClone(defaultPartsCatalogue) },
+  parts: { defaultMarkupBp: 3500 },
   tax: { labourBp: 0, partsBp: 800 },
   deposit: { percentBp: 3000, atLeastParts: true, processorMinimumMinor: 50 },
   warranty: {

@@ -44,6 +44,8 @@ export const draftLineSchema = z
     unitCost: z.string().trim().max(12),
     markupPercent: z.string().trim().max(8),
     covered: z.boolean(),
+    /** A part line priced from the shop's catalogue names its part (stock, history); a part of its own has none. */
+    partId: z.uuid("Part: choose a part from the catalogue.").optional(),
   })
   .superRefine((line, ctx) => {
     if (line.kind !== "part") return;
@@ -130,11 +132,9 @@ export function markupBpOf(line: DraftLine): number | undefined {
   return Math.round(Number(line.markupPercent) * 100);
 }
 
+/** The line's own markup, else the shop's default (the builder fills in a catalogue part's own markup). */
 export function effectiveMarkupBp(line: DraftLine, policy: ShopPolicy): number {
-  const own = markupBpOf(line);
-  if (own !== undefined) return own;
-  const known = partCodeSchema.safeParse(partCodeOf(line));
-  return (known.success ? policy.parts.catalogue[known.data]?.markupBp : undefined) ?? policy.parts.defaultMarkupBp;
+  return markupBpOf(line) ?? policy.parts.defaultMarkupBp;
 }
 
 export function partCodeOf(line: DraftLine): string {

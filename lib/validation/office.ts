@@ -4,7 +4,6 @@ import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
 import { billingRoundings } from "@/lib/engine/pricing/billing-rounding";
 import { canonicalTimeZone } from "@/lib/engine/dates";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
-import { partCodes, partCodeSchema } from "@/lib/engine/pricing/parts";
 import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
 import { toleranceSettingsSchema } from "@/lib/engine/verdicts/tolerances";
 import {
@@ -156,20 +155,7 @@ export const settingsFormSchema = z
     billingIncrementMinutes: wholeNumber("Billing increment", 1, 240),
     billingRounding: z.enum(billingRoundings, { error: "Labour rounding: choose whether labour is rounded once per job or on each line." }),
     minutesPerRule: z.array(z.object({ code: ruleCodeSchema, minutes: wholeNumber("Minutes", 0, 6000) })),
-    parts: z.object({
-      defaultMarkupPercent: percentText("Default markup"),
-      catalogue: z.array(
-        z.object({
-          code: partCodeSchema,
-          title: z.string().trim().min(1, "Part name: give the part a name.").max(120, "Part name: keep it under 120 characters."),
-          cost: moneyText("Cost"),
-          /** Blank: the default markup applies. */
-          markupPercent: z.union([z.literal(""), percentText("Markup")], {
-            error: "Markup: write a percentage of 0 or more such as 35, or leave it empty for the default.",
-          }),
-        }),
-      ),
-    }),
+    parts: z.object({ defaultMarkupPercent: percentText("Default markup") }),
     tax: z.object({ labourPercent: percentText("Labour tax"), partsPercent: percentText("Parts tax") }),
     deposit: z.object({ percent: percentText("Deposit"), atLeastParts: z.boolean(), processorMinimum: moneyText("Processor minimum") }),
     warranty: z.object({
@@ -206,10 +192,6 @@ export const settingsFormSchema = z
     };
     money(v.labourRate, ["labourRate"], "Labour rate");
     money(v.deposit.processorMinimum, ["deposit", "processorMinimum"], "Processor minimum");
-    v.parts.catalogue.forEach((p, i) => {
-      money(p.cost, ["parts", "catalogue", i, "cost"], "Cost");
-      if (p.markupPercent) percent(p.markupPercent, ["parts", "catalogue", i, "markupPercent"], "Markup", 1000);
-    });
     percent(v.parts.defaultMarkupPercent, ["parts", "defaultMarkupPercent"], "Default markup", 1000);
     percent(v.tax.labourPercent, ["tax", "labourPercent"], "Labour tax", 100);
     percent(v.tax.partsPercent, ["tax", "partsPercent"], "Parts tax", 100);
@@ -218,10 +200,6 @@ export const settingsFormSchema = z
     const seenRules = new Set(v.minutesPerRule.map((r) => r.code));
     if (seenRules.size !== v.minutesPerRule.length || ruleCodes.some((c) => !seenRules.has(c))) {
       ctx.addIssue({ code: "custom", path: ["minutesPerRule"], message: "Every checklist rule needs its minutes, once." });
-    }
-    const seenParts = new Set(v.parts.catalogue.map((p) => p.code));
-    if (seenParts.size !== v.parts.catalogue.length || partCodes.some((c) => !seenParts.has(c))) {
-      ctx.addIssue({ code: "custom", path: ["parts", "catalogue"], message: "Every catalogue part needs its price, once." });
     }
     if (new Set(v.warranty.coveredKeys).size !== v.warranty.coveredKeys.length) {
       ctx.addIssue({ code: "custom", path: ["warranty", "coveredKeys"], message: "Each covered item once." });
@@ -296,18 +274,7 @@ export function settingsToForm(shop: {
     billingIncrementMinutes: p.billingIncrementMinutes,
     billingRounding: p.billingRounding,
     minutesPerRule: ruleCodes.map((code) => ({ code, minutes: p.minutesPerRule[code] ?? 0 })),
-    parts: {
-      defaultMarkupPercent: pct(p.parts.defaultMarkupBp),
-      catalogue: partCodes.map((code) => {
-        const e = p.parts.catalogue[code];
-        return {
-          code,
-          title: e?.title ?? code,
-          cost: formatMinor(e?.costMinor ?? 0, exp),
-          markupPercent: e?.markupBp === undefined ? "" : pct(e.markupBp),
-        };
-      }),
-    },
+    parts: { defaultMarkupPercent: pct(p.parts.defaultMarkupBp) },
     tax: { labourPercent: pct(p.tax.labourBp), partsPercent: pct(p.tax.partsBp) },
     deposit: {
       percent: pct(p.deposit.percentBp),
@@ -335,19 +302,7 @@ export function settingsFromForm(v: SettingsFormValues): { identity: ShopIdentit
     billingIncrementMinutes: v.billingIncrementMinutes,
     billingRounding: v.billingRounding,
     minutesPerRule: Object.fromEntries(v.minutesPerRule.map((r) => [r.code, r.minutes])) as ShopPolicy["minutesPerRule"],
-    parts: {
-      defaultMarkupBp: bpOf(v.parts.defaultMarkupPercent, "parts.defaultMarkupPercent"),
-      catalogue: Object.fromEntries(
-        v.parts.catalogue.map((p, i) => [
-          p.code,
-          {
-            title: p.title.trim(),
-            costMinor: toMinor(p.cost, exp, `parts.catalogue.${i}.cost`),
-            ...(p.markupPercent ? { markupBp: bpOf(p.markupPercent, `parts.catalogue.${i}.markupPercent`) } : {}),
-          },
-        ]),
-      ) as ShopPolicy["parts"]["catalogue"],
-    },
+    parts: { defaultMarkupBp: bpOf(v.parts.defaultMarkupPercent, "parts.defaultMarkupPercent") },
     tax: { labourBp: bpOf(v.tax.labourPercent, "tax.labourPercent"), partsBp: bpOf(v.tax.partsPercent, "tax.partsPercent") },
     deposit: {
       percentBp: bpOf(v.deposit.percent, "deposit.percent"),

@@ -25,6 +25,8 @@ import type { DraftLine } from "@/lib/validation/estimate";
 import { instrumentKindsFor, type InstrumentKind, type ReadingPhase } from "@/lib/engine/instruments";
 import type { ReadingRequirement } from "@/lib/engine/verdicts";
 import { seedDemoInstruments } from "./instruments";
+import { seedDemoParts } from "./parts";
+import { checklistCatalogue } from "@/lib/server/services/parts";
 
 const TOMAS = "demo-tech-tomas";
 const PRIYA = "demo-tech-priya";
@@ -448,7 +450,12 @@ async function advance(ctx: TxContext, job: DemoJob & { id: string }, byKind: In
   const shop = await getShop(ctx.tx);
   const profile = setProfileSchema.parse(job.profile);
   const [est] = await ctx.tx.select({ version: estimates.version }).from(estimates).where(eq(estimates.jobId, job.id)).limit(1);
-  await saveDraft(ctx, { jobId: job.id, actorId: tech, version: est?.version ?? 0, lines: buildDraft(profile, shop.policy) });
+  await saveDraft(ctx, {
+    jobId: job.id,
+    actorId: tech,
+    version: est?.version ?? 0,
+    lines: buildDraft(profile, shop.policy, await checklistCatalogue(ctx.tx)),
+  });
   const { revisionId } = await sendRevision(ctx, { jobId: job.id, actorId: tech });
   if (t === "estimate_sent") return;
   if (t === "declined_by_owner") {
@@ -576,6 +583,8 @@ export async function backdate(ctx: TxContext, jobId: string, daysAgo: number) {
 export async function seedDemoJobs(ctx: TxContext): Promise<number> {
   let created = 0;
   const { byKind } = await seedDemoInstruments(ctx);
+  // Before the jobs: their approved estimates take counted parts from stock.
+  await seedDemoParts(ctx);
   for (const demo of DEMO_JOBS) {
     const [existing] = await ctx.tx
       .select({ id: jobs.id })

@@ -399,12 +399,10 @@ describe("stored text is shown literally", () => {
     try {
       const v = structuredClone(current.values) as {
         identity: { name: string; addressText: string };
-        parts: { catalogue: { title: string }[] };
         warrantyTerms: { whoIsCovered: string; shopWording: string };
       } & Record<string, unknown>;
       v.identity.name = P.shopName;
       v.identity.addressText = `${P.address}\nPort Alder`;
-      v.parts.catalogue[0]!.title = P.catalogueTitle;
       v.warrantyTerms.whoIsCovered = P.terms;
       v.warrantyTerms.shopWording = P.terms;
       await ok(
@@ -413,7 +411,18 @@ describe("stored text is shown literally", () => {
       );
 
       const office = await newPage(DEMO.owner);
-      await expectLiteral(office, "/office/settings", ["shopName", "address", "catalogueTitle", "terms"], "office-settings");
+      await expectLiteral(office, "/office/settings", ["shopName", "address", "terms"], "office-settings");
+      // A part's name is the shop's text too: the parts page prints it as typed.
+      const [yCap] = await sql<{ id: string; name: string }>("select id, name from part where code = 'cap.y2'");
+      await ok(
+        await state.owner.request(`/api/office/parts/${yCap!.id}`, { method: "PATCH", json: { name: P.catalogueTitle } }),
+        "rename a part",
+      );
+      try {
+        await expectLiteral(office, "/office/parts", ["catalogueTitle"], "office-parts");
+      } finally {
+        await sql("update part set name = $2 where id = $1", [yCap!.id, yCap!.name]);
+      }
 
       // Issued while these settings are in force: the certificate keeps the shop's words as signed.
       const cert = await createCertificate({ customerId: state.customerId, maker: P.maker, model: P.model, serial: "AU-52-7301" });

@@ -5,6 +5,7 @@ import type { SetProfile } from "@/lib/engine/checklist/profile";
 import { getBoss } from "@/lib/server/queue";
 import { issueCertificate } from "@/lib/server/services/certificates";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { defaultPartsCatalogue } from "@/lib/engine/pricing/parts";
 import { judgeReading, listRequiredReadings } from "@/lib/engine/verdicts";
 import { sql } from "../support/db";
 import { aurelianTableSet, haldaneConsole } from "../unit/support/demo-sets";
@@ -80,7 +81,7 @@ export async function createReturnedJob({
       [rev!.id, position++, l.code, l.title, l.category, l.minutes, l.quantity, l.reason],
     );
     for (const p of l.parts) {
-      const entry = defaultShopPolicy.parts.catalogue[p.code];
+      const entry = defaultPartsCatalogue[p.code];
       partCodes.push(p.code);
       await sql(
         "insert into estimate_line (revision_id, position, code, title, category, minutes, quantity, reason, part_cost_minor, markup_bp, parts_minor) values ($1, $2, $3, $4, 'parts', 0, $5, $6, $7, 3500, 900)",

@@ -110,6 +110,7 @@ async function ownRows(): Promise<OwnRows> {
     instrumentAny: await fuzzInstrument(shared.jobId),
     addressA: await storeAddress(customer.id),
     addressSparesA: [],
+    partAny: "00000000-0000-4000-8000-000000000000",
   };
   for (const entry of ROUTES) {
     const k = key(entry);

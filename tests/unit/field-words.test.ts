@@ -6,6 +6,7 @@ import { claimFormSchema, decideClaimSchema } from "@/lib/validation/claims";
 import { draftSchema } from "@/lib/validation/estimate";
 import { refundFormSchema, settingsFormSchema, settingsToForm } from "@/lib/validation/office";
 import { intakeSchema, recordDecisionSchema } from "@/lib/validation/intake";
+import { partFormSchema } from "@/lib/validation/parts";
 import { quoteRequestSchema } from "@/lib/validation/quote";
 import { aurelianTableSet } from "./support/demo-sets";
 
@@ -158,6 +159,11 @@ const SCHEMAS: [string, z.ZodType, unknown][] = [
     "a decision recorded for the owner",
     recordDecisionSchema,
     { revisionId: "0b9c1f4e-8d2a-4c3b-9e7f-1a2b3c4d5e6f", decision: "approve", medium: "phone", note: "Agreed by phone." },
+  ],
+  [
+    "a catalogue part",
+    partFormSchema,
+    { name: "Pilot lamp 6.3 V", supplierRef: "TW-PL-063", cost: "0.90", markupPercent: "50", stock: "12" },
   ],
 ];
 

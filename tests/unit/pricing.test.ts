@@ -15,6 +15,7 @@ import {
   toMinor,
   type EstimateLineInput,
 } from "@/lib/engine/pricing";
+import { defaultPartsCatalogue, partUnitPriceMinor } from "@/lib/engine/pricing/parts";
 import { defaultShopPolicy, MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
 
 const policy = defaultShopPolicy;
@@ -106,7 +107,7 @@ describe("priceEstimate", () => {
   ];
 
   test("labour is rounded up once on the job: 50 minutes listed are billed as 60 at 90.00/h = 90.00 (worked by hand)", () => {
-    const e = priceEstimate(lines, policy);
+    const e = priceEstimate(lines, policy, defaultPartsCatalogue);
     expect(e.totals.workedMinutes).toBe(50);
     expect(e.totals.billedMinutes).toBe(60);
     expect(e.totals.labourMinor).toBe(9000);
@@ -115,8 +116,25 @@ describe("priceEstimate", () => {
     expect(e.totals.roundingLabourMinor).toBe(1500);
   });
 
+  test("a part at 4.50 with 35 % markup sells at 6.08: 4.50 × 1.35 = 6.075, and the half cent rounds up (worked by hand)", () => {
+    // Worked by hand: 450 × 13500 / 10000 = 607.5 minor units; half up (the one rounding rule) gives 608.
+    expect(partUnitPriceMinor(450, 3500)).toBe(608);
+    // Half-even rounding (banker's) would give 608 too (7 is odd → 8), so check one that tells them apart:
+    // 1.50 at 35 % = 2.025 → half up 2.03 (half even would give 2.02).
+    expect(partUnitPriceMinor(150, 3500)).toBe(203);
+    // A cost of 0.40 at 12.5 %: 0.45 exactly, nothing to round (worked by hand).
+    expect(partUnitPriceMinor(40, 1250)).toBe(45);
+    // JPY has no minor digits: 450 yen at 35 % = 607.5 yen → 608 yen.
+    expect(partUnitPriceMinor(toMinor("450", 0), 3500)).toBe(608);
+    expect(() => partUnitPriceMinor(-1, 3500)).toThrow(EngineError);
+  });
+
+  test("a part with no cost given and no catalogue entry is refused, naming the field", () => {
+    expect(() => priceEstimate(lines, policy)).toThrow(/not in the catalogue/);
+  });
+
   test("parts carry markup; catalogue and custom parts", () => {
-    const e = priceEstimate(lines, policy);
+    const e = priceEstimate(lines, policy, defaultPartsCatalogue);
     // 450 × 1.35 = 607.5 → 608 per capacitor
     expect(e.lines[0].parts[0].unitPriceMinor).toBe(608);
     expect(e.lines[0].partsMinor).toBe(1824);
@@ -125,7 +143,7 @@ describe("priceEstimate", () => {
 
   test("separate tax rates for labour and parts: 5 % of 90.00 and 8.25 % of 28.24 (worked by hand)", () => {
     const taxed: ShopPolicy = { ...policy, tax: { labourBp: 500, partsBp: 825 } };
-    const e = priceEstimate(lines, taxed);
+    const e = priceEstimate(lines, taxed, defaultPartsCatalogue);
     expect(e.totals.partsMinor).toBe(2824); // 3 × 6.08 + 10.00
     expect(e.totals.labourTaxMinor).toBe(450); // 5 % of 90.00
     expect(e.totals.partsTaxMinor).toBe(233); // 8.25 % of 28.24 = 2.3298 → 2.33
@@ -143,6 +161,7 @@ describe("priceEstimate", () => {
     const e = priceEstimate(
       lines.map((l) => ({ ...l, covered: true })),
       policy,
+      defaultPartsCatalogue,
     );
     expect(e.totals.totalMinor).toBe(0);
     expect(e.totals.depositMinor).toBe(0);

@@ -2,6 +2,7 @@ import fc from "fast-check";
 import { describe, expect, test } from "vitest";
 import { EngineError } from "@/lib/engine/engine-error";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { defaultPartsCatalogue } from "@/lib/engine/pricing/parts";
 import {
   alignmentRequestSchema,
   parseAlignmentRequest,
@@ -177,7 +178,7 @@ describe("alignment calculator request", () => {
 
 describe("estimate request", () => {
   test("contract: lines and totals", () => {
-    const r = runEstimateTool(estimateRequestSchema.parse({ profile: aurelianTableSet }), defaultShopPolicy);
+    const r = runEstimateTool(estimateRequestSchema.parse({ profile: aurelianTableSet }), defaultShopPolicy, defaultPartsCatalogue);
     expect(r.lines[0]).toEqual(
       expect.objectContaining({
         code: "inspect.intake",
@@ -251,7 +252,7 @@ describe("estimate request", () => {
           expect(parsed.success).toBe(true);
           if (!parsed.success) return;
           try {
-            const r = runEstimateTool(parsed.data, defaultShopPolicy);
+            const r = runEstimateTool(parsed.data, defaultShopPolicy, defaultPartsCatalogue);
             expect(allNumbersFinite(r)).toBe(true);
             expect(r.totals.depositMinor + r.totals.balanceMinor).toBe(r.totals.totalMinor);
           } catch (e) {

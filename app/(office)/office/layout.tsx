@@ -9,6 +9,7 @@ const OFFICE_NAV = [
   { href: "/office/settings", label: "Rates & policy" },
   { href: "/office/staff", label: "Staff" },
   { href: "/office/instruments", label: "Instruments" },
+  { href: "/office/parts", label: "Parts" },
   { href: "/office/payments", label: "Payments" },
   { href: "/office/certificates", label: "Certificates" },
   { href: "/office/audit", label: "Audit log" },

@@ -3,7 +3,7 @@ import type { ShopPolicy } from "../shop-policy";
 import { computeDeposit } from "./deposit";
 import { applyBasisPoints, checkAmount, roundHalfUpDiv } from "./money";
 import type { BillingRounding } from "./billing-rounding";
-import { partCodeSchema, type PartCode } from "./parts";
+import { partUnitPriceMinor, type PartCode, type PartsCatalogue } from "./parts";
 
 export type EstimatePartInput =
   | { code: PartCode; quantity: number; unitCostMinor?: number; markupBp?: number; title?: string }
@@ -98,10 +98,10 @@ const roundUpTo = (minutes: number, increment: number) => Math.ceil(minutes / in
 /**
  * Prices an estimate. Labour: minutes × quantity at the hourly rate, rounded up to the billing increment
  * once on the job's chargeable total (the default), or on each line when the shop chooses per-line
- * rounding. Parts: catalogue cost (or the line's own) with markup, per unit. Tax: on the labour and parts
+ * rounding. Parts: the line's own cost, else the catalogue's (by checklist part code), with markup, per unit. Tax: on the labour and parts
  * totals separately, at their own rates. Each money division rounds half up, once.
  */
-export function priceEstimate(lines: readonly EstimateLineInput[], policy: ShopPolicy): PricedEstimate {
+export function priceEstimate(lines: readonly EstimateLineInput[], policy: ShopPolicy, catalogue: PartsCatalogue = {}): PricedEstimate {
   const increment = policy.billingIncrementMinutes;
   const perLine = policy.billingRounding === "line";
   const priced = lines.map((line, i): PricedLine => {
@@ -112,8 +112,7 @@ export function priceEstimate(lines: readonly EstimateLineInput[], policy: ShopP
     const billedMinutes = covered ? 0 : perLine ? roundUpTo(workedMinutes, increment) : workedMinutes;
     const parts = (line.parts ?? []).map((part, j): PricedPart => {
       const field = `lines.${i}.parts.${j}`;
-      const known = partCodeSchema.safeParse(part.code);
-      const entry = known.success ? policy.parts.catalogue[known.data] : undefined;
+      const entry = Object.hasOwn(catalogue, part.code) ? catalogue[part.code] : undefined;
       const unitCostMinor = part.unitCostMinor ?? entry?.costMinor;
       if (unitCostMinor === undefined) {
         throw new EngineError("unknown-part", `Part ${part.code} is not in the catalogue; give its cost.`, `${field}.unitCostMinor`);
@@ -121,7 +120,7 @@ export function priceEstimate(lines: readonly EstimateLineInput[], policy: ShopP
       checkAmount(unitCostMinor, `${field}.unitCostMinor`);
       const markupBp = part.markupBp ?? entry?.markupBp ?? policy.parts.defaultMarkupBp;
       const q = wholeNumber(part.quantity, `${field}.quantity`, 1000);
-      const unitPriceMinor = applyBasisPoints(unitCostMinor, 10_000 + markupBp);
+      const unitPriceMinor = partUnitPriceMinor(unitCostMinor, markupBp, `${field}.unitCostMinor`);
       return {
         code: part.code,
         title: part.title ?? entry?.title ?? part.code,

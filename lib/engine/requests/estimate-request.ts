@@ -6,6 +6,7 @@ import type { BillingRounding } from "../pricing/billing-rounding";
 import type { ChecklistCategory } from "../checklist/rules";
 import { setProfileSchema } from "../checklist/profile";
 import { priceEstimate, type PricedPart } from "../pricing/price-estimate";
+import type { PartsCatalogue } from "../pricing/parts";
 import type { ShopPolicy } from "../shop-policy";
 import { listRequiredReadings } from "../verdicts/required-readings";
 import type { ReadingRequirement } from "../verdicts/judge-reading";
@@ -70,10 +71,10 @@ export type EstimateResponse = {
   cautions: Caution[];
 };
 
-/** Set profile → checklist → priced estimate, with the shop policy in force. */
-export function runEstimateTool(input: EstimateRequest, policy: ShopPolicy): EstimateResponse {
+/** Set profile → checklist → priced estimate, with the shop policy and the catalogue's checklist parts in force. */
+export function runEstimateTool(input: EstimateRequest, policy: ShopPolicy, catalogue: PartsCatalogue): EstimateResponse {
   const lines = computeChecklist(input.profile, policy);
-  const priced = priceEstimate(lines, policy);
+  const priced = priceEstimate(lines, policy, catalogue);
   const t = priced.totals;
   return {
     lines: lines.map((line, i) => ({

@@ -12,6 +12,7 @@ import { transitionJob } from "@/lib/server/services/jobs";
 import { notifyStaff } from "@/lib/server/services/notifications";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { moneyText } from "@/lib/validation/estimate";
+import { takeStockForRevision } from "@/lib/server/services/parts";
 
 /**
  * A decision the owner gave in person, by phone or in writing, typed in by staff for them: the revision keeps
@@ -85,6 +86,7 @@ export async function approveRevision(ctx: TxContext, input: DecisionInput) {
     },
   });
   await notifyDecision(ctx, job, revision, "approved", job.state === "bench_revision" ? "The work goes on at the bench." : "");
+  await takeStockForRevision(ctx, { jobId: job.id, revisionId: revision.id, actorId: input.customerId });
   if (job.state === "bench_revision") {
     await syncTasksToRevision(ctx, job.id, revision.id);
     await transitionJob(ctx, {

@@ -7,6 +7,7 @@ import { formatMinor } from "@/lib/engine/pricing/money";
 import { SHOP_CANCELLABLE, STATE_LABEL, type JobState } from "@/lib/engine/jobs/states";
 import { AppError } from "@/lib/server/errors";
 import { transitionJob } from "@/lib/server/services/jobs";
+import { returnStockForJob } from "@/lib/server/services/parts";
 import { requestRefund, type RefundOutcome } from "@/lib/server/services/refunds";
 import { getShop } from "@/lib/server/services/shop";
 
@@ -76,6 +77,7 @@ export async function cancelJobByShop({
     }
     await ctx.tx.insert(messages).values({ jobId, authorId: actorId, body: `The shop has cancelled this job: ${reason}`, internal: false });
     const { after } = await transitionJob(ctx, { jobId, to: "cancelled", actor: "staff", actorId, note: reason });
+    await returnStockForJob(ctx, { jobId, actorId });
     const rows = await ctx.tx
       .select({ id: payments.id, amountMinor: payments.amountMinor, status: payments.status, refundedMinor: payments.refundedMinor })
       .from(payments)

@@ -13,6 +13,8 @@ import { AppError } from "@/lib/server/errors";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { queueEmail } from "@/lib/server/mail";
 import { formatMinor } from "@/lib/engine/pricing/money";
+import { defaultPartsCatalogue, type PartsCatalogue } from "@/lib/engine/pricing/parts";
+import { checklistCatalogue, partsByIds } from "@/lib/server/services/parts";
 import type { PricedEstimate } from "@/lib/engine/pricing/price-estimate";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { getShop } from "@/lib/server/services/shop";
@@ -47,7 +49,15 @@ export function checkProfile(raw: unknown): ProfileCheck {
  * The first draft of an estimate: the computed checklist, each labour line followed by the parts it calls
  * for at catalogue cost and markup. Warranty jobs start with every line covered.
  */
-export function buildDraft(profile: SetProfile, policy: ShopPolicy, { covered = false }: { covered?: boolean } = {}): DraftLine[] {
+export function buildDraft(
+  profile: SetProfile,
+  policy: ShopPolicy,
+  {
+    covered = false,
+    catalogue = {},
+    partIds = {},
+  }: { covered?: boolean; catalogue?: PartsCatalogue; partIds?: Record<string, string> } = {},
+): DraftLine[] {
   const out: DraftLine[] = [];
   const used = new Set<string>();
   const uniqueCode = (base: string) => {
@@ -72,22 +82,25 @@ export function buildDraft(profile: SetProfile, policy: ShopPolicy, { covered = 
       covered,
     });
     for (const part of line.parts) {
-      const entry = policy.parts.catalogue[part.code];
-      const markupBp = entry.markupBp ?? policy.parts.defaultMarkupBp;
+      // A part retired from the catalogue comes without a cost: the builder asks for one.
+      const entry = Object.hasOwn(catalogue, part.code) ? catalogue[part.code] : undefined;
+      const markupBp = entry?.markupBp ?? policy.parts.defaultMarkupBp;
       const code = uniqueCode(`part.${part.code}`);
+      const partId = Object.hasOwn(partIds, part.code) ? partIds[part.code] : undefined;
       out.push({
         key: `${line.code}:${part.code}`,
         kind: "part",
         code,
-        title: entry.title,
+        title: entry?.title ?? defaultPartsCatalogue[part.code].title,
         category: "parts",
         minutes: 0,
         quantity: part.quantity,
         reason: `For: ${line.title}`,
         readings: [],
-        unitCost: formatMinor(entry.costMinor, policy.currency.exponent),
+        unitCost: entry ? formatMinor(entry.costMinor, policy.currency.exponent) : "",
         markupPercent: String(markupBp / 100),
         covered,
+        ...(entry && partId ? { partId } : {}),
       });
     }
   }
@@ -137,6 +150,8 @@ export type EstimateView = {
   /** The policy the builder prices with, so its live totals are the engine's own. */
   policy: ShopPolicy;
   isWarranty: boolean;
+  /** The catalogue parts the lines name: stock count (null when not counted), and whether since retired. */
+  partsInStock: Record<string, { name: string; stock: number | null; retired: boolean }>;
   editable: boolean;
   sendable: boolean;
   revisions: Awaited<ReturnType<typeof listRevisionsForStaff>>;
@@ -150,7 +165,7 @@ export async function getEstimateView({ jobId }: { jobId: string }): Promise<Est
   const profile = checkProfile(set.profile);
   let lines: DraftLine[] = [];
   if (saved) lines = storedDraft(saved.estimate.draft);
-  else if (profile.ok) lines = buildDraft(profile.profile, shop.policy, { covered: job.isWarranty });
+  else if (profile.ok) lines = buildDraft(profile.profile, shop.policy, { covered: job.isWarranty, ...(await checklistCatalogue()) });
   let priced: PricedEstimate | null = null;
   let pricingError: EstimateView["pricingError"] = null;
   try {
@@ -177,6 +192,7 @@ export async function getEstimateView({ jobId }: { jobId: string }): Promise<Est
     currency: { code: shop.policy.currency.code, exponent: shop.policy.currency.exponent },
     policy: shop.policy,
     isWarranty: job.isWarranty,
+    partsInStock: await partsByIds([...new Set(lines.flatMap((l) => (l.partId ? [l.partId] : [])))]),
     editable: EDITABLE_STATES.includes(job.state),
     sendable: SENDABLE_STATES.includes(job.state),
     revisions: await listRevisionsForStaff({ jobId }),
@@ -256,7 +272,7 @@ export async function rebuildDraft(ctx: TxContext, { jobId, actorId, version }: 
   if (!profile.ok)
     throw new AppError("invalid_input", "The set profile needs attention before the checklist can be computed.", profile.fields);
   const shop = await getShop(ctx.tx);
-  const lines = buildDraft(profile.profile, shop.policy, { covered: job.isWarranty });
+  const lines = buildDraft(profile.profile, shop.policy, { covered: job.isWarranty, ...(await checklistCatalogue(ctx.tx)) });
   return saveDraft(ctx, { jobId, actorId, version, lines });
 }
 
@@ -364,6 +380,7 @@ export async function sendRevision(ctx: TxContext, input: SendRevisionInput) {
         readings: line.readings,
         partCostMinor: line.kind === "part" && part ? part.unitCostMinor : null,
         markupBp: line.kind === "part" ? effectiveMarkupBp(line, policy) : null,
+        partId: line.kind === "part" ? (line.partId ?? null) : null,
         labourMinor: p.labourMinor,
         partsMinor: p.partsMinor,
         coveredByWarranty: line.covered ? 1 : 0,

@@ -12,6 +12,7 @@ import { formatDateTime } from "@/lib/engine/dates";
 import { currencyChangeRefusal } from "@/lib/engine/pricing/currency-change";
 import { AppError } from "@/lib/server/errors";
 import { getShop } from "@/lib/server/services/shop";
+import { countCatalogueParts } from "@/lib/server/services/parts";
 import { settingsFromForm, settingsToForm, type SettingsFormValues } from "@/lib/validation/office";
 
 export type SettingsSnapshot = {
@@ -75,7 +76,7 @@ export async function saveSettings({ values, actorId }: { values: SettingsFormVa
     if (!current) throw new AppError("not_found", "The shop settings row is missing; run the seed first.");
     const stored = await getShop(ctx.tx);
     const refusal = currencyChangeRefusal(stored.policy.currency, converted.policy.currency, {
-      catalogueParts: Object.keys(stored.policy.parts.catalogue).length,
+      catalogueParts: await countCatalogueParts(ctx.tx),
       openEstimates: await countOpenEstimatesForOwner({ tx: ctx.tx }),
     });
     if (refusal) throw new AppError("conflict", refusal, { "currency.code": refusal });

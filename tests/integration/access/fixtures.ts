@@ -81,6 +81,8 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
   );
   const addressA = await storeAddress("demo-cust-mira");
   const addressSparesA = await Promise.all(Array.from({ length: 12 }, () => storeAddress("demo-cust-mira")));
+  // A part the checklist calls for: never deleted, so a DELETE that gets through answers 409.
+  const { id: partAny } = await one<{ id: string }>("select id from part where code = 'fuse' limit 1");
   return {
     addressA,
     addressSparesA,
@@ -95,6 +97,7 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     refundAny,
     emailAny,
     instrumentAny,
+    partAny,
   };
 }
 

@@ -28,6 +28,7 @@ export type Fixtures = {
   addressA: string;
   /** More of customer A's addresses, one taken by each removal probe (a removed address is gone). */
   addressSparesA: string[];
+  partAny: string;
 };
 
 export type RouteEntry = {
@@ -259,6 +260,7 @@ export const ROUTES: RouteEntry[] = [
   },
 
   { method: "GET", route: "/api/bench/queue", action: "bench.use", rules: staff(), query: "?page=1" },
+  { method: "GET", route: "/api/bench/parts", action: "estimate.edit", rules: staff(), query: "?q=cap" },
   { method: "GET", route: "/api/bench/staff", action: "bench.use", rules: staff() },
   // Counter and phone intake: staff only; an empty body gets past authorization and is refused as bad input.
   { method: "POST", route: "/api/bench/intake", action: "job.intake", rules: staff(), body: () => ({}) },
@@ -425,6 +427,23 @@ export const ROUTES: RouteEntry[] = [
     rules: ownerOnly,
     params: (f) => ({ id: f.instrumentAny }),
   },
+  { method: "GET", route: "/api/office/parts", action: "parts.manage", rules: ownerOnly },
+  { method: "POST", route: "/api/office/parts", action: "parts.manage", rules: ownerOnly, body: () => ({}) },
+  {
+    method: "PATCH",
+    route: "/api/office/parts/[id]",
+    action: "parts.manage",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.partAny }),
+    body: () => ({}),
+  },
+  {
+    method: "DELETE",
+    route: "/api/office/parts/[id]",
+    action: "parts.manage",
+    rules: ownerOnly,
+    params: (f) => ({ id: f.partAny }),
+  },
   {
     method: "POST",
     route: "/api/office/emails/[emailId]/resend",
@@ -485,6 +504,7 @@ export const PAGES: PageEntry[] = [
   { route: "/office/settings", rules: ownerOnly },
   { route: "/office/staff", rules: ownerOnly },
   { route: "/office/instruments", rules: ownerOnly },
+  { route: "/office/parts", rules: ownerOnly },
 ];
 /** Pages that exist only in the local-demo mode. */
 export const LOCAL_DEMO_PAGES = new Set(["/mailbox"]);
