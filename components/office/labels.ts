@@ -46,6 +46,7 @@ export const PAYMENT_STATUS_LABEL = {
   failed: { text: "Failed", icon: "✕" },
   expired: { text: "Expired", icon: "⌛" },
   duplicate: { text: "Duplicate charge — owed back", icon: "⧉" },
+  voided: { text: "Voided — entered by mistake", icon: "⊘" },
 } as const;
 
 export const REFUND_STATUS_LABEL = {
