@@ -49,6 +49,8 @@ export const PAYMENT_STATUS_LABEL = {
   voided: { text: "Voided — entered by mistake", icon: "⊘" },
 } as const;
 
+export const METHOD_LABEL = { card: "Card (online)", cash: "Cash", cheque: "Cheque" } as const;
+
 export const REFUND_STATUS_LABEL = {
   requested: { text: "Waiting for the processor", icon: "◔" },
   pending: { text: "Pending — outcome not known yet", icon: "⧗" },

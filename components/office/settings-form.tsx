@@ -287,7 +287,11 @@ export function SettingsForm({ initial, timeZones }: { initial: SettingsSnapshot
         ) : null}
       </p>
 
-      <Section id="s-identity" title="Shop identity" intro="Printed on every warranty certificate, receipt and invoice, and in the e-mails to set owners.">
+      <Section
+        id="s-identity"
+        title="Shop identity"
+        intro="Printed on every warranty certificate, receipt and invoice, and in the e-mails to set owners."
+      >
         <div className="grid gap-4 md:grid-cols-2">
           <TextField name="identity.name" label="Shop name" register={register} errors={errors} />
           <TextArea

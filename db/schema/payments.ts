@@ -115,9 +115,15 @@ export const moneyDocuments = pgTable(
   },
   (t) => [
     uniqueIndex("money_document_series_idx").on(t.kind, t.year, t.sequence),
-    uniqueIndex("money_document_payment_idx").on(t.paymentId).where(sql`${t.kind} = 'receipt'`),
-    uniqueIndex("money_document_refund_idx").on(t.refundId).where(sql`${t.kind} = 'refund'`),
-    uniqueIndex("money_document_invoice_idx").on(t.jobId).where(sql`${t.kind} = 'invoice'`),
+    uniqueIndex("money_document_payment_idx")
+      .on(t.paymentId)
+      .where(sql`${t.kind} = 'receipt'`),
+    uniqueIndex("money_document_refund_idx")
+      .on(t.refundId)
+      .where(sql`${t.kind} = 'refund'`),
+    uniqueIndex("money_document_invoice_idx")
+      .on(t.jobId)
+      .where(sql`${t.kind} = 'invoice'`),
     index("money_document_job_idx").on(t.jobId),
   ],
 );

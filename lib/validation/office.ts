@@ -150,7 +150,10 @@ export const settingsFormSchema = z
         .string()
         .trim()
         .max(32, "Tax number: keep it under 32 characters.")
-        .regex(/^$|^[A-Za-z0-9][A-Za-z0-9 ./-]*$/, "Tax number: letters, digits, spaces, dots, slashes and hyphens only, or leave it blank."),
+        .regex(
+          /^$|^[A-Za-z0-9][A-Za-z0-9 ./-]*$/,
+          "Tax number: letters, digits, spaces, dots, slashes and hyphens only, or leave it blank.",
+        ),
       /** Every date and time shown to people, in pages, e-mails and certificates, is in this zone. */
       timeZone: timeZoneText,
     }),
@@ -425,27 +428,25 @@ export type ReportRange = z.infer<typeof reportRangeSchema>;
 
 export const MANUAL_PAYMENT_METHODS = ["cash", "cheque"] as const;
 
-export const manualPaymentSchema = z
-  .object({
-    /** The job as printed on its ticket (KL-0042) or just its number. */
-    job: z
-      .string()
-      .trim()
-      .regex(/^(KL-?)?\d{1,7}$/i, "Job: the job number as on its ticket, such as KL-0042."),
-    /** Typed in the major unit; the server converts with the job's currency and checks what is owed. */
-    amount: moneyText("Amount").refine((s) => Number(s) > 0, "Amount: a payment must be more than zero."),
-    method: z.enum(MANUAL_PAYMENT_METHODS, { error: "Method: choose cash or cheque." }),
-    chequeNumber: z
-      .string()
-      .trim()
-      .max(30, "Cheque number: keep it under 30 characters.")
-      .regex(/^[A-Za-z0-9 -]*$/, "Cheque number: letters, digits, spaces and hyphens only.")
-      .optional()
-      .default(""),
-    receivedOn: isoDayField("Date received"),
-    /** Made by the form when it opens: a second submit of the same form records nothing more. */
-    idempotencyKey: z.string().trim().min(8, "Form key: reload the page and try again.").max(100, "Form key: reload the page and try again."),
-  });
+export const manualPaymentSchema = z.object({
+  /** The job as printed on its ticket (KL-0042) or just its number. */
+  job: z
+    .string()
+    .trim()
+    .regex(/^(KL-?)?\d{1,7}$/i, "Job: the job number as on its ticket, such as KL-0042."),
+  /** Typed in the major unit; the server converts with the job's currency and checks what is owed. */
+  amount: moneyText("Amount").refine((s) => Number(s) > 0, "Amount: a payment must be more than zero."),
+  method: z.enum(MANUAL_PAYMENT_METHODS, { error: "Method: choose cash or cheque." }),
+  chequeNumber: z
+    .string()
+    .trim()
+    .max(30, "Cheque number: keep it under 30 characters.")
+    .regex(/^[A-Za-z0-9 -]*$/, "Cheque number: letters, digits, spaces and hyphens only.")
+    .optional(),
+  receivedOn: isoDayField("Date received"),
+  /** Made by the form when it opens: a second submit of the same form records nothing more. */
+  idempotencyKey: z.string().trim().min(8, "Form key: reload the page and try again.").max(100, "Form key: reload the page and try again."),
+});
 export type ManualPaymentValues = z.infer<typeof manualPaymentSchema>;
 
 export const voidPaymentSchema = z.object({
@@ -462,5 +463,8 @@ function isoDayField(label: string) {
     .string()
     .trim()
     .regex(/^\d{4}-\d{2}-\d{2}$/, `${label}: a date such as 2026-03-01.`)
-    .refine((s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s), `${label}: a date such as 2026-03-01.`);
+    .refine(
+      (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+      `${label}: a date such as 2026-03-01.`,
+    );
 }

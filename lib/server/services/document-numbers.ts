@@ -31,7 +31,14 @@ async function allocate(ctx: TxContext, kind: MoneyDocumentKind, year: number): 
 
 async function issue(
   ctx: TxContext,
-  input: { kind: MoneyDocumentKind; jobId: string; paymentId?: string; refundId?: string; revisionId?: string | null; actorId?: string | null },
+  input: {
+    kind: MoneyDocumentKind;
+    jobId: string;
+    paymentId?: string;
+    refundId?: string;
+    revisionId?: string | null;
+    actorId?: string | null;
+  },
 ): Promise<MoneyDocument> {
   const issuedAt = new Date();
   const year = seriesYear(dayInZone(issuedAt, await readShopTimeZone(ctx.tx)));
@@ -113,4 +120,3 @@ export async function issueInvoice(ctx: TxContext, jobId: string): Promise<Money
   if (!revision) return null;
   return issue(ctx, { kind: "invoice", jobId, revisionId: revision.id });
 }
-

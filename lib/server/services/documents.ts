@@ -118,7 +118,10 @@ async function paymentFacts(tx: Database, jobId: string, money: (minor: number) 
 }
 
 /** The account's figures, from the one account of the job. */
-function accountFigures(account: Awaited<ReturnType<typeof loadJobAccount>>["account"], money: (minor: number) => string): DocumentFigure[] {
+function accountFigures(
+  account: Awaited<ReturnType<typeof loadJobAccount>>["account"],
+  money: (minor: number) => string,
+): DocumentFigure[] {
   const f: DocumentFigure[] = [{ label: "Paid", value: money(account.paidMinor) }];
   if (account.refundedMinor > 0) f.push({ label: "Refunded", value: money(account.refundedMinor) });
   if (account.waivedMinor > 0) f.push({ label: `Waived (${WAIVED_WORDING})`, value: money(account.waivedMinor) });
@@ -128,7 +131,10 @@ function accountFigures(account: Awaited<ReturnType<typeof loadJobAccount>>["acc
 }
 
 /** What a receipt, refund note or invoice prints. */
-export async function moneyDocumentContent(doc: MoneyDocument, { shipTo = null }: { shipTo?: string[] | null } = {}): Promise<MoneyPdfContent> {
+export async function moneyDocumentContent(
+  doc: MoneyDocument,
+  { shipTo = null }: { shipTo?: string[] | null } = {},
+): Promise<MoneyPdfContent> {
   const [{ shop, block }, head, loaded] = await Promise.all([shopBlock(), jobHeader(db, doc.jobId), loadJobAccount(db, doc.jobId)]);
   const timeZone = shop.timeZone;
   const money = (minor: number) => moneyText(minor, loaded.currency, loaded.exponent);
@@ -161,7 +167,13 @@ export async function moneyDocumentContent(doc: MoneyDocument, { shipTo = null }
     return {
       ...base,
       facts,
-      lines: [{ description: `${PURPOSE_WORD[payment.purpose]} for ${jobNumber(head.job.number)}`, detail: setName, amount: money(payment.amountMinor) }],
+      lines: [
+        {
+          description: `${PURPOSE_WORD[payment.purpose]} for ${jobNumber(head.job.number)}`,
+          detail: setName,
+          amount: money(payment.amountMinor),
+        },
+      ],
       figures: [{ label: "Amount received", value: money(payment.amountMinor), strong: true }],
       notes,
     };
@@ -208,7 +220,10 @@ export async function moneyDocumentContent(doc: MoneyDocument, { shipTo = null }
 }
 
 /** The printable estimate: the job's newest revision as sent to the owner, whatever its status. */
-export async function estimateContent(jobId: string, { shipTo = null }: { shipTo?: string[] | null } = {}): Promise<MoneyPdfContent | null> {
+export async function estimateContent(
+  jobId: string,
+  { shipTo = null }: { shipTo?: string[] | null } = {},
+): Promise<MoneyPdfContent | null> {
   const [revision] = await db
     .select()
     .from(estimateRevisions)
@@ -220,7 +235,9 @@ export async function estimateContent(jobId: string, { shipTo = null }: { shipTo
   const exponent = typeof revision.pricing.exponent === "number" ? revision.pricing.exponent : 2;
   const money = (minor: number) => moneyText(minor, revision.currency, exponent);
   const priced = await revisionLines(db, revision, money);
-  const status = { sent: "waiting for your decision", approved: "approved", declined: "declined", superseded: "superseded" }[revision.status];
+  const status = { sent: "waiting for your decision", approved: "approved", declined: "declined", superseded: "superseded" }[
+    revision.status
+  ];
   return {
     title: "Estimate",
     number: null,

@@ -46,9 +46,16 @@ function amountInMinor(amount: string, exponent: number): number {
   }
 }
 
-export async function recordManualPayment({ values, actorId }: { values: ManualPaymentValues; actorId: string }): Promise<ManualPaymentResult> {
+export async function recordManualPayment({
+  values,
+  actorId,
+}: {
+  values: ManualPaymentValues;
+  actorId: string;
+}): Promise<ManualPaymentResult> {
   const number = parseJobNumber(values.job);
-  if (number === null) throw new AppError("invalid_input", "Some fields need attention.", { job: "Job: the job number as on its ticket, such as KL-0042." });
+  if (number === null)
+    throw new AppError("invalid_input", "Some fields need attention.", { job: "Job: the job number as on its ticket, such as KL-0042." });
   const idempotencyKey = `manual:${values.idempotencyKey}`;
   return transaction(async (ctx) => {
     const { tx } = ctx;
@@ -65,10 +72,18 @@ export async function recordManualPayment({ values, actorId }: { values: ManualP
     // A double submit waits for the first on the job's lock, then finds what it recorded.
     const [earlier] = await tx.select().from(payments).where(eq(payments.idempotencyKey, idempotencyKey)).limit(1);
     if (earlier) {
-      if (earlier.jobId !== job.id) throw new AppError("conflict", "This form was already used for another job. Reload the page and enter the payment again.");
+      if (earlier.jobId !== job.id)
+        throw new AppError("conflict", "This form was already used for another job. Reload the page and enter the payment again.");
       const receipt = await issueReceipt(ctx, earlier.id, actorId);
       const [now] = await tx.select({ state: jobs.state }).from(jobs).where(eq(jobs.id, job.id)).limit(1);
-      return { paymentId: earlier.id, receiptId: receipt.id, receiptNumber: receipt.number, jobId: job.id, jobState: now!.state, replayed: true };
+      return {
+        paymentId: earlier.id,
+        receiptId: receipt.id,
+        receiptNumber: receipt.number,
+        jobId: job.id,
+        jobState: now!.state,
+        replayed: true,
+      };
     }
     const purpose = TAKES_MONEY[job.state as keyof typeof TAKES_MONEY];
     const loaded = await loadJobAccount(tx, job.id);
@@ -79,7 +94,8 @@ export async function recordManualPayment({ values, actorId }: { values: ManualP
         `Nothing is owed on ${jobNumber(job.number)} at this stage ("${STATE_LABEL[job.state].staff}"): money is taken after the estimate is approved (the deposit) and when the set is ready (the balance).`,
       );
     const amountMinor = amountInMinor(values.amount, exponent);
-    if (amountMinor <= 0) throw new AppError("invalid_input", "Some fields need attention.", { amount: "Amount: a payment must be more than zero." });
+    if (amountMinor <= 0)
+      throw new AppError("invalid_input", "Some fields need attention.", { amount: "Amount: a payment must be more than zero." });
     if (amountMinor > account.owedMinor)
       throw new AppError("invalid_input", "Some fields need attention.", {
         amount: `Amount: ${moneyText(account.owedMinor, currency, exponent)} is owed on ${jobNumber(job.number)}; take at most that and give change for the rest.`,
@@ -87,7 +103,9 @@ export async function recordManualPayment({ values, actorId }: { values: ManualP
     const timeZone = await readShopTimeZone(tx);
     const paidAt = new Date();
     if (values.receivedOn > dayInZone(paidAt, timeZone))
-      throw new AppError("invalid_input", "Some fields need attention.", { receivedOn: "Date received: today or an earlier day, not a later one." });
+      throw new AppError("invalid_input", "Some fields need attention.", {
+        receivedOn: "Date received: today or an earlier day, not a later one.",
+      });
     const chequeNumber = values.method === "cheque" && values.chequeNumber ? values.chequeNumber : null;
     const [payment] = await tx
       .insert(payments)
@@ -143,7 +161,14 @@ export async function recordManualPayment({ values, actorId }: { values: ManualP
       dedupeKey: `receipt:${payment!.id}`,
     });
     const [now] = await tx.select({ state: jobs.state }).from(jobs).where(eq(jobs.id, job.id)).limit(1);
-    return { paymentId: payment!.id, receiptId: receipt.id, receiptNumber: receipt.number, jobId: job.id, jobState: now!.state, replayed: false };
+    return {
+      paymentId: payment!.id,
+      receiptId: receipt.id,
+      receiptNumber: receipt.number,
+      jobId: job.id,
+      jobState: now!.state,
+      replayed: false,
+    };
   });
 }
 
