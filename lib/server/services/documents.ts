@@ -268,3 +268,14 @@ export async function documentsOfJob(jobId: string) {
     .orderBy(asc(moneyDocuments.issuedAt), sql`${moneyDocuments.number}`);
   return rows;
 }
+
+/** The number of the job's newest estimate revision (null before any was sent), for the printable estimate link. */
+export async function latestRevisionNumber(jobId: string): Promise<number | null> {
+  const [row] = await db
+    .select({ revision: estimateRevisions.revision })
+    .from(estimateRevisions)
+    .where(eq(estimateRevisions.jobId, jobId))
+    .orderBy(desc(estimateRevisions.revision))
+    .limit(1);
+  return row?.revision ?? null;
+}

@@ -64,8 +64,10 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
     "select instrument_id as id from reading where job_id = $1 and instrument_id is not null limit 1",
     [jobA],
   );
+  const { id: documentA } = await one<{ id: string }>("select id from money_document where payment_id = $1 and kind = 'receipt'", [pay.id]);
   return {
     jobA,
+    documentA,
     jobOpenA,
     revisionA,
     certificateA,
