@@ -108,6 +108,7 @@ async function ownRows(): Promise<OwnRows> {
     refundAny: (await sql<{ id: string }>("select id from refund order by created_at limit 1"))[0]!.id,
     emailAny: (await sql<{ id: string }>("select id from email_outbox order by created_at limit 1"))[0]!.id,
     instrumentAny: await fuzzInstrument(shared.jobId),
+    documentA: (await sql<{ id: string }>("select id from money_document order by issued_at limit 1"))[0]?.id ?? randomUUID(),
   };
   for (const entry of ROUTES) {
     const k = key(entry);

@@ -1,13 +1,7 @@
 import fc from "fast-check";
 import { describe, expect, it } from "vitest";
 import { dayInZone } from "@/lib/engine/dates";
-import {
-  formatDocumentNumber,
-  MONEY_DOCUMENT_KINDS,
-  parseDocumentNumber,
-  seriesGaps,
-  seriesYear,
-} from "@/lib/engine/documents/numbering";
+import { formatDocumentNumber, MONEY_DOCUMENT_KINDS, parseDocumentNumber, seriesGaps, seriesYear } from "@/lib/engine/documents/numbering";
 
 describe("document numbers", () => {
   it("prints the kind, the year and the sequence padded to four digits (hand-worked examples)", () => {
