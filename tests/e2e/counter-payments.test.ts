@@ -43,7 +43,7 @@ describe("the office takes cash at the counter", () => {
         })
         .toBe(label);
       await page.getByLabel(/^Amount/).fill("312.40");
-      await page.getByLabel("Cash").check();
+      await page.getByRole("radio", { name: "Cash" }).check();
       await page.getByRole("button", { name: "Record payment" }).click();
       const link = page.getByRole("link", { name: /Download receipt RCT-\d{4}-\d{4,}/ });
       await expect.poll(() => link.count(), { timeout: 20_000 }).toBe(1);
