@@ -6,6 +6,7 @@ import { closeTestPool, sql } from "../support/db";
 import { TestClient } from "../support/http";
 import { seedJobWithEstimate, type SeededJob } from "../fixtures/jobs";
 import { seriesGaps } from "@/lib/engine/documents/numbering";
+import { paidPaymentWithCharge, waitFor } from "./office-fixtures";
 
 // Receipts, refund notes, invoices and the printable estimate; cash and cheques recorded by the office.
 
@@ -270,5 +271,27 @@ describe("invoice and estimate", () => {
     expect((await new TestClient().get(`/api/documents/${r.receiptId}/pdf`)).status).toBe(404);
     expect((await client.get(`/api/documents/${randomUUID()}/pdf`)).status).toBe(404);
     expect((await paid.client.get(`/api/documents/${r.receiptId}/pdf`)).status).toBe(200);
+  });
+
+  it("issues a refund note once the processor confirms a refund", async () => {
+    const { paymentId } = await paidPaymentWithCharge(9000);
+    const res = await owner.post(`/api/office/payments/${paymentId}/refunds`, { amount: "30.00", reason: "Dial glass not replaced" });
+    expect(res.status).toBe(202);
+    const { refundId } = (await res.json()) as { refundId: string };
+    const note = await waitFor(
+      async () =>
+        (
+          await sql<{ id: string; number: string }>("select id, number from money_document where refund_id = $1 and kind = 'refund'", [
+            refundId,
+          ])
+        )[0],
+      { what: "the refund note" },
+    );
+    expect(note.number).toMatch(/^RFD-\d{4}-\d{4,}$/);
+    const text = await pdfText(await owner.get(`/api/documents/${note.id}/pdf`));
+    expect(text).toContain(note.number);
+    expect(text).toMatch(/Amount refunded \$30\.00/);
+    // The payment belongs to another owner's job: Mira gets not-found.
+    expect((await (await signedIn(DEMO.customer)).get(`/api/documents/${note.id}/pdf`)).status).toBe(404);
   });
 });
