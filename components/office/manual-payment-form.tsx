@@ -160,7 +160,7 @@ export function ManualPaymentForm({ currency }: { currency: Currency }) {
         </div>
         <div className="space-y-0.5">
           <label htmlFor="mp-received" className="field-label">
-            Date received
+            Paid on
           </label>
           <input type="date" className="field-input figure" {...input("mp-received", errors.receivedOn)} {...register("receivedOn")} />
           {errors.receivedOn ? (

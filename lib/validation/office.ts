@@ -443,7 +443,7 @@ export const manualPaymentSchema = z.object({
     .max(30, "Cheque number: keep it under 30 characters.")
     .regex(/^[A-Za-z0-9 -]*$/, "Cheque number: letters, digits, spaces and hyphens only.")
     .optional(),
-  receivedOn: isoDayField("Date received"),
+  receivedOn: isoDayField("Paid on"),
   /** Made by the form when it opens: a second submit of the same form records nothing more. */
   idempotencyKey: z.string().trim().min(8, "Form key: reload the page and try again.").max(100, "Form key: reload the page and try again."),
 });

@@ -104,7 +104,7 @@ export async function recordManualPayment({
     const paidAt = new Date();
     if (values.receivedOn > dayInZone(paidAt, timeZone))
       throw new AppError("invalid_input", "Some fields need attention.", {
-        receivedOn: "Date received: today or an earlier day, not a later one.",
+        receivedOn: "Paid on: today or an earlier day, not a later one.",
       });
     const chequeNumber = values.method === "cheque" && values.chequeNumber ? values.chequeNumber : null;
     const [payment] = await tx
