@@ -46,7 +46,10 @@ export const PAYMENT_STATUS_LABEL = {
   failed: { text: "Failed", icon: "✕" },
   expired: { text: "Expired", icon: "⌛" },
   duplicate: { text: "Duplicate charge — owed back", icon: "⧉" },
+  voided: { text: "Voided — entered by mistake", icon: "⊘" },
 } as const;
+
+export const METHOD_LABEL = { card: "Card (online)", cash: "Cash", cheque: "Cheque" } as const;
 
 export const REFUND_STATUS_LABEL = {
   requested: { text: "Waiting for the processor", icon: "◔" },

@@ -12,8 +12,9 @@ import { jobNumber } from "@/lib/engine/jobs/states";
 import { refundFormSchema, type RefundFormValues } from "@/lib/validation/office";
 import { ApiError, officeFetch } from "@/lib/client/office-api";
 import { formatMoney, formatWhen, type Currency, type Jsonify } from "./format";
+import { formatDay } from "@/lib/engine/dates";
 import { useShopTimeZone } from "@/components/shop-time-zone";
-import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL, REFUND_STATUS_LABEL } from "./labels";
+import { METHOD_LABEL, PAYMENT_STATUS_LABEL, PURPOSE_LABEL, REFUND_STATUS_LABEL } from "./labels";
 import { officeKeys } from "@/lib/client/office-query-keys";
 
 export type PaymentDetail = Jsonify<NonNullable<Awaited<ReturnType<typeof getPaymentForOffice>>>>;
@@ -45,7 +46,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
   // A refund cannot be undone: the form asks, then this names what will happen and waits for a yes.
   const [confirming, setConfirming] = useState<RefundFormValues | null>(null);
   const left = payment.amountMinor - payment.refundedMinor - payment.inFlightMinor;
-  const refundable = (payment.status === "paid" || payment.status === "duplicate") && left > 0;
+  // Cash and cheques go back over the counter, not through the processor: an entry made by mistake is voided.
+  const refundable = payment.method === "card" && (payment.status === "paid" || payment.status === "duplicate") && left > 0;
 
   const { register, handleSubmit, formState, setError, reset } = useForm<RefundFormValues>({
     resolver: zodResolver(refundFormSchema),
@@ -131,6 +133,28 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
               <dd className="figure">{formatWhen(payment.paidAt, timeZone)}</dd>
             </div>
             <div>
+              <dt className="text-bakelite-muted">Method</dt>
+              <dd>
+                {METHOD_LABEL[payment.method]}
+                {payment.chequeNumber ? <span className="figure"> no. {payment.chequeNumber}</span> : null}
+                {payment.receivedOn ? (
+                  <span className="block text-xs text-bakelite-muted">received {formatDay(payment.receivedOn, { style: "compact" })}</span>
+                ) : null}
+              </dd>
+            </div>
+            <div>
+              <dt className="text-bakelite-muted">Receipt</dt>
+              <dd>
+                {payment.receiptId ? (
+                  <a href={`/api/documents/${payment.receiptId}/pdf`} download>
+                    <span className="figure">{payment.receiptNumber}</span> (PDF)
+                  </a>
+                ) : (
+                  "None yet — issued when the money is in"
+                )}
+              </dd>
+            </div>
+            <div>
               <dt className="text-bakelite-muted">Refunded so far</dt>
               <dd className="figure" data-testid="refunded-so-far">
                 {formatMoney(payment.refundedMinor, currency)}
@@ -177,6 +201,11 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                         {REFUND_STATUS_LABEL[r.status].text}
                         {r.settledAt ? (
                           <span className="block text-xs text-bakelite-muted">{formatWhen(r.settledAt, timeZone)}</span>
+                        ) : null}
+                        {r.noteId ? (
+                          <a className="block text-xs" href={`/api/documents/${r.noteId}/pdf`} download>
+                            Refund note <span className="figure">{r.noteNumber}</span> (PDF)
+                          </a>
                         ) : null}
                         {r.status === "pending" ? (
                           <button

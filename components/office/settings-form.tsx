@@ -286,7 +286,11 @@ export function SettingsForm({ initial, timeZones }: { initial: SettingsSnapshot
         ) : null}
       </p>
 
-      <Section id="s-identity" title="Shop identity" intro="Printed on every warranty certificate and in the e-mails to set owners.">
+      <Section
+        id="s-identity"
+        title="Shop identity"
+        intro="Printed on every warranty certificate, receipt and invoice, and in the e-mails to set owners."
+      >
         <div className="grid gap-4 md:grid-cols-2">
           <TextField name="identity.name" label="Shop name" register={register} errors={errors} />
           <TextArea
@@ -299,6 +303,13 @@ export function SettingsForm({ initial, timeZones }: { initial: SettingsSnapshot
           />
           <TextField name="identity.phone" label="Phone" type="tel" inputMode="tel" register={register} errors={errors} />
           <TextField name="identity.email" label="E-mail" type="email" inputMode="email" register={register} errors={errors} />
+          <TextField
+            name="identity.taxNumber"
+            label="Tax number"
+            hint="The shop's sales-tax or VAT registration, printed on receipts and invoices. Leave blank if the shop has none."
+            register={register}
+            errors={errors}
+          />
           <TextField
             name="identity.timeZone"
             label="Time zone"

@@ -78,6 +78,12 @@ const paymentColumns = {
   createdAt: payments.createdAt,
   refundedMinor: payments.refundedMinor,
   paymentIntentId: payments.paymentIntentId,
+  method: payments.method,
+  chequeNumber: payments.chequeNumber,
+  receivedOn: payments.receivedOn,
+  voidReason: payments.voidReason,
+  receiptId: sql<string | null>`(select d.id from money_document d where d.payment_id = ${payments.id} and d.kind = 'receipt')`,
+  receiptNumber: sql<string | null>`(select d.number from money_document d where d.payment_id = ${payments.id} and d.kind = 'receipt')`,
   ...refundSums,
 };
 
@@ -122,6 +128,8 @@ export async function getPaymentForOffice({ paymentId }: { paymentId: string }) 
       createdAt: refunds.createdAt,
       settledAt: refunds.settledAt,
       createdByName: user.name,
+      noteId: sql<string | null>`(select d.id from money_document d where d.refund_id = ${refunds.id} and d.kind = 'refund')`,
+      noteNumber: sql<string | null>`(select d.number from money_document d where d.refund_id = ${refunds.id} and d.kind = 'refund')`,
     })
     .from(refunds)
     .leftJoin(user, eq(user.id, refunds.createdBy))

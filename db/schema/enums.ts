@@ -10,7 +10,11 @@ export const deliveryMethod = pgEnum("delivery_method", ["drop-off", "mail-in"])
 export const revisionStatus = pgEnum("revision_status", ["sent", "approved", "declined", "superseded"]);
 export const lineCategory = pgEnum("line_category", ["inspection", "safety", "recap", "alignment", "mechanical", "test", "parts"]);
 export const paymentPurpose = pgEnum("payment_purpose", ["deposit", "balance"]);
-export const paymentStatus = pgEnum("payment_status", ["open", "processing", "paid", "failed", "expired", "duplicate"]);
+export const paymentStatus = pgEnum("payment_status", ["open", "processing", "paid", "failed", "expired", "duplicate", "voided"]);
+// How money reached the shop: through the card processor's checkout, or handed over at the counter.
+export const paymentMethod = pgEnum("payment_method", ["card", "cash", "cheque"]);
+// The documents the shop issues about money, each numbered in its own gapless series.
+export const moneyDocumentKind = pgEnum("money_document_kind", ["receipt", "refund", "invoice"]);
 export const refundStatus = pgEnum("refund_status", ["requested", "pending", "succeeded", "failed"]);
 export const verdict = pgEnum("verdict", ["pass", "fail", "missing", "recorded"]);
 export const claimStatus = pgEnum("claim_status", ["open", "inspecting", "accepted", "rejected", "withdrawn"]);

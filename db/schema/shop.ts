@@ -9,6 +9,8 @@ export const shopSettings = pgTable("shop_settings", {
   addressLines: jsonb("address_lines").$type<string[]>().notNull().default([]),
   phone: text("phone").notNull().default(""),
   email: text("email").notNull().default(""),
+  /** The shop's sales-tax or VAT registration, printed on receipts and invoices when set. */
+  taxNumber: text("tax_number").notNull().default(""),
   /** IANA zone name; every date and time shown to a person is in this zone. */
   timeZone: text("time_zone").notNull().default(DEFAULT_SHOP_TIME_ZONE),
   policy: jsonb("policy").$type<Record<string, unknown>>().notNull(),

@@ -52,6 +52,10 @@ export const PERMISSIONS = {
   // The holder downloads their own certificate; staff any (ownership is checked beside the data).
   "certificate.download": ["customer", "technician", "owner"],
   "certificate.list": ["owner"],
+  // Receipts, refund notes, invoices and the printable estimate: the set owner their own jobs', the office any.
+  "document.download": ["customer", "owner"],
+  // Cash and cheques taken at the counter (and voiding an entry made by mistake).
+  "payment.record": ["owner"],
 } as const satisfies Record<string, readonly Role[]>;
 
 export type Permission = keyof typeof PERMISSIONS;
@@ -80,6 +84,7 @@ export const HOLDER_PERMISSIONS = [
   "claim.open",
   "quote.withdraw",
   "certificate.download",
+  "document.download",
 ] as const satisfies readonly Permission[];
 
 /** Who is asking: their role, and whether a staff account also holds a set owner's records. */

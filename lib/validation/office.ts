@@ -81,7 +81,7 @@ export function parseWarrantyTerms(raw: unknown): WarrantyTerms {
   return warrantyTermsSchema.parse(merged);
 }
 
-type ShopIdentity = { name: string; addressLines: string[]; phone: string; email: string; timeZone: string };
+type ShopIdentity = { name: string; addressLines: string[]; phone: string; email: string; taxNumber: string; timeZone: string };
 
 /** An IANA zone name ("America/New_York", "Europe/London"), as the system's time-zone data knows it. */
 export const timeZoneText = z
@@ -144,6 +144,15 @@ export const settingsFormSchema = z
         .refine((s) => addressLines(s).every((l) => l.length <= 120), "Address: keep each line under 120 characters."),
       phone: z.string().trim().max(40, "Phone: keep it under 40 characters."),
       email: emailOrBlank,
+      /** Sales-tax or VAT registration; blank when the shop has none (then nothing is printed). */
+      taxNumber: z
+        .string()
+        .trim()
+        .max(32, "Tax number: keep it under 32 characters.")
+        .regex(
+          /^$|^[A-Za-z0-9][A-Za-z0-9 ./-]*$/,
+          "Tax number: letters, digits, spaces, dots, slashes and hyphens only, or leave it blank.",
+        ),
       /** Every date and time shown to people, in pages, e-mails and certificates, is in this zone. */
       timeZone: timeZoneText,
     }),
@@ -253,6 +262,7 @@ export function settingsToForm(shop: {
   addressLines: string[];
   phone: string;
   email: string;
+  taxNumber?: string;
   timeZone: string;
   policy: ShopPolicy;
   warrantyTerms: unknown;
@@ -267,6 +277,7 @@ export function settingsToForm(shop: {
       addressText: shop.addressLines.join("\n"),
       phone: shop.phone,
       email: shop.email,
+      taxNumber: shop.taxNumber ?? "",
       timeZone: shop.timeZone,
     },
     currency: { ...p.currency },
@@ -324,6 +335,7 @@ export function settingsFromForm(v: SettingsFormValues): { identity: ShopIdentit
       addressLines: addressLines(v.identity.addressText),
       phone: v.identity.phone.trim(),
       email: v.identity.email.trim(),
+      taxNumber: v.identity.taxNumber.trim().replace(/\s+/g, " "),
       timeZone: canonicalTimeZone(v.identity.timeZone) ?? v.identity.timeZone.trim(),
     },
     policy: shopPolicySchema.parse(policy),
@@ -366,3 +378,48 @@ export const reportRangeSchema = z
   .object({ from: z.preprocess(blankToUndefined, isoMonth.optional()), to: z.preprocess(blankToUndefined, isoMonth.optional()) })
   .refine((r) => !r.from || !r.to || r.from <= r.to, { path: ["to"], message: "The end month comes after the start month." });
 export type ReportRange = z.infer<typeof reportRangeSchema>;
+
+// ─── Money taken by hand at the counter ───
+
+export const MANUAL_PAYMENT_METHODS = ["cash", "cheque"] as const;
+
+export const manualPaymentSchema = z.object({
+  /** The job as printed on its ticket (KL-0042) or just its number. */
+  job: z
+    .string()
+    .trim()
+    .regex(/^(KL-?)?\d{1,7}$/i, "Job: the job number as on its ticket, such as KL-0042."),
+  /** Typed in the major unit; the server converts with the job's currency and checks what is owed. */
+  amount: moneyText("Amount").refine((s) => Number(s) > 0, "Amount: a payment must be more than zero."),
+  method: z.enum(MANUAL_PAYMENT_METHODS, { error: "Method: choose cash or cheque." }),
+  chequeNumber: z
+    .string()
+    .trim()
+    .max(30, "Cheque number: keep it under 30 characters.")
+    .regex(/^[A-Za-z0-9 -]*$/, "Cheque number: letters, digits, spaces and hyphens only.")
+    .optional(),
+  receivedOn: isoDayField("Paid on"),
+  /** Made by the form when it opens: a second submit of the same form records nothing more. */
+  idempotencyKey: z.string().trim().min(8, "Form key: reload the page and try again.").max(100, "Form key: reload the page and try again."),
+});
+export type ManualPaymentValues = z.infer<typeof manualPaymentSchema>;
+
+export const voidPaymentSchema = z.object({
+  reason: z
+    .string()
+    .trim()
+    .min(3, "Reason: say why this entry was a mistake, at least 3 characters; it is kept in the audit log.")
+    .max(500, "Reason: keep it under 500 characters."),
+});
+export type VoidPaymentValues = z.infer<typeof voidPaymentSchema>;
+
+function isoDayField(label: string) {
+  return z
+    .string()
+    .trim()
+    .regex(/^\d{4}-\d{2}-\d{2}$/, `${label}: a date such as 2026-03-01.`)
+    .refine(
+      (s) => !Number.isNaN(Date.parse(`${s}T00:00:00Z`)) && new Date(`${s}T00:00:00Z`).toISOString().startsWith(s),
+      `${label}: a date such as 2026-03-01.`,
+    );
+}

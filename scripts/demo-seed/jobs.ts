@@ -18,6 +18,7 @@ import {
 } from "@/lib/server/services/bench";
 import { decideClaim, openClaim } from "@/lib/server/services/claims";
 import { buildDraft, saveDraft, sendRevision } from "@/lib/server/services/estimates";
+import { issueInvoice, issueReceipt } from "@/lib/server/services/document-numbers";
 import { recordJobCreated, transitionJob } from "@/lib/server/services/jobs";
 import { getShop } from "@/lib/server/services/shop";
 import { judgeReading } from "@/lib/engine/verdicts";
@@ -329,18 +330,22 @@ export async function recordDemoPayment(ctx: TxContext, job: { id: string; key: 
     .execute<{ n: number }>(sql`select coalesce(sum(amount_minor), 0)::int as n from payment where job_id = ${job.id} and status = 'paid'`)
     .then((r) => r.rows[0]!.n);
   const amount = purpose === "deposit" ? rev.deposit_minor : rev.total_minor - paid;
-  await ctx.tx.insert(payments).values({
-    jobId: job.id,
-    revisionId: rev.id,
-    purpose,
-    amountMinor: amount,
-    currency: rev.currency,
-    status: "paid",
-    checkoutSessionId: `cs_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
-    paymentIntentId: `pi_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
-    idempotencyKey: `demo:${job.key}:${purpose}`,
-    paidAt: new Date(),
-  });
+  const [payment] = await ctx.tx
+    .insert(payments)
+    .values({
+      jobId: job.id,
+      revisionId: rev.id,
+      purpose,
+      amountMinor: amount,
+      currency: rev.currency,
+      status: "paid",
+      checkoutSessionId: `cs_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
+      paymentIntentId: `pi_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
+      idempotencyKey: `demo:${job.key}:${purpose}`,
+      paidAt: new Date(),
+    })
+    .returning({ id: payments.id });
+  await issueReceipt(ctx, payment!.id);
   await transitionJob(ctx, {
     jobId: job.id,
     to,
@@ -348,6 +353,7 @@ export async function recordDemoPayment(ctx: TxContext, job: { id: string; key: 
     actorId: null,
     note: purpose === "deposit" ? "Deposit confirmed by the processor" : "Balance confirmed by the processor",
   });
+  if (to === "paid_in_full") await issueInvoice(ctx, job.id);
 }
 
 type Instruments = Map<InstrumentKind, string>;

@@ -111,6 +111,7 @@ async function ownRows(): Promise<OwnRows> {
     addressA: await storeAddress(customer.id),
     addressSparesA: [],
     partAny: "00000000-0000-4000-8000-000000000000",
+    documentA: (await sql<{ id: string }>("select id from money_document order by issued_at limit 1"))[0]?.id ?? randomUUID(),
   };
   for (const entry of ROUTES) {
     const k = key(entry);

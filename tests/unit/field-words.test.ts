@@ -4,7 +4,7 @@ import { defaultShopPolicy } from "@/lib/engine/shop-policy";
 import { profileUpdateSchema, readingInputSchema, returnSchema } from "@/lib/validation/bench";
 import { claimFormSchema, decideClaimSchema } from "@/lib/validation/claims";
 import { draftSchema } from "@/lib/validation/estimate";
-import { refundFormSchema, settingsFormSchema, settingsToForm } from "@/lib/validation/office";
+import { manualPaymentSchema, refundFormSchema, settingsFormSchema, settingsToForm, voidPaymentSchema } from "@/lib/validation/office";
 import { intakeSchema, recordDecisionSchema } from "@/lib/validation/intake";
 import { partFormSchema } from "@/lib/validation/parts";
 import { quoteRequestSchema } from "@/lib/validation/quote";
@@ -165,6 +165,19 @@ const SCHEMAS: [string, z.ZodType, unknown][] = [
     partFormSchema,
     { name: "Pilot lamp 6.3 V", supplierRef: "TW-PL-063", cost: "0.90", markupPercent: "50", stock: "12" },
   ],
+  [
+    "cash or a cheque at the counter",
+    manualPaymentSchema,
+    {
+      job: "KL-0042",
+      amount: "12.00",
+      method: "cheque",
+      chequeNumber: "004417",
+      receivedOn: "2026-03-01",
+      idempotencyKey: "form-key-1234",
+    },
+  ],
+  ["voiding a counter entry", voidPaymentSchema, { reason: "Typed on the wrong job." }],
 ];
 
 describe("every field message names its field and what is allowed, never zod's default wording", () => {

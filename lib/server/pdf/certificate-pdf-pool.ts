@@ -3,6 +3,7 @@ import { availableParallelism } from "node:os";
 import { isAbsolute, resolve } from "node:path";
 import { AppError } from "@/lib/server/errors";
 import type { CertificatePdfInput } from "@/lib/server/pdf/certificate-pdf";
+import type { MoneyPdfContent, MoneyPdfTask } from "@/lib/server/pdf/money-pdf";
 import { RenderPool, RenderPoolError } from "@/lib/server/pdf/render-pool";
 
 // Rendering a certificate takes a couple of hundred milliseconds of pure CPU; on the request thread that
@@ -23,12 +24,13 @@ export function certificateWorkerFile(): string {
   return isAbsolute(file) ? file : resolve(process.cwd(), file);
 }
 
-type CertificatePool = RenderPool<CertificatePdfInput, Uint8Array<ArrayBuffer>>;
+// Receipts, invoices and estimates share the threads (and their bounds) with certificates.
+type CertificatePool = RenderPool<CertificatePdfInput | MoneyPdfTask, Uint8Array<ArrayBuffer>>;
 // One pool per server process, kept across module reloads in development.
 const holder = globalThis as typeof globalThis & { bandedgeCertificatePdfPool?: CertificatePool };
 
 function certificatePool(): CertificatePool {
-  holder.bandedgeCertificatePdfPool ??= new RenderPool<CertificatePdfInput, Uint8Array<ArrayBuffer>>({
+  holder.bandedgeCertificatePdfPool ??= new RenderPool<CertificatePdfInput | MoneyPdfTask, Uint8Array<ArrayBuffer>>({
     filename: certificateWorkerFile(),
     threads: CERTIFICATE_PDF_THREADS,
     maxQueue: CERTIFICATE_PDF_MAX_QUEUE,
@@ -42,6 +44,11 @@ function certificatePool(): CertificatePool {
 /** The certificate as a PDF, rendered on a worker thread; throws RenderPoolError when it cannot be had. */
 export async function renderCertificatePdfOffThread(input: CertificatePdfInput): Promise<Uint8Array<ArrayBuffer>> {
   return certificatePool().run(input);
+}
+
+/** A receipt, refund note, invoice or estimate as a PDF, on the same worker threads. */
+export async function renderMoneyPdfOffThread(content: MoneyPdfContent): Promise<Uint8Array<ArrayBuffer>> {
+  return certificatePool().run({ kind: "money", content });
 }
 
 /**

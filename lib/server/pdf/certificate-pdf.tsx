@@ -20,7 +20,7 @@ function fontData(pkg: string, file: string): string {
   return `data:font/ttf;base64,${woffToSfnt(woff).toString("base64")}`;
 }
 
-function registerFonts() {
+export function registerFonts() {
   if (fontsRegistered) return;
   Font.register({
     family: "Plex Sans",

@@ -7,6 +7,7 @@ import type { TxContext } from "@/db/transaction";
 import { accountOf, remainderBelowMinimum, WAIVED_WORDING, type Account } from "@/lib/engine/pricing/account";
 import { recordedProcessorMinimum } from "@/lib/engine/pricing/deposit";
 import { audit } from "@/lib/server/audit";
+import { issueInvoice } from "@/lib/server/services/document-numbers";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { moneyText } from "@/lib/validation/estimate";
 
@@ -119,6 +120,8 @@ export async function settleIfNothingOwed(
   if (account.owedBackMinor > 0) notes.push(`${moneyText(account.owedBackMinor, currency, exponent)} is owed back to the owner`);
   const note = notes.length ? `Nothing left to pay; ${notes.join("; ")}` : "Nothing left to pay";
   await transitionJob(ctx, { jobId, to: "paid_in_full", actor: "system", actorId: null, note });
+  // The final account is known and nothing is left to pay: the invoice is issued with the move.
+  await issueInvoice(ctx, jobId);
   return { account, movedOn: true, waivedMinor: waive };
 }
 

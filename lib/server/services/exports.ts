@@ -41,6 +41,8 @@ async function table(file: ExportFile, range: ExportRange): Promise<{ fields: st
           "currency",
           "reference",
           "refund_reason",
+          "method",
+          "document",
         ],
         data: rows.map((r) => [
           r.kind,
@@ -54,6 +56,8 @@ async function table(file: ExportFile, range: ExportRange): Promise<{ fields: st
           r.currency,
           r.reference ?? "",
           r.reason ?? "",
+          r.method ?? "",
+          r.document ?? "",
         ]),
       };
     }

@@ -15,6 +15,7 @@ import { stripe } from "@/lib/server/payments";
 import { loadJobAccount, settleIfNothingOwed } from "@/lib/server/services/account";
 import { applyRefundEvent } from "@/lib/server/services/refunds";
 import { notifyStaff } from "@/lib/server/services/notifications";
+import { issueReceipt } from "@/lib/server/services/document-numbers";
 import { transitionJob } from "@/lib/server/services/jobs";
 import { moneyText } from "@/lib/validation/estimate";
 import { formatDate } from "@/lib/engine/dates";
@@ -288,7 +289,7 @@ export const HANDLED_EVENTS = new Set([
 ]);
 
 // A payment only moves forward: paid never goes back, whatever order the events arrive in.
-const RANK: Record<PaymentStatus, number> = { open: 0, processing: 1, failed: 2, expired: 2, paid: 3, duplicate: 3 };
+const RANK: Record<PaymentStatus, number> = { open: 0, processing: 1, failed: 2, expired: 2, paid: 3, duplicate: 3, voided: 4 };
 
 export type WebhookOutcome = { outcome: string; /** The job whose payment completed: its other checkouts are stale. */ paidJobId?: string };
 
@@ -421,6 +422,7 @@ async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: st
       before: { status: payment.status },
       after: { paidId: other.id, paymentIntentId },
     });
+    await issueReceipt(ctx, payment.id);
     return "duplicate-charge";
   }
   const paidAt = new Date();
@@ -433,6 +435,8 @@ async function markPaid(ctx: TxContext, payment: PaymentRow, paymentIntentId: st
     before: { status: payment.status },
     after: { status: "paid", amountMinor: payment.amountMinor, currency: payment.currency, paymentIntentId },
   });
+  // Numbered in this transaction, before the job moves on (which may issue the invoice that lists it).
+  await issueReceipt(ctx, payment.id);
 
   const [row] = await tx
     .select({ job: jobs, set: radioSets, name: user.name, email: user.email, revision: estimateRevisions })

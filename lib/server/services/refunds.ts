@@ -18,6 +18,7 @@ import { isEngineError } from "@/lib/engine/engine-error";
 import { AppError } from "@/lib/server/errors";
 import { stripe } from "@/lib/server/payments";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
+import { issueRefundNote } from "@/lib/server/services/document-numbers";
 import { queueRefundNotice } from "@/lib/server/services/notices";
 import { getShop } from "@/lib/server/services/shop";
 import { notifyStaff } from "@/lib/server/services/notifications";
@@ -197,6 +198,7 @@ async function applyAnswer({
     }
     await settleRefundRow(ctx, { refundId, status, processorRefundId });
     await notifyRefundSettled(ctx, refundId, status);
+    if (status === "succeeded") await issueRefundNote(ctx, refundId, actorId);
     await audit(ctx, {
       actorId,
       action: `refund.${status}`,
@@ -297,6 +299,7 @@ export async function applyRefundEvent(ctx: TxContext, paymentId: string, curren
   }
   await settleRefundRow(ctx, { refundId, status, processorRefundId: refund.id });
   await notifyRefundSettled(ctx, refundId, status);
+  if (status === "succeeded") await issueRefundNote(ctx, refundId);
   await audit(ctx, {
     actorId: null,
     action: `refund.${status}`,

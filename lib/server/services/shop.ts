@@ -11,6 +11,8 @@ export type Shop = {
   addressLines: string[];
   phone: string;
   email: string;
+  /** Sales-tax or VAT registration; printed on receipts and invoices only when set. */
+  taxNumber: string;
   /** IANA zone in which every date and time is shown. */
   timeZone: string;
   policy: ShopPolicy;
@@ -27,6 +29,7 @@ export async function getShop(tx: Database = db): Promise<Shop> {
       addressLines: [],
       phone: "",
       email: "",
+      taxNumber: "",
       timeZone: DEFAULT_SHOP_TIME_ZONE,
       policy: defaultShopPolicy,
       version: 0,
@@ -38,6 +41,7 @@ export async function getShop(tx: Database = db): Promise<Shop> {
     addressLines: row.addressLines,
     phone: row.phone,
     email: row.email,
+    taxNumber: row.taxNumber,
     timeZone: canonicalTimeZone(row.timeZone) ?? DEFAULT_SHOP_TIME_ZONE,
     policy: parsed.success ? parsed.data : defaultShopPolicy,
     version: row.version,

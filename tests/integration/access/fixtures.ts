@@ -83,10 +83,12 @@ export async function fixturesFromSeed(): Promise<Fixtures> {
   const addressSparesA = await Promise.all(Array.from({ length: 12 }, () => storeAddress("demo-cust-mira")));
   // A part the checklist calls for: never deleted, so a DELETE that gets through answers 409.
   const { id: partAny } = await one<{ id: string }>("select id from part where code = 'fuse' limit 1");
+  const { id: documentA } = await one<{ id: string }>("select id from money_document where payment_id = $1 and kind = 'receipt'", [pay.id]);
   return {
     addressA,
     addressSparesA,
     jobA,
+    documentA,
     jobOpenA,
     revisionA,
     certificateA,

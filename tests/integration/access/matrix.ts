@@ -29,6 +29,8 @@ export type Fixtures = {
   /** More of customer A's addresses, one taken by each removal probe (a removed address is gone). */
   addressSparesA: string[];
   partAny: string;
+  /** The receipt of customer A's deposit. */
+  documentA: string;
 };
 
 export type RouteEntry = {
@@ -54,6 +56,7 @@ const ownerOnly: Record<Role, Rule> = { anonymous: "deny", customerA: "deny", cu
 const customers: Record<Role, Rule> = { anonymous: "deny", customerA: "allow", customerB: "allow", technician: "deny", owner: "deny" };
 const customerOwn: Record<Role, Rule> = { anonymous: "deny", customerA: "own", customerB: "own", technician: "deny", owner: "deny" };
 const ownOrStaff: Record<Role, Rule> = { anonymous: "deny", customerA: "own", customerB: "own", technician: "allow", owner: "allow" };
+const ownOrOffice: Record<Role, Rule> = { anonymous: "deny", customerA: "own", customerB: "own", technician: "deny", owner: "allow" };
 const everyone: Record<Role, Rule> = {
   anonymous: "public",
   customerA: "public",
@@ -358,6 +361,31 @@ export const ROUTES: RouteEntry[] = [
     hiddenFromVisitors: true,
   },
   { method: "GET", route: "/api/office/payments", action: "payment.refund", rules: ownerOnly },
+  {
+    method: "GET",
+    route: "/api/documents/[id]/pdf",
+    action: "document.download (own job's, or the office)",
+    rules: ownOrOffice,
+    params: (f) => ({ id: f.documentA }),
+    hiddenFromVisitors: true,
+  },
+  {
+    method: "GET",
+    route: "/api/documents/estimates/[jobId]/pdf",
+    action: "document.download (own job's, or the office)",
+    rules: ownOrOffice,
+    params: (f) => ({ jobId: f.jobA }),
+    hiddenFromVisitors: true,
+  },
+  { method: "POST", route: "/api/office/payments/manual", action: "payment.record", rules: ownerOnly, body: () => ({}) },
+  {
+    method: "POST",
+    route: "/api/office/payments/[paymentId]/void",
+    action: "payment.record",
+    rules: ownerOnly,
+    params: (f) => ({ paymentId: f.paymentA }),
+    body: () => ({}),
+  },
   {
     method: "GET",
     route: "/api/office/payments/[paymentId]",

@@ -1,7 +1,8 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { formatMoney, formatWhen } from "@/components/office/format";
-import { PAYMENT_STATUS_LABEL, PURPOSE_LABEL } from "@/components/office/labels";
+import { METHOD_LABEL, PAYMENT_STATUS_LABEL, PURPOSE_LABEL } from "@/components/office/labels";
+import { ManualPaymentForm } from "@/components/office/manual-payment-form";
 import { OwedBackList } from "@/components/office/owed-back-list";
 import { listPaymentsForOffice } from "@/db/queries/office";
 import { listOwedBack } from "@/lib/server/services/account";
@@ -31,9 +32,11 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
       <div>
         <h1 className="text-3xl font-bold">Payments</h1>
         <p className="max-w-prose text-bakelite-soft">
-          Deposits and balances paid through the processor. Open a payment to refund part or all of it.
+          Deposits and balances, paid online or at the counter. Open a payment to refund part or all of it; every payment received has a
+          numbered receipt.
         </p>
       </div>
+      <ManualPaymentForm currency={currency} />
       <OwedBackList rows={owedBack} currency={currency} />
       <nav aria-label="Show payments" className="flex gap-3 text-sm">
         {FILTERS.map((f) =>
@@ -62,6 +65,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                   <th scope="col">Job</th>
                   <th scope="col">Set and owner</th>
                   <th scope="col">Purpose</th>
+                  <th scope="col">Method</th>
                   <th scope="col" className="text-right">
                     Amount
                   </th>
@@ -70,6 +74,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                   <th scope="col" className="text-right">
                     Refunded so far
                   </th>
+                  <th scope="col">Receipt</th>
                   <th scope="col">
                     <span className="sr-only">Open</span>
                   </th>
@@ -84,6 +89,7 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                       <span className="block text-xs text-bakelite-muted">{p.customerName}</span>
                     </td>
                     <td>{PURPOSE_LABEL[p.purpose]}</td>
+                    <td>{METHOD_LABEL[p.method]}</td>
                     <td className="figure whitespace-nowrap text-right">{formatMoney(p.amountMinor, currency)}</td>
                     <td>
                       <span aria-hidden="true">{PAYMENT_STATUS_LABEL[p.status].icon} </span>
@@ -96,9 +102,19 @@ export default async function PaymentsPage({ searchParams }: { searchParams: Pro
                         <span className="block text-xs text-bakelite-muted">+ {formatMoney(p.inFlightMinor, currency)} waiting</span>
                       ) : null}
                     </td>
+                    <td className="whitespace-nowrap">
+                      {p.receiptId ? (
+                        <a href={`/api/documents/${p.receiptId}/pdf`} download className="figure">
+                          {p.receiptNumber}
+                          <span className="sr-only"> (PDF)</span>
+                        </a>
+                      ) : (
+                        "—"
+                      )}
+                    </td>
                     <td>
                       <Link href={`/office/payments/${p.id}`}>
-                        {p.status === "paid" || p.status === "duplicate" ? "Open / refund" : "Open"}
+                        {p.method === "card" && (p.status === "paid" || p.status === "duplicate") ? "Open / refund" : "Open"}
                         <span className="sr-only">
                           {" "}
                           {PURPOSE_LABEL[p.purpose].toLowerCase()} for {jobNumber(p.jobNumber)}

@@ -4,6 +4,7 @@ import { notFound } from "next/navigation";
 import { z } from "zod";
 import { jsonify } from "@/components/office/format";
 import { RefundPanel } from "@/components/office/refund-panel";
+import { VoidPaymentForm } from "@/components/office/void-payment-form";
 import { getPaymentForOffice } from "@/db/queries/office";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { getShop } from "@/lib/server/services/shop";
@@ -26,6 +27,7 @@ export default async function PaymentPage({ params }: { params: Promise<{ paymen
         Payment for <span className="figure">{jobNumber(payment.jobNumber)}</span>
       </h1>
       <RefundPanel initial={jsonify(payment)} currency={shop.policy.currency} />
+      {payment.method !== "card" && payment.status === "paid" ? <VoidPaymentForm paymentId={payment.id} /> : null}
     </div>
   );
 }

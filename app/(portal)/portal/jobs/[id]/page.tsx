@@ -4,6 +4,7 @@ import { getJobForCustomer } from "@/db/queries/jobs";
 import { getPortalJobView } from "@/lib/server/services/portal-view";
 import { requirePermission } from "@/lib/server/session";
 import { JobCertificates } from "@/app/(portal)/portal/jobs/[id]/_components/job-certificates";
+import { JobDocuments } from "./_components/job-documents";
 import { JobView } from "./_components/job-view";
 
 export const metadata: Metadata = { title: "My job" };
@@ -29,7 +30,12 @@ export default async function JobPage({
       initial={initial}
       justCreated={sp.new === "1"}
       paymentCancelled={sp.payment === "cancelled"}
-      certificates={<JobCertificates jobId={id} customerId={viewer.id} />}
+      certificates={
+        <>
+          <JobDocuments jobId={id} />
+          <JobCertificates jobId={id} customerId={viewer.id} />
+        </>
+      }
     />
   );
 }
