@@ -35,7 +35,8 @@ const HALDANE_CORONET: SetProfileInput = {
  * A walk-in: Hollis Quade brings a Haldane table set to the counter and leaves a phone number only (a contact
  * without sign-in). The office takes it in, the technician corrects the profile and sends the estimate, the
  * owner approves it in person (recorded by the office), and the job runs through the bench to its return at
- * the counter with a signed certificate. Payments are recorded the way every demo job's are.
+ * the counter with a signed certificate. The deposit is paid in cash and the balance by cheque at the counter,
+ * each with its receipt, and the job's invoice is issued when it is paid in full.
  */
 export async function seedCounterJob(ctx: TxContext): Promise<number> {
   const [existing] = await ctx.tx
@@ -84,13 +85,13 @@ export async function seedCounterJob(ctx: TxContext): Promise<number> {
     },
   });
   const job = { id: jobId, key: "demo-counter" };
-  await recordDemoPayment(ctx, job, "deposit", "deposit_paid");
+  await recordDemoPayment(ctx, job, "deposit", "deposit_paid", { method: "cash", takenBy: ODILE });
   await startBenchWork(ctx, { jobId, actorId: PRIYA });
   await recordAsReceived(ctx, jobId, PRIYA, byKind);
   await passAllReadings(ctx, jobId, PRIYA, byKind);
   await beginFinalChecks(ctx, { jobId, actorId: PRIYA });
   await completeJob(ctx, { jobId, actorId: PRIYA });
-  await recordDemoPayment(ctx, job, "balance", "paid_in_full");
+  await recordDemoPayment(ctx, job, "balance", "paid_in_full", { method: "cheque", chequeNumber: "000318", takenBy: ODILE });
   await recordReturn(ctx, { jobId, actorId: ODILE, input: { method: "pick-up" } });
   await backdate(ctx, jobId, 18);
   // Handed over at the counter: the set was at the shop from the first day.

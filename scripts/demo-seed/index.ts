@@ -3,6 +3,7 @@ import { account, benchWeeks, shopSettings, user } from "@/db/schema";
 import { transaction } from "@/db/transaction";
 import { hashPassword } from "@/lib/server/password";
 import { defaultShopPolicy } from "@/lib/engine/shop-policy";
+import { seedDemoAddresses } from "./addresses";
 import { seedCounterJob } from "./counter";
 import { seedDemoJobs } from "./jobs";
 import { seedDemoRefund } from "./refunds";
@@ -42,6 +43,7 @@ export async function seedDemo(): Promise<string> {
         { userId: "demo-tech-priya", minutes: [0, 300, 300, 300, 300, 300, 0], daysOff: ["2026-12-25", "2027-01-01"] },
       ])
       .onConflictDoNothing();
+    await seedDemoAddresses(ctx);
     const jobs = (await seedDemoJobs(ctx)) + (await seedCounterJob(ctx));
     const refunds = await seedDemoRefund(ctx);
     return `${createdUsers} users created, ${jobs} jobs created, ${refunds} refunds recorded`;

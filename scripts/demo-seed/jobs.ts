@@ -319,7 +319,17 @@ function reached(target: JobState, step: JobState): boolean {
 }
 
 // Stands in for the processor's confirmed webhook: demo data only, never used by the app itself.
-export async function recordDemoPayment(ctx: TxContext, job: { id: string; key: string }, purpose: "deposit" | "balance", to: JobState) {
+/**
+ * A paid deposit or balance with its receipt (and the invoice once paid in full). By card through the processor
+ * unless `counter` names who took cash or a cheque at the counter and how.
+ */
+export async function recordDemoPayment(
+  ctx: TxContext,
+  job: { id: string; key: string },
+  purpose: "deposit" | "balance",
+  to: JobState,
+  counter?: { method: "cash" | "cheque"; chequeNumber?: string; takenBy: string },
+) {
   const [rev] = await ctx.tx
     .execute<{ id: string; total_minor: number; deposit_minor: number; currency: string }>(
       sql`select id, total_minor, deposit_minor, currency from estimate_revision where job_id = ${job.id} and status = 'approved' order by revision desc limit 1`,
@@ -339,8 +349,17 @@ export async function recordDemoPayment(ctx: TxContext, job: { id: string; key: 
       amountMinor: amount,
       currency: rev.currency,
       status: "paid",
-      checkoutSessionId: `cs_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
-      paymentIntentId: `pi_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
+      ...(counter
+        ? {
+            method: counter.method,
+            chequeNumber: counter.chequeNumber ?? null,
+            receivedOn: new Date().toISOString().slice(0, 10),
+            createdBy: counter.takenBy,
+          }
+        : {
+            checkoutSessionId: `cs_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
+            paymentIntentId: `pi_demo_${job.key.replace(/-/g, "_")}_${purpose}`,
+          }),
       idempotencyKey: `demo:${job.key}:${purpose}`,
       paidAt: new Date(),
     })
@@ -351,7 +370,11 @@ export async function recordDemoPayment(ctx: TxContext, job: { id: string; key: 
     to,
     actor: "system",
     actorId: null,
-    note: purpose === "deposit" ? "Deposit confirmed by the processor" : "Balance confirmed by the processor",
+    note: counter
+      ? `${purpose === "deposit" ? "Deposit" : "Balance"} received by ${counter.method} at the counter`
+      : purpose === "deposit"
+        ? "Deposit confirmed by the processor"
+        : "Balance confirmed by the processor",
   });
   if (to === "paid_in_full") await issueInvoice(ctx, job.id);
 }

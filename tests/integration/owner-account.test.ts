@@ -1,9 +1,19 @@
+import { PDFParse } from "pdf-parse";
 import { afterAll, describe, expect, it } from "vitest";
 import { DEMO, newCustomer, signedIn } from "../support/accounts";
 import { closeTestPool, sql } from "../support/db";
 import { TestClient } from "../support/http";
 import { firstLink, waitForMail } from "../support/mail";
 import { seedJobWithEstimate } from "../fixtures/jobs";
+
+async function pdfText(res: Response): Promise<string> {
+  const parser = new PDFParse({ data: new Uint8Array(await res.arrayBuffer()) });
+  try {
+    return (await parser.getText()).text.replace(/\s+/g, " ");
+  } finally {
+    await parser.destroy();
+  }
+}
 
 afterAll(async () => {
   await closeTestPool();
@@ -160,6 +170,13 @@ describe("return address on a job", () => {
     const tech = await signedIn(DEMO.tech);
     const detail = (await (await tech.get(`/api/bench/jobs/${job.jobId}`)).json()) as { shipTo: { lines: string[]; chosen: boolean } };
     expect(detail.shipTo).toEqual({ lines: ["Ship Owner", "14 Kestrel Lane", "PORT ALDER, ME 04101", "UNITED STATES"], chosen: true });
+    // The printable estimate ships to the job's copy, not to the edited address-book entry.
+    const estimatePdf = await client.get(`/api/documents/estimates/${job.jobId}/pdf`);
+    expect(estimatePdf.status).toBe(200);
+    const printed = await pdfText(estimatePdf);
+    expect(printed).toMatch(/Ship to/i);
+    expect(printed).toContain("14 Kestrel Lane");
+    expect(printed).not.toContain("99 Other Road");
     // Removing the address leaves the job's copy.
     expect((await client.request(`/api/portal/account/addresses/${addressId}`, { method: "DELETE" })).status).toBe(200);
     const after = (await (await client.get(`/api/portal/jobs/${job.jobId}`)).json()) as { job: { returnAddress: { lines: string[] } } };

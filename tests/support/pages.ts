@@ -13,7 +13,7 @@ export const AUDIENCES: {
   {
     who: "set owner",
     login: DEMO.customer,
-    pages: ["/portal", "/portal/request", "/portal/claims"],
+    pages: ["/portal", "/portal/request", "/portal/claims", "/portal/account"],
     follow: [
       { from: "/portal", link: /Aurelian/ },
       { from: "/portal", link: /Haldane/ },
@@ -23,7 +23,7 @@ export const AUDIENCES: {
   {
     who: "technician",
     login: DEMO.tech,
-    pages: ["/bench", "/bench/intake", "/bench/calculator", "/bench/claims"],
+    pages: ["/bench", "/bench/intake", "/bench/calculator", "/bench/claims", "/staff/notifications", "/staff/profile"],
     follow: [
       // The queue's first page fills up with the jobs other tests create: these two are searched for.
       { from: "/bench", search: "KL-0008", link: /KL-0008/ },
@@ -43,6 +43,8 @@ export const AUDIENCES: {
       "/office/certificates",
       "/office/audit",
       "/office/reports",
+      "/office/parts",
+      "/staff/notifications",
     ],
     follow: [{ from: "/office/payments", link: /KL-/ }],
   },

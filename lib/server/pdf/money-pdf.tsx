@@ -15,7 +15,7 @@ export type MoneyPdfContent = {
   number: string | null;
   issuedOn: string;
   shop: { name: string; addressLines: string[]; phone: string; email: string; taxNumber: string };
-  billTo: { name: string; email: string };
+  billTo: { name: string; email: string | null };
   /** Where the set goes back to; null when none is known. */
   shipTo: string[] | null;
   facts: DocumentFigure[];
@@ -84,7 +84,7 @@ function MoneyPdf({ c }: { c: MoneyPdfContent }) {
           <View style={s.party}>
             <Text style={s.label}>{c.number ? "Bill to" : "Prepared for"}</Text>
             <Text>{c.billTo.name}</Text>
-            <Text style={s.small}>{c.billTo.email}</Text>
+            {c.billTo.email ? <Text style={s.small}>{c.billTo.email}</Text> : null}
           </View>
           <View style={s.party}>
             <Text style={s.label}>Ship to</Text>

@@ -19,6 +19,8 @@ import { DOCUMENT_TITLE } from "@/lib/engine/documents/numbering";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { WAIVED_WORDING } from "@/lib/engine/pricing/account";
 import { loadJobAccount } from "@/lib/server/services/account";
+import { jobShipToLines } from "@/lib/server/services/owner-account";
+import { shownEmail } from "@/lib/engine/contacts";
 import { getShop } from "@/lib/server/services/shop";
 import { moneyText } from "@/lib/validation/estimate";
 import type { DocumentFigure, DocumentLine, MoneyPdfContent } from "@/lib/server/pdf/money-pdf";
@@ -43,6 +45,15 @@ async function jobHeader(tx: Database, jobId: string) {
     .where(eq(jobs.id, jobId))
     .limit(1);
   return row!;
+}
+
+/**
+ * Where the set goes back: the address the owner chose for the job (kept on the job), else their default
+ * address; nothing for a set collected at the counter (the document then says it is collected).
+ */
+async function shipToOf(job: { id: string; returnMethod: "pick-up" | "shipped" | null }): Promise<string[] | null> {
+  if (job.returnMethod === "pick-up") return null;
+  return (await jobShipToLines({ jobId: job.id }))?.lines ?? null;
 }
 
 async function shopBlock() {
@@ -131,11 +142,9 @@ function accountFigures(
 }
 
 /** What a receipt, refund note or invoice prints. */
-export async function moneyDocumentContent(
-  doc: MoneyDocument,
-  { shipTo = null }: { shipTo?: string[] | null } = {},
-): Promise<MoneyPdfContent> {
+export async function moneyDocumentContent(doc: MoneyDocument, options: { shipTo?: string[] | null } = {}): Promise<MoneyPdfContent> {
   const [{ shop, block }, head, loaded] = await Promise.all([shopBlock(), jobHeader(db, doc.jobId), loadJobAccount(db, doc.jobId)]);
+  const shipTo = options.shipTo !== undefined ? options.shipTo : await shipToOf(head.job);
   const timeZone = shop.timeZone;
   const money = (minor: number) => moneyText(minor, loaded.currency, loaded.exponent);
   const base = {
@@ -143,7 +152,7 @@ export async function moneyDocumentContent(
     number: doc.number,
     issuedOn: formatDate(doc.issuedAt, { timeZone }),
     shop: block,
-    billTo: { name: head.name, email: head.email },
+    billTo: { name: head.name, email: shownEmail(head.email) },
     shipTo,
   };
   const setName = [head.maker, head.model, head.year ? `(${head.year})` : null].filter(Boolean).join(" ");
@@ -220,10 +229,7 @@ export async function moneyDocumentContent(
 }
 
 /** The printable estimate: the job's newest revision as sent to the owner, whatever its status. */
-export async function estimateContent(
-  jobId: string,
-  { shipTo = null }: { shipTo?: string[] | null } = {},
-): Promise<MoneyPdfContent | null> {
+export async function estimateContent(jobId: string, options: { shipTo?: string[] | null } = {}): Promise<MoneyPdfContent | null> {
   const [revision] = await db
     .select()
     .from(estimateRevisions)
@@ -232,6 +238,7 @@ export async function estimateContent(
     .limit(1);
   if (!revision) return null;
   const [{ shop, block }, head] = await Promise.all([shopBlock(), jobHeader(db, jobId)]);
+  const shipTo = options.shipTo !== undefined ? options.shipTo : await shipToOf(head.job);
   const exponent = typeof revision.pricing.exponent === "number" ? revision.pricing.exponent : 2;
   const money = (minor: number) => moneyText(minor, revision.currency, exponent);
   const priced = await revisionLines(db, revision, money);
@@ -243,7 +250,7 @@ export async function estimateContent(
     number: null,
     issuedOn: formatDate(revision.sentAt, { timeZone: shop.timeZone }),
     shop: block,
-    billTo: { name: head.name, email: head.email },
+    billTo: { name: head.name, email: shownEmail(head.email) },
     shipTo,
     facts: [
       { label: "Job", value: jobNumber(head.job.number) },
