@@ -4,6 +4,7 @@ import type { TxContext } from "@/db/transaction";
 import { setProfileSchema, type SetProfileInput } from "@/lib/engine/checklist/profile";
 import { beginFinalChecks, completeJob, recordReturn, startBenchWork, updateProfile } from "@/lib/server/services/bench";
 import { buildDraft, saveDraft, sendRevision } from "@/lib/server/services/estimates";
+import { checklistCatalogue } from "@/lib/server/services/parts";
 import { recordOwnerDecision, takeInJob } from "@/lib/server/services/intake";
 import { getShop } from "@/lib/server/services/shop";
 import { intakeSchema } from "@/lib/validation/intake";
@@ -72,7 +73,12 @@ export async function seedCounterJob(ctx: TxContext): Promise<number> {
   await updateProfile(ctx, { jobId, actorId: PRIYA, input: { maker: "Haldane", model: "Coronet 6", year: 1949, profile } });
   const shop = await getShop(ctx.tx);
   const [est] = await ctx.tx.select({ version: estimates.version }).from(estimates).where(eq(estimates.jobId, jobId)).limit(1);
-  await saveDraft(ctx, { jobId, actorId: PRIYA, version: est?.version ?? 0, lines: buildDraft(profile, shop.policy) });
+  await saveDraft(ctx, {
+    jobId,
+    actorId: PRIYA,
+    version: est?.version ?? 0,
+    lines: buildDraft(profile, shop.policy, await checklistCatalogue(ctx.tx)),
+  });
   const { revisionId } = await sendRevision(ctx, { jobId, actorId: PRIYA });
   await recordOwnerDecision(ctx, {
     jobId,
