@@ -1,5 +1,5 @@
 import type { JobState } from "@/lib/engine/jobs/states";
-import { ownerStateLabel, STATE_LABEL, type ReturnMethod } from "@/lib/engine/jobs/states";
+import { ownerStateLabel, STATE_LABEL, staffStateLabel, type ReturnMethod } from "@/lib/engine/jobs/states";
 
 const TONE: Partial<Record<JobState, string>> = {
   estimate_sent: "border-ember text-ember-dark",
@@ -29,7 +29,7 @@ export function StateBadge({
       className={`inline-flex items-center gap-1 whitespace-nowrap rounded-full border bg-white px-2 py-0.5 text-xs font-semibold ${TONE[state] ?? "border-bakelite-soft text-bakelite"}`}
     >
       <span aria-hidden="true">{label.icon}</span>
-      {audience === "owner" ? ownerStateLabel(state, returnMethod, setAtShop) : label.staff}
+      {audience === "owner" ? ownerStateLabel(state, returnMethod, setAtShop) : staffStateLabel(state, setAtShop)}
     </span>
   );
 }

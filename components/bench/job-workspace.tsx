@@ -7,7 +7,7 @@ import { Notice } from "@/components/ui/notice";
 import type { Band } from "@/lib/engine/bands/band";
 import { setKindLabels, setKinds, type SetKind } from "@/lib/engine/checklist/profile";
 import type { JobState } from "@/lib/engine/jobs/states";
-import { SHOP_CANCELLABLE, STATE_LABEL } from "@/lib/engine/jobs/states";
+import { SHOP_CANCELLABLE, STATE_LABEL, staffStateLabel } from "@/lib/engine/jobs/states";
 import { AlignmentCalculator } from "./alignment-calculator";
 import { api, errorText } from "@/lib/client/bench-api";
 import { BenchSheetPanel } from "./bench-sheet";
@@ -85,7 +85,7 @@ export function JobWorkspace({ jobId, canCancel = false, canRecord = false }: { 
           <span className="figure">{d.job.jobNumber}</span> · {d.set.maker} {d.set.model}
           {d.set.year ? <span className="text-bakelite-muted"> ({d.set.year})</span> : null}
         </h1>
-        <StateBadge state={d.job.state} audience="staff" />
+        <StateBadge state={d.job.state} audience="staff" setAtShop={Boolean(d.job.receivedAt)} />
         <p className="text-sm">
           {kind ? setKindLabels[kind] : d.set.kind} · owner {d.customer.name} (
           {[d.customer.email, d.customer.phone].filter(Boolean).join(", ") || "no contact details"}
@@ -95,7 +95,7 @@ export function JobWorkspace({ jobId, canCancel = false, canRecord = false }: { 
         </p>
       </header>
       <p className="sr-only" role="status" aria-live="polite">
-        State: {STATE_LABEL[d.job.state].staff}
+        State: {staffStateLabel(d.job.state, Boolean(d.job.receivedAt))}
       </p>
 
       <div role="tablist" aria-label="Job sections" className="flex flex-wrap gap-1 border-b border-dial-rule">

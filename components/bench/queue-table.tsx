@@ -29,6 +29,8 @@ type QueueRow = {
   number: number;
   state: JobState;
   isWarranty: boolean;
+  /** The set is at the shop (handed over at the counter, or received). */
+  setAtShop: boolean;
   createdAt: string;
   updatedAt: string;
   maker: string;
@@ -170,7 +172,11 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
       ),
     }),
     helper.accessor("customerName", { id: "customer", header: "Owner", cell: (info) => info.getValue() }),
-    helper.accessor("state", { id: "state", header: "State", cell: (info) => <StateBadge state={info.getValue()} audience="staff" /> }),
+    helper.accessor("state", {
+      id: "state",
+      header: "State",
+      cell: (info) => <StateBadge state={info.getValue()} audience="staff" setAtShop={info.row.original.setAtShop} />,
+    }),
     helper.accessor("technicianName", {
       id: "technician",
       header: "Technician",

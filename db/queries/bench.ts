@@ -60,6 +60,7 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
       number: jobs.number,
       state: jobs.state,
       isWarranty: jobs.isWarranty,
+      setAtShop: sql<boolean>`${jobs.receivedAt} is not null`,
       createdAt: jobs.createdAt,
       updatedAt: jobs.updatedAt,
       maker: radioSets.maker,

@@ -1,5 +1,5 @@
 import { describe, expect, test } from "vitest";
-import { JOB_STATES, ownerStateLabel, STATE_LABEL, TRANSITIONS, type JobState } from "@/lib/engine/jobs/states";
+import { JOB_STATES, ownerStateLabel, STATE_LABEL, staffStateLabel, TRANSITIONS, type JobState } from "@/lib/engine/jobs/states";
 
 // The owner's words for each state are checked against what the state table says is true in that state,
 // not against the words themselves. Where the set is follows from the table: it leaves the shop only on the
@@ -85,5 +85,12 @@ describe("a set already at the shop (handed over at the counter)", () => {
     expect(words).not.toMatch(/send|bring|post|ship/i);
     expect(words).toMatch(/with us/i);
     expect(words).not.toMatch(CLAIMS_WITH_OWNER);
+  });
+
+  test("the workshop does not read it as a set still to arrive", () => {
+    expect(staffStateLabel("deposit_paid")).toMatch(/awaiting set/i);
+    const words = staffStateLabel("deposit_paid", true);
+    expect(words).not.toMatch(/awaiting|to arrive|send/i);
+    expect(words).toMatch(/at the shop/i);
   });
 });

@@ -91,6 +91,12 @@ export type ReturnMethod = "pick-up" | "shipped";
  * handed to a carrier (it is on its way, not yet with them), so the words depend on how it went back; a set
  * already at the shop is not asked for after the deposit.
  */
+/** The state as the workshop reads it: a set handed over at the counter is not awaited once the deposit is in. */
+export function staffStateLabel(state: JobState, setAtShop = false): string {
+  if (state === "deposit_paid" && setAtShop) return "Deposit in, set at the shop";
+  return STATE_LABEL[state].staff;
+}
+
 export function ownerStateLabel(state: JobState, returnMethod?: ReturnMethod | null, setAtShop = false): string {
   if (state === "returned" && returnMethod === "shipped") return "Shipped — on its way to you";
   // A set handed over at the counter is already here: nothing to send once the deposit is in.
