@@ -34,6 +34,7 @@ export function PhotoPicker({
   inputId = "photos",
   label = "Photos of the set",
   compact = false,
+  optional = false,
 }: {
   onChange: (s: PhotoPickerState) => void;
   error?: string;
@@ -43,6 +44,8 @@ export function PhotoPicker({
   max?: number;
   inputId?: string;
   label?: string;
+  /** Photos may be left out (the counter's intake): the hint does not ask for at least one. */
+  optional?: boolean;
   compact?: boolean;
 }) {
   const [items, setItems] = useState<Item[]>([]);
@@ -185,8 +188,8 @@ export function PhotoPicker({
         />
         {endpoint === "quotePhotos" ? (
           <p className="field-hint">
-            JPEG, PNG or WebP, up to {MAX_PHOTO_BYTES / 1024 / 1024} MB each, 1 to {max} photos. Front, back, chassis, dial and any labels
-            help most.
+            JPEG, PNG or WebP, up to {MAX_PHOTO_BYTES / 1024 / 1024} MB each,{" "}
+            {optional ? `up to ${max} photos, if any` : `1 to ${max} photos`}. Front, back, chassis, dial and any labels help most.
           </p>
         ) : (
           <p className="field-hint">

@@ -287,6 +287,7 @@ export function IntakeForm() {
           Photos of the set as it came in: the cabinet, the dial, the back and anything broken. Location and camera details are removed.
         </p>
         <PhotoPicker
+          optional
           onChange={onPhotos}
           error={errors.photos?.message}
           describedById={describedBy("photos", { error: errors.photos, hint: true })}
