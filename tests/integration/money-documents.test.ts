@@ -94,6 +94,16 @@ describe("cash and cheques at the counter", () => {
     expect(text).toMatch(/Method Cash/i); // the PDF prints its labels in capitals
     expect(text).toContain(label);
     expect(text).toMatch(/Ship to/i);
+
+    // The office finds the invoice and the receipt on the job's bench page too; a technician, who may not
+    // download them, is not offered the links.
+    const [invoiceRow] = await sql<{ id: string }>("select id from money_document where job_id = $1 and kind = 'invoice'", [job.jobId]);
+    const officePage = await (await owner.get(`/bench/jobs/${job.jobId}`)).text();
+    expect(officePage).toContain(`/api/documents/${invoiceRow!.id}/pdf`);
+    expect(officePage).toContain(`/api/documents/${body.receiptId}/pdf`);
+    const tech = await signedIn(DEMO.tech);
+    const techPage = await (await tech.get(`/bench/jobs/${job.jobId}`)).text();
+    expect(techPage).not.toContain("/api/documents/");
   });
 
   it("takes part of a balance, then the rest; refuses zero, more than owed, and a job owing nothing", async () => {

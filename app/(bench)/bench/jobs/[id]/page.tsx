@@ -6,6 +6,7 @@ import { getJobDetailForStaff } from "@/db/queries/bench";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { can } from "@/lib/engine/permissions";
 import { requirePermission } from "@/lib/server/session";
+import { JobDocuments } from "@/app/(portal)/portal/jobs/[id]/_components/job-documents";
 
 type Props = { params: Promise<{ id: string }> };
 
@@ -24,5 +25,11 @@ export default async function BenchJobPage({ params }: Props) {
   if (!parsed.success) notFound();
   const row = await getJobDetailForStaff({ jobId: parsed.data });
   if (!row) notFound();
-  return <JobWorkspace jobId={parsed.data} canCancel={can(viewer.role, "job.cancel")} canRecord={can(viewer.role, "decision.record")} />;
+  return (
+    <div className="space-y-6">
+      <JobWorkspace jobId={parsed.data} canCancel={can(viewer.role, "job.cancel")} canRecord={can(viewer.role, "decision.record")} />
+      {/* The office (shop owner) downloads the job's estimate, receipts and invoice here too. */}
+      {can(viewer.role, "document.download") ? <JobDocuments jobId={parsed.data} /> : null}
+    </div>
+  );
 }
