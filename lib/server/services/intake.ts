@@ -12,7 +12,7 @@ import { AppError } from "@/lib/server/errors";
 import { queueEmail } from "@/lib/server/mail";
 import { approveRevision, declineRevision } from "@/lib/server/services/approvals";
 import { recordJobCreated, transitionJob } from "@/lib/server/services/jobs";
-import { dialEndsOf, draftBands } from "@/lib/server/services/quotes";
+import { newSetValues } from "@/lib/server/services/quotes";
 import { getShop } from "@/lib/server/services/shop";
 import { INVITATION_DAYS } from "@/lib/server/services/staff-invitations";
 import { readTicket, type PhotoTicket } from "@/lib/server/uploads/photos";
@@ -161,30 +161,7 @@ export async function takeInJob(
         photos: "Photos: one of these photos is already attached to a job. Please take it again.",
       });
   }
-  const [set] = await ctx.tx
-    .insert(radioSets)
-    .values({
-      ownerId: customer.id,
-      maker: input.maker,
-      model: input.model,
-      year: input.year ?? null,
-      serial: input.serial || null,
-      kind: input.kind,
-      profile: {
-        kind: input.kind,
-        bands: draftBands(input.bands),
-        electrolytics: 0,
-        paperCapacitors: 0,
-        // What the owner told the shop, kept apart from the technician's corrected profile.
-        ownerReport: {
-          bands: input.bands,
-          dialMarkings: input.dialMarkings,
-          dialEnds: dialEndsOf(input),
-          poweredRecently: input.poweredRecently,
-        },
-      },
-    })
-    .returning({ id: radioSets.id });
+  const [set] = await ctx.tx.insert(radioSets).values(newSetValues(customer.id, input)).returning({ id: radioSets.id });
   const now = new Date();
   const atShop = input.channel === "counter" && input.setAtShop;
   const [job] = await ctx.tx

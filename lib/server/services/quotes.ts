@@ -41,6 +41,36 @@ export function dialEndsOf(
   return out;
 }
 
+/**
+ * The set row as its owner described it, online or at the counter: draft bands for the technician to correct,
+ * and the owner's own report kept apart from the technician's corrected profile.
+ */
+export function newSetValues(
+  ownerId: string,
+  input: Pick<QuoteRequest, "maker" | "model" | "year" | "serial" | "kind" | "bands" | "dialMarkings" | "dialEnds" | "poweredRecently">,
+) {
+  return {
+    ownerId,
+    maker: input.maker,
+    model: input.model,
+    year: input.year ?? null,
+    serial: input.serial || null,
+    kind: input.kind,
+    profile: {
+      kind: input.kind,
+      bands: draftBands(input.bands),
+      electrolytics: 0,
+      paperCapacitors: 0,
+      ownerReport: {
+        bands: input.bands,
+        dialMarkings: input.dialMarkings,
+        dialEnds: dialEndsOf(input),
+        poweredRecently: input.poweredRecently,
+      },
+    },
+  };
+}
+
 function isUniqueViolation(e: unknown): boolean {
   const code = (e as { code?: string }).code ?? (e as { cause?: { code?: string } }).cause?.code;
   return code === "23505";
@@ -80,30 +110,7 @@ export async function submitQuote(viewer: Viewer, input: QuoteRequest): Promise<
           photos: "One of these photos is already attached to a request. Please add it again.",
         });
       }
-      const [set] = await tx
-        .insert(radioSets)
-        .values({
-          ownerId: viewer.id,
-          maker: input.maker,
-          model: input.model,
-          year: input.year ?? null,
-          serial: input.serial || null,
-          kind: input.kind,
-          profile: {
-            kind: input.kind,
-            bands: draftBands(input.bands),
-            electrolytics: 0,
-            paperCapacitors: 0,
-            // What the owner told us, kept apart from the technician's corrected profile.
-            ownerReport: {
-              bands: input.bands,
-              dialMarkings: input.dialMarkings,
-              dialEnds: dialEndsOf(input),
-              poweredRecently: input.poweredRecently,
-            },
-          },
-        })
-        .returning({ id: radioSets.id });
+      const [set] = await tx.insert(radioSets).values(newSetValues(viewer.id, input)).returning({ id: radioSets.id });
       const now = new Date();
       const [job] = await tx
         .insert(jobs)
