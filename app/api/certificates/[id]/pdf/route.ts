@@ -1,9 +1,9 @@
 import { getCertificateById, getCertificateForCustomer } from "@/db/queries/certificates";
-import { json, route } from "@/lib/server/route-handler";
+import { route } from "@/lib/server/route-handler";
 import { env } from "@/lib/server/env";
 import { AppError } from "@/lib/server/errors";
-import { certificatePdfFailure, renderCertificatePdfOffThread } from "@/lib/server/pdf/certificate-pdf-pool";
-import { RenderPoolError } from "@/lib/server/pdf/render-pool";
+import { renderCertificatePdfOffThread } from "@/lib/server/pdf/certificate-pdf-pool";
+import { pdfDownload } from "@/lib/server/pdf/pdf-response";
 import { can } from "@/lib/engine/permissions";
 import { formatDate } from "@/lib/engine/dates";
 import { shopTimeZone } from "@/lib/server/services/shop";
@@ -34,21 +34,5 @@ export const GET = route<{ id: string }>({ permission: "certificate.download" },
       supersededByCode: newer?.code ?? null,
     },
   };
-  let pdf: Uint8Array<ArrayBuffer>;
-  try {
-    pdf = await renderCertificatePdfOffThread(input);
-  } catch (e) {
-    if (!(e instanceof RenderPoolError)) throw e;
-    const { error, retryAfterSeconds } = certificatePdfFailure(e);
-    if (retryAfterSeconds === null) throw error;
-    return json(error.toJSON(), { status: error.status, headers: { "retry-after": String(retryAfterSeconds) } });
-  }
-  return new Response(pdf, {
-    headers: {
-      "content-type": "application/pdf",
-      "content-disposition": `attachment; filename="certificate-${row.code}.pdf"`,
-      "cache-control": "no-store",
-      "x-content-type-options": "nosniff",
-    },
-  });
+  return pdfDownload(() => renderCertificatePdfOffThread(input), `certificate-${row.code}.pdf`);
 });
