@@ -77,8 +77,14 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     const totalBefore = await page.locator('[data-total="Total"]').innerText();
     await page.locator('tr[data-line="inspect.intake"] input[id$="-num"]').fill("50");
     await expect.poll(() => page.locator('[data-total="Total"]').innerText()).not.toBe(totalBefore);
-    await page.getByLabel("Part to add").selectOption({ label: "Dial cord and spring" });
-    await page.getByRole("button", { name: "+ Part" }).click();
+    // A part from the shop's catalogue, found by typing (a checklist part keeps its code on the line).
+    const search = page.getByRole("combobox", { name: "Add a part from the catalogue" });
+    await search.fill("Dial cord");
+    await expect.poll(() => page.getByRole("option", { name: /Dial cord and spring/ }).count()).toBe(1);
+    await search.press("ArrowDown");
+    await search.press("ArrowUp");
+    await expect.poll(() => search.getAttribute("aria-activedescendant")).toBeTruthy();
+    await search.press("Enter");
     await expect.poll(() => page.locator('tr[data-line="part.cord.dial"]').count()).toBe(1);
     await page.getByRole("button", { name: /Remove line \d+: Burn-in/ }).click();
     await expect.poll(() => page.locator('tr[data-line="test.burn-in"]').count()).toBe(0);
@@ -242,7 +248,7 @@ describe("the alignment calculator", () => {
     await page.goto("/bench/calculator");
     await page.getByLabel("Dial low end").fill("540");
     await page.getByLabel("Dial high end").fill("1600");
-    await page.getByLabel("IF").fill("455");
+    await page.getByLabel("IF", { exact: true }).fill("455");
     await page.getByLabel("Gang minimum").fill("10");
     await page.getByLabel("Gang maximum").fill("365");
     await page.getByRole("button", { name: "Calculate" }).click();
@@ -290,7 +296,7 @@ describe("the alignment calculator", () => {
     await page.getByLabel("Band kind").selectOption("FM");
     await page.getByLabel("Dial low end").fill("88 MHz");
     await page.getByLabel("Dial high end").fill("108 MHz");
-    await page.getByLabel("IF").fill("10.7 MHz");
+    await page.getByLabel("IF", { exact: true }).fill("10.7 MHz");
     await page.getByLabel("Gang minimum").fill("5");
     await page.getByLabel("Gang maximum").fill("20");
     await page.getByRole("button", { name: "Calculate" }).click();
@@ -305,7 +311,7 @@ describe("the alignment calculator", () => {
     expect(await page.locator('[data-figure="design.signalInductanceUH"]').count()).toBe(0);
     await page.getByLabel("Band kind").selectOption("MW");
     await page.getByLabel("Dial low end").fill("540");
-    await page.getByLabel("IF").fill("455");
+    await page.getByLabel("IF", { exact: true }).fill("455");
 
     // Bad input is refused field by field, before anything is computed.
     await page.getByLabel("Dial high end").fill("500");

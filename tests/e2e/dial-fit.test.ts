@@ -47,7 +47,7 @@ describe("the dial-calibration fit", () => {
     await page.goto("/bench/calculator");
     await page.getByLabel("Dial low end").fill("540");
     await page.getByLabel("Dial high end").fill("1600");
-    await page.getByLabel("IF").fill("455");
+    await page.getByLabel("IF", { exact: true }).fill("455");
     await page.getByLabel("Gang minimum").fill("10");
     await page.getByLabel("Gang maximum").fill("365");
     await page.getByLabel("Low", { exact: true }).fill("600");
