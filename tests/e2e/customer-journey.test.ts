@@ -124,7 +124,7 @@ describe("a set owner's journey", () => {
 
     // 4. The owner reads and approves the estimate.
     await page.goto(`/portal/jobs/${jobId}`);
-    await expect.poll(() => page.getByRole("heading", { name: "Estimate" }).count()).toBe(1);
+    await expect.poll(() => page.getByRole("heading", { name: "Estimate", exact: true }).count()).toBe(1);
     await expect.poll(() => page.getByRole("heading", { name: "Safety" }).count()).toBe(1);
     await expect.poll(() => page.getByText(/^Why: /).count()).toBeGreaterThan(0);
     await expect.poll(() => page.getByRole("heading", { name: "What the warranty will cover" }).count()).toBe(1);
