@@ -1,4 +1,5 @@
 import { randomUUID } from "node:crypto";
+import { NOTIFICATION_KINDS } from "@/lib/engine/notifications";
 import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO, newCustomer } from "../support/accounts";
@@ -480,6 +481,89 @@ const SHAPES: Record<string, Shape> = {
   // Never the account's password: a probe must not close the account the other probes use.
   "POST /api/portal/account/close": { fields: ["password", "confirm"], base: () => ({ password: "not-the-password", confirm: true }) },
   "PUT /api/portal/jobs/[id]/return-address": { fields: ["addressId"], base: (f) => ({ addressId: f.addressA }) },
+  "POST /api/bench/intake": {
+    fields: [
+      "customerMode",
+      "customerId",
+      "customerName",
+      "customerEmail",
+      "customerPhone",
+      "access",
+      "maker",
+      "model",
+      "year",
+      "serial",
+      "kind",
+      "bands",
+      "dialMarkings",
+      "dialEnds",
+      "symptoms",
+      "priorWork",
+      "poweredRecently",
+      "channel",
+      "setAtShop",
+      "contactPreference",
+      "cautionsGiven",
+      "photos",
+      "idempotencyKey",
+    ],
+    base: () => ({
+      customerMode: "new",
+      customerId: "",
+      customerName: "Fuzz Walk-in",
+      customerEmail: "",
+      customerPhone: "+1 555 0100",
+      access: "contact",
+      maker: "Corvane",
+      model: "Seven",
+      year: 1961,
+      serial: "",
+      kind: "transistor-battery",
+      bands: ["MW"],
+      dialMarkings: "",
+      symptoms: "No sound at all, lamp lights.",
+      priorWork: "",
+      poweredRecently: "no",
+      channel: "phone",
+      setAtShop: false,
+      contactPreference: "phone",
+      cautionsGiven: true,
+      photos: [],
+      idempotencyKey: randomUUID(),
+    }),
+  },
+  "POST /api/bench/jobs/[id]/decision": {
+    fields: ["revisionId", "decision", "medium", "note", "afterDecline"],
+    base: () => ({ revisionId: randomUUID(), decision: "approve", medium: "phone", note: "Agreed by phone." }),
+  },
+  // A job number that does not exist: a body that gets through is refused naming the job, and pays nothing.
+  "POST /api/office/payments/manual": {
+    fields: ["job", "amount", "method", "chequeNumber", "receivedOn", "idempotencyKey"],
+    base: () => ({
+      job: "KL-9999999",
+      amount: "12.00",
+      method: "cheque",
+      chequeNumber: "000001",
+      receivedOn: "2026-01-15",
+      idempotencyKey: randomUUID(),
+    }),
+  },
+  "POST /api/office/payments/[paymentId]/void": { fields: ["reason"], base: () => ({ reason: "Typed on the wrong job." }) },
+  "POST /api/staff/notifications/read-all": { fields: [] },
+  "POST /api/staff/notifications/[id]/read": { fields: ["read"], base: () => ({ read: true }) },
+  "PUT /api/staff/notification-preferences": {
+    fields: ["preferences"],
+    base: () => ({ preferences: Object.fromEntries(NOTIFICATION_KINDS.map((k) => [k, { inApp: true, email: false }])) }),
+  },
+  "POST /api/office/parts": {
+    fields: ["name", "supplierRef", "cost", "markupPercent", "stock"],
+    base: () => ({ name: `Fuzz lamp ${randomUUID().slice(0, 6)}`, supplierRef: "FZ-1", cost: "0.90", markupPercent: "50", stock: "" }),
+  },
+  "PATCH /api/office/parts/[id]": {
+    fields: ["name", "supplierRef", "cost", "markupPercent", "stock", "retired"],
+    base: () => ({ cost: "0.50" }),
+  },
+  "DELETE /api/office/parts/[id]": { fields: ["id"] },
   "POST /api/portal/jobs/[id]/withdraw": { fields: ["reason"], base: () => ({ reason: "Found the fault myself." }) },
   "POST /api/bench/jobs/[id]/cancel": {
     fields: ["reason", "refund"],
