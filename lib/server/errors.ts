@@ -67,6 +67,30 @@ export function nulCharacterPath(value: unknown): string | null {
   return null;
 }
 
+// Half of a UTF-16 surrogate pair on its own: JSON can carry it (\ud800), but it is no character and the
+// database refuses it in text kept as JSON (the audit log, set profiles).
+const LONE_SURROGATE = /[\ud800-\udbff](?![\udc00-\udfff])|(?<![\ud800-\udbff])[\udc00-\udfff]/;
+
+/** The path of the first string (or key) holding half a surrogate pair, or null. */
+export function loneSurrogatePath(value: unknown): string | null {
+  const stack: [unknown, string][] = [[value, ""]];
+  while (stack.length) {
+    const [v, path] = stack.pop()!;
+    if (typeof v === "string") {
+      if (LONE_SURROGATE.test(v)) return path || "_";
+    } else if (v && typeof v === "object") {
+      for (const [k, child] of Object.entries(v)) {
+        const p = path ? `${path}.${k}` : k;
+        if (LONE_SURROGATE.test(k)) return p;
+        stack.push([child, p]);
+      }
+    }
+  }
+  return null;
+}
+
+export const LONE_SURROGATE_MESSAGE = "This text contains a broken character (half of a pair), which cannot be stored. Type it again.";
+
 export const NUL_MESSAGE = "This text contains a NUL character (\\0), which cannot be stored. Remove it and try again.";
 
 // The database refuses text it cannot store (a NUL character from a query string, say): that is bad input.

@@ -1,7 +1,15 @@
 import "server-only";
 import type { z } from "zod";
 import { env } from "./env";
-import { AppError, DATABASE_RETRY_AFTER_SECONDS, NUL_MESSAGE, nulCharacterPath, toAppError } from "./errors";
+import {
+  AppError,
+  DATABASE_RETRY_AFTER_SECONDS,
+  LONE_SURROGATE_MESSAGE,
+  loneSurrogatePath,
+  NUL_MESSAGE,
+  nulCharacterPath,
+  toAppError,
+} from "./errors";
 import { canAccess, type Permission } from "@/lib/engine/permissions";
 import { viewerFromHeaders, type Viewer } from "./session";
 
@@ -72,6 +80,8 @@ export async function readJson(request: Request, limitBytes = 256 * 1024): Promi
   }
   const nul = nulCharacterPath(parsed);
   if (nul) throw new AppError("invalid_input", "Some fields need attention.", { [nul]: NUL_MESSAGE });
+  const broken = loneSurrogatePath(parsed);
+  if (broken) throw new AppError("invalid_input", "Some fields need attention.", { [broken]: LONE_SURROGATE_MESSAGE });
   return parsed;
 }
 

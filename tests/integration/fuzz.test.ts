@@ -549,7 +549,8 @@ const SHAPES: Record<string, Shape> = {
     }),
   },
   "POST /api/office/payments/[paymentId]/void": { fields: ["reason"], base: () => ({ reason: "Typed on the wrong job." }) },
-  "POST /api/staff/notifications/read-all": { fields: [] },
+  // Takes no body: whatever is sent is ignored.
+  "POST /api/staff/notifications/read-all": { fields: ["all"] },
   "POST /api/staff/notifications/[id]/read": { fields: ["read"], base: () => ({ read: true }) },
   "PUT /api/staff/notification-preferences": {
     fields: ["preferences"],
