@@ -1,5 +1,5 @@
 import { randomUUID } from "node:crypto";
-import { NOTIFICATION_KINDS } from "@/lib/engine/notifications";
+import { DEFAULT_NOTIFICATION_PREFERENCES } from "@/lib/engine/notifications";
 import fc from "fast-check";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { DEMO, newCustomer } from "../support/accounts";
@@ -549,12 +549,13 @@ const SHAPES: Record<string, Shape> = {
     }),
   },
   "POST /api/office/payments/[paymentId]/void": { fields: ["reason"], base: () => ({ reason: "Typed on the wrong job." }) },
-  // Takes no body: whatever is sent is ignored.
-  "POST /api/staff/notifications/read-all": { fields: ["all"] },
+  // Takes no fields: an empty body, or none.
+  "POST /api/staff/notifications/read-all": { fields: ["all"], base: () => ({}) },
   "POST /api/staff/notifications/[id]/read": { fields: ["read"], base: () => ({ read: true }) },
   "PUT /api/staff/notification-preferences": {
     fields: ["preferences"],
-    base: () => ({ preferences: Object.fromEntries(NOTIFICATION_KINDS.map((k) => [k, { inApp: true, email: false }])) }),
+    // The defaults: a body that gets through leaves the technician's choices as other tests expect them.
+    base: () => ({ preferences: structuredClone(DEFAULT_NOTIFICATION_PREFERENCES) }),
   },
   "POST /api/office/parts": {
     fields: ["name", "supplierRef", "cost", "markupPercent", "stock"],
