@@ -82,8 +82,12 @@ describe("a technician takes an AC/DC set from request to balance due", () => {
     await search.fill("Dial cord");
     // The list answers the typed words (after the search's short pause), not an earlier list that also held the part.
     const answers = page.getByRole("listbox", { name: "Catalogue parts" }).getByRole("option");
-    await expect.poll(() => answers.count()).toBe(1);
-    expect(await answers.innerText()).toMatch(/Dial cord and spring/);
+    await expect
+      .poll(async () => {
+        const shown = await answers.allInnerTexts();
+        return shown.length === 1 && /Dial cord and spring/.test(shown[0]!);
+      })
+      .toBe(true);
     await search.press("ArrowDown");
     await search.press("ArrowUp");
     await expect.poll(() => search.getAttribute("aria-activedescendant")).toBeTruthy();
