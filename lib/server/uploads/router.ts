@@ -4,6 +4,7 @@ import { UploadThingError, UTApi } from "uploadthing/server";
 import { countStoredPhotosByUploaderSince } from "@/db/queries/photos";
 import { canAccess } from "@/lib/engine/permissions";
 import { viewerFromHeaders } from "@/lib/server/session";
+import { toAppError } from "@/lib/server/errors";
 import { acceptPhoto, PhotoRefused } from "@/lib/server/uploads/photos";
 import { PHOTO_STORE_RETRY_MESSAGE, PhotoStoreUnavailable } from "@/lib/server/uploads/storage";
 import { MAX_MESSAGE_PHOTOS } from "@/lib/validation/messages";
@@ -80,7 +81,10 @@ async function completePhoto({
       console.error("[bandedge] photo store unavailable during an upload", error.message, error.cause);
       return { ok: false, error: PHOTO_STORE_RETRY_MESSAGE };
     }
-    console.error("[bandedge] photo processing failed", error);
+    const known = toAppError(error);
+    // The database did not answer: nothing was kept, and the upload is not confirmed, so the browser sends it
+    // again (the same answer as an app that stopped half-way), rather than calling the photo itself bad.
+    if (known.code === "unavailable") throw known;
     return { ok: false, error: "This photo could not be processed. Please try again." };
   } finally {
     // The original keeps its metadata (GPS included): only the re-encoded copy is kept.
