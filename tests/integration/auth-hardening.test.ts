@@ -4,6 +4,7 @@ import { SESSION_ABSOLUTE_SECONDS } from "@/lib/server/auth";
 import { DEMO, newCustomer } from "../support/accounts";
 import { sql } from "../support/db";
 import { TestClient } from "../support/http";
+import { nextTestIp } from "../support/ip";
 import { firstLink, listMail, waitForMail } from "../support/mail";
 
 // Sign-in hardening: password hashing strength, the common-password list, answers that do not reveal
@@ -299,8 +300,8 @@ describe("the sign-in limiter", () => {
     const made = await newCustomer("limiter");
     target = { email: made.email, password: made.password };
   });
-  const ipA = `198.51.100.${10 + Math.floor(Math.random() * 100)}`;
-  const ipB = `198.51.100.${120 + Math.floor(Math.random() * 100)}`;
+  const ipA = nextTestIp();
+  const ipB = nextTestIp();
 
   async function counter(ip: string, path = "/sign-in/email") {
     const rows = await sql<{ count: number; last_request: string }>("select count, last_request from rate_limit where key = $1", [
@@ -442,7 +443,8 @@ describe("the session check on every request", () => {
 describe("the client address behind the proxy", () => {
   // X-Forwarded-For is a list the client starts and each proxy appends to (RFC 7239 §5.2 describes the same
   // chain for Forwarded); the test stack runs with one trusted proxy hop, whose entry is the last one.
-  const real = () => `203.0.113.${1 + Math.floor(Math.random() * 250)}`;
+  // Each client gets an address no other test uses, so no earlier throttled address is met by chance.
+  const real = () => nextTestIp();
   const spoofed = (i: number) => `198.18.${i}.${1 + Math.floor(Math.random() * 250)}`;
 
   it("counts a client by the address the proxy appended, however it varies its own header", async () => {

@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { DEMO, signedIn } from "../support/accounts";
 import { TestClient } from "../support/http";
+import { nextTestIp } from "../support/ip";
 
 describe("role guards on pages", () => {
   it("sends anonymous visitors to sign-in", async () => {
@@ -46,7 +47,7 @@ describe("role guards on pages", () => {
 
 describe("sign-in rate limit (production mode)", () => {
   it("refuses a sixth attempt from one address within the window", async () => {
-    const ip = "203.0.113.77";
+    const ip = nextTestIp();
     const statuses: number[] = [];
     // A throwaway e-mail: the per-account throttle must not lock a demo account used by other tests.
     const target = `limit-${Date.now()}@example.com`;
