@@ -1,7 +1,5 @@
 "use client";
 
-import "@/lib/client/zod-setup";
-
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState, type ReactNode } from "react";
 

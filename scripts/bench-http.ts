@@ -43,18 +43,31 @@ function errorsOf(r: autocannon.Result): number {
 }
 
 async function listVsBare(stack: Stack, cookie: string, connections: number) {
-  const bare = await cannon({ url: `${stack.appUrl}/api/health`, connections });
-  const list = await cannon({ url: `${stack.appUrl}/api/bench/queue?page=1&pageSize=25`, connections, headers: { cookie } });
-  const ratio = list.requests.average / bare.requests.average;
+  const bareUrl = `${stack.appUrl}/api/health`;
+  const listUrl = `${stack.appUrl}/api/bench/queue?page=1&pageSize=25`;
+  // A short warm-up of both (discarded): the first seconds after a start measure the compiler, not the route.
+  await cannon({ url: bareUrl, connections, duration: 3 });
+  await cannon({ url: listUrl, connections, headers: { cookie }, duration: 3 });
+  // Alternating rounds, so a machine whose load drifts during the run weighs on both figures alike.
+  const rounds = 3;
+  const bare: autocannon.Result[] = [];
+  const list: autocannon.Result[] = [];
+  for (let i = 0; i < rounds; i++) {
+    bare.push(await cannon({ url: bareUrl, connections, duration: 5 }));
+    list.push(await cannon({ url: listUrl, connections, headers: { cookie }, duration: 5 }));
+  }
+  const rate = (rs: autocannon.Result[]) => rs.reduce((a, r) => a + r.requests.total, 0) / rs.reduce((a, r) => a + r.duration, 0);
+  const worstP97 = (rs: autocannon.Result[]) => Math.max(...rs.map((r) => r.latency.p97_5));
+  const errors = (rs: autocannon.Result[]) => rs.reduce((a, r) => a + errorsOf(r), 0);
   rows.push({
-    metric: `bare static JSON, ${connections} conns`,
-    figure: `${bare.requests.average.toFixed(0)} req/s, p97.5 ${bare.latency.p97_5} ms, errors ${errorsOf(bare)}`,
+    metric: `bare static JSON, ${connections} conns (${rounds} × 5 s)`,
+    figure: `${rate(bare).toFixed(0)} req/s, p97.5 ≤ ${worstP97(bare)} ms, errors ${errors(bare)}`,
     goal: "baseline",
   });
   rows.push({
-    metric: `authenticated JSON list, ${connections} conns`,
-    figure: `${list.requests.average.toFixed(0)} req/s (${ratio.toFixed(2)}× bare), p97.5 ${list.latency.p97_5} ms, errors ${errorsOf(list)}`,
-    goal: connections === 10 ? "≥ 0.35× bare, p97.5 ≤ 60 ms, 0 errors" : "0 errors, p97.5 ≤ 300 ms",
+    metric: `authenticated JSON list, ${connections} conns (${rounds} × 5 s, between)`,
+    figure: `${rate(list).toFixed(0)} req/s (${(rate(list) / rate(bare)).toFixed(2)}× bare), p97.5 ≤ ${worstP97(list)} ms, errors ${errors(list)}`,
+    goal: connections === 10 ? "≥ 0.35× bare, p97.5 ≤ 60 ms, 0 errors" : "≥ 0.5× bare, p97.5 ≤ 300 ms, 0 errors",
   });
 }
 
@@ -345,16 +358,26 @@ async function main() {
   try {
     const techCookie = await signIn(stack.appUrl, "tomas@kestrel-lane.example", "bench-tech-2026");
     const ownerCookie = await signIn(stack.appUrl, "odile@kestrel-lane.example", "bench-owner-2026");
-    if (selected.has("list")) {
+    // A part that fails is shown as such in the table; the other parts' figures are still printed.
+    const part = async (name: (typeof PARTS)[number], run: () => Promise<void>) => {
+      if (!selected.has(name)) return;
+      try {
+        await run();
+      } catch (e) {
+        process.exitCode = 1;
+        rows.push({ metric: `${name} (failed)`, figure: e instanceof Error ? e.message.split("\n")[0]! : String(e), goal: "—" });
+      }
+    };
+    await part("list", async () => {
       await listVsBare(stack, techCookie, 10);
       await listVsBare(stack, techCookie, 50);
-    }
-    if (selected.has("webhook")) await webhookBurst(stack, db);
-    if (selected.has("pdf")) await certificatePdf(stack, db, ownerCookie);
-    if (selected.has("verify")) await verifyPage(stack, db);
-    if (selected.has("js")) await firstLoadJs(stack, db);
+    });
+    await part("webhook", () => webhookBurst(stack, db));
+    await part("pdf", () => certificatePdf(stack, db, ownerCookie));
+    await part("verify", () => verifyPage(stack, db));
+    await part("js", () => firstLoadJs(stack, db));
     Object.assign(process.env, stack.env);
-    if (selected.has("photo")) await photoReencode();
+    await part("photo", () => photoReencode());
   } finally {
     await db.end();
     stack.stop();

@@ -2,7 +2,7 @@
 
 import "@/lib/client/zod-setup";
 
-import { zodResolver } from "@hookform/resolvers/zod";
+import { zodResolver } from "@/lib/client/zod-resolver";
 import Link from "next/link";
 import { useState } from "react";
 import { useForm } from "react-hook-form";

@@ -1,5 +1,8 @@
 "use client";
 
+// Parses with zod in the browser: its settings (no eval, field words) first.
+import "@/lib/client/zod-setup";
+
 import { useQuery } from "@tanstack/react-query";
 import { useState } from "react";
 import { useForm, type FieldPath } from "react-hook-form";

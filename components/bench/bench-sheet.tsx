@@ -1,5 +1,8 @@
 "use client";
 
+// Parses with zod in the browser: its settings (no eval, field words) first.
+import "@/lib/client/zod-setup";
+
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useRef, useState } from "react";
 import { useForm, useWatch, type Control, type UseFormRegister } from "react-hook-form";

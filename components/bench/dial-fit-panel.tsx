@@ -1,5 +1,8 @@
 "use client";
 
+// Parses with zod in the browser: its settings (no eval, field words) first.
+import "@/lib/client/zod-setup";
+
 import { useMutation, useQuery } from "@tanstack/react-query";
 import { useRef } from "react";
 import { useFieldArray, useForm, useWatch } from "react-hook-form";

@@ -1,5 +1,8 @@
 "use client";
 
+// Parses with zod in the browser: its settings (no eval, field words) first.
+import "@/lib/client/zod-setup";
+
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { useCallback, useEffect, useState } from "react";
 import { PhotoPicker, type PhotoPickerState } from "@/components/photo-picker";

@@ -14,23 +14,45 @@ function escapeLike(s: string): string {
 
 // The set owner's messages this staff member has not read yet on the outer query's job (colleagues' messages
 // and notes are not counted: the marker says the owner wrote).
-function staffUnread(viewerId: string) {
+function staffUnread(viewerId: ReturnType<typeof sql.placeholder>) {
   return sql<number>`(select count(*)::int from ${messages} m
     where m.job_id = ${jobs.id} and m.author_id = ${jobs.customerId}
       and m.created_at > coalesce((select r.read_up_to from ${messageReads} r where r.job_id = ${jobs.id} and r.user_id = ${viewerId}), '-infinity'))`;
 }
 
 // The bench queue: every job (staff see all of them), filtered, sorted and paged in SQL.
-export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery; viewerId: string }) {
+//
+// The queue is the page staff keep open and poll, so its statement is built and prepared once per shape of
+// filter (which filters are present, the sort and its direction) with every value a parameter; each request
+// only binds values. The shapes are few (a few hundred at most, each prepared on first use per connection).
+type QueueShape = {
+  states: boolean;
+  includeClosed: boolean;
+  technician: "" | "me" | "none" | "id";
+  q: "" | "text" | "number";
+  sort: QueueQuery["sort"];
+  dir: QueueQuery["dir"];
+};
+
+function shapeOf(query: QueueQuery): QueueShape {
+  return {
+    states: query.states.length > 0,
+    includeClosed: query.includeClosed,
+    technician: query.technician === "" || query.technician === "me" || query.technician === "none" ? query.technician : "id",
+    q: query.q ? (parseJobNumber(query.q) !== null ? "number" : "text") : "",
+    sort: query.sort,
+    dir: query.dir,
+  };
+}
+
+function queueFilter(shape: QueueShape): SQL | undefined {
   const where: SQL[] = [];
-  if (query.states.length > 0) where.push(inArray(jobs.state, query.states));
-  else if (!query.includeClosed) where.push(notInArray(jobs.state, CLOSED));
-  if (query.technician === "me") where.push(eq(jobs.technicianId, viewerId));
-  else if (query.technician === "none") where.push(isNull(jobs.technicianId));
-  else if (query.technician) where.push(eq(jobs.technicianId, query.technician));
-  if (query.q) {
-    const like = `%${escapeLike(query.q)}%`;
-    const n = parseJobNumber(query.q);
+  if (shape.states) where.push(sql`${jobs.state} = any(${sql.placeholder("states")}::job_state[])`);
+  else if (!shape.includeClosed) where.push(notInArray(jobs.state, CLOSED));
+  if (shape.technician === "me" || shape.technician === "id") where.push(eq(jobs.technicianId, sql.placeholder("technician")));
+  else if (shape.technician === "none") where.push(isNull(jobs.technicianId));
+  if (shape.q) {
+    const like = sql.placeholder("like");
     const text = or(
       ilike(user.name, like),
       ilike(user.email, like),
@@ -38,10 +60,13 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
       ilike(radioSets.model, like),
       ilike(sql`${radioSets.maker} || ' ' || ${radioSets.model}`, like),
     )!;
-    where.push(n !== null ? or(eq(jobs.number, n), text)! : text);
+    where.push(shape.q === "number" ? or(eq(jobs.number, sql.placeholder("number")), text)! : text);
   }
-  const filter = where.length ? and(...where) : undefined;
-  const order = query.dir === "asc" ? asc : desc;
+  return where.length ? and(...where) : undefined;
+}
+
+function prepareQueue(shape: QueueShape, name: string) {
+  const order = shape.dir === "asc" ? asc : desc;
   const sortColumn = {
     number: jobs.number,
     updatedAt: jobs.updatedAt,
@@ -50,11 +75,10 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
     customer: user.name,
     set: sql`${radioSets.maker} || ' ' || ${radioSets.model}`,
     technician: technician.name,
-  }[query.sort];
-
+  }[shape.sort];
   // One round trip: the page of rows with the filtered total beside each (count over the whole filter,
   // before limit/offset). Only a page past the end, which has no row to carry it, asks for the total apart.
-  const rows = await db
+  return db
     .select({
       id: jobs.id,
       number: jobs.number,
@@ -71,26 +95,58 @@ export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery
       customerEmail: user.email,
       technicianId: jobs.technicianId,
       technicianName: technician.name,
-      unread: staffUnread(viewerId),
+      unread: staffUnread(sql.placeholder("viewer")),
       total: sql<number>`(count(*) over ())::int`,
     })
     .from(jobs)
     .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
     .innerJoin(user, eq(user.id, jobs.customerId))
     .leftJoin(technician, eq(technician.id, jobs.technicianId))
-    .where(filter)
+    .where(queueFilter(shape))
     .orderBy(order(sortColumn), desc(jobs.number))
-    .limit(query.pageSize)
-    .offset((query.page - 1) * query.pageSize);
+    .limit(sql.placeholder("limit"))
+    .offset(sql.placeholder("offset"))
+    .prepare(name);
+}
+
+function prepareQueueCount(shape: QueueShape, name: string) {
+  return db
+    .select({ n: sql<number>`count(*)::int` })
+    .from(jobs)
+    .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
+    .innerJoin(user, eq(user.id, jobs.customerId))
+    .where(queueFilter(shape))
+    .prepare(name);
+}
+
+const preparedQueues = new Map<string, { page: ReturnType<typeof prepareQueue>; count: ReturnType<typeof prepareQueueCount> }>();
+function queueStatements(shape: QueueShape) {
+  const key = `${shape.states ? "s" : ""}${shape.includeClosed ? "c" : ""}|${shape.technician}|${shape.q}|${shape.sort}|${shape.dir}`;
+  let statements = preparedQueues.get(key);
+  if (!statements) {
+    const n = preparedQueues.size + 1;
+    statements = { page: prepareQueue(shape, `bandedge_queue_${n}`), count: prepareQueueCount(shape, `bandedge_queue_count_${n}`) };
+    preparedQueues.set(key, statements);
+  }
+  return statements;
+}
+
+export async function listQueueForStaff({ query, viewerId }: { query: QueueQuery; viewerId: string }) {
+  const shape = shapeOf(query);
+  const values = {
+    states: query.states,
+    technician: query.technician === "me" ? viewerId : query.technician,
+    like: `%${escapeLike(query.q)}%`,
+    number: parseJobNumber(query.q) ?? 0,
+    viewer: viewerId,
+    limit: query.pageSize,
+    offset: (query.page - 1) * query.pageSize,
+  };
+  const statements = queueStatements(shape);
+  const rows = await statements.page.execute(values);
   let total = rows[0]?.total;
   if (total === undefined) {
-    const [count] = await db
-      .select({ n: sql<number>`count(*)::int` })
-      .from(jobs)
-      .innerJoin(radioSets, eq(radioSets.id, jobs.setId))
-      .innerJoin(user, eq(user.id, jobs.customerId))
-      .leftJoin(technician, eq(technician.id, jobs.technicianId))
-      .where(filter);
+    const [count] = await statements.count.execute(values);
     total = count?.n ?? 0;
   }
   return { rows: rows.map(({ total: _total, ...row }) => row), total };

@@ -43,6 +43,37 @@ export function withoutScripts(html: string): string {
     .replace(/\snonce="[^"]*"/gi, "");
 }
 
+const escapeAttr = (v: string) => v.replace(/&/g, "&amp;").replace(/"/g, "&quot;").replace(/</g, "&lt;");
+
+/**
+ * The framework announces a page's fonts in a Link response header (rel=preload) rather than in its HTML, and
+ * a kept page is served without that header: the same preloads as <link> tags in its head, so the fonts are
+ * fetched at once and do not arrive after the first paint and move the text. Only same-origin preloads of
+ * fonts, styles and images are carried over; a nonce is left behind (it belonged to the render's response).
+ */
+export function withPreloads(html: string, linkHeader: string | null): string {
+  if (!linkHeader) return html;
+  const tags: string[] = [];
+  for (const entry of linkHeader.split(/,\s*(?=<)/)) {
+    const m = /^\s*<([^>]*)>(.*)$/.exec(entry);
+    if (!m || !m[1]!.startsWith("/") || m[1]!.startsWith("//")) continue;
+    const params = new Map<string, string>();
+    for (const part of m[2]!.split(";")) {
+      const eq = part.indexOf("=");
+      const name = (eq < 0 ? part : part.slice(0, eq)).trim().toLowerCase();
+      if (name) params.set(name, eq < 0 ? "" : part.slice(eq + 1).trim().replace(/^"(.*)"$/, "$1"));
+    }
+    const as = params.get("as") ?? "";
+    if (params.get("rel")?.toLowerCase() !== "preload" || !["font", "style", "image"].includes(as)) continue;
+    const type = params.get("type");
+    tags.push(
+      `<link rel="preload" href="${escapeAttr(m[1]!)}" as="${as}"${params.has("crossorigin") ? ' crossorigin=""' : ""}${type ? ` type="${escapeAttr(type)}"` : ""}/>`,
+    );
+  }
+  if (tags.length === 0 || !html.includes("</head>")) return html;
+  return html.replace("</head>", `${tags.join("")}</head>`);
+}
+
 // Insertion-ordered Map as a small LRU: a hit moves the entry to the end, the oldest goes first.
 const pages = new Map<string, string>();
 const rendering = new Map<string, Promise<string>>();
@@ -63,7 +94,7 @@ async function render(path: string): Promise<string> {
   });
   const body = await res.text();
   if (res.status !== 200) throw new Error(`rendering ${path} answered ${res.status}`);
-  return withoutScripts(body);
+  return withPreloads(withoutScripts(body), res.headers.get("link"));
 }
 
 /**

@@ -1,5 +1,8 @@
 "use client";
 
+// Parses with zod in the browser: its settings (no eval, field words) first.
+import "@/lib/client/zod-setup";
+
 import { useState } from "react";
 import { describedBy, Field } from "@/components/ui/field";
 import { EXPORT_FILES, exportRangeSchema, type ExportFile } from "@/lib/validation/exports";

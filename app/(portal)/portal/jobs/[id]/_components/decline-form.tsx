@@ -1,6 +1,6 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
+import { zodResolver } from "@/lib/client/zod-resolver";
 import { useForm } from "react-hook-form";
 import type { z } from "zod";
 import { describedBy, Field } from "@/components/ui/field";
