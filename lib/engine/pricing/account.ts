@@ -41,8 +41,7 @@ export type Account = {
   owedBackMinor: number;
 };
 
-/** How a waived remainder is named to the owner and the office. */
-export const WAIVED_WORDING = "waived, below the smallest card payment";
+export { WAIVED_WORDING } from "./wording";
 
 const PENDING = new Set(["requested", "pending"]);
 const HELD = new Set(["paid", "duplicate"]);

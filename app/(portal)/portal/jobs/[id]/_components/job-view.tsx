@@ -5,7 +5,7 @@ import type { ReactNode } from "react";
 import { useQuery } from "@tanstack/react-query";
 import Link from "next/link";
 import { Notice } from "@/components/ui/notice";
-import { WAIVED_WORDING } from "@/lib/engine/pricing/account";
+import { WAIVED_WORDING } from "@/lib/engine/pricing/wording";
 import type { PortalJobView } from "@/lib/server/services/portal-view";
 import { QueueForecast } from "./queue-forecast";
 import { api } from "../../../_lib/api";
