@@ -163,6 +163,23 @@ export default defineConfig([
     },
   },
   {
+    files: ["components/**", "app/**"],
+    ignores: ["app/api/**"],
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          paths: [
+            {
+              name: "@hookform/resolvers/zod",
+              message: "Use @/lib/client/zod-resolver: it applies the browser's zod settings (no eval, field words) first.",
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
     files: ["lib/client/**", "lib/validation/**"],
     rules: {
       "no-restricted-imports": [
