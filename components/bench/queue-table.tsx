@@ -148,7 +148,8 @@ export function QueueTable({ viewerId, initial }: { viewerId: string; initial?: 
       header: "Job",
       cell: (info) => (
         <span className="inline-flex flex-wrap items-center gap-1">
-          <Link className="figure font-semibold" href={`/bench/jobs/${info.row.original.id}`}>
+          {/* Not prefetched: a queue page would otherwise ask the server for every job on it at each visit. */}
+          <Link className="figure font-semibold" href={`/bench/jobs/${info.row.original.id}`} prefetch={false}>
             {jobNumber(info.getValue())}
           </Link>
           {info.row.original.unread > 0 ? (
