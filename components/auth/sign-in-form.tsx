@@ -1,7 +1,5 @@
 "use client";
 
-import "@/lib/client/zod-setup";
-
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useState, type FormEvent } from "react";
