@@ -2,8 +2,8 @@
 
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { authClient } from "@/lib/client/auth-client";
 
+// The sign-in library's client is loaded when someone signs out, not with every page that shows the button.
 export function SignOutButton() {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
@@ -14,6 +14,7 @@ export function SignOutButton() {
       disabled={busy}
       onClick={async () => {
         setBusy(true);
+        const { authClient } = await import("@/lib/client/auth-client");
         await authClient.signOut();
         router.push("/");
         router.refresh();
