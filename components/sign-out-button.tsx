@@ -14,8 +14,14 @@ export function SignOutButton() {
       disabled={busy}
       onClick={async () => {
         setBusy(true);
-        const { authClient } = await import("@/lib/client/auth-client");
-        await authClient.signOut();
+        try {
+          const { authClient } = await import("@/lib/client/auth-client");
+          await authClient.signOut();
+        } catch {
+          // No connection: the button comes back so the person can try again.
+          setBusy(false);
+          return;
+        }
         router.push("/");
         router.refresh();
       }}
