@@ -351,7 +351,7 @@ describe("the sign-in limiter", () => {
   });
 
   it("honours a counter written by another instance: the state lives in the shared table, not in memory", async () => {
-    const ip = `192.0.2.${1 + Math.floor(Math.random() * 250)}`;
+    const ip = nextTestIp();
     await sql("delete from rate_limit where key = $1", [`${ip}|/sign-in/email`]);
     // What another app instance would have written after a burst from this address.
     await sql("insert into rate_limit (id, key, count, last_request) values ($1, $2, 1000, $3)", [
@@ -367,7 +367,7 @@ describe("the sign-in limiter", () => {
   });
 
   it("throttles sign-up and reset requests per address as well", async () => {
-    const ip = `192.0.2.${1 + Math.floor(Math.random() * 250)}`;
+    const ip = nextTestIp();
     const statuses: number[] = [];
     for (let i = 0; i < 8; i++) {
       const res = await new TestClient({ ip }).post("/api/auth/request-password-reset", {
