@@ -196,6 +196,20 @@ export default defineConfig([
     },
   },
   {
+    // Schemas are built from lib/engine/zod.ts, which sets zod's browser mode (no eval) before any schema exists.
+    files: ["app/**", "components/**", "lib/**", "db/**", "emails/**"],
+    ignores: ["lib/engine/zod.ts"],
+    rules: {
+      "no-restricted-syntax": [
+        "error",
+        {
+          selector: "ImportDeclaration[source.value=/^zod($|\\u002F)/][importKind!='type']",
+          message: "Import z from @/lib/engine/zod (or ./zod inside the engine): it sets zod's browser mode first.",
+        },
+      ],
+    },
+  },
+  {
     files: ["scripts/**", "tests/**", "*.config.*", "*.mjs"],
     rules: { "import/no-anonymous-default-export": "off" },
   },

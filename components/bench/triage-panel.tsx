@@ -4,7 +4,7 @@ import { zodResolver } from "@/lib/client/zod-resolver";
 import { useMutation, useQueryClient } from "@tanstack/react-query";
 import { useState } from "react";
 import { useFieldArray, useForm, useWatch, type FieldPath } from "react-hook-form";
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { describedBy, Field } from "@/components/ui/field";
 import { Notice } from "@/components/ui/notice";
 import { bandKinds } from "@/lib/engine/bands/band";

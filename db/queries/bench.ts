@@ -1,3 +1,4 @@
+import { createHash } from "node:crypto";
 import { and, asc, desc, eq, ilike, inArray, isNull, notInArray, or, sql, type SQL } from "drizzle-orm";
 import { alias } from "drizzle-orm/pg-core";
 import { db, type Database } from "@/db";
@@ -124,8 +125,10 @@ function queueStatements(shape: QueueShape) {
   const key = `${shape.states ? "s" : ""}${shape.includeClosed ? "c" : ""}|${shape.technician}|${shape.q}|${shape.sort}|${shape.dir}`;
   let statements = preparedQueues.get(key);
   if (!statements) {
-    const n = preparedQueues.size + 1;
-    statements = { page: prepareQueue(shape, `bandedge_queue_${n}`), count: prepareQueueCount(shape, `bandedge_queue_count_${n}`) };
+    // Named after the shape itself: the server bundles this module more than once (route handlers, pages) over
+    // one shared pool, and a connection refuses one name for two different statements.
+    const name = createHash("sha256").update(key).digest("hex").slice(0, 24);
+    statements = { page: prepareQueue(shape, `bandedge_queue_${name}`), count: prepareQueueCount(shape, `bandedge_queue_count_${name}`) };
     preparedQueues.set(key, statements);
   }
   return statements;

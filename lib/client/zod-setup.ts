@@ -1,8 +1,4 @@
-import { config } from "zod/v4/core";
-
-// The Content Security Policy allows no eval: zod's compiled fast path would try `new Function` (and be
-// refused, logging a violation) before falling back. Parse without it everywhere in the browser.
-config({ jitless: true });
-
-// Any check without a message of its own names its field and what is allowed, never zod's default phrasing.
+// The browser's zod settings: no eval (lib/engine/zod.ts, which every schema module imports first), and the
+// field words for any check without a message of its own, never zod's default phrasing.
+import "@/lib/engine/zod";
 import "@/lib/validation/field-words";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "./zod";
 import { ruleCodeSchema, defaultMinutesPerRule } from "./checklist/rules";
 import { billingRoundings } from "./pricing/billing-rounding";
 import { defaultTolerances, toleranceSettingsSchema } from "./verdicts/tolerances";

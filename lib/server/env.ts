@@ -1,5 +1,5 @@
 import "server-only";
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 // Every setting the app reads, validated once. Stand-in URLs are optional: production leaves them unset.
 const envSchema = z.object({

@@ -61,7 +61,16 @@ export function withPreloads(html: string, linkHeader: string | null): string {
     for (const part of m[2]!.split(";")) {
       const eq = part.indexOf("=");
       const name = (eq < 0 ? part : part.slice(0, eq)).trim().toLowerCase();
-      if (name) params.set(name, eq < 0 ? "" : part.slice(eq + 1).trim().replace(/^"(.*)"$/, "$1"));
+      if (name)
+        params.set(
+          name,
+          eq < 0
+            ? ""
+            : part
+                .slice(eq + 1)
+                .trim()
+                .replace(/^"(.*)"$/, "$1"),
+        );
     }
     const as = params.get("as") ?? "";
     if (params.get("rel")?.toLowerCase() !== "preload" || !["font", "style", "image"].includes(as)) continue;

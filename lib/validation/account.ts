@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 export const emailSchema = z.string().trim().toLowerCase().email("Enter a valid e-mail address.").max(254);
 // Verified exactly as typed: no trimming or case folding of passwords.

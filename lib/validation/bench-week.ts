@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { WEEKDAY_NAMES } from "@/lib/engine/forecast/turnaround";
 
 const hours = (day: string) =>

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { QUEUE_SORTS, type QueueQuery } from "@/lib/engine/jobs/queue-query";
 import { JOB_STATES } from "@/lib/engine/jobs/states";
 import { setProfileSchema } from "@/lib/engine/checklist/profile";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 // Calling a job off before the bench: the owner withdrawing a request, the shop cancelling a job.
 

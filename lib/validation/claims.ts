@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 import { claimSymptoms, exclusionCodes, type ClaimSymptom, type ExclusionCode } from "@/lib/engine/warranty";
 

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 import { EngineError } from "@/lib/engine/engine-error";
 import { toMinor } from "@/lib/engine/pricing/money";

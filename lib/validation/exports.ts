@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 export const EXPORT_FILES = ["payments.csv", "jobs.csv", "tax.csv", "audit.csv"] as const;
 export type ExportFile = (typeof EXPORT_FILES)[number];

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 // The words a person reads when a field is refused. Schemas give their own message wherever a field can go
 // wrong in a way people meet ("Paper capacitors: enter a whole number from 0 to 120."); this error map is the

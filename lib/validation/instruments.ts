@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { INSTRUMENT_KINDS, INSTRUMENT_KIND_LABEL } from "@/lib/engine/instruments";
 
 // The instrument register: the office form and the office JSON routes share these.

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { INTAKE_CHANNELS } from "@/lib/engine/contacts";
 import "./field-words";
 import { CONTACT, MAX_PHOTOS, PHONE_PATTERN, setProfileShape } from "./quote";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 // The browser picks one key per composed message and keeps it across retries of that message, so a post
 // whose answer was lost can be sent again without storing the message twice. A new message gets a new key.

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 import { NOTIFICATION_KINDS, type NotificationKind } from "@/lib/engine/notifications";
 

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
 import { billingRoundings } from "@/lib/engine/pricing/billing-rounding";

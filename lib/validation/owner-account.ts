@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 import { checkPostalAddress, COUNTRY_CODES, type CountryCode } from "@/lib/engine/addresses";
 import { passwordSchema } from "./account";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 
 // The parts catalogue: the office form and the office JSON routes share these. Money is typed as a decimal

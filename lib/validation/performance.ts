@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { discriminatorPointSchema, passbandPointSchema } from "@/lib/engine/passband";
 import { performanceConditionsSchema } from "@/lib/engine/performance";
 

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import "./field-words";
 
 // The quote request, shared by the form (react-hook-form + zod resolver) and the server.

@@ -122,6 +122,19 @@ describe("the queue", () => {
     expect(audits).toHaveLength(1);
   });
 
+  it("answers every filter shape, whether the page or the API asked first for its own", async () => {
+    // The queue page renders its first page on the server and the API answers filters afterwards: two parts of
+    // the app asking one database connection for different statements must not trip over each other
+    // (PostgreSQL refuses a prepared-statement name reused for another statement on a connection).
+    const { number } = await createJob({ state: "in_triage" });
+    for (let round = 0; round < 3; round++) {
+      expect((await tech.get("/bench")).status).toBe(200);
+      expect((await queue(tech, { q: jobNo(number) })).rows.map((r) => r.number)).toContain(number);
+      expect((await queue(tech, { states: "in_triage", sort: "number", dir: "asc" })).rows.length).toBeGreaterThan(0);
+      expect(typeof (await queue(tech, { technician: "none", includeClosed: "1" })).total).toBe("number");
+    }
+  });
+
   it("is for staff only", async () => {
     const customer = await signedIn(DEMO.customer);
     expect((await customer.get("/api/bench/queue")).status).toBe(404);

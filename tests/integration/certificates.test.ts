@@ -376,7 +376,9 @@ describe("the public verification page", () => {
       expect(html).toMatch(/<link[^>]+rel="stylesheet"/);
       // The fonts every other page announces in its Link header are preloaded from the kept HTML itself, so
       // they are there for the first paint and the text does not move when they arrive (a layout shift).
-      const fonts = [...html.matchAll(/<link rel="preload" href="(\/_next\/static\/media\/[^"]+\.woff2)" as="font" crossorigin=""/g)].map((m) => m[1]);
+      const fonts = [...html.matchAll(/<link rel="preload" href="(\/_next\/static\/media\/[^"]+\.woff2)" as="font" crossorigin=""/g)].map(
+        (m) => m[1],
+      );
       const announced = (await new TestClient().get("/sign-in")).headers.get("link") ?? "";
       expect(fonts.length).toBeGreaterThan(0);
       for (const f of fonts) expect(announced).toContain(f);

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 
 export const bandKinds = ["LW", "MW", "SW", "FM"] as const;
 export type BandKind = (typeof bandKinds)[number];

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { bandKindSchema } from "../bands/band";
 import { setKindSchema, type SetProfile } from "../checklist/profile";
 import type { ShopPolicy } from "../shop-policy";

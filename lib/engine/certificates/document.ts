@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { dayInZone } from "../dates";
 import { describeTerm } from "../warranty/term";
 import { INSTRUMENT_KINDS } from "../instruments";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { formatNumber } from "../verdicts/judge-reading";
 import { judgeReading } from "../verdicts/judge-reading";
 import { analyseDiscriminator, analysePassband, DEFAULT_LINEARITY_PERCENT, type DiscriminatorPoint, type PassbandPoint } from "../passband";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { bandKinds, injections, plausibleBandRangeKHz, type Band, type BandKind } from "../bands/band";
 import { isPlausibleIf, ifFamilyForBand, plausibleIfRangeKHz } from "../bands/if-presets";
 import { parseFrequencyText } from "../bands/frequency-text";

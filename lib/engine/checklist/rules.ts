@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 
 export const checklistCategories = ["inspection", "safety", "recap", "alignment", "mechanical", "test"] as const;
 export type ChecklistCategory = (typeof checklistCategories)[number];

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { EngineError } from "../engine-error";
 
 /** One point of an IF response: offset from the nominal IF in kHz, response in dB relative to any reference. */

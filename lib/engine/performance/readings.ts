@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { ruleOfThumbPoints } from "../alignment/tracking-points";
 import { isTubeSet, type SetKind, type SetProfile } from "../checklist/profile";
 import { bandName } from "../verdicts/required-readings";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { applyBasisPoints, checkAmount } from "./money";
 
 export const partCodes = [

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { bandKindSchema, injectionSchema, type BandKind } from "../bands/band";
 import { parseFrequencyText } from "../bands/frequency-text";
 import { EngineError } from "../engine-error";

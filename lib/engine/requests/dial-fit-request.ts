@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { bandKindSchema, injectionSchema } from "../bands/band";
 import { ifFamilyOf, plausibleIfRangeKHz } from "../bands/if-presets";
 import { fitDial, type DialFitResult } from "../alignment/dial-fit";

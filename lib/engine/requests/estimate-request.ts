@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { computeCautions, type Caution } from "../checklist/cautions";
 import { computeChecklist } from "../checklist/compute-checklist";
 import { billingNote } from "../pricing/billing-note";

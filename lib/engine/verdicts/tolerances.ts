@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import type { BandKind } from "../bands/band";
 
 /** |reading − mark| ≤ max(absKHz, percent % of the mark): "whichever is larger". */

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "../zod";
 import { exclusionCodeSchema, exclusionWording, type ExclusionCode } from "./exclusions";
 import { isWithinTerm, type WarrantyTerm } from "./term";
 

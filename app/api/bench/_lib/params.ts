@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { AppError } from "@/lib/server/errors";
 
 const uuid = z.uuid();

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { AppError } from "@/lib/server/errors";
 import { route, zodFields } from "@/lib/server/route-handler";
 import { createPart, listParts } from "@/lib/server/services/parts";

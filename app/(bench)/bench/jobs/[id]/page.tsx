@@ -1,6 +1,6 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { JobWorkspace } from "@/components/bench/job-workspace";
 import { getJobDetailForStaff } from "@/db/queries/bench";
 import { jobNumber } from "@/lib/engine/jobs/states";

@@ -1,7 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { jsonify } from "@/components/office/format";
 import { RefundPanel } from "@/components/office/refund-panel";
 import { VoidPaymentForm } from "@/components/office/void-payment-form";

@@ -4,7 +4,7 @@ import { route } from "@/lib/server/route-handler";
 import { deleteInstrument, updateInstrument } from "@/lib/server/services/instruments";
 import { instrumentUpdateSchema } from "@/lib/validation/instruments";
 
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 
 // An id from the URL that is not an instrument's is simply not found.
 function instrumentIdFrom(params: { id: string }): string {

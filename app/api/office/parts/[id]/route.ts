@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { transaction } from "@/db/transaction";
 import { AppError } from "@/lib/server/errors";
 import { route } from "@/lib/server/route-handler";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { route } from "@/lib/server/route-handler";
 import { markAllNotificationsRead } from "@/lib/server/services/notifications";
 

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { json, route } from "@/lib/server/route-handler";
 import { AppError, notFound } from "@/lib/server/errors";
 import { getOutboxRowForOffice } from "@/db/queries/office";

@@ -1,4 +1,4 @@
-import { z } from "zod";
+import { z } from "@/lib/engine/zod";
 import { route } from "@/lib/server/route-handler";
 import { notFound } from "@/lib/server/errors";
 import { reconcileRefund } from "@/lib/server/services/refunds";
