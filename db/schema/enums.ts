@@ -16,6 +16,11 @@ export const paymentMethod = pgEnum("payment_method", ["card", "cash", "cheque"]
 // The documents the shop issues about money, each numbered in its own gapless series.
 export const moneyDocumentKind = pgEnum("money_document_kind", ["receipt", "refund", "invoice"]);
 export const refundStatus = pgEnum("refund_status", ["requested", "pending", "succeeded", "failed"]);
+/**
+ * return: money held beyond the total goes back (a duplicate charge, an over-payment, a cancelled job).
+ * reduction: the shop lowers the price by the amount and gives it back (goodwill after the job is paid).
+ */
+export const refundKind = pgEnum("refund_kind", ["return", "reduction"]);
 export const verdict = pgEnum("verdict", ["pass", "fail", "missing", "recorded"]);
 export const claimStatus = pgEnum("claim_status", ["open", "inspecting", "accepted", "rejected", "withdrawn"]);
 export const emailStatus = pgEnum("email_status", ["queued", "sent", "failed"]);

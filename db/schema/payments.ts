@@ -1,7 +1,7 @@
 import { sql } from "drizzle-orm";
 import { boolean, date, index, integer, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from "drizzle-orm/pg-core";
 import { user } from "./auth";
-import { moneyDocumentKind, paymentMethod, paymentPurpose, paymentStatus, refundStatus } from "./enums";
+import { moneyDocumentKind, paymentMethod, paymentPurpose, paymentStatus, refundKind, refundStatus } from "./enums";
 import { estimateRevisions } from "./estimates";
 import { jobs } from "./jobs";
 
@@ -68,6 +68,8 @@ export const refunds = pgTable(
       .references(() => payments.id),
     amountMinor: integer("amount_minor").notNull(),
     reason: text("reason").notNull(),
+    /** What the money going back means for the account (see refundKind); every earlier refund is a return. */
+    kind: refundKind("kind").notNull().default("return"),
     status: refundStatus("status").notNull().default("requested"),
     processorRefundId: text("processor_refund_id").unique(),
     idempotencyKey: text("idempotency_key").notNull().unique(),
