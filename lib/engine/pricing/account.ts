@@ -6,6 +6,13 @@ import { checkAmount } from "./money";
 // confirms it. A remainder below the processor's smallest charge cannot be collected online: the shop waives
 // it explicitly (recorded on the job with who and when), and the waiver counts like a payment that never
 // has to be given back.
+//
+// A refund is of one of two kinds. A return gives back money held beyond the total (a duplicate charge, an
+// over-payment, a cancelled job): it lowers what the shop holds and nothing else, so a return on a job paid
+// exactly shows as owed again. A reduction is the shop lowering the price and giving that amount back (goodwill
+// after the work is paid): it lowers what is due as much as what is held, so it never makes anything owed.
+// Both count under the same rule (settled or on its way; a failed one took nothing). A reduction beyond what is
+// left of the price lowers it to zero and the rest counts as money given back.
 
 export type AccountPayment = {
   amountMinor: number;
@@ -20,24 +27,34 @@ export type AccountRefund = {
   amountMinor: number;
   /** "succeeded" came back from the processor; "requested"/"pending" is on its way; "failed" took nothing. */
   status: string;
+  /** "return" (the default) gives back money held beyond the total; "reduction" lowers the price by the amount. */
+  kind?: string | null;
 };
+
+export type RefundKind = "return" | "reduction";
+export const REFUND_KINDS: readonly RefundKind[] = ["return", "reduction"];
 
 export type Account = {
   /** The approved revision's total (zero before any approval). */
   totalMinor: number;
   /** Sum of paid payments, duplicate charges included. */
   paidMinor: number;
-  /** Refunds the processor confirmed. */
+  /** Refunds the processor confirmed, of either kind (money that went back). */
   refundedMinor: number;
-  /** Refunds asked for and not yet settled either way. */
+  /** Refunds asked for and not yet settled either way, of either kind. */
   refundPendingMinor: number;
+  /**
+   * How much the price was lowered by reductions, settled or on their way (never more than the total less
+   * what was waived). Included in refundedMinor / refundPendingMinor, since that money goes back too.
+   */
+  reducedMinor: number;
   /** What the shop holds: paid − refunded − pending refunds. */
   heldMinor: number;
   /** A remainder the shop waived because it was below the processor's smallest charge. */
   waivedMinor: number;
   /** What the owner still has to pay (never negative). */
   owedMinor: number;
-  /** What the shop has to give back (never negative): held beyond the total. */
+  /** What the shop has to give back (never negative): held beyond the total less waivers and reductions. */
   owedBackMinor: number;
 };
 
@@ -63,18 +80,26 @@ export function accountOf({
   for (const p of payments) if (HELD.has(p.status)) paid += checkAmount(p.amountMinor, "payments.amountMinor");
   let refunded = 0;
   let pending = 0;
+  let reductions = 0;
   for (const r of refunds) {
-    if (r.status === "succeeded") refunded += checkAmount(r.amountMinor, "refunds.amountMinor");
-    else if (PENDING.has(r.status)) pending += checkAmount(r.amountMinor, "refunds.amountMinor");
+    const counts = r.status === "succeeded" || PENDING.has(r.status);
+    if (!counts) continue;
+    const amount = checkAmount(r.amountMinor, "refunds.amountMinor");
+    if (r.status === "succeeded") refunded += amount;
+    else pending += amount;
+    if (r.kind === "reduction") reductions += amount;
   }
   const held = paid - refunded - pending;
-  // What the owner has to cover: the total less what the shop let go.
-  const due = total - waived;
+  // The price lowered by reductions, never below zero; what a reduction gives back beyond that counts as a return.
+  const reduced = Math.min(reductions, total - waived);
+  // What the owner has to cover: the total less what the shop let go and less the reductions.
+  const due = total - waived - reduced;
   return {
     totalMinor: total,
     paidMinor: paid,
     refundedMinor: refunded,
     refundPendingMinor: pending,
+    reducedMinor: reduced,
     heldMinor: held,
     waivedMinor: waived,
     owedMinor: Math.max(0, due - held),
