@@ -51,6 +51,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
 
   const { register, handleSubmit, formState, setError, reset } = useForm<RefundFormValues>({
     resolver: zodResolver(refundFormSchema),
+    // No kind is chosen for the office: a return and a price reduction mean different things for the account.
     defaultValues: { amount: "", reason: "" },
   });
   const { errors } = formState;
@@ -79,7 +80,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
     onError: (e) => {
       if (e instanceof ApiError && e.fields) {
         for (const [field, message] of Object.entries(e.fields))
-          if (field === "amount" || field === "reason") setError(field, { type: "server", message });
+          if (field === "amount" || field === "reason" || field === "kind") setError(field, { type: "server", message });
       }
       setOutcome({
         tone: "error",
@@ -187,6 +188,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                       Amount
                     </th>
                     <th scope="col">Status</th>
+                    <th scope="col">Kind</th>
                     <th scope="col">Reason</th>
                     <th scope="col">By</th>
                   </tr>
@@ -204,7 +206,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                         ) : null}
                         {r.noteId ? (
                           <a className="block text-xs" href={`/api/documents/${r.noteId}/pdf`} download>
-                            Refund note <span className="figure">{r.noteNumber}</span> (PDF)
+                            {r.kind === "reduction" ? "Price reduction note" : "Refund note"} <span className="figure">{r.noteNumber}</span> (PDF)
                           </a>
                         ) : null}
                         {r.status === "pending" ? (
@@ -218,6 +220,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                           </button>
                         ) : null}
                       </td>
+                      <td>{r.kind === "reduction" ? "Price reduction" : "Money back"}</td>
                       <td className="max-w-xs whitespace-pre-wrap break-words">{r.reason}</td>
                       <td>{r.createdByName ?? "—"}</td>
                     </tr>
@@ -264,6 +267,33 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                 </p>
               ) : null}
             </div>
+            <fieldset
+              className="space-y-2"
+              aria-describedby={describedBy("refund-kind", { hint: true, error: errors.kind })}
+            >
+              <legend className="field-label">What this refund is</legend>
+              <div className="flex items-start gap-2">
+                <input id="refund-kind-return" type="radio" value="return" className="mt-1 h-4 w-4" {...register("kind")} />
+                <label htmlFor="refund-kind-return" className="text-sm">
+                  Give back money paid beyond the total
+                </label>
+              </div>
+              <div className="flex items-start gap-2">
+                <input id="refund-kind-reduction" type="radio" value="reduction" className="mt-1 h-4 w-4" {...register("kind")} />
+                <label htmlFor="refund-kind-reduction" className="text-sm">
+                  Lower the price (goodwill) and give that back
+                </label>
+              </div>
+              <p id="refund-kind-hint" className="field-hint">
+                A duplicate charge, an over-payment or a cancelled job is money paid beyond the total: the price stands. A
+                goodwill refund (a scratch, something knocked off) lowers the price, so the owner is not asked to pay it again.
+              </p>
+              {errors.kind ? (
+                <p id="refund-kind-error" className="field-error" role="alert">
+                  {errors.kind.message}
+                </p>
+              ) : null}
+            </fieldset>
             <div className="space-y-0.5">
               <label htmlFor="refund-reason" className="field-label">
                 Reason
@@ -292,7 +322,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
               <div role="alertdialog" aria-labelledby="refund-confirm" className="space-y-2 rounded-card border border-fail p-3">
                 <p id="refund-confirm" className="text-sm">
                   Refund {currency.code} {confirming.amount} of {payment.customerName}&apos;s payment for job {jobNumber(payment.jobNumber)}
-                  ? A refund cannot be undone. We e-mail {payment.customerName} that it is on its way.
+                  {confirming.kind === "reduction" ? ", lowering the price by that amount" : ", money paid beyond the total"}? A refund cannot
+                  be undone. We e-mail {payment.customerName} that it is on its way.
                 </p>
                 <div className="flex flex-wrap gap-2">
                   <button

@@ -124,6 +124,7 @@ export async function getPaymentForOffice({ paymentId }: { paymentId: string }) 
       id: refunds.id,
       amountMinor: refunds.amountMinor,
       reason: refunds.reason,
+      kind: refunds.kind,
       status: refunds.status,
       createdAt: refunds.createdAt,
       settledAt: refunds.settledAt,
@@ -151,7 +152,15 @@ export async function lockPaymentForRefund(ctx: TxContext, { paymentId }: { paym
 
 export async function insertRefund(
   ctx: TxContext,
-  values: { id: string; paymentId: string; amountMinor: number; reason: string; idempotencyKey: string; createdBy: string },
+  values: {
+    id: string;
+    paymentId: string;
+    amountMinor: number;
+    reason: string;
+    kind: "return" | "reduction";
+    idempotencyKey: string;
+    createdBy: string;
+  },
 ) {
   const [row] = await ctx.tx
     .insert(refunds)

@@ -4,6 +4,7 @@ import { ruleCodes, ruleCodeSchema } from "@/lib/engine/checklist/rules";
 import { billingRoundings } from "@/lib/engine/pricing/billing-rounding";
 import { canonicalTimeZone } from "@/lib/engine/dates";
 import { formatMinor, toMinor } from "@/lib/engine/pricing/money";
+import { REFUND_KINDS } from "@/lib/engine/pricing/account";
 import { MAX_AMOUNT_MINOR, shopPolicySchema, type ShopPolicy } from "@/lib/engine/shop-policy";
 import { toleranceSettingsSchema } from "@/lib/engine/verdicts/tolerances";
 import {
@@ -347,6 +348,14 @@ export { coveredWording, exclusionWording };
 
 // ─── Refunds ───
 
+const refundKindSchema = z.enum(REFUND_KINDS, {
+  error: "Kind: choose whether this gives back money paid beyond the total or lowers the price.",
+});
+
+/**
+ * The office's refund form. kind: "return" gives back money held beyond the total (the price stands);
+ * "reduction" lowers the price by the amount and gives it back (goodwill). The form always asks.
+ */
 export const refundFormSchema = z.object({
   /** Typed in the major unit; the server converts with the payment's currency and checks what is left. */
   amount: moneyText("Amount").refine((s) => Number(s) > 0, "Amount: a refund must be more than zero."),
@@ -355,8 +364,14 @@ export const refundFormSchema = z.object({
     .trim()
     .min(3, "Reason: say why the money goes back, at least 3 characters; it is kept in the audit log.")
     .max(500, "Reason: keep it under 500 characters."),
+  kind: refundKindSchema,
 });
 export type RefundFormValues = z.infer<typeof refundFormSchema>;
+
+/** What the refund route accepts: the form's fields, a kind left out meaning a return (as every earlier refund). */
+export const refundRequestSchema = refundFormSchema.extend({ kind: refundKindSchema.default("return") });
+/** What a caller may hand the refund service (the kind may be left out). */
+export type RefundFormInput = z.input<typeof refundRequestSchema>;
 
 // ─── Audit log and reports filters (query strings) ───
 

@@ -25,7 +25,8 @@ import { notifyStaff } from "@/lib/server/services/notifications";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { jobs, payments, radioSets, refunds } from "@/db/schema";
 import { eq } from "drizzle-orm";
-import type { RefundFormValues } from "@/lib/validation/office";
+import type { RefundFormInput } from "@/lib/validation/office";
+import { loadJobAccount } from "@/lib/server/services/account";
 
 export type RefundOutcome = {
   refundId: string;
@@ -58,9 +59,10 @@ export async function requestRefund({
   actorId,
 }: {
   paymentId: string;
-  input: RefundFormValues;
+  input: RefundFormInput;
   actorId: string;
 }): Promise<RefundOutcome> {
+  const kind = input.kind ?? "return";
   const shop = await getShop();
   const { exponent, code } = shop.policy.currency;
   let amountMinor: number;
@@ -75,6 +77,17 @@ export async function requestRefund({
   const refundId = randomUUID();
   const idempotencyKey = `refund-${refundId}`;
   const payment = await transaction(async (ctx) => {
+    // A reduction is checked against the job's price: the job row is taken first (the order every account
+    // change takes), so two reductions at once cannot together take the price below zero.
+    let priceLeftMinor: number | null = null;
+    if (kind === "reduction") {
+      const [owner] = await ctx.tx.select({ jobId: payments.jobId }).from(payments).where(eq(payments.id, paymentId)).limit(1);
+      if (owner) {
+        await ctx.tx.select({ id: jobs.id }).from(jobs).where(eq(jobs.id, owner.jobId)).for("update").limit(1);
+        const { account } = await loadJobAccount(ctx.tx, owner.jobId);
+        priceLeftMinor = account.totalMinor - account.waivedMinor - account.reducedMinor;
+      }
+    }
     const locked = await lockPaymentForRefund(ctx, { paymentId });
     if (!locked) throw new AppError("not_found", "That payment was not found.");
     const { payment: p, inFlightMinor } = locked;
@@ -91,14 +104,24 @@ export async function requestRefund({
         { amount: `At most ${formatMinor(Math.max(left, 0), exponent)}.` },
       );
     }
-    await insertRefund(ctx, { id: refundId, paymentId, amountMinor, reason: input.reason, idempotencyKey, createdBy: actorId });
+    if (priceLeftMinor !== null && amountMinor > priceLeftMinor) {
+      const allowed = Math.max(priceLeftMinor, 0);
+      throw new AppError(
+        "conflict",
+        allowed === 0
+          ? "The price of this job is already zero: it cannot be lowered further. Money paid beyond it goes back as a return."
+          : `A price reduction can lower the price by at most ${money(allowed, exponent, code)}, what is left of it; money paid beyond the total goes back as a return.`,
+        { amount: `A price reduction: at most ${formatMinor(allowed, exponent)}, what is left of the price.` },
+      );
+    }
+    await insertRefund(ctx, { id: refundId, paymentId, amountMinor, reason: input.reason, kind, idempotencyKey, createdBy: actorId });
     await audit(ctx, {
       actorId,
       action: "refund.request",
       entity: "payment",
       entityId: paymentId,
       before: { refundedMinor: p.refundedMinor, inFlightMinor },
-      after: { refundId, amountMinor, reason: input.reason, status: "requested", ...(p.status === "duplicate" ? { duplicate: true } : {}) },
+      after: { refundId, amountMinor, reason: input.reason, kind, status: "requested", ...(p.status === "duplicate" ? { duplicate: true } : {}) },
     });
     await queueRefundNotice(ctx, { paymentId, refundId, amountMinor });
     return p;
@@ -339,7 +362,7 @@ async function notifyRefundSettled(ctx: TxContext, refundId: string, status: "su
     technicianId: null,
     actorId: row.refund.createdBy,
     shopOnly: true,
-    title: `Refund of ${amount} ${status === "succeeded" ? "settled" : "failed"} on ${jobNumber(row.number)}: ${row.maker} ${row.model}`,
+    title: `${row.refund.kind === "reduction" ? "Price reduction" : "Refund"} of ${amount} ${status === "succeeded" ? "settled" : "failed"} on ${jobNumber(row.number)}: ${row.maker} ${row.model}`,
     body:
       status === "succeeded"
         ? `Reason given: ${row.refund.reason}`
