@@ -21,6 +21,8 @@ export type PaymentExportRow = {
   method: string | null;
   /** The receipt or refund note issued for the row. */
   document: string | null;
+  /** A refund's kind: "return" (money paid beyond the total) or "reduction" (the price lowered); null otherwise. */
+  refund_kind: string | null;
 };
 
 /**
@@ -33,7 +35,7 @@ export async function paymentExportRows(start: Date, end: Date): Promise<Payment
       select 'payment' as kind, p.paid_at as at, j.number as job_number, u.name as customer_name, u.email as customer_email,
              p.purpose::text as purpose, p.status::text as status, p.amount_minor, p.currency,
              coalesce((r.pricing->>'exponent')::int, 2) as exponent, coalesce(p.payment_intent_id, p.cheque_number) as reference,
-             null::text as reason, p.method::text as method, d.number as document
+             null::text as reason, p.method::text as method, d.number as document, null::text as refund_kind
       from payment p join job j on j.id = p.job_id join "user" u on u.id = j.customer_id
       join estimate_revision r on r.id = p.revision_id
       left join money_document d on d.payment_id = p.id and d.kind = 'receipt'
@@ -41,14 +43,14 @@ export async function paymentExportRows(start: Date, end: Date): Promise<Payment
         and p.paid_at >= ${start.toISOString()} and p.paid_at < ${end.toISOString()}
       union all
       select 'refund', f.settled_at, j.number, u.name, u.email, p.purpose::text, f.status::text, f.amount_minor, p.currency,
-             coalesce((r.pricing->>'exponent')::int, 2), f.processor_refund_id, f.reason, p.method::text, d.number
+             coalesce((r.pricing->>'exponent')::int, 2), f.processor_refund_id, f.reason, p.method::text, d.number, f.kind::text
       from refund f join payment p on p.id = f.payment_id join job j on j.id = p.job_id join "user" u on u.id = j.customer_id
       join estimate_revision r on r.id = p.revision_id
       left join money_document d on d.refund_id = f.id and d.kind = 'refund'
       where f.status = 'succeeded' and f.settled_at >= ${start.toISOString()} and f.settled_at < ${end.toISOString()}
       union all
       select 'waiver', j.waived_at, j.number, u.name, u.email, 'balance', 'waived', j.waived_minor, a.currency,
-             coalesce((a.pricing->>'exponent')::int, 2), null, 'below the smallest card payment', null, null
+             coalesce((a.pricing->>'exponent')::int, 2), null, 'below the smallest card payment', null, null, null
       from job j join "user" u on u.id = j.customer_id
       join lateral (select r.currency, r.pricing from estimate_revision r where r.job_id = j.id and r.status = 'approved' order by r.revision desc limit 1) a on true
       where j.waived_minor > 0 and j.waived_at >= ${start.toISOString()} and j.waived_at < ${end.toISOString()}

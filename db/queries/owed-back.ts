@@ -12,7 +12,7 @@ export type OwedBackCandidate = {
   waivedMinor: number;
   anyStale: boolean;
   payments: { amountMinor: number; status: string }[];
-  refunds: { amountMinor: number; status: string }[];
+  refunds: { amountMinor: number; status: string; kind: string }[];
 };
 
 // Jobs on which money may be owed back: any job with a paid payment, with what its account is made of
@@ -29,7 +29,7 @@ export async function listOwedBackCandidates(): Promise<OwedBackCandidate[]> {
     waived_minor: number;
     any_stale: boolean;
     payments: { amountMinor: number; status: string }[];
-    refunds: { amountMinor: number; status: string }[] | null;
+    refunds: { amountMinor: number; status: string; kind: string }[] | null;
   }>(sql`
     select j.id as job_id, j.number, j.state, u.name as customer_name,
       coalesce(r.currency, min(p.currency)) as currency,
@@ -37,7 +37,7 @@ export async function listOwedBackCandidates(): Promise<OwedBackCandidate[]> {
       j.waived_minor,
       bool_or(p.arrived_stale) as any_stale,
       json_agg(json_build_object('amountMinor', p.amount_minor, 'status', p.status)) as payments,
-      (select json_agg(json_build_object('amountMinor', f.amount_minor, 'status', f.status))
+      (select json_agg(json_build_object('amountMinor', f.amount_minor, 'status', f.status, 'kind', f.kind))
          from refund f join payment fp on fp.id = f.payment_id where fp.job_id = j.id) as refunds
     from job j
     join "user" u on u.id = j.customer_id

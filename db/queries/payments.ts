@@ -25,7 +25,7 @@ export async function listPaymentsForCustomer({ jobId, customerId }: { jobId: st
 // Refunds on one customer's job (amount and status only), for the job's account.
 export async function listRefundsForCustomer({ jobId, customerId }: { jobId: string; customerId: string }) {
   return db
-    .select({ amountMinor: refunds.amountMinor, status: refunds.status })
+    .select({ amountMinor: refunds.amountMinor, status: refunds.status, kind: refunds.kind })
     .from(refunds)
     .innerJoin(payments, eq(payments.id, refunds.paymentId))
     .innerJoin(jobs, eq(jobs.id, payments.jobId))

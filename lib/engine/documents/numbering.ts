@@ -20,6 +20,12 @@ export const DOCUMENT_TITLE: Record<MoneyDocumentKind, string> = {
   invoice: "Invoice",
 };
 
+/** A refund note's title by the refund's kind: a reduction of the price reads as such, not as a plain refund. */
+export const REFUND_NOTE_TITLE: Record<"return" | "reduction", string> = {
+  return: "Refund note",
+  reduction: "Price reduction note",
+};
+
 /** Four digits at least, so a year's numbers sort as text; a busy year simply grows a fifth digit. */
 const MIN_DIGITS = 4;
 

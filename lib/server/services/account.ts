@@ -49,7 +49,7 @@ export async function loadJobAccount(tx: Database, jobId: string): Promise<JobAc
     .from(payments)
     .where(eq(payments.jobId, jobId));
   const refundRows = await tx
-    .select({ amountMinor: refunds.amountMinor, status: refunds.status })
+    .select({ amountMinor: refunds.amountMinor, status: refunds.status, kind: refunds.kind })
     .from(refunds)
     .innerJoin(payments, eq(payments.id, refunds.paymentId))
     .where(eq(payments.jobId, jobId));

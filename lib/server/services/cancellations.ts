@@ -132,7 +132,7 @@ export async function accountForCancelledJob(jobId: string): Promise<Account> {
       .where(eq(payments.jobId, jobId));
     const rs = ps.length
       ? await ctx.tx
-          .select({ amountMinor: refunds.amountMinor, status: refunds.status })
+          .select({ amountMinor: refunds.amountMinor, status: refunds.status, kind: refunds.kind })
           .from(refunds)
           .where(
             inArray(

@@ -15,7 +15,7 @@ import {
   type MoneyDocument,
 } from "@/db/schema";
 import { formatDate, formatDay } from "@/lib/engine/dates";
-import { DOCUMENT_TITLE } from "@/lib/engine/documents/numbering";
+import { DOCUMENT_TITLE, REFUND_NOTE_TITLE } from "@/lib/engine/documents/numbering";
 import { jobNumber } from "@/lib/engine/jobs/states";
 import { WAIVED_WORDING } from "@/lib/engine/pricing/account";
 import { loadJobAccount } from "@/lib/server/services/account";
@@ -120,7 +120,7 @@ async function paymentFacts(tx: Database, jobId: string, money: (minor: number) 
       amount: money(p.amountMinor),
     })),
     ...refundRows.map(({ refund: r, note }) => ({
-      description: "Refunded",
+      description: r.kind === "reduction" ? "Price reduction, given back" : "Refunded",
       detail: [formatDate(r.settledAt, { timeZone }), note].filter(Boolean).join(" · "),
       amount: `−${money(r.amountMinor)}`,
     })),
@@ -134,6 +134,7 @@ function accountFigures(
   money: (minor: number) => string,
 ): DocumentFigure[] {
   const f: DocumentFigure[] = [{ label: "Paid", value: money(account.paidMinor) }];
+  if (account.reducedMinor > 0) f.push({ label: "Price reduced by (given back)", value: money(account.reducedMinor) });
   if (account.refundedMinor > 0) f.push({ label: "Refunded", value: money(account.refundedMinor) });
   if (account.waivedMinor > 0) f.push({ label: `Waived (${WAIVED_WORDING})`, value: money(account.waivedMinor) });
   f.push({ label: "Balance owed", value: money(account.owedMinor), strong: true });
@@ -196,18 +197,23 @@ export async function moneyDocumentContent(doc: MoneyDocument, options: { shipTo
       .where(eq(refunds.id, doc.refundId!))
       .limit(1);
     const { refund, payment, receipt } = r!;
+    const reduction = refund.kind === "reduction";
     const facts: DocumentFigure[] = [
       ...jobFacts,
       { label: "Refunded on", value: formatDate(refund.settledAt, { timeZone }) },
       { label: "Against", value: receipt ?? `${PURPOSE_WORD[payment.purpose]} payment` },
     ];
     if (refund.processorRefundId) facts.push({ label: "Processor reference", value: refund.processorRefundId });
+    const returnedTo = `Returned to the ${payment.method === "card" ? "card used for the payment" : "payer"}.`;
     return {
       ...base,
+      title: REFUND_NOTE_TITLE[refund.kind],
       facts,
-      lines: [{ description: "Refund", detail: refund.reason, amount: money(refund.amountMinor) }],
+      lines: [{ description: reduction ? "Price reduction" : "Refund", detail: refund.reason, amount: money(refund.amountMinor) }],
       figures: [{ label: "Amount refunded", value: money(refund.amountMinor), strong: true }],
-      notes: [`Returned to the ${payment.method === "card" ? "card used for the payment" : "payer"}.`],
+      notes: reduction
+        ? [`The shop lowered the price of ${jobNumber(head.job.number)} by this amount and gave it back: it is not to be paid again.`, returnedTo]
+        : [returnedTo],
     };
   }
   const [rev] = doc.revisionId ? await db.select().from(estimateRevisions).where(eq(estimateRevisions.id, doc.revisionId)).limit(1) : [];

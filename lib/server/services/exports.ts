@@ -43,6 +43,7 @@ async function table(file: ExportFile, range: ExportRange): Promise<{ fields: st
           "refund_reason",
           "method",
           "document",
+          "refund_kind",
         ],
         data: rows.map((r) => [
           r.kind,
@@ -58,6 +59,7 @@ async function table(file: ExportFile, range: ExportRange): Promise<{ fields: st
           r.reason ?? "",
           r.method ?? "",
           r.document ?? "",
+          r.refund_kind ?? "",
         ]),
       };
     }

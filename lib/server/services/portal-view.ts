@@ -236,6 +236,10 @@ export async function getPortalJobView({ jobId, customerId }: { jobId: string; c
       paid: m(account.paidMinor),
       refunded: m(account.refundedMinor),
       refundPending: m(account.refundPendingMinor),
+      // A goodwill reduction of the price (given back with the refunds): the owner does not pay it again.
+      reduced: m(account.reducedMinor),
+      // The price once reductions are taken off.
+      price: m(account.totalMinor - account.reducedMinor),
       owed: m(account.owedMinor),
       owedBack: m(account.owedBackMinor),
       // Still to pay, but below the smallest card payment: not asked for online, waived when the work is done.

@@ -159,8 +159,9 @@ export function JobView({
       {v.account.owedBack.minor > 0 ? (
         <Notice tone="info" title="We owe you money back">
           <p data-testid="owed-back">
-            You have paid {v.account.owedBack.text} more than the total of {v.account.total.text}. The shop will refund it to the card you
-            paid with.
+            You have paid {v.account.owedBack.text} more than{" "}
+            {v.account.reduced.minor > 0 ? `the reduced price of ${v.account.price.text}` : `the total of ${v.account.total.text}`}. The shop
+            will refund it to the card you paid with.
           </p>
         </Notice>
       ) : null}
@@ -181,6 +182,15 @@ export function JobView({
             <dt className="text-sm text-bakelite-muted">Total</dt>
             <dd>{v.account.total.text}</dd>
           </div>
+          {v.account.reduced.minor > 0 ? (
+            <div>
+              <dt className="text-sm text-bakelite-muted">Price reduced by</dt>
+              <dd data-testid="account-reduced">
+                {v.account.reduced.text}
+                <span className="block text-xs text-bakelite-muted">given back to you; not to be paid again</span>
+              </dd>
+            </div>
+          ) : null}
           <div>
             <dt className="text-sm text-bakelite-muted">Paid</dt>
             <dd>{v.account.paid.text}</dd>
