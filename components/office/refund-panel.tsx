@@ -206,7 +206,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                         ) : null}
                         {r.noteId ? (
                           <a className="block text-xs" href={`/api/documents/${r.noteId}/pdf`} download>
-                            {r.kind === "reduction" ? "Price reduction note" : "Refund note"} <span className="figure">{r.noteNumber}</span> (PDF)
+                            {r.kind === "reduction" ? "Price reduction note" : "Refund note"} <span className="figure">{r.noteNumber}</span>{" "}
+                            (PDF)
                           </a>
                         ) : null}
                         {r.status === "pending" ? (
@@ -267,10 +268,7 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                 </p>
               ) : null}
             </div>
-            <fieldset
-              className="space-y-2"
-              aria-describedby={describedBy("refund-kind", { hint: true, error: errors.kind })}
-            >
+            <fieldset className="space-y-2" aria-describedby={describedBy("refund-kind", { hint: true, error: errors.kind })}>
               <legend className="field-label">What this refund is</legend>
               <div className="flex items-start gap-2">
                 <input id="refund-kind-return" type="radio" value="return" className="mt-1 h-4 w-4" {...register("kind")} />
@@ -285,8 +283,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                 </label>
               </div>
               <p id="refund-kind-hint" className="field-hint">
-                A duplicate charge, an over-payment or a cancelled job is money paid beyond the total: the price stands. A
-                goodwill refund (a scratch, something knocked off) lowers the price, so the owner is not asked to pay it again.
+                A duplicate charge, an over-payment or a cancelled job is money paid beyond the total: the price stands. A goodwill refund
+                (a scratch, something knocked off) lowers the price, so the owner is not asked to pay it again.
               </p>
               {errors.kind ? (
                 <p id="refund-kind-error" className="field-error" role="alert">
@@ -322,8 +320,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
               <div role="alertdialog" aria-labelledby="refund-confirm" className="space-y-2 rounded-card border border-fail p-3">
                 <p id="refund-confirm" className="text-sm">
                   Refund {currency.code} {confirming.amount} of {payment.customerName}&apos;s payment for job {jobNumber(payment.jobNumber)}
-                  {confirming.kind === "reduction" ? ", lowering the price by that amount" : ", money paid beyond the total"}? A refund cannot
-                  be undone. We e-mail {payment.customerName} that it is on its way.
+                  {confirming.kind === "reduction" ? ", lowering the price by that amount" : ", money paid beyond the total"}? A refund
+                  cannot be undone. We e-mail {payment.customerName} that it is on its way.
                 </p>
                 <div className="flex flex-wrap gap-2">
                   <button

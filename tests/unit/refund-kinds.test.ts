@@ -23,7 +23,9 @@ describe("a reduction lowers the price and the money held together", () => {
     const a = accountOf({ totalMinor: 12_000, payments: [paid(12_000)], refunds: [giveBack(2000)] });
     expect(a).toMatchObject({ reducedMinor: 0, owedMinor: 2000, owedBackMinor: 0 });
     // A refund row without a kind (written before kinds existed) is a return.
-    expect(accountOf({ totalMinor: 12_000, payments: [paid(12_000)], refunds: [{ amountMinor: 2000, status: "succeeded" }] }).owedMinor).toBe(2000);
+    expect(
+      accountOf({ totalMinor: 12_000, payments: [paid(12_000)], refunds: [{ amountMinor: 2000, status: "succeeded" }] }).owedMinor,
+    ).toBe(2000);
   });
 
   test("total 120.00, paid 120.00 plus a duplicate charge of 30.00, reduction 10.00: 30.00 owed back", () => {
@@ -62,9 +64,12 @@ const job = fc
   .record({
     total: fc.integer({ min: 0, max: 1_000_000 }),
     waived: fc.integer({ min: 0, max: 49 }),
-    payments: fc.array(fc.record({ amountMinor: fc.integer({ min: 1, max: 500_000 }), status: fc.constantFrom("paid", "duplicate", "failed") }), {
-      maxLength: 4,
-    }),
+    payments: fc.array(
+      fc.record({ amountMinor: fc.integer({ min: 1, max: 500_000 }), status: fc.constantFrom("paid", "duplicate", "failed") }),
+      {
+        maxLength: 4,
+      },
+    ),
     refunds: fc.array(
       fc.record({
         share: fc.double({ min: 0, max: 1, noNaN: true }),

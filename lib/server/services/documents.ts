@@ -212,7 +212,10 @@ export async function moneyDocumentContent(doc: MoneyDocument, options: { shipTo
       lines: [{ description: reduction ? "Price reduction" : "Refund", detail: refund.reason, amount: money(refund.amountMinor) }],
       figures: [{ label: "Amount refunded", value: money(refund.amountMinor), strong: true }],
       notes: reduction
-        ? [`The shop lowered the price of ${jobNumber(head.job.number)} by this amount and gave it back: it is not to be paid again.`, returnedTo]
+        ? [
+            `The shop lowered the price of ${jobNumber(head.job.number)} by this amount and gave it back: it is not to be paid again.`,
+            returnedTo,
+          ]
         : [returnedTo],
     };
   }

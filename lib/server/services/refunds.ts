@@ -111,7 +111,7 @@ export async function requestRefund({
         allowed === 0
           ? "The price of this job is already zero: it cannot be lowered further. Money paid beyond it goes back as a return."
           : `A price reduction can lower the price by at most ${money(allowed, exponent, code)}, what is left of it; money paid beyond the total goes back as a return.`,
-        { amount: `A price reduction: at most ${formatMinor(allowed, exponent)}, what is left of the price.` },
+        { amount: `Amount: a price reduction can be at most ${formatMinor(allowed, exponent)}, what is left of the price.` },
       );
     }
     await insertRefund(ctx, { id: refundId, paymentId, amountMinor, reason: input.reason, kind, idempotencyKey, createdBy: actorId });
@@ -121,7 +121,14 @@ export async function requestRefund({
       entity: "payment",
       entityId: paymentId,
       before: { refundedMinor: p.refundedMinor, inFlightMinor },
-      after: { refundId, amountMinor, reason: input.reason, kind, status: "requested", ...(p.status === "duplicate" ? { duplicate: true } : {}) },
+      after: {
+        refundId,
+        amountMinor,
+        reason: input.reason,
+        kind,
+        status: "requested",
+        ...(p.status === "duplicate" ? { duplicate: true } : {}),
+      },
     });
     await queueRefundNotice(ctx, { paymentId, refundId, amountMinor });
     return p;

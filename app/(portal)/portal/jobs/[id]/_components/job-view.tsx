@@ -160,8 +160,8 @@ export function JobView({
         <Notice tone="info" title="We owe you money back">
           <p data-testid="owed-back">
             You have paid {v.account.owedBack.text} more than{" "}
-            {v.account.reduced.minor > 0 ? `the reduced price of ${v.account.price.text}` : `the total of ${v.account.total.text}`}. The shop
-            will refund it to the card you paid with.
+            {v.account.reduced.minor > 0 ? `the reduced price of ${v.account.price.text}` : `the total of ${v.account.total.text}`}. The
+            shop will refund it to the card you paid with.
           </p>
         </Notice>
       ) : null}
