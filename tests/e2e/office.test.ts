@@ -103,6 +103,10 @@ describe("the shop owner runs the office", () => {
     await page.waitForURL(new RegExp(`/office/payments/${paymentId}$`));
     await fill(page.getByLabel(/Amount to refund/), "200.00");
     await fill(page.getByLabel("Reason"), "Customer kept the original cord");
+    // The kind is asked, never assumed: a return and a price reduction mean different things for the account.
+    await page.getByRole("button", { name: "Refund this amount" }).click();
+    await expect.poll(() => page.getByText(/^Kind: choose whether/).count()).toBe(1);
+    await page.getByLabel("Lower the price (goodwill) and give that back").check();
     await page.getByRole("button", { name: "Refund this amount" }).click();
     await page.getByRole("button", { name: "Yes, refund USD 200.00" }).click();
     await expect.poll(() => page.getByText(/At most USD 150\.00/).count()).toBeGreaterThan(0);
@@ -112,7 +116,7 @@ describe("the shop owner runs the office", () => {
     const confirm = page.getByRole("alertdialog");
     await expect
       .poll(() => confirm.textContent())
-      .toMatch(/Refund USD 35\.00 of .+'s payment for job KL-\d+\? A refund cannot be undone\. We e-mail/);
+      .toMatch(/Refund USD 35\.00 of .+'s payment for job KL-\d+, lowering the price by that amount\? A refund cannot be undone\. We e-mail/);
     const [before] = await sql<{ n: number }>("select count(*)::int as n from refund where payment_id = $1", [paymentId]);
     expect(before!.n).toBe(0);
     await page.getByRole("button", { name: "Yes, refund USD 35.00" }).click();

@@ -36,7 +36,12 @@ export async function queueStaffAccessNotice(ctx: TxContext, { userId, active }:
 
 export async function queueRefundNotice(
   ctx: TxContext,
-  { paymentId, refundId, amountMinor }: { paymentId: string; refundId: string; amountMinor: number },
+  {
+    paymentId,
+    refundId,
+    amountMinor,
+    kind = "return",
+  }: { paymentId: string; refundId: string; amountMinor: number; kind?: "return" | "reduction" },
 ): Promise<void> {
   const [row] = await ctx.tx
     .select({ jobId: jobs.id, number: jobs.number, maker: radioSets.maker, model: radioSets.model, name: user.name, email: user.email })
@@ -57,6 +62,9 @@ export async function queueRefundNotice(
       heading: `A refund of ${amount} is on its way`,
       paragraphs: [
         `The shop is refunding ${amount} of your payment for the ${row.maker} ${row.model} (${jobNumber(row.number)}) to the card you paid with.`,
+        ...(kind === "reduction"
+          ? [`The shop has lowered the price of ${jobNumber(row.number)} by ${amount}: it is not to be paid again.`]
+          : []),
         "Your bank shows it once the payment processor completes it, usually within a few working days.",
       ],
       url: portalJob(row.jobId),

@@ -130,7 +130,7 @@ export async function requestRefund({
         ...(p.status === "duplicate" ? { duplicate: true } : {}),
       },
     });
-    await queueRefundNotice(ctx, { paymentId, refundId, amountMinor });
+    await queueRefundNotice(ctx, { paymentId, refundId, amountMinor, kind });
     return p;
   });
 
