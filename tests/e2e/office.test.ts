@@ -116,7 +116,9 @@ describe("the shop owner runs the office", () => {
     const confirm = page.getByRole("alertdialog");
     await expect
       .poll(() => confirm.textContent())
-      .toMatch(/Refund USD 35\.00 of .+'s payment for job KL-\d+, lowering the price by that amount\? A refund cannot be undone\. We e-mail/);
+      .toMatch(
+        /Refund USD 35\.00 of .+'s payment for job KL-\d+, lowering the price by that amount\? A refund cannot be undone\. We e-mail/,
+      );
     const [before] = await sql<{ n: number }>("select count(*)::int as n from refund where payment_id = $1", [paymentId]);
     expect(before!.n).toBe(0);
     await page.getByRole("button", { name: "Yes, refund USD 35.00" }).click();
