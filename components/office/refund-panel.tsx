@@ -320,8 +320,8 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
               <div role="alertdialog" aria-labelledby="refund-confirm" className="space-y-2 rounded-card border border-fail p-3">
                 <p id="refund-confirm" className="text-sm">
                   Refund {currency.code} {confirming.amount} of {payment.customerName}&apos;s payment for job {jobNumber(payment.jobNumber)}
-                  {confirming.kind === "reduction" ? ", lowering the price by that amount" : ", money paid beyond the total"}? A refund
-                  cannot be undone. We e-mail {payment.customerName} that it is on its way.
+                  {confirming.kind === "reduction" ? ", lowering the price by that amount" : ", giving back money paid beyond the total"}? A
+                  refund cannot be undone. We e-mail {payment.customerName} that it is on its way.
                 </p>
                 <div className="flex flex-wrap gap-2">
                   <button

@@ -55,6 +55,14 @@ describe("office exports", () => {
     expect(usd.filter((r) => r.kind === "payment").reduce((s, r) => s + minorOf(r.amount!), 0)).toBe(db!.paid);
     expect(usd.filter((r) => r.kind === "refund").reduce((s, r) => s + minorOf(r.amount!), 0)).toBe(db!.refunded);
     expect(db!.n).toBeGreaterThan(0); // the demo has paid jobs
+    // Each refund row names its kind as the database holds it; other rows leave the column empty.
+    const [kinds] = await sql<{ reductions: number }>(
+      `select count(*)::int as reductions from refund where status = 'succeeded' and kind = 'reduction' and settled_at >= $1 and settled_at < $2`,
+      [START, END],
+    );
+    expect(rows.filter((r) => r.kind === "refund" && r.refund_kind === "reduction")).toHaveLength(kinds!.reductions);
+    expect(rows.filter((r) => r.kind === "refund").every((r) => r.refund_kind === "return" || r.refund_kind === "reduction")).toBe(true);
+    expect(rows.filter((r) => r.kind !== "refund").every((r) => r.refund_kind === "")).toBe(true);
   });
 
   it("lists the jobs opened in the range, the tax of jobs paid in full by month, and the audit log", async () => {

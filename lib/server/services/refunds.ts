@@ -77,8 +77,8 @@ export async function requestRefund({
   const refundId = randomUUID();
   const idempotencyKey = `refund-${refundId}`;
   const payment = await transaction(async (ctx) => {
-    // A reduction is checked against the job's price: the job row is taken first (the order every account
-    // change takes), so two reductions at once cannot together take the price below zero.
+    // A reduction is checked against the job's price: the job row is locked before the payment row, so two
+    // reductions at once on the same job (even on different payments) cannot together take the price below zero.
     let priceLeftMinor: number | null = null;
     if (kind === "reduction") {
       const [owner] = await ctx.tx.select({ jobId: payments.jobId }).from(payments).where(eq(payments.id, paymentId)).limit(1);
