@@ -126,7 +126,7 @@ const SCHEMAS: [string, z.ZodType, unknown][] = [
       version: 1,
     }),
   ],
-  ["a refund", refundFormSchema, { amount: "12.00", reason: "Part not fitted." }],
+  ["a refund", refundFormSchema, { amount: "12.00", reason: "Part not fitted.", kind: "reduction" }],
   [
     "counter intake",
     intakeSchema,
