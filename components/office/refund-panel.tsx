@@ -150,6 +150,9 @@ export function RefundPanel({ initial, currency }: { initial: PaymentDetail; cur
                   <a href={`/api/documents/${payment.receiptId}/pdf`} download>
                     <span className="figure">{payment.receiptNumber}</span> (PDF)
                   </a>
+                ) : payment.status === "paid" || payment.status === "duplicate" ? (
+                  // Money received before receipts were numbered has none; saying "when the money is in" would be untrue.
+                  "None — received before receipts were issued"
                 ) : (
                   "None yet — issued when the money is in"
                 )}
